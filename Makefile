@@ -1,0 +1,31 @@
+# Two commands do all set-up on a fresh machine: `make demo` and `make test`.
+# Each creates .venv when missing and installs the package with its dependencies.
+PYTHON ?= python3
+VENV := .venv
+PY := $(VENV)/bin/python
+STAMP := $(VENV)/.installed-stamp
+
+.PHONY: demo test bench tex clean-venv
+
+$(STAMP): pyproject.toml
+	test -x $(PY) || $(PYTHON) -m venv $(VENV)
+	$(PY) -m pip install -q --upgrade pip
+	$(PY) -m pip install -q -e ".[test]"
+	touch $(STAMP)
+
+demo: $(STAMP)
+	$(PY) -m isolation demo
+
+test: $(STAMP)
+	$(PY) -m pytest -q
+
+bench: $(STAMP)
+	$(PY) -m benchmarks
+
+# PDF reports need XeLaTeX and pandoc (Debian packages, about 0.7 GB).
+tex:
+	apt-get update -q && DEBIAN_FRONTEND=noninteractive apt-get install -y -q \
+	  texlive-xetex texlive-fonts-recommended texlive-plain-generic pandoc poppler-utils
+
+clean-venv:
+	rm -rf $(VENV)
