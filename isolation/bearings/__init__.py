@@ -1,5 +1,27 @@
 """Isolator models: backbones, friction pendulums, elastomeric bearings, checks, systems."""
 
 from isolation.bearings.backbone import Bilinear, MultiLinear
+from isolation.bearings.checks import Check
+from isolation.bearings.friction import DoubleConcave, FrictionPendulum
+from isolation.bearings.rubber import (
+    TYPICAL_COMPOUND,
+    AmplitudeBackbone,
+    HighDampingRubber,
+    LeadRubber,
+    RubberCompound,
+)
+from isolation.bearings.system import (
+    BearingGroup,
+    CombinedBackbone,
+    IsolationSystem,
+    PropertyBound,
+    PropertyFactors,
+)
 
-__all__ = ["Bilinear", "MultiLinear"]
+__all__ = [
+    "Bilinear", "MultiLinear",
+    "FrictionPendulum", "DoubleConcave",
+    "LeadRubber", "HighDampingRubber", "RubberCompound", "TYPICAL_COMPOUND", "AmplitudeBackbone",
+    "Check",
+    "BearingGroup", "IsolationSystem", "PropertyFactors", "PropertyBound", "CombinedBackbone",
+]

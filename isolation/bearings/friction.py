@@ -1,0 +1,495 @@
+"""Sliding isolators on concave surfaces: single and double concave friction pendulums.
+
+A slider on a spherical dish of radius R carrying a vertical load W resists a
+lateral displacement u with a restoring (pendulum) force and a friction force:
+
+    F = (W/R_eff) u + mu W sgn(v)
+
+so the bearing is bilinear with post-yield stiffness K_d = W/R_eff and
+characteristic strength Q_d = mu W, and its isolated period
+T = 2 pi sqrt(R_eff/g) does not depend on the weight carried.
+
+Notes
+-----
+* An articulated slider of height h moves on a circle of radius R - h, so the
+  effective radius is R_eff = R - h (Zayas, Low & Mahin 1990; Constantinou et
+  al.).
+* Rigid-plastic sliding has no elastic branch. For the bilinear value object
+  and the response-history engine a small *yield displacement* D_y (default
+  0.5 mm, common practice for numerical models of sliders) gives the elastic
+  stiffness K_u = Q_d/D_y + K_d, so that D_y = Q_d/(K_u - K_d) exactly. Its
+  effect on effective stiffness is nil and on effective damping is of order
+  D_y/D (the loop loses 4 Q_d D_y of its area).
+* Friction of PTFE-type composites rises with sliding velocity (Constantinou,
+  Mokha & Reinhorn 1990): mu(v) = mu_fast - (mu_fast - mu_slow) exp(-a |v|).
+  The single-mode design uses ``friction`` (the fast value); the
+  response-history engine may call :meth:`FrictionPendulum.friction_at`.
+
+References
+----------
+Zayas, V. A., Low, S. S. & Mahin, S. A. (1990). A simple pendulum technique for
+achieving seismic isolation. Earthquake Spectra 6(2).
+Constantinou, M. C., Mokha, A. & Reinhorn, A. M. (1990). Teflon bearings in base
+isolation II: Modeling. J. Struct. Eng. 116(2).
+Fenz, D. M. & Constantinou, M. C. (2006). Behaviour of the double concave
+friction pendulum bearing. Earthquake Eng. Struct. Dyn. 35(11).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from isolation import GRAVITY, validate
+from isolation.bearings.backbone import Bilinear, MultiLinear
+
+__all__ = ["FrictionPendulum", "DoubleConcave", "DEFAULT_SLIDER_YIELD_DISPLACEMENT"]
+
+DEFAULT_SLIDER_YIELD_DISPLACEMENT = 0.0005
+"""Numerical yield displacement of a slider, 0.5 mm (common practice). [m]"""
+
+
+def _friction(field: str, value) -> float:
+    return validate.in_range(field, value, 0.0, 1.0, "-", low_inclusive=False, high_inclusive=False)
+
+
+def _optional_positive(field: str, value, unit: str):
+    return None if value is None else validate.positive(field, value, unit)
+
+
+def _weight(weight) -> float:
+    return validate.positive("weight", weight, "kN")
+
+
+def _slider_bilinear(weight: float, radius: float, friction: float, yield_displacement: float) -> Bilinear:
+    post_yield = weight / radius
+    strength = friction * weight
+    return Bilinear(strength / yield_displacement + post_yield, post_yield, strength)
+
+
+@dataclass(frozen=True)
+class FrictionPendulum:
+    """Single concave friction pendulum bearing.
+
+    Parameters
+    ----------
+    radius : float
+        Radius of curvature of the concave dish, > 0. [m]
+    friction : float
+        Coefficient of friction at high sliding velocity (the design value),
+        in (0, 1). [-]
+    slider_height : float, optional
+        Height of the articulated slider, h in [0, radius); the slider moves
+        on radius R - h. Default 0. [m]
+    displacement_capacity : float or None, optional
+        Displacement the dish allows before the slider meets its restrainer,
+        > 0; None when not yet chosen (the capacity check is then left out). [m]
+    friction_slow : float or None, optional
+        Coefficient of friction at very low sliding velocity, in
+        (0, friction]. None (default) sets it equal to ``friction``: no
+        velocity dependence unless given. [-]
+    rate_parameter : float, optional
+        Rate parameter a of the velocity dependence, >= 0. Default 25 s/m
+        (values of 20-30 s/m are typical, from memory of Constantinou et al.
+        1990). [s/m]
+    yield_displacement : float, optional
+        Numerical yield displacement D_y of the slider, > 0 (default 0.5 mm,
+        common practice). It sets K_u = Q_d/D_y + K_d. [m]
+    """
+
+    radius: float
+    friction: float
+    slider_height: float = 0.0
+    displacement_capacity: float | None = None
+    friction_slow: float | None = None
+    rate_parameter: float = 25.0
+    yield_displacement: float = DEFAULT_SLIDER_YIELD_DISPLACEMENT
+
+    def __post_init__(self) -> None:
+        radius = validate.positive("radius", self.radius, "m")
+        friction = _friction("friction", self.friction)
+        height = validate.non_negative("slider_height", self.slider_height, "m")
+        if height >= radius:
+            raise ValueError(
+                f"slider_height = {self.slider_height!r} is not allowed: must be >= 0 and "
+                f"< radius = {radius!r} [m]"
+            )
+        capacity = _optional_positive("displacement_capacity", self.displacement_capacity, "m")
+        slow = friction if self.friction_slow is None else _friction("friction_slow", self.friction_slow)
+        if slow > friction:
+            raise ValueError(
+                f"friction_slow = {self.friction_slow!r} is not allowed: must be in (0, friction] "
+                f"with friction = {friction!r} [-]"
+            )
+        rate = validate.non_negative("rate_parameter", self.rate_parameter, "s/m")
+        dy = validate.positive("yield_displacement", self.yield_displacement, "m")
+        for name, value in (("radius", radius), ("friction", friction), ("slider_height", height),
+                            ("displacement_capacity", capacity), ("friction_slow", slow),
+                            ("rate_parameter", rate), ("yield_displacement", dy)):
+            object.__setattr__(self, name, value)
+
+    @property
+    def effective_radius(self) -> float:
+        """R_eff = R - h, the radius the slider's pivot travels on. [m]"""
+        return self.radius - self.slider_height
+
+    @property
+    def period(self) -> float:
+        """Pendulum (post-yield) period 2 pi sqrt(R_eff/g), independent of weight. [s]"""
+        return 2.0 * math.pi * math.sqrt(self.effective_radius / GRAVITY)
+
+    def friction_at(self, velocity):
+        """Coefficient of friction at a sliding velocity.
+
+        mu(v) = mu_fast - (mu_fast - mu_slow) exp(-a |v|)
+        (Constantinou, Mokha & Reinhorn 1990).
+
+        Parameters
+        ----------
+        velocity : float or array
+            Sliding velocity, either sign. [m/s]
+
+        Returns
+        -------
+        float or array
+            Coefficient of friction. [-]
+        """
+        v = np.abs(np.asarray(velocity, dtype=float))
+        out = self.friction - (self.friction - self.friction_slow) * np.exp(-self.rate_parameter * v)
+        return float(out) if out.ndim == 0 else out
+
+    def bilinear(self, weight) -> Bilinear:
+        """Bilinear idealisation under a vertical load.
+
+        Parameters
+        ----------
+        weight : float
+            Vertical load on the bearing, > 0. [kN]
+
+        Returns
+        -------
+        Bilinear
+            K_d = W/R_eff, Q_d = mu W, K_u = Q_d/D_y + K_d.
+        """
+        return _slider_bilinear(_weight(weight), self.effective_radius, self.friction,
+                                self.yield_displacement)
+
+    def backbone(self, weight) -> Bilinear:
+        """Same as :meth:`bilinear` (the single concave bearing has one sliding regime).
+
+        Parameters
+        ----------
+        weight : float
+            Vertical load on the bearing, > 0. [kN]
+        """
+        return self.bilinear(weight)
+
+    def with_friction_factor(self, factor) -> "FrictionPendulum":
+        """Copy with both friction values multiplied by a property modification factor.
+
+        Parameters
+        ----------
+        factor : float
+            Multiplier on ``friction`` and ``friction_slow``, > 0; the
+            results must stay below 1. [-]
+        """
+        f = validate.positive("friction factor", factor)
+        return FrictionPendulum(self.radius, self.friction * f, slider_height=self.slider_height,
+                                displacement_capacity=self.displacement_capacity,
+                                friction_slow=self.friction_slow * f,
+                                rate_parameter=self.rate_parameter,
+                                yield_displacement=self.yield_displacement)
+
+    def checks(self, axial_load, displacement, *, axial_load_max=None, axial_load_min=None,
+               rotation=0.0, weight_share=None):
+        """Checks of this bearing at a design displacement (see :mod:`isolation.bearings.checks`).
+
+        Parameters
+        ----------
+        axial_load : float
+            Gravity load on the bearing, > 0. [kN]
+        displacement : float
+            Design displacement of the bearing, > 0. [m]
+        axial_load_max : float, optional
+            Largest compression during the earthquake (default axial_load). [kN]
+        axial_load_min : float, optional
+            Smallest axial load during the earthquake, negative in tension
+            (default axial_load). [kN]
+        rotation : float, optional
+            Ignored for a slider (the articulated slider takes rotation). [rad]
+        weight_share : float, optional
+            Weight this bearing restores, for the restoring-force check
+            (default axial_load). [kN]
+
+        Returns
+        -------
+        list of Check
+        """
+        from isolation.bearings import checks as _checks
+        return _checks.slider_checks(self, axial_load, displacement, axial_load_max=axial_load_max,
+                                     axial_load_min=axial_load_min, weight_share=weight_share)
+
+    def to_dict(self) -> dict:
+        return {
+            "kind": "friction_pendulum",
+            "radius": self.radius,
+            "friction": self.friction,
+            "slider_height": self.slider_height,
+            "displacement_capacity": self.displacement_capacity,
+            "friction_slow": self.friction_slow,
+            "rate_parameter": self.rate_parameter,
+            "yield_displacement": self.yield_displacement,
+            "effective_radius": self.effective_radius,
+            "period": self.period,
+        }
+
+
+@dataclass(frozen=True)
+class DoubleConcave:
+    """Double concave friction pendulum: two dishes, one slider between them.
+
+    With equal friction both surfaces slide together and the bearing acts as a
+    single pendulum of radius R_eff1 + R_eff2. With unequal friction the
+    surface of lower friction (call it a) slides alone, with stiffness
+    W/R_eff,a, until the force reaches mu_b W at the total displacement
+    u* = (mu_b - mu_a) R_eff,a; from then on both slide with stiffness
+    W/(R_eff1 + R_eff2) (Fenz & Constantinou 2006, regimes I and II). This
+    model holds until a slider meets its restrainer.
+
+    Parameters
+    ----------
+    radius_1, radius_2 : float
+        Radii of curvature of the two dishes, > 0. [m]
+    friction_1, friction_2 : float
+        Coefficients of friction of the two sliding surfaces, in (0, 1). [-]
+    slider_height_1, slider_height_2 : float, optional
+        Distance from each sliding surface to the slider's pivot, in
+        [0, radius). Default 0. [m]
+    displacement_capacity_1, displacement_capacity_2 : float or None, optional
+        Displacement each dish allows, > 0, or None when not chosen. [m]
+    yield_displacement : float, optional
+        Numerical yield displacement of the first sliding regime, > 0
+        (default 0.5 mm, common practice). [m]
+    """
+
+    radius_1: float
+    friction_1: float
+    radius_2: float
+    friction_2: float
+    slider_height_1: float = 0.0
+    slider_height_2: float = 0.0
+    displacement_capacity_1: float | None = None
+    displacement_capacity_2: float | None = None
+    yield_displacement: float = DEFAULT_SLIDER_YIELD_DISPLACEMENT
+
+    def __post_init__(self) -> None:
+        values = {}
+        for i in (1, 2):
+            radius = validate.positive(f"radius_{i}", getattr(self, f"radius_{i}"), "m")
+            values[f"radius_{i}"] = radius
+            values[f"friction_{i}"] = _friction(f"friction_{i}", getattr(self, f"friction_{i}"))
+            height = validate.non_negative(f"slider_height_{i}", getattr(self, f"slider_height_{i}"), "m")
+            if height >= radius:
+                raise ValueError(
+                    f"slider_height_{i} = {height!r} is not allowed: must be >= 0 and "
+                    f"< radius_{i} = {radius!r} [m]"
+                )
+            values[f"slider_height_{i}"] = height
+            values[f"displacement_capacity_{i}"] = _optional_positive(
+                f"displacement_capacity_{i}", getattr(self, f"displacement_capacity_{i}"), "m")
+        values["yield_displacement"] = validate.positive("yield_displacement", self.yield_displacement, "m")
+        for name, value in values.items():
+            object.__setattr__(self, name, value)
+
+    @property
+    def effective_radius_1(self) -> float:
+        """R_eff1 = R_1 - h_1. [m]"""
+        return self.radius_1 - self.slider_height_1
+
+    @property
+    def effective_radius_2(self) -> float:
+        """R_eff2 = R_2 - h_2. [m]"""
+        return self.radius_2 - self.slider_height_2
+
+    @property
+    def effective_radius(self) -> float:
+        """R_eff1 + R_eff2, the radius of the final sliding regime. [m]"""
+        return self.effective_radius_1 + self.effective_radius_2
+
+    @property
+    def period(self) -> float:
+        """Period of the final sliding regime, 2 pi sqrt((R_eff1 + R_eff2)/g). [s]"""
+        return 2.0 * math.pi * math.sqrt(self.effective_radius / GRAVITY)
+
+    @property
+    def equal_friction(self) -> bool:
+        """True when both surfaces have the same coefficient of friction."""
+        return math.isclose(self.friction_1, self.friction_2, rel_tol=1e-12, abs_tol=0.0)
+
+    def _surfaces(self):
+        """(R_eff, mu, capacity) of the lower-friction surface a, then of surface b."""
+        one = (self.effective_radius_1, self.friction_1, self.displacement_capacity_1)
+        two = (self.effective_radius_2, self.friction_2, self.displacement_capacity_2)
+        return (one, two) if self.friction_1 <= self.friction_2 else (two, one)
+
+    @property
+    def transition_displacement(self) -> float:
+        """u* = (mu_b - mu_a) R_eff,a: total displacement where both surfaces slide (0 if equal friction). [m]"""
+        (ra, mua, _), (_, mub, _) = self._surfaces()
+        return (mub - mua) * ra
+
+    @property
+    def displacement_capacity(self) -> float | None:
+        """Sum of the two dish capacities, or None when either is not given. [m]"""
+        if self.displacement_capacity_1 is None or self.displacement_capacity_2 is None:
+            return None
+        return self.displacement_capacity_1 + self.displacement_capacity_2
+
+    @property
+    def first_contact_displacement(self) -> float | None:
+        """Total displacement at which the first slider meets its restrainer, or None. [m]
+
+        Beyond it the stiffening regimes of Fenz & Constantinou (2006) begin,
+        which :meth:`backbone` does not model. In the two sliding regimes
+        surface i moves u_i = R_eff,i (F/W - mu_i) once it slides.
+        """
+        if self.displacement_capacity is None:
+            return None
+        (ra, mua, ca), (rb, mub, cb) = self._surfaces()
+        ustar = (mub - mua) * ra
+        if ca <= ustar:  # surface a reaches its stop in regime I
+            return ca
+        # regime II: force level at which each surface reaches its stop
+        ratio_a = ca / ra + mua
+        ratio_b = cb / rb + mub
+        ratio = min(ratio_a, ratio_b)
+        return ra * (ratio - mua) + rb * (ratio - mub)
+
+    def force(self, weight, displacement):
+        """Backbone force from the rigid-plastic regime equations (Fenz & Constantinou 2006).
+
+        Regime I (0 < u <= u*): F = W u/R_eff,a + mu_a W;
+        regime II (u > u*): F = W u/(R_eff1 + R_eff2) + W (mu_a R_eff,a + mu_b R_eff,b)/(R_eff1 + R_eff2).
+
+        Parameters
+        ----------
+        weight : float
+            Vertical load, > 0. [kN]
+        displacement : float or array
+            Displacement, either sign. [m]
+
+        Returns
+        -------
+        float or array
+            Force. [kN]
+        """
+        w = _weight(weight)
+        u = np.asarray(displacement, dtype=float)
+        (ra, mua, _), (rb, mub, _) = self._surfaces()
+        a = np.abs(u)
+        regime_1 = w * a / ra + mua * w
+        regime_2 = w * a / (ra + rb) + w * (mua * ra + mub * rb) / (ra + rb)
+        out = np.sign(u) * np.where(a <= (mub - mua) * ra, regime_1, regime_2)
+        return float(out) if out.ndim == 0 else out
+
+    def bilinear(self, weight) -> Bilinear:
+        """Bilinear behaviour for equal friction (one pendulum of radius R_eff1 + R_eff2).
+
+        Parameters
+        ----------
+        weight : float
+            Vertical load, > 0. [kN]
+
+        Raises
+        ------
+        ValueError
+            When the friction values differ: use :meth:`backbone`.
+        """
+        if not self.equal_friction:
+            raise ValueError(
+                f"friction_2 = {self.friction_2!r} differs from friction_1 = {self.friction_1!r}: "
+                "bilinear() needs equal friction; use backbone() for the multi-regime behaviour"
+            )
+        return _slider_bilinear(_weight(weight), self.effective_radius, self.friction_1,
+                                self.yield_displacement)
+
+    def backbone(self, weight):
+        """Force-displacement model under a vertical load.
+
+        Equal friction: a :class:`Bilinear`. Unequal friction: a
+        :class:`MultiLinear` with a linear spring W/(R_eff1 + R_eff2) and two
+        elastic-plastic elements,
+
+        * element 1: strength mu_a W, stiffness mu_a W/D_y (the sliding of surface a);
+        * element 2: stiffness W R_eff,b/(R_eff,a (R_eff1 + R_eff2)) and strength
+          W R_eff,b (mu_b - mu_a)/(R_eff1 + R_eff2), which yields exactly at u*.
+
+        Its backbone is regime I then regime II, and its Masing loops follow
+        the unloading regimes (surface a reverses after a force change of
+        2 mu_a W, surface b after 2 mu_b W).
+
+        Parameters
+        ----------
+        weight : float
+            Vertical load, > 0. [kN]
+        """
+        if self.equal_friction:
+            return self.bilinear(weight)
+        w = _weight(weight)
+        (ra, mua, _), (rb, mub, _) = self._surfaces()
+        total = ra + rb
+        k1 = mua * w / self.yield_displacement
+        k2 = w * rb / (ra * total)
+        f2 = w * rb * (mub - mua) / total
+        return MultiLinear(w / total, (k1, k2), (mua * w, f2))
+
+    def with_friction_factor(self, factor) -> "DoubleConcave":
+        """Copy with both friction values multiplied by a property modification factor.
+
+        Parameters
+        ----------
+        factor : float
+            Multiplier on both coefficients of friction, > 0. [-]
+        """
+        f = validate.positive("friction factor", factor)
+        return DoubleConcave(self.radius_1, self.friction_1 * f, self.radius_2, self.friction_2 * f,
+                             slider_height_1=self.slider_height_1, slider_height_2=self.slider_height_2,
+                             displacement_capacity_1=self.displacement_capacity_1,
+                             displacement_capacity_2=self.displacement_capacity_2,
+                             yield_displacement=self.yield_displacement)
+
+    def checks(self, axial_load, displacement, *, axial_load_max=None, axial_load_min=None,
+               rotation=0.0, weight_share=None):
+        """Checks at a design displacement; parameters as :meth:`FrictionPendulum.checks`.
+
+        Parameters
+        ----------
+        axial_load : float
+            Gravity load on the bearing, > 0. [kN]
+        displacement : float
+            Design displacement of the bearing, > 0. [m]
+        axial_load_max, axial_load_min : float, optional
+            Extreme axial loads during the earthquake (tension negative). [kN]
+        rotation : float, optional
+            Ignored for a slider. [rad]
+        weight_share : float, optional
+            Weight this bearing restores (default axial_load). [kN]
+        """
+        from isolation.bearings import checks as _checks
+        return _checks.slider_checks(self, axial_load, displacement, axial_load_max=axial_load_max,
+                                     axial_load_min=axial_load_min, weight_share=weight_share)
+
+    def to_dict(self) -> dict:
+        return {
+            "kind": "double_concave",
+            "radius_1": self.radius_1, "friction_1": self.friction_1,
+            "radius_2": self.radius_2, "friction_2": self.friction_2,
+            "slider_height_1": self.slider_height_1, "slider_height_2": self.slider_height_2,
+            "displacement_capacity_1": self.displacement_capacity_1,
+            "displacement_capacity_2": self.displacement_capacity_2,
+            "yield_displacement": self.yield_displacement,
+            "effective_radius": self.effective_radius,
+            "transition_displacement": self.transition_displacement,
+        }
