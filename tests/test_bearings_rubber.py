@@ -25,7 +25,7 @@ from isolation.bearings import HighDampingRubber, LeadRubber, RubberCompound, TY
 from isolation.bearings.checks import (
     buckling_load, compression_modulus, overlap_area, overlap_ratio, rotation_strain, shape_factor,
 )
-from isolation.bearings.rubber import equivalent_bilinear
+from isolation.bearings.damping_rubber import equivalent_bilinear
 
 # Invented demo bearing: 800 mm bonded diameter, 200 mm lead, 20 layers of 10 mm, G = 0.4 MPa.
 LRB = dict(outer_diameter=0.8, lead_diameter=0.2, layer_thickness=0.01, layers=20, shear_modulus=400.0)

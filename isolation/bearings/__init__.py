@@ -2,14 +2,15 @@
 
 from isolation.bearings.backbone import Bilinear, MultiLinear
 from isolation.bearings.checks import Check
-from isolation.bearings.friction import DoubleConcave, FrictionPendulum
-from isolation.bearings.rubber import (
+from isolation.bearings.damping_rubber import (
     TYPICAL_COMPOUND,
     AmplitudeBackbone,
     HighDampingRubber,
-    LeadRubber,
     RubberCompound,
 )
+from isolation.bearings.double_concave import DoubleConcave
+from isolation.bearings.friction import FrictionPendulum
+from isolation.bearings.rubber import LeadRubber
 from isolation.bearings.system import (
     BearingGroup,
     CombinedBackbone,

@@ -26,8 +26,10 @@ import numpy as np
 from isolation import validate
 from isolation.bearings.backbone import Bilinear, MultiLinear
 from isolation.bearings.checks import Check, restoring_force_check
-from isolation.bearings.friction import DoubleConcave, FrictionPendulum
-from isolation.bearings.rubber import HighDampingRubber, LeadRubber
+from isolation.bearings.damping_rubber import HighDampingRubber
+from isolation.bearings.double_concave import DoubleConcave
+from isolation.bearings.friction import FrictionPendulum
+from isolation.bearings.rubber import LeadRubber
 
 __all__ = ["PropertyBound", "PropertyFactors", "BearingGroup", "IsolationSystem", "CombinedBackbone",
            "UNQUALIFIED_LOWER", "UNQUALIFIED_UPPER"]
