@@ -8,7 +8,8 @@ damping ratio through a damping rule):
   :meth:`CodeSpectrum.design` gives the design level (2/3 of MCE_R).
 * :class:`EurocodeSpectrum` - the horizontal elastic spectrum of
   EN 1998-1:2004 §3.2.2.2 (Types 1 and 2, ground types A-E, recommended
-  values of Tables 3.2/3.3).
+  values of Tables 3.2/3.3), to 4 s by default; ``max_period`` extends its
+  1/T^2 branch for long isolated periods.
 * :class:`TabulatedSpectrum` - user data (site-specific or multi-period
   spectrum), interpolated log-log, refusing periods outside its table.
 
@@ -73,6 +74,12 @@ _EC8_PARAMETERS = {
         "E": (1.6, 0.05, 0.25, 1.2),
     },
 }
+
+
+# Largest max_period EurocodeSpectrum accepts: 10 s is T_F of EN 1998-1 Annex A
+# Table A.1 (from memory) and covers motion matching to max(6 s, 1.5 T_M) for
+# isolated periods up to about 6.5 s; a larger value is more likely a unit mistake. [s]
+_EC8_LONGEST = 10.0
 
 
 def _checked_array(field: str, values: Any, unit: str) -> np.ndarray:
@@ -170,9 +177,13 @@ class _Spectrum:
             value = float(array[tuple(np.argwhere(bad)[0])]) if array.ndim else float(array)
             raise ValueError(
                 f"period = {value!r} is not allowed: must lie in [{low:g}, {high:g}] "
-                f"for this {type(self).__name__} [s]"
+                f"for this {type(self).__name__} [s]{self._range_hint()}"
             )
         return array
+
+    def _range_hint(self) -> str:
+        """Extra advice appended to the out-of-range period message."""
+        return ""
 
     def sa(self, period, damping=0.05, *, rule: str | None = None):
         """Spectral pseudo-acceleration.
@@ -354,14 +365,31 @@ class EurocodeSpectrum(_Spectrum):
         1 (larger magnitudes, Table 3.2) or 2 (Ms <= 5.5, Table 3.3). [-]
     importance : float
         Importance factor gamma_I; design a_g = gamma_I a_gR, > 0. [-]
+    rule : str
+        Damping rule used by :meth:`sa` by default. [-]
+    max_period : float
+        Longest period the spectrum answers for, keyword-only,
+        4 <= max_period <= 10. The default 4 s is where EN 1998-1 §3.2.2.2
+        ends; a larger value extends the T_C T_D/T^2 branch (see Notes). [s]
 
     Notes
     -----
     Se = a_g S [1 + T/T_B (2.5 eta - 1)] up to T_B, 2.5 a_g S eta up to T_C,
     times T_C/T up to T_D and T_C T_D/T^2 up to 4 s. eta = sqrt(10/(5 + xi))
     >= 0.55 enters the rising branch as written (no reduction at T = 0).
-    Beyond 4 s EN 1998-1 refers to the displacement spectrum of Annex A; use a
-    :class:`TabulatedSpectrum` there. National Annexes may change the values.
+    National Annexes may change the values.
+
+    Beyond 4 s EN 1998-1 refers to the elastic displacement spectrum of its
+    informative Annex A (corner periods T_E and T_F), which is **not
+    implemented** here. With ``max_period`` above 4 s the T_C T_D/T^2 branch
+    simply continues, so Se(T) = Se(4 s) (4/T)^2 and the spectral
+    displacement Sd = g Se T^2/(4 pi^2) = 2.5 g a_g S eta T_C T_D/(4 pi^2)
+    stays constant at its T_D..4 s level. From memory (Annex A not re-read):
+    Annex A keeps that constant displacement up to T_E and then lets it fall
+    towards the peak ground displacement d_g at T_F, so the extension equals
+    Annex A up to T_E and lies on the conservative (larger displacement) side
+    beyond T_E. For a site-specific or Annex A displacement spectrum use a
+    :class:`TabulatedSpectrum`.
     """
 
     ag: float
@@ -369,6 +397,7 @@ class EurocodeSpectrum(_Spectrum):
     spectrum_type: int = 1
     importance: float = 1.0
     rule: str = field(default="eurocode")
+    max_period: float = field(default=4.0, kw_only=True)
 
     def __post_init__(self) -> None:
         ag = validate.positive("ag", self.ag, "g")
@@ -376,8 +405,10 @@ class EurocodeSpectrum(_Spectrum):
         validate.one_of("spectrum_type", self.spectrum_type, (1, 2))
         importance = validate.positive("importance", self.importance, "-")
         validate.one_of("rule", self.rule, RULES)
+        top = validate.in_range("max_period", self.max_period, 4.0, _EC8_LONGEST, "s")
         object.__setattr__(self, "ag", ag)
         object.__setattr__(self, "importance", importance)
+        object.__setattr__(self, "max_period", top)
 
     @property
     def design_ag(self) -> float:
@@ -391,7 +422,13 @@ class EurocodeSpectrum(_Spectrum):
 
     @property
     def period_range(self) -> tuple[float, float]:
-        return (0.0, 4.0)
+        return (0.0, self.max_period)
+
+    def _range_hint(self) -> str:
+        if self.max_period >= _EC8_LONGEST:
+            return ""
+        return (f"; EN 1998-1 §3.2.2.2 ends at 4 s: pass max_period (up to {_EC8_LONGEST:g} s) "
+                "to extend the T_C T_D/T^2 branch")
 
     def _shape(self, t: np.ndarray, eta) -> np.ndarray:
         soil, tb, tc, td = self.parameters
@@ -413,7 +450,7 @@ class EurocodeSpectrum(_Spectrum):
         Parameters
         ----------
         period : float or array
-            Natural period, 0 <= T <= 4 s. [s]
+            Natural period, 0 <= T <= ``max_period`` (4 s by default). [s]
         damping : float or array
             Viscous damping ratio. [-]
         rule : str, optional
@@ -439,6 +476,7 @@ class EurocodeSpectrum(_Spectrum):
             "spectrum_type": int(self.spectrum_type),
             "importance": self.importance,
             "rule": self.rule,
+            "max_period": self.max_period,
         }
 
 

@@ -8,6 +8,8 @@ published formula (shared reference isolation-formulas.md lists several);
 
 import json
 import math
+import subprocess
+import sys
 
 import numpy as np
 import pytest
@@ -177,6 +179,19 @@ def test_period_outside_spectrum_range_fails_clearly():
         equivalent_linear(LinearSystem(stiffness_for_period(w, 3.0), 0.1), w, table)
 
 
+def test_eurocode_spectrum_extended_past_four_seconds():
+    # [derived] EN 1998-1 Eq. (3.5) continued past 4 s (max_period): Sd = 2.5 g a_g S T_C T_D/(4 pi^2)
+    # at 5 %, for a_g 0.30 g, ground C type 1: 1.035 * 9.80665/39.4784 = 0.25710 m, whatever T.
+    w = 1000.0
+    system = LinearSystem(stiffness_for_period(w, 5.0), 0.05)
+    result = equivalent_linear(system, w, EurocodeSpectrum(0.30, "C", max_period=6.0), rule="eurocode")
+    assert result.period == pytest.approx(5.0, rel=1e-12)
+    assert result.displacement == pytest.approx(0.25710, abs=5e-5)
+    # The default spectrum stops at 4 s (EN 1998-1 §3.2.2.2), so the same system cannot be designed.
+    with pytest.raises(RunError, match=r"period range \[0, 4\] s"):
+        equivalent_linear(system, w, EurocodeSpectrum(0.30, "C"), rule="eurocode")
+
+
 def test_bounds_lower_governs_displacement():
     # ASCE/SEI 7-16 §17.2.8 / §17.5.3: lower-bound properties give the largest displacement.
     base = slider(4000.0, 3.0, 0.06)
@@ -327,6 +342,24 @@ def test_elf_damping_and_restoring_force_warnings():
 
 
 # --- fixed-base comparison, ASCE 7-16 §12.8 ------------------------------------------
+
+def test_elf_names_reexported_from_design():
+    # Module split: the ELF report lives in isolation.design_asce7 and stays importable from
+    # isolation.design (same objects), in either import order (fresh interpreters).
+    import isolation.design as design
+    import isolation.design_asce7 as asce7
+
+    for name in ("Item", "ElfBuilding", "StoreyForce", "ElfReport", "asce7_elf", "_force", "_unit"):
+        assert getattr(design, name) is getattr(asce7, name)
+    assert set(asce7.__all__) <= set(design.__all__)
+    with pytest.raises(AttributeError, match="no_such_name"):
+        design.no_such_name
+    for code in ("import isolation.design_asce7, isolation.design as d; d.asce7_elf",
+                 "from isolation.design import *; asce7_elf, ElfBuilding, Item, design_bounds",
+                 "import isolation.design_eurocode"):
+        done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
+        assert done.returncode == 0, done.stderr
+
 
 def test_approximate_period_table_12_8_2():
     # ASCE 7-16 Table 12.8-2 in SI (shared reference §4): C_t h^x.

@@ -143,9 +143,63 @@ def test_eurocode_worked_values_derived():
 
 
 def test_eurocode_refuses_beyond_four_seconds():
-    # EN 1998-1 §3.2.2.2 defines the elastic spectrum to 4 s (Annex A beyond).
-    with pytest.raises(ValueError, match="period"):
-        EurocodeSpectrum(0.2).sa(4.5)
+    # EN 1998-1 §3.2.2.2 defines the elastic spectrum to 4 s (Annex A beyond): by default the
+    # spectrum refuses 4.5 s, naming the period, the allowed range and how to extend it.
+    spectrum = EurocodeSpectrum(0.2)
+    assert spectrum.period_range == (0.0, 4.0)
+    with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed: must lie in \[0, 4\].*max_period"):
+        spectrum.sa(4.5)
+    with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed: must lie in \[0, 4\]"):
+        spectrum.sd([1.0, 4.5])
+
+
+@pytest.mark.parametrize("ground, kind", [("A", 1), ("C", 1), ("D", 1), ("B", 2), ("E", 2)])
+def test_eurocode_extended_branch_is_inverse_square(ground, kind):
+    # EN 1998-1 §3.2.2.2 Eq. (3.5), Se = 2.5 a_g S eta T_C T_D/T^2, continued past 4 s:
+    # closed form of the 1/T^2 law, Se(T) = Se(4 s) (4/T)^2, at 5 % and at 20 % damping.
+    spectrum = EurocodeSpectrum(0.25, ground, kind, max_period=8.0)
+    soil, _, tc, td = spectrum.parameters
+    periods = np.array([4.5, 5.0, 6.0, 7.3, 8.0])
+    for damping in (0.05, 0.20):
+        at_four = spectrum.sa(4.0, damping)
+        np.testing.assert_allclose(spectrum.sa(periods, damping), at_four * (4.0 / periods) ** 2, rtol=1e-12)
+    eta = math.sqrt(10.0 / 25.0)  # EN 1998-1 Eq. (3.6) at xi = 20 % [derived]
+    np.testing.assert_allclose(spectrum.sa(periods, 0.20), 2.5 * 0.25 * soil * eta * tc * td / periods**2, rtol=1e-12)
+    # Below 4 s nothing changes against the default spectrum (same formula, same range start).
+    short = np.array([0.1, 0.5, 1.5, 3.0, 4.0])
+    np.testing.assert_allclose(spectrum.sa(short), EurocodeSpectrum(0.25, ground, kind).sa(short), rtol=0)
+
+
+def test_eurocode_extended_branch_constant_displacement_derived():
+    # [derived] Sd = g Se T^2/(4 pi^2) with Se = 2.5 a_g S eta T_C T_D/T^2 (EN 1998-1 Eq. 3.5)
+    # -> Sd = 2.5 g a_g S eta T_C T_D/(4 pi^2), the same from T_D to max_period.
+    # a_g 0.30 g, ground C type 1 (S 1.15, T_C 0.6, T_D 2.0): 2.5*0.30*1.15*0.6*2.0 = 1.035;
+    # 1.035 * 9.80665/39.4784 = 0.25710 m at 5 %; at 20 % times eta = sqrt(0.4) = 0.63246 -> 0.16260 m.
+    spectrum = EurocodeSpectrum(0.30, "C", 1, max_period=10.0)
+    periods = np.array([2.0, 3.0, 4.0, 4.1, 6.0, 8.5, 10.0])
+    np.testing.assert_allclose(spectrum.sd(periods), 0.25710, atol=5e-5)
+    np.testing.assert_allclose(spectrum.sd(periods, 0.20), 0.16260, atol=5e-5)
+    assert np.ptp(spectrum.sd(periods)) < 1e-12
+
+
+def test_eurocode_extended_refuses_beyond_max_period():
+    # The extension stops at the chosen max_period, with the range in the message.
+    with pytest.raises(ValueError, match=r"period = 6\.5 is not allowed: must lie in \[0, 6\]"):
+        EurocodeSpectrum(0.2, max_period=6.0).sa(6.5)
+    assert EurocodeSpectrum(0.2, max_period=6.0).period_range == (0.0, 6.0)
+
+
+def test_eurocode_max_period_is_keyword_only():
+    # Keyword-only so that a sixth positional value cannot be read as a period by mistake.
+    with pytest.raises(TypeError):
+        EurocodeSpectrum(0.2, "C", 1, 1.0, "eurocode", 6.0)
+
+
+def test_eurocode_old_dict_without_max_period_loads_at_four_seconds():
+    # A stored to_dict() from before max_period existed rebuilds the EN 1998-1 range [0, 4] s.
+    spectrum = spectrum_from_dict({"kind": "eurocode", "ag": 0.2, "ground": "B", "spectrum_type": 1,
+                                   "importance": 1.0, "rule": "eurocode"})
+    assert spectrum.max_period == 4.0 and spectrum.period_range == (0.0, 4.0)
 
 
 # --- tabulated spectrum -------------------------------------------------------
@@ -196,12 +250,14 @@ def test_tabulated_refuses_outside_range(period):
 @pytest.mark.parametrize(
     "spectrum",
     [CodeSpectrum(1.2, 0.6), CodeSpectrum(1.2, 0.6).design(), EurocodeSpectrum(0.3, "B", 2, 1.4),
+     EurocodeSpectrum(0.3, "D", 1, 1.2, max_period=7.5),
      TabulatedSpectrum([0.1, 1.0, 5.0], [1.0, 0.8, 0.1], damping=0.05, rule="aashto")],
 )
 def test_to_dict_json_round_trip(spectrum):
     data = json.loads(json.dumps(spectrum.to_dict()))
     rebuilt = spectrum_from_dict(data)
     assert rebuilt == spectrum
+    assert rebuilt.period_range == spectrum.period_range
     assert rebuilt.sa(0.5, 0.15) == pytest.approx(spectrum.sa(0.5, 0.15))
 
 
@@ -227,10 +283,11 @@ def test_code_spectrum_finite_and_positive(sms, ratio, long_period, period, damp
 
 
 @settings(max_examples=50, deadline=None)
-@given(t1=st.floats(0.6, 3.9), t2=st.floats(0.6, 3.9), ground=st.sampled_from(list("ABCDE")), kind=st.sampled_from([1, 2]))
+@given(t1=st.floats(0.6, 10.0), t2=st.floats(0.6, 10.0), ground=st.sampled_from(list("ABCDE")), kind=st.sampled_from([1, 2]))
 def test_eurocode_falls_beyond_plateau(t1, t2, ground, kind):
-    # Property of EN 1998-1 §3.2.2.2: beyond T_C the ordinate never increases.
-    spectrum = EurocodeSpectrum(0.2, ground, kind)
+    # Property of EN 1998-1 §3.2.2.2: beyond T_C the ordinate never increases (also across
+    # 4 s into the extended 1/T^2 branch).
+    spectrum = EurocodeSpectrum(0.2, ground, kind, max_period=10.0)
     t1, t2 = sorted((t1, t2))
     if t1 >= spectrum.parameters[2]:
         assert spectrum.sa(t2) <= spectrum.sa(t1) + 1e-12
@@ -253,6 +310,11 @@ def test_eurocode_falls_beyond_plateau(t1, t2, ground, kind):
         (lambda: EurocodeSpectrum(0.2, ground="F"), "ground"),
         (lambda: EurocodeSpectrum(0.2, spectrum_type=3), "spectrum_type"),
         (lambda: EurocodeSpectrum(0.2, importance=-1.0), "importance"),
+        (lambda: EurocodeSpectrum(0.2, max_period=3.9), r"max_period = 3\.9 is not allowed: .*\[4, 10\]"),
+        (lambda: EurocodeSpectrum(0.2, max_period=10.5), r"max_period = 10\.5 is not allowed: .*\[4, 10\]"),
+        (lambda: EurocodeSpectrum(0.2, max_period=float("nan")), r"max_period = nan is not allowed"),
+        (lambda: EurocodeSpectrum(0.2, max_period="6 s"), r"max_period = '6 s' is not allowed"),
+        (lambda: spectrum_from_dict({"kind": "eurocode", "ag": 0.2, "max_period": 12.0}), r"max_period = 12\.0"),
         (lambda: TabulatedSpectrum([1.0, 0.5], [1.0, 0.5]), "periods"),
         (lambda: TabulatedSpectrum([0.5, 1.0], [1.0, -0.5]), "values"),
         (lambda: TabulatedSpectrum([0.5, 1.0], [1.0]), "values"),
