@@ -1,0 +1,48 @@
+"""Figures of a feasibility study (matplotlib, Agg canvas, no pyplot state).
+
+Every function builds a new :class:`matplotlib.figure.Figure` on an Agg canvas
+and returns it; nothing is shown or saved. Inputs are the package's result
+objects where one fits (spectra, backbones, equivalent-linear results) and
+plain arrays otherwise, so figures can also be drawn from results read back
+from JSON. :func:`captioned` wraps a figure for display in a workbook: the PNG
+carries its caption, which the report template turns into a numbered figure.
+
+Units on the axes: periods [s], spectral acceleration [g], displacement [m]
+(shown in mm where noted), force [kN], heights [m], energy [kN m].
+
+Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
+:mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
+motion suite), :mod:`~isolation.plots.history` (response histories).
+"""
+
+from isolation.plots.common import COLOURS, WIDTH, captioned
+from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
+                                    suite_figure, suite_match)
+from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
+                                     floor_spectra, history_base_shear, history_displacements, history_energy,
+                                     history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
+                                     storey_profiles)
+
+__all__ = [
+    "COLOURS",
+    "WIDTH",
+    "captioned",
+    "site_spectrum",
+    "force_displacement",
+    "equivalent_linear_bounds",
+    "suite_match",
+    "displacement_histories",
+    "base_shear_comparison",
+    "storey_profiles",
+    "floor_spectra",
+    "hysteresis_loops",
+    "energy_stack",
+    "masing_loop",
+    "suite_figure",
+    "history_profiles",
+    "history_base_shear",
+    "history_displacements",
+    "history_loops",
+    "history_energy",
+    "history_floor_spectra",
+]

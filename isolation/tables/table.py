@@ -1,0 +1,292 @@
+"""The captioned table object, number formatting and the generic builders.
+
+Results as tables that reach every output: notebook, HTML and the PDF report.
+
+nbconvert's LaTeX exporter drops HTML output, so a :class:`Table` offers
+``_repr_markdown_`` (notebook, HTML report) and ``_repr_latex_`` (PDF report: a
+numbered, captioned booktabs table, shrunk to the text width when wide, split
+over pages when long or holding wrapped text). :mod:`isolation.tables.results` turns a study's results
+into such tables.
+
+Numbers are formatted for reading (:func:`format_number`); the JSON results
+keep full precision.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any, Iterable, Mapping, Sequence
+
+import numpy as np
+
+__all__ = [
+    "Table",
+    "format_number",
+    "escape_latex",
+    "key_value_table",
+    "checks_table",
+]
+
+_LATEX_SPECIALS = {
+    "\\": r"\textbackslash{}",
+    "&": r"\&",
+    "%": r"\%",
+    "$": r"\$",
+    "#": r"\#",
+    "_": r"\_",
+    "{": r"\{",
+    "}": r"\}",
+    "~": r"\textasciitilde{}",
+    "^": r"\textasciicircum{}",
+}
+
+_LONG_TABLE_ROWS = 28  # beyond this a table may run over a page break
+_LONG_WRAPPED_ROWS = 12  # the same for tables whose text wraps (rows of several lines)
+
+
+def escape_latex(text: str) -> str:
+    """Text with LaTeX's special characters escaped."""
+    return "".join(_LATEX_SPECIALS.get(ch, ch) for ch in str(text))
+
+
+def _escape_markdown(text: str) -> str:
+    return str(text).replace("\\", "\\\\").replace("|", "\\|").replace("\n", " ")
+
+
+def format_number(value: Any, digits: int = 3) -> str:
+    """A value as text for a table: numbers to ``digits`` significant figures.
+
+    Parameters
+    ----------
+    value : any
+        Number, bool, text or None. Booleans read "yes"/"no", None and NaN "--".
+    digits : int
+        Significant figures for floats; numbers of ``digits`` or more whole
+        figures are shown whole, rounded to that many (12345 -> "12300"). [-]
+    """
+    if value is None:
+        return "--"
+    if isinstance(value, (bool, np.bool_)):
+        return "yes" if value else "no"
+    if isinstance(value, (int, np.integer)):
+        return f"{int(value):d}"
+    if isinstance(value, (float, np.floating)):
+        number = float(value)
+        if math.isnan(number):
+            return "--"
+        if math.isinf(number):
+            return "inf" if number > 0 else "-inf"
+        if number == 0.0:
+            return "0"
+        magnitude = abs(number)
+        if magnitude >= 1e9 or magnitude < 10 ** -(digits + 1):
+            return f"{number:.{max(digits - 1, 0)}e}"
+        if magnitude >= 10 ** digits:  # whole number, rounded to the significant figures
+            return f"{int(round(number, digits - 1 - int(math.floor(math.log10(magnitude))))):d}"
+        decimals = max(digits - 1 - int(math.floor(math.log10(magnitude))), 0)
+        return f"{number:.{decimals}f}"
+    return str(value)
+
+
+@dataclass(frozen=True)
+class Table:
+    """A captioned table of already-chosen values.
+
+    Parameters
+    ----------
+    columns : sequence of str
+        Column headings, units in brackets, e.g. ``"D_M [m]"``.
+    rows : sequence of sequences
+        Cell values; numbers are formatted with ``digits`` significant figures.
+    caption : str
+        Caption; the PDF numbers it ("Table 3: ...").
+    align : str, optional
+        One alignment letter per column: "l", "r", "c", or "p" for a text
+        column that wraps (the "p" columns share the width left over);
+        default: first column left, the rest right.
+    digits : int
+        Significant figures of numeric cells. [-]
+    notes : str
+        Text printed under the table (sources, assumptions).
+
+    Notes
+    -----
+    The LaTeX form needs the packages booktabs, adjustbox, tabularx, longtable,
+    xltabular, array and float (the report template loads them all). Tables
+    of more than 28 rows, or more than 12 with a "p" column, break across pages.
+    """
+
+    columns: tuple[str, ...]
+    rows: tuple[tuple[Any, ...], ...]
+    caption: str = ""
+    align: str | None = None
+    digits: int = 3
+    notes: str = ""
+    _text: tuple[tuple[str, ...], ...] = field(init=False, repr=False, compare=False)
+
+    def __post_init__(self) -> None:
+        columns = tuple(str(c) for c in self.columns)
+        if not columns:
+            raise ValueError("columns = () is not allowed: must name at least one column")
+        rows = tuple(tuple(row) for row in self.rows)
+        for index, row in enumerate(rows):
+            if len(row) != len(columns):
+                raise ValueError(
+                    f"rows[{index}] has {len(row)} cells, which is not allowed: must have "
+                    f"{len(columns)} (one per column)"
+                )
+        align = self.align or ("l" + "r" * (len(columns) - 1))
+        if len(align) != len(columns) or set(align) - set("lrcp"):
+            raise ValueError(
+                f"align = {self.align!r} is not allowed: must be one of l, r, c, p per column "
+                f"({len(columns)} letters)"
+            )
+        object.__setattr__(self, "columns", columns)
+        object.__setattr__(self, "rows", rows)
+        object.__setattr__(self, "align", align)
+        object.__setattr__(
+            self, "_text", tuple(tuple(format_number(v, self.digits) for v in row) for row in rows)
+        )
+
+    @property
+    def cells(self) -> tuple[tuple[str, ...], ...]:
+        """Formatted cell text, row by row."""
+        return self._text
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain-JSON form: caption, columns, formatted rows, notes."""
+        return {
+            "caption": self.caption,
+            "columns": list(self.columns),
+            "rows": [list(r) for r in self._text],
+            "notes": self.notes,
+        }
+
+    def _repr_markdown_(self) -> str:
+        marks = {"l": ":--", "r": "--:", "c": ":-:", "p": ":--"}
+        lines = []
+        if self.caption:
+            lines += [f"**{_escape_markdown(self.caption)}**", ""]
+        lines.append("| " + " | ".join(_escape_markdown(c) for c in self.columns) + " |")
+        lines.append("|" + "|".join(marks[a] for a in self.align) + "|")
+        lines += ["| " + " | ".join(_escape_markdown(c) for c in row) + " |" for row in self._text]
+        if self.notes:
+            lines += ["", f"*{_escape_markdown(self.notes)}*"]
+        return "\n".join(lines) + "\n"
+
+    def _repr_latex_(self) -> str:
+        head = " & ".join(rf"\textbf{{{escape_latex(c)}}}" for c in self.columns) + r" \\"
+        body = "\n".join(" & ".join(escape_latex(c) for c in row) + r" \\" for row in self._text)
+        caption = rf"\caption{{{escape_latex(self.caption)}}}" if self.caption else ""
+        notes = (
+            rf"\par\smallskip{{\footnotesize {escape_latex(self.notes)}\par}}" if self.notes else ""
+        )
+        wraps = "p" in self.align
+        if wraps and len(self._text) <= _LONG_WRAPPED_ROWS:
+            # Wrapping text, few rows: kept on one page; X columns take the width left over.
+            spec = self.align.replace("p", r">{\raggedright\arraybackslash}X")
+            return "\n".join([
+                r"\begin{table}[H]",
+                r"\centering\small",
+                caption,
+                rf"\begin{{tabularx}}{{\linewidth}}{{@{{}}{spec}@{{}}}}",
+                r"\toprule", head, r"\midrule", body, r"\bottomrule",
+                r"\end{tabularx}",
+                notes,
+                r"\end{table}",
+            ])
+        if wraps or len(self._text) > _LONG_TABLE_ROWS:
+            # Many rows: a table that breaks across pages (xltabular: longtable with tabularx's
+            # X columns for wrapping text).
+            spec = self.align.replace("p", r">{\raggedright\arraybackslash}X")
+            environment = "xltabular" if wraps else "longtable"
+            width = r"{\linewidth}" if wraps else ""
+            return "\n".join([
+                r"{\small",
+                rf"\begin{{{environment}}}{width}{{@{{}}{spec}@{{}}}}",
+                caption + r"\\" if caption else "",
+                r"\toprule", head, r"\midrule", r"\endfirsthead",
+                r"\toprule", head, r"\midrule", r"\endhead",
+                r"\bottomrule", r"\endlastfoot",
+                body,
+                rf"\end{{{environment}}}}}",
+                notes,
+            ])
+        return "\n".join([
+            r"\begin{table}[H]",
+            r"\centering\small",
+            caption,
+            r"\begin{adjustbox}{max width=\linewidth}",
+            rf"\begin{{tabular}}{{@{{}}{self.align}@{{}}}}",
+            r"\toprule", head, r"\midrule", body, r"\bottomrule",
+            r"\end{tabular}",
+            r"\end{adjustbox}",
+            notes,
+            r"\end{table}",
+        ])
+
+
+def key_value_table(
+    values: Mapping[str, Any] | Iterable[tuple[str, Any]],
+    caption: str,
+    *,
+    headings: Sequence[str] = ("Quantity", "Value"),
+    digits: int = 3,
+    notes: str = "",
+) -> Table:
+    """A two-column table (name, value) from a mapping or pairs.
+
+    Parameters
+    ----------
+    values : mapping or iterable of pairs
+        Names (units in brackets) and values.
+    caption : str
+        Table caption.
+    """
+    pairs = values.items() if isinstance(values, Mapping) else values
+    return Table(
+        columns=tuple(headings),
+        rows=tuple((str(k), v) for k, v in pairs),
+        caption=caption,
+        align="lr",
+        digits=digits,
+        notes=notes,
+    )
+
+
+def checks_table(checks: Iterable[Any], caption: str, *, digits: int = 3) -> Table:
+    """Pass/fail checks (objects or dicts with name, value, limit, passed, unit, source).
+
+    Parameters
+    ----------
+    checks : iterable
+        :class:`isolation.bearings.Check` objects or their ``to_dict()`` forms.
+    caption : str
+        Table caption.
+    """
+    rows = []
+    for check in checks:
+        item = check if isinstance(check, Mapping) else _as_mapping(check)
+        unit = item.get("unit") or ""
+        rows.append((
+            item.get("name", ""),
+            item.get("value"),
+            item.get("limit"),
+            unit if unit else "--",
+            "pass" if item.get("passed") else "FAIL",
+            item.get("source", "") or "--",
+        ))
+    return Table(
+        columns=("Check", "Value", "Limit", "Unit", "Result", "Source"),
+        rows=tuple(rows),
+        caption=caption,
+        align="prrccp",
+        digits=digits,
+    )
+
+
+def _as_mapping(obj: Any) -> Mapping[str, Any]:
+    if hasattr(obj, "to_dict"):
+        return obj.to_dict()
+    return {k: getattr(obj, k) for k in ("name", "value", "limit", "passed", "unit", "source") if hasattr(obj, k)}

@@ -1,0 +1,238 @@
+"""Tables for notebook, HTML and PDF.
+
+Outside checks: markdown tables are parsed by mistune (the markdown library
+nbconvert uses, GFM table syntax); LaTeX's ten special characters and their
+escapes follow Lamport, "LaTeX: A Document Preparation System", 2nd ed.,
+§2.2.1 and the textcomp commands (from memory); significant-figure rounding
+is checked against hand-rounded values.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+import mistune
+import numpy as np
+import pytest
+
+from isolation.tables import Table, checks_table, escape_latex, format_number, key_value_table
+
+
+@pytest.mark.parametrize(
+    "value, digits, text",
+    [
+        (0.31274, 3, "0.313"),      # hand-rounded
+        (3.046, 3, "3.05"),
+        (2.7, 3, "2.70"),
+        (1234.4, 4, "1234"),
+        (12345.0, 3, "12300"),
+        (-98765.4, 2, "-99000"),
+        (2.5e9, 3, "2.50e+09"),
+        (0.000123, 2, "1.2e-04"),
+        (-0.5, 3, "-0.500"),
+        (0.0, 3, "0"),
+        (7, 3, "7"),
+        (np.int64(11), 3, "11"),
+        (np.float32(0.25), 2, "0.25"),
+        (True, 3, "yes"),
+        (False, 3, "no"),
+        (None, 3, "--"),
+        (math.nan, 3, "--"),
+        ("lower", 3, "lower"),
+    ],
+)
+def test_format_number(value, digits, text):
+    assert format_number(value, digits) == text
+
+
+def _table() -> Table:
+    return Table(
+        columns=("Bound", "D_M [m]", "T_M [s]", "Note"),
+        rows=(("lower", 0.31274, 3.046, "50% & $"), ("upper", 0.25, 2.7, "a_b #1")),
+        caption="Results {both} bounds",
+        notes="Source: ASCE 7-16 §17.5.3.1",
+    )
+
+
+def test_markdown_parses_to_a_table_with_the_cells():
+    html = mistune.create_markdown(plugins=["table"])(_table()._repr_markdown_())
+    headers = re.findall(r"<th[^>]*>(.*?)</th>", html)
+    cells = re.findall(r"<td[^>]*>(.*?)</td>", html)
+    assert headers == ["Bound", "D_M [m]", "T_M [s]", "Note"]
+    assert cells[:4] == ["lower", "0.313", "3.05", "50% &amp; $"]
+    assert cells[4:] == ["upper", "0.250", "2.70", "a_b #1"]
+    assert "Results {both} bounds" in html
+
+
+def test_markdown_escapes_pipes_so_columns_stay():
+    table = Table(columns=("a", "b"), rows=(("x|y", 1.0),))
+    html = mistune.create_markdown(plugins=["table"])(table._repr_markdown_())
+    assert re.findall(r"<td[^>]*>(.*?)</td>", html) == ["x|y", "1.00"]
+
+
+def test_latex_is_a_captioned_booktabs_table_with_escaped_cells():
+    latex = _table()._repr_latex_()
+    assert latex.startswith(r"\begin{table}[H]") and latex.rstrip().endswith(r"\end{table}")
+    assert r"\caption{Results \{both\} bounds}" in latex
+    assert r"\toprule" in latex and r"\midrule" in latex and r"\bottomrule" in latex
+    assert r"\begin{tabular}{@{}lrrr@{}}" in latex
+    assert r"lower & 0.313 & 3.05 & 50\% \& \$ \\" in latex
+    assert r"upper & 0.250 & 2.70 & a\_b \#1 \\" in latex
+    assert r"Source: ASCE 7-16 §17.5.3.1" in latex
+
+
+def test_escape_latex_of_the_ten_special_characters():
+    assert escape_latex(r"# $ % & ~ _ ^ \ { }") == (
+        r"\# \$ \% \& \textasciitilde{} \_ \textasciicircum{} \textbackslash{} \{ \}"
+    )
+
+
+def test_long_tables_break_over_pages():
+    rows = tuple((f"row {i}", float(i)) for i in range(40))
+    latex = Table(columns=("name", "value"), rows=rows, caption="Long")._repr_latex_()
+    assert r"\begin{longtable}" in latex and r"\endhead" in latex
+    assert latex.count(r"\\") >= 40
+
+
+def test_wrapping_columns_take_the_full_width_and_break_when_long():
+    short = Table(columns=("topic", "finding"), rows=(("drift", "a long sentence"),), align="lp",
+                  caption="Wraps")._repr_latex_()
+    assert r"\begin{tabularx}{\linewidth}{@{}l>{\raggedright\arraybackslash}X@{}}" in short
+    assert r"\begin{table}[H]" in short
+    rows = tuple((f"topic {i}", "a long sentence") for i in range(13))
+    long = Table(columns=("topic", "finding"), rows=rows, align="lp", caption="Wraps")._repr_latex_()
+    assert r"\begin{xltabular}{\linewidth}{@{}l>{\raggedright\arraybackslash}X@{}}" in long
+    assert r"\caption{Wraps}\\" in long and r"\endhead" in long
+
+
+def test_to_dict_is_plain_json():
+    data = _table().to_dict()
+    assert data["columns"][1] == "D_M [m]"
+    assert data["rows"][0] == ["lower", "0.313", "3.05", "50% & $"]
+
+
+@pytest.mark.parametrize(
+    "kwargs, message",
+    [
+        ({"columns": (), "rows": ()}, "columns = ()"),
+        ({"columns": ("a", "b"), "rows": ((1,),)}, r"rows\[0\] has 1 cells.*must have 2"),
+        ({"columns": ("a", "b"), "rows": ((1, 2),), "align": "lx"}, "align = 'lx'.*l, r, c, p"),
+        ({"columns": ("a", "b"), "rows": ((1, 2),), "align": "l"}, "align = 'l'"),
+    ],
+)
+def test_bad_tables_are_refused(kwargs, message):
+    with pytest.raises(ValueError, match=message):
+        Table(**kwargs)
+
+
+def test_key_value_table():
+    table = key_value_table({"Seismic weight W [kN]": 41260.0, "Storeys": 4}, "Inputs")
+    assert table.cells == (("Seismic weight W [kN]", "41300"), ("Storeys", "4"))
+    assert table.align == "lr"
+
+
+def test_checks_table_reads_check_objects_and_dicts():
+    from isolation.bearings import Check
+
+    check = Check(name="shear strain", value=1.8, limit=2.5, passed=True, unit="-",
+                  source="AASHTO (from memory)")
+    table = checks_table([check, {"name": "tension", "value": 310.0, "limit": 240.0,
+                                  "passed": False, "unit": "kPa", "source": ""}], "Checks")
+    assert table.cells[0] == ("shear strain", "1.80", "2.50", "-", "pass", "AASHTO (from memory)")
+    assert table.cells[1] == ("tension", "310", "240", "kPa", "FAIL", "--")
+
+
+# --- builders over a study's results (hand-made, invented numbers) ---------------------------
+def _results(units: str = "SI") -> dict:
+    bound = {"displacement": 0.5, "period": 3.0, "damping": 0.2, "damping_coefficient": 1.5,
+             "stiffness": 20_000.0, "base_shear": 10_000.0, "weight": 50_000.0}
+    alternative = {
+        "name": "Invented sliders",
+        "bounds": {"lower": bound, "nominal": dict(bound, displacement=0.45),
+                   "upper": dict(bound, displacement=0.4, period=2.5)},
+        "quantities": {"period_upper": 2.5, "period_lower": 3.0, "fixed_base_period": 0.5,
+                       "total_displacement": 0.6, "shear_ratio": 0.4},
+        "history": {"summary": {"isolator_displacement_lower": 0.48, "isolator_displacement_upper": 0.38,
+                                "isolator_displacement_with_torsion": 0.55, "residual_displacement_lower": 0.01,
+                                "floor_acceleration_fixed": 1.2, "floor_acceleration_lower": 0.3,
+                                "floor_acceleration_upper": 0.36, "drift_ratio_fixed": 0.012,
+                                "drift_ratio_isolated": 0.003, "superstructure_shear_fixed": 40_000.0,
+                                "superstructure_shear_upper": 9_000.0, "isolation_shear_upper": 11_000.0,
+                                "floor_acceleration_ratio": 0.3}},
+        "report": {"quantities": [{"name": "maximum displacement", "symbol": "D_M", "value": 0.5, "unit": "m",
+                                   "source": "invented"}]},
+        "verdict": {"alternative": "Invented sliders", "outcome": "feasible with conditions",
+                    "reasons": [{"topic": "drift", "level": "ok", "message": "fine", "source": "s1"},
+                                {"topic": "uplift", "level": "condition", "message": "tension", "source": "s2"}]},
+    }
+    study = {
+        "units": units, "basis": "asce7",
+        "site": {"sms": 1.2, "sm1": 0.6, "long_period": 8.0, "site_class": "C", "near_fault": False},
+        "building": {"base_weight": 10_000.0, "floor_weights": [20_000.0, 20_000.0], "storey_heights": [4.0, 3.5],
+                     "plan_length": 30.0, "plan_width": 20.0, "storeys": 2, "lateral_system": "braced_frame",
+                     "response_modification": 6.0, "importance": 1.0},
+        "analysis": {"suite_size": 7, "duration": 30.0, "time_step": 0.005},
+        "wind_base_shear": 650.0,
+        "alternatives": [{"name": "Invented sliders", "lower_factor": 0.85, "upper_factor": 1.2, "moat": 0.5,
+                          "bearings": [{"type": "friction_pendulum", "count": 12,
+                                        "properties": {"radius": 2.5, "friction": 0.05}}]}],
+    }
+    return {"study": study, "fixed_base": {"period": 0.5, "period_source": "given"},
+            "alternatives": [alternative],
+            "suite": {"check": {"band": [0.9, 1.3], "rule": "asce7", "check_range_s": [1.0, 4.0],
+                                "required_mean_ratio": 1.1, "lowest_mean_ratio": 1.12, "period_of_lowest_mean_s": 2.0,
+                                "mean_ok": True,
+                                "records": [{"index": 0, "seed": 11, "lowest_ratio": 0.95, "highest_ratio": 1.2,
+                                             "within_band": True, "baseline_ok": True}]}}}
+
+
+def _row(table, first):
+    return next(row for row in table.cells if row[0] == first)
+
+
+def test_inputs_table_in_si_and_us_units():
+    from isolation.tables import inputs_table
+
+    si = inputs_table(_results("SI"))
+    assert _row(si, "Seismic weight W (base slab included)") == ("Seismic weight W (base slab included)", "50000", "kN")
+    assert _row(si, "S_MS (MCE_R, short period)")[1:] == ("1.20", "g")
+    us = inputs_table(_results("US"))
+    # 1 lbf = 4.4482216 N, 1 in = 0.0254 m (NIST SP 811, Appendix B): 50 000 kN = 11 240 kip,
+    # 650 kN = 146 kip, 30 m = 1181 in.
+    assert _row(us, "Seismic weight W (base slab included)")[1:] == ("11200", "kip")
+    assert _row(us, "Wind base shear")[1:] == ("146", "kip")
+    assert _row(us, "Plan length")[1:] == ("1180", "in")
+    assert "Fixed-base period: given." == us.notes
+
+
+def test_bounds_history_and_comparison_tables():
+    from isolation.tables import bounds_table, comparison_table, history_table
+
+    results = _results()
+    bounds = bounds_table(results["alternatives"][0])
+    assert [row[0] for row in bounds.cells] == ["lower", "nominal", "upper"]
+    assert _row(bounds, "upper")[1:3] == ("0.400", "2.50")
+    assert _row(bounds, "lower")[-1] == "0.200"  # V_b/W = 10 000 / 50 000
+    history = history_table(results["alternatives"][0])
+    assert _row(history, "Largest storey drift ratio [%]")[1:] == ("1.20", "--", "0.300")
+    compared = comparison_table(results)
+    assert _row(compared, "Period shift T_M/T_fb, upper bound [-]")[1] == "5.00"  # 2.5 s / 0.5 s
+    assert _row(compared, "Verdict")[1] == "feasible with conditions"
+    us = bounds_table(results["alternatives"][0], "US")
+    assert us.columns[1] == "D [in]" and _row(us, "lower")[1] == "19.7"  # 0.5 m / 0.0254 m
+
+
+def test_verdict_suite_and_alternatives_tables():
+    from isolation.tables import alternatives_table, suite_table, verdict_table
+
+    results = _results()
+    verdict = verdict_table(results["alternatives"][0])
+    assert verdict.cells[0][:2] == ("uplift", "condition")  # deciding reasons first
+    assert verdict.caption.endswith("feasible with conditions")
+    suite = suite_table(results)
+    assert suite.cells == (("1", "11", "0.950", "1.20", "yes", "yes"),)
+    assert "required at least 1.10" in suite.notes and "met" in suite.notes
+    alternatives = alternatives_table(results)
+    assert alternatives.cells[0][:3] == ("Invented sliders", "friction pendulum", "12")
+    assert "R = 2.50" in alternatives.cells[0][3] and alternatives.cells[0][4] == "0.85 / 1.20"
