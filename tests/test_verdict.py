@@ -1,0 +1,216 @@
+"""Verdict rules on hand-built cases (isolation.verdict).
+
+Limits and where they come from (the same sources the module cites):
+* T_M > 3 T_fb and T_M <= 5 s, beta_M <= 30 %: ASCE/SEI 7-16 §17.4.1 (from memory).
+* Isolated period 2-4(5) s, T_M >= 3 T_fb, height/width <= 3, soft sites a
+  poor fit: common practice (rules of thumb in shared/reference/isolation-formulas.md §4).
+* Moat >= D_TM: ASCE/SEI 7-16 §17.2.6 (from memory).
+* Drift 0.015 h_sx with the ELF procedure: ASCE/SEI 7-16 §17.5.6 (from memory).
+* Wind must not yield the isolation plane: ASCE/SEI 7-16 §17.2.4.3 (from memory).
+Reduction thresholds (base shear < 0.7, floor acceleration < 0.6,
+spectral ratio < 0.5/0.8) are common practice.
+"""
+
+import json
+
+import pytest
+
+from isolation import verdict as v
+
+
+def good_figures(**changes) -> v.Figures:
+    """A hand-built well-suited case: T_fb 0.6 s, T_M 3.0 s, D_TM 0.45 m in 0.65 m bearings."""
+    values = dict(
+        alternative="A", fixed_base_period=0.6, isolated_period=3.0, total_displacement=0.45,
+        displacement_capacity=0.65, moat=0.75, history_displacement=0.40, base_shear_ratio=0.25,
+        design_shear_ratio=0.6,
+        floor_acceleration_ratio=0.35, drift_ratio=0.004, uplift_ratio=0.3, slenderness=0.6,
+        site_class="C", basis="asce7", near_fault=False, spectral_ratio=0.2, wind_base_shear=650.0,
+        characteristic_strength=2200.0, elf_permitted=True, failed_checks=(), effective_damping=0.18,
+    )
+    values.update(changes)
+    return v.Figures(**values)
+
+
+def test_well_suited_case_is_feasible():
+    result = v.assess(good_figures())
+    assert result.outcome == v.FEASIBLE
+    assert {r.level for r in result.reasons} == {"ok"}
+    assert result.headline == "A: feasible"
+
+
+@pytest.mark.parametrize("isolated, fixed, level", [
+    (3.0, 1.0, "ok"),          # ratio 3.0: meets T_M > 3 T_fb (ASCE/SEI 7-16 §17.4.1, from memory)
+    (2.99, 1.0, "condition"),  # just below 3
+    (2.0, 1.0, "condition"),   # 2: lower edge of the "modest" band (common practice)
+    (1.99, 1.0, "against"),    # below 2
+])
+def test_period_shift_levels(isolated, fixed, level):
+    reason = v.period_shift(isolated, fixed)
+    assert reason.level == level
+    assert reason.value == pytest.approx(isolated / fixed)
+    assert f"{isolated:.2f} s" in reason.message and f"{isolated / fixed:.2f} times" in reason.message
+
+
+def test_period_shift_hand_values():
+    # Hand-built: 3.0 s on 1.5 s is a ratio of exactly 2 (condition); 2.7 s on 1.5 s is 1.8 (against).
+    assert v.period_shift(3.0, 1.5).level == "condition"
+    assert v.period_shift(2.7, 1.5).level == "against"
+    assert v.period_shift(2.7, 0.9).level == "ok"   # 3.0
+
+
+@pytest.mark.parametrize("period, level", [(1.8, "condition"), (2.0, "ok"), (5.0, "ok"), (5.5, "note")])
+def test_isolated_period_band(period, level):
+    assert v.isolated_period(period).level == level
+
+
+def test_displacement_beyond_capacity_is_against():
+    r = v.displacement_capacity(0.70, 0.65)
+    assert r.level == "against" and r.value == 0.70 and r.limit == 0.65
+    assert "0.700 m" in r.message and "0.650 m" in r.message
+    assert v.assess(good_figures(total_displacement=0.70, moat=0.8)).outcome == v.NOT_RECOMMENDED
+
+
+def test_history_peak_beyond_capacity_is_against_even_when_dtm_fits():
+    r = v.displacement_capacity(0.50, 0.65, history_displacement=0.68)
+    assert r.level == "against" and r.value == 0.68
+    assert "response-history" in r.message
+
+
+def test_unknown_capacity_and_moat_are_conditions():
+    assert v.displacement_capacity(0.5, None).level == "condition"
+    assert v.moat_clearance(0.5, None).level == "condition"
+    result = v.assess(good_figures(displacement_capacity=None, moat=None))
+    assert result.outcome == v.CONDITIONAL
+
+
+@pytest.mark.parametrize("d_tm, level", [(0.6, "ok"), (0.8, "ok"), (0.81, "condition"), (1.2, "condition"), (1.25, "against")])
+def test_displacement_size(d_tm, level):
+    # Practical limits of moats and utility joints: common practice.
+    assert v.displacement_size(d_tm).level == level
+
+
+def test_narrow_moat_is_a_condition():
+    r = v.moat_clearance(0.55, 0.50)
+    assert r.level == "condition" and "widen" in r.message
+    assert v.moat_clearance(0.50, 0.50).level == "ok"   # equal to D_TM meets ">= D_TM"
+
+
+@pytest.mark.parametrize("ratio, level", [(0.69, "ok"), (0.7, "condition"), (0.99, "condition"), (1.0, "against"), (1.3, "against")])
+def test_base_shear_reduction(ratio, level):
+    r = v.base_shear_reduction(ratio)
+    assert r.level == level and f"{ratio:.0%}" in r.message
+
+
+@pytest.mark.parametrize("ratio, level", [(0.6, "ok"), (1.0, "ok"), (1.01, "condition"), (1.4, "condition")])
+def test_design_shear_above_fixed_base_is_a_condition_not_a_refusal(ratio, level):
+    # R_I <= 2 (ASCE/SEI 7-16 §17.5.4.2) against R up to 8: a higher design shear costs but is allowed.
+    assert v.design_shear(ratio).level == level
+    assert v.assess(good_figures(design_shear_ratio=1.2)).outcome == v.CONDITIONAL
+
+
+@pytest.mark.parametrize("ratio, level", [(0.3, "ok"), (0.6, "condition"), (1.0, "against")])
+def test_floor_acceleration_reduction(ratio, level):
+    assert v.floor_acceleration_reduction(ratio).level == level
+
+
+def test_drift_limit():
+    # 0.015 h_sx (ASCE/SEI 7-16 §17.5.6, from memory).
+    assert v.storey_drift(0.016).level == "condition"
+    assert v.storey_drift(0.015).level == "ok"
+    assert v.storey_drift(0.018, limit=0.020).level == "ok"
+
+
+def test_uplift_and_slenderness():
+    assert v.uplift(1.2).level == "condition"
+    assert v.uplift(0.99).level == "ok"
+    assert v.slenderness(3.5).level == "condition"
+    assert v.slenderness(2.0).level == "ok"
+
+
+@pytest.mark.parametrize("site, basis, level", [
+    ("C", "asce7", "ok"), ("D", "asce7", "ok"), ("E", "asce7", "condition"), ("F", "asce7", "against"),
+    ("C", "eurocode", "ok"), ("D", "eurocode", "condition"), ("E", "eurocode", "condition"),
+])
+def test_soft_sites(site, basis, level):
+    assert v.site_suitability(site, basis).level == level
+
+
+@pytest.mark.parametrize("ratio, level", [(0.3, "ok"), (0.5, "condition"), (0.79, "condition"), (0.8, "against")])
+def test_spectral_benefit(ratio, level):
+    assert v.spectral_benefit(ratio).level == level
+
+
+def test_wind_against_characteristic_strength():
+    r = v.wind(2500.0, 2200.0)
+    assert r.level == "condition" and "2500 kN" in r.message and "2200 kN" in r.message
+    assert v.wind(650.0, 2200.0).level == "ok"
+    assert v.wind(None, 2200.0).level == "note"
+
+
+def test_us_units_in_messages():
+    # 0.6096 m = 24.0 in and 0.635 m = 25.0 in exactly; 444.82216 kN = 100 kip (NIST SP 811).
+    r = v.displacement_capacity(0.6096, 0.635, system="US")
+    assert "24.0 in" in r.message and "25.0 in" in r.message and r.unit == "m" and r.value == 0.6096
+    assert "100 kip" in v.wind(444.82216152605, 1000.0, system="US").message
+    result = v.assess(good_figures(units="US"))
+    moat = [x for x in result.reasons if x.topic == "moat"][0]
+    assert moat.message == "moat 29.5 in covers D_TM = 17.7 in"   # 0.75 m and 0.45 m
+
+
+def test_elf_not_permitted_is_a_note_with_its_reasons():
+    r = v.elf_applicability(False, ("S_1 below 0.6 g", "storeys above isolation <= 4"))
+    assert r.level == "note" and "S_1 below 0.6 g" in r.message
+    result = v.assess(good_figures(elf_permitted=False, elf_reasons=("height",)))
+    assert result.outcome == v.FEASIBLE
+
+
+def test_failed_bearing_checks_call_for_resizing():
+    result = v.assess(good_figures(failed_checks=("group 1: shear strain",)))
+    assert result.outcome == v.CONDITIONAL
+    assert "group 1: shear strain" in result.headline or "bearing checks" in result.headline
+
+
+def test_near_fault_flag():
+    assert v.near_fault(False) is None
+    assert v.assess(good_figures(near_fault=True)).outcome == v.CONDITIONAL
+
+
+def test_soft_long_period_site_case_is_not_recommended():
+    # Hand-built soft-site case: T_fb 1.0 s, T_M 2.6 s (ratio 2.6), class E,
+    # spectral ratio 0.85, D_TM 0.80 m in 0.55 m bearings.
+    figures = good_figures(fixed_base_period=1.0, isolated_period=2.6, total_displacement=0.80,
+                           displacement_capacity=0.55, moat=0.6, site_class="E", spectral_ratio=0.85)
+    result = v.assess(figures)
+    assert result.outcome == v.NOT_RECOMMENDED
+    against = {r.topic for r in result.by_level("against")}
+    assert against == {"displacement capacity", "long-period site"}
+    assert result.by_level("condition")[0].topic == "period shift"
+    conditions = {r.topic for r in result.by_level("condition")}
+    assert {"period shift", "moat", "soft soil"} <= conditions
+
+
+def test_combine_rules():
+    ok = v.Reason("a", "ok", "x")
+    note = v.Reason("b", "note", "x")
+    cond = v.Reason("c", "condition", "x")
+    against = v.Reason("d", "against", "x")
+    assert v.combine([ok, note]) == v.FEASIBLE
+    assert v.combine([ok, cond, note]) == v.CONDITIONAL
+    assert v.combine([cond, against]) == v.NOT_RECOMMENDED
+
+
+def test_every_reason_carries_its_number_and_source():
+    result = v.assess(good_figures())
+    for reason in result.reasons:
+        assert reason.level in v.LEVELS
+        assert reason.source
+        if reason.value is not None:
+            assert isinstance(reason.value, float)
+
+
+def test_verdict_round_trips_through_json():
+    result = v.assess(good_figures(moat=None))
+    data = json.loads(json.dumps(result.to_dict()))
+    assert v.Verdict.from_dict(data) == result
+    assert json.loads(json.dumps(good_figures().to_dict()))["alternative"] == "A"
