@@ -4,10 +4,12 @@
   with the general form D = g Sa(T) T^2/(4 pi^2 B), so any spectrum works.
 * :func:`design_bounds` runs it for each property set (lower, nominal,
   upper): the lower bound usually governs displacement, the upper bound forces.
-* The ASCE 7 equivalent lateral force report (:func:`asce7_elf`,
-  :class:`ElfBuilding`, :class:`ElfReport`, :class:`StoreyForce`,
-  :class:`Item`) lives in :mod:`isolation.design_asce7` and is re-exported
-  here, so ``from isolation.design import asce7_elf`` keeps working.
+* :class:`Item` (a reported quantity) and the small helpers shared by the
+  code reports live here. The ASCE 7 equivalent lateral force report
+  (``asce7_elf``, ``ElfBuilding``, ``ElfReport``, ``StoreyForce``) is in
+  :mod:`isolation.design_asce7`, the Eurocode 8 simplified procedure in
+  :mod:`isolation.design_eurocode`; both import from this module, never the
+  other way round.
 
 Scope: concept-stage feasibility, not construction design. Clause numbers
 marked "from memory" were not re-read; a licensed engineer checks every value
@@ -38,29 +40,7 @@ __all__ = [
     "equivalent_linear",
     "BoundsResult",
     "design_bounds",
-    "ElfBuilding",
-    "StoreyForce",
-    "ElfReport",
-    "asce7_elf",
 ]
-
-# Names defined in isolation.design_asce7 and served from here on first use
-# (PEP 562). A lazy lookup avoids a circular import: design_asce7 builds on
-# BoundsResult and design_bounds from this module. The private helpers are
-# used by isolation.design_eurocode.
-_FROM_ASCE7 = frozenset({"Item", "ElfBuilding", "StoreyForce", "ElfReport", "asce7_elf", "_force", "_unit"})
-
-
-def __getattr__(name: str) -> Any:
-    if name in _FROM_ASCE7:
-        from isolation import design_asce7
-
-        return getattr(design_asce7, name)
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-
-
-def __dir__() -> list[str]:
-    return sorted(set(globals()) | _FROM_ASCE7)
 
 
 def _plain(value: Any) -> Any:
@@ -79,6 +59,30 @@ def _plain(value: Any) -> Any:
 class _ToDict:
     def to_dict(self) -> dict:
         return {f.name: _plain(getattr(self, f.name)) for f in fields(self)}
+
+
+@dataclass(frozen=True)
+class Item(_ToDict):
+    """A reported quantity with its symbol, unit and source."""
+
+    name: str
+    symbol: str
+    value: float | None
+    unit: str
+    source: str
+    note: str = ""
+
+
+def _unit(check) -> str:
+    """Unit suffix of a bearing/design Check for messages ("" for "-")."""
+    return "" if check.unit == "-" else f" {check.unit}"
+
+
+def _force(system, d: float) -> float:
+    """Force of a whole-plane system at displacement d [m], in kN."""
+    if callable(getattr(system, "force", None)):
+        return float(system.force(d))
+    return float(system.effective_stiffness(d)) * d
 
 
 # --- the iteration -------------------------------------------------------------------

@@ -4,8 +4,7 @@
 property set and reports D_M, D_TM with torsion, moat width, V_b, V_st, V_s
 with its limits, storey forces, a drift estimate, the restoring-force check
 and the ELF applicability checks (each failure says that response-history
-analysis is required). Every public name is also importable from
-:mod:`isolation.design`.
+analysis is required). :class:`isolation.design.Item` is re-exported here.
 
 Scope: concept-stage feasibility, not construction design. Clause numbers
 marked "from memory" were not re-read; a licensed engineer checks every value
@@ -27,7 +26,7 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
-from isolation.design import BoundsResult, _ToDict, design_bounds
+from isolation.design import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 from isolation.fixed_base import FixedBaseShear, approximate_period, fixed_base_shear
 
 __all__ = [
@@ -40,18 +39,6 @@ __all__ = [
 
 ASCE = "ASCE/SEI 7-16"
 _RHA = "ELF not permitted: response-history analysis is required"
-
-
-@dataclass(frozen=True)
-class Item(_ToDict):
-    """A reported quantity with its symbol, unit and source."""
-
-    name: str
-    symbol: str
-    value: float | None
-    unit: str
-    source: str
-    note: str = ""
 
 
 # --- the ASCE 7 equivalent lateral force report ---------------------------------------
@@ -203,16 +190,6 @@ class ElfReport(_ToDict):
             if item.symbol == symbol:
                 return item.value
         raise KeyError(f"symbol = {symbol!r} is not in the report: known {[i.symbol for i in self.quantities]}")
-
-
-def _unit(check: Check) -> str:
-    return "" if check.unit == "-" else f" {check.unit}"
-
-
-def _force(system, d: float) -> float:
-    if callable(getattr(system, "force", None)):
-        return float(system.force(d))
-    return float(system.effective_stiffness(d)) * d
 
 
 def _activation_force(system) -> float | None:

@@ -1,6 +1,6 @@
 """Eurocode 8 simplified linear analysis of an isolated building (EN 1998-1 §10.9).
 
-The alternative rule set to the ASCE/SEI 7 report in :mod:`isolation.design`:
+The alternative rule set to the ASCE/SEI 7 report in :mod:`isolation.design_asce7`:
 effective damping enters through eta (rule ``"eurocode"``), the design
 displacement of the stiffness centre is d_dc = M Se(T_eff, xi_eff)/K_eff,min,
 torsion amplifies it at the corner isolator, and each isolator is designed

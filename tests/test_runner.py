@@ -185,14 +185,19 @@ def test_tabulated_spectrum_gives_the_code_answer(tmp_path):
     assert results.spectrum["definition"]["kind"] == "tabulated"
 
 
-def test_eurocode_basis_runs():
-    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode"})
+def eurocode_demo(**overrides):
+    """The demo study on an EN 1998-1 Type 1 spectrum, ground B, a_g 0.3 g, first alternative only."""
+    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode", **overrides})
     site = mapping["site"]
     for key in ("sms", "sm1", "long_period", "s1", "site_class"):
         del site[key]
     site.update(ag=0.3, ground_type="B", spectrum_type=1)
     mapping["alternative"] = mapping["alternative"][:1]
-    study = parse_study(mapping, source=str(DEMO))
+    return parse_study(mapping, source=str(DEMO))
+
+
+def test_eurocode_basis_runs():
+    study = eurocode_demo()
     results = run_study(study, quick=True)
     fp = results.alternatives[0]
     assert fp.outcome in OUTCOMES
@@ -205,6 +210,28 @@ def test_eurocode_basis_runs():
     d_expected = GRAVITY * 1.5 * se * t**2 / (4 * math.pi**2)
     assert t > 2.0
     assert q["displacement"] == pytest.approx(d_expected, rel=0.01)
+    # EN 1998-1 §3.2.3.1.2(4) (from memory): the suite mean is checked from 0.2 T to 2 T. With
+    # T > 2 s that range passes the 4 s end of §3.2.2.2, so the spectrum's 1/T^2 branch is
+    # extended (stated in the results) and the range lies inside the matched band.
+    assert "checked over its whole band" not in results.suite["note"]
+    assert results.suite["check"]["check_range_s"][1] == pytest.approx(2.0 * t, rel=1e-9)
+    assert results.spectrum["definition"]["max_period"] == 10.0
+    assert "Annex A is not implemented" in results.spectrum["note"]
+
+
+def test_eurocode_suite_band_reaches_twice_a_long_isolated_period():
+    # A 6 m pendulum: T = 2 pi sqrt(R_eff/g) = 4.8 s before friction, so T_M (lower bound) > 3 s and
+    # the EN 1998-1 §3.2.3.1.2(4) check range up to 2 T_M (from memory) passes 6 s, the default end
+    # of the matched band; the band must be widened to it instead of dropping the T_M check range.
+    results = run_study(eurocode_demo(**{"alternative.0.bearings.0.radius": "6.0 m",
+                                         "alternative.0.bearings.0.displacement_capacity": "1.2 m"}), quick=True)
+    q = results.alternatives[0].quantities
+    t_lower, t_upper = q["period_lower"], q["period_upper"]
+    assert t_lower > 3.0
+    assert results.suite["note"] == ""
+    low, high = results.suite["check"]["check_range_s"]
+    assert (low, high) == (pytest.approx(0.2 * t_upper, rel=1e-9), pytest.approx(2.0 * t_lower, rel=1e-9))
+    assert high > 6.0
 
 
 def test_time_step_too_coarse_for_the_building_is_bad_input():

@@ -1,0 +1,184 @@
+"""The validated inputs of a study: frozen dataclasses in internal units.
+
+:func:`isolation.study.load_study` / :func:`isolation.study.parse_study` build
+them from a study file and raise :class:`StudyError` listing every problem.
+All names here are re-exported from :mod:`isolation.study`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field
+from typing import Any
+
+from isolation.errors import InputError
+
+__all__ = ["StudyError", "Project", "Site", "Building", "BearingSpec", "Alternative", "Analysis", "Study"]
+
+
+class StudyError(InputError):
+    """A study file with one or more problems; ``problems`` lists each one."""
+
+    def __init__(self, problems: list[str], source: str = "") -> None:
+        self.problems = list(problems)
+        self.source = source
+        where = f"{source}: " if source else ""
+        if len(problems) == 1:
+            message = f"{where}{problems[0]}"
+        else:
+            listed = "; ".join(f"({i}) {p}" for i, p in enumerate(problems, 1))
+            message = f"{where}{len(problems)} problems: {listed}"
+        super().__init__(message)
+
+
+@dataclass(frozen=True)
+class Project:
+    """Names printed on the report's title page (invented in examples)."""
+
+    name: str
+    client: str
+    prepared_by: str
+    revision: str
+    date: str  # ISO date, YYYY-MM-DD
+
+
+@dataclass(frozen=True)
+class Site:
+    """Site hazard in g and s; which fields are set depends on the code basis.
+
+    ``sms``, ``sm1`` [g], ``long_period`` [s], ``s1`` [g], ``site_class``
+    for ASCE 7; ``ag`` [g], ``ground_type``, ``spectrum_type`` for Eurocode;
+    ``spectrum_periods`` [s] / ``spectrum_values`` [g, 5 % damped] when a
+    tabulated spectrum file was given (``spectrum_file`` is its resolved path).
+    """
+
+    near_fault: bool = False
+    sms: float | None = None
+    sm1: float | None = None
+    long_period: float | None = None
+    s1: float | None = None
+    site_class: str | None = None
+    ag: float | None = None
+    ground_type: str | None = None
+    spectrum_type: int | None = None
+    spectrum_file: str | None = None
+    spectrum_periods: tuple = ()
+    spectrum_values: tuple = ()
+
+
+@dataclass(frozen=True)
+class Building:
+    """Superstructure above the isolation plane, internal units.
+
+    ``floor_weights`` [kN] from level 1 to the roof, ``base_weight`` [kN] of
+    the floor just above the isolators, ``storey_heights`` [m],
+    ``fixed_base_period`` [s] or None (code estimate), ``plan_length`` and
+    ``plan_width`` [m], ``eccentricity`` [m], ``damping`` [-].
+    """
+
+    storeys: int
+    floor_weights: tuple
+    base_weight: float
+    storey_heights: tuple
+    lateral_system: str
+    response_modification: float
+    importance: float
+    plan_length: float
+    plan_width: float
+    fixed_base_period: float | None = None
+    eccentricity: float = 0.0
+    damping: float = 0.05
+
+    @property
+    def total_weight(self) -> float:
+        """Seismic weight above the isolators, base floor included. [kN]"""
+        return self.base_weight + sum(self.floor_weights)
+
+    @property
+    def height(self) -> float:
+        """Height of the roof above the isolation plane. [m]"""
+        return float(sum(self.storey_heights))
+
+
+@dataclass(frozen=True)
+class BearingSpec:
+    """One group of identical bearings: ``type``, ``count``, ``axial_load``
+    per bearing [kN] (equal share when not given) and the type's
+    ``properties`` in internal units (see ``BEARING_KEYS``)."""
+
+    type: str
+    count: int
+    axial_load: float
+    properties: dict = field(default_factory=dict)
+    axial_load_given: bool = False
+
+
+@dataclass(frozen=True)
+class Alternative:
+    """One isolation alternative: bearing groups, bounds and moat.
+
+    ``moat`` [m] is the clear gap provided around the isolated building (None
+    when not yet fixed); ``lower_factor`` / ``upper_factor`` [-] are the
+    property modification factors applied to the bearings' nominal properties.
+    """
+
+    name: str
+    bearings: tuple
+    lower_factor: float
+    upper_factor: float
+    moat: float | None = None
+
+    @property
+    def count(self) -> int:
+        """Number of bearings in all groups. [-]"""
+        return sum(group.count for group in self.bearings)
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Analysis options: ``suite_size`` (7 or 11), ``seed``, ``duration`` [s],
+    ``time_step`` [s], ``damping`` [-] of the matched spectra."""
+
+    suite_size: int = 7
+    seed: int = 0
+    duration: float = 30.0
+    time_step: float = 0.005
+    damping: float = 0.05
+
+
+@dataclass(frozen=True)
+class Study:
+    """A validated study in internal units (kN, m, s, kPa, g).
+
+    ``units`` is the system used for input and display; ``wind_base_shear``
+    [kN] is None when the study gives no wind load; ``source`` names the file.
+    """
+
+    project: Project
+    basis: str
+    units: str
+    site: Site
+    building: Building
+    alternatives: tuple
+    analysis: Analysis
+    wind_base_shear: float | None = None
+    source: str = ""
+
+    def alternative(self, name: str) -> Alternative:
+        """The alternative called ``name``."""
+        for alternative in self.alternatives:
+            if alternative.name == name:
+                return alternative
+        names = ", ".join(repr(a.name) for a in self.alternatives)
+        raise InputError(f"alternative = {name!r} is not allowed: must be one of {names}")
+
+    def to_dict(self) -> dict:
+        """Plain JSON types (lists, not tuples), internal units."""
+        return _plain(asdict(self))
+
+
+def _plain(value: Any) -> Any:
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    return value

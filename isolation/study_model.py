@@ -1,0 +1,218 @@
+"""Model objects and code reports built from a validated study.
+
+The building blocks of :func:`isolation.runner.run_study` (re-exported from
+:mod:`isolation.runner`):
+
+* :func:`site_spectrum` - the site spectrum of the code basis (ASCE/SEI 7-16
+  MCE_R, EN 1998-1 elastic with its 1/T^2 branch extended to
+  :data:`EUROCODE_MAX_PERIOD`, or a tabulated spectrum);
+* :func:`isolation_system` - bearing groups and property factors;
+* :func:`fixed_base_period` and :func:`superstructure` - the fixed-base
+  period and the shear building above the isolators;
+* :func:`check_study` - checks of a valid study against its own models;
+* ``_design`` - the code's single-mode report for all property sets, and
+  ``_figures`` - the numbers of :class:`isolation.verdict.Figures`.
+
+Scope: a feasibility study, not construction design; a licensed engineer
+checks every value against the governing local code.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from isolation import GRAVITY
+from isolation import verdict as _verdict
+from isolation.study import Alternative, Study
+
+__all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
+           "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
+
+_FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
+           "braced_frame": "braced", "other": "other"}
+
+EUROCODE_MAX_PERIOD = 10.0
+"""Longest period of a study's Eurocode site spectrum [s]: EN 1998-1 §3.2.2.2 ends at 4 s,
+but the suite-mean check (up to 2 T_M) and the matched band (up to max(6 s, 1.5 T_M)) of
+isolated buildings reach beyond it, so the T_C T_D/T^2 branch is continued to 10 s."""
+
+EUROCODE_SPECTRUM_NOTE = ("EN 1998-1 elastic spectrum: beyond 4 s its T_C T_D/T^2 branch is extended to "
+                          f"{EUROCODE_MAX_PERIOD:g} s (constant spectral displacement); the displacement "
+                          "spectrum of EN 1998-1 Annex A is not implemented")
+"""Assumption stated in the results of a study on a Eurocode (not tabulated) spectrum."""
+
+
+def site_spectrum(study: Study):
+    """The study's MCE_R (ASCE 7) or elastic (Eurocode) site spectrum object.
+
+    A Eurocode spectrum answers up to :data:`EUROCODE_MAX_PERIOD` (its 1/T^2
+    branch extended beyond 4 s, see :class:`isolation.spectra.EurocodeSpectrum`)
+    so that motion matching reaches twice the isolated period.
+    """
+    from isolation.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+
+    site = study.site
+    rule = "asce7" if study.basis == "asce7" else "eurocode"
+    if site.spectrum_periods:
+        return TabulatedSpectrum(site.spectrum_periods, site.spectrum_values, rule=rule)
+    if study.basis == "asce7":
+        return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period)
+    return EurocodeSpectrum(site.ag, ground=site.ground_type, spectrum_type=site.spectrum_type,
+                            importance=study.building.importance, max_period=EUROCODE_MAX_PERIOD)
+
+
+def isolation_system(alternative: Alternative):
+    """Bearing groups and property factors of one alternative."""
+    from isolation.bearings import (BearingGroup, DoubleConcave, FrictionPendulum, HighDampingRubber,
+                                    IsolationSystem, LeadRubber, PropertyFactors)
+
+    kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
+             "lead_rubber": LeadRubber, "high_damping_rubber": HighDampingRubber}
+    groups = []
+    for i, spec in enumerate(alternative.bearings):
+        properties = {k: v for k, v in spec.properties.items()}
+        bearing = kinds[spec.type](**properties)
+        groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
+                                   name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
+    bound = (alternative.lower_factor, alternative.upper_factor)
+    return IsolationSystem(tuple(groups), PropertyFactors(stiffness=bound, strength=bound, friction=bound))
+
+
+def fixed_base_period(study: Study) -> tuple[float, str]:
+    """Fixed-base period [s] and where it came from (given or the code's estimate)."""
+    building = study.building
+    if building.fixed_base_period is not None:
+        return building.fixed_base_period, "given in the study"
+    frame = _FRAMES[building.lateral_system]
+    if study.basis == "eurocode":
+        from isolation.design_eurocode import eurocode_approximate_period
+        return eurocode_approximate_period(building.height, frame), "EN 1998-1 §4.3.3.2.2 estimate"
+    from isolation.fixed_base import approximate_period
+    return approximate_period(building.height, frame), "ASCE/SEI 7-16 Eq. 12.8-7 (T_a = C_t h^x)"
+
+
+def superstructure(study: Study):
+    """Shear building above the isolators: floor masses [t], storey heights [m],
+    storey stiffnesses falling linearly with height, scaled to the fixed-base period."""
+    from isolation.structure import ShearBuilding
+
+    building = study.building
+    masses = [w / GRAVITY for w in building.floor_weights]
+    period, _ = fixed_base_period(study)
+    return ShearBuilding.from_period(period, masses, building.storey_heights, profile="linear",
+                                     damping=building.damping)
+
+
+def _design(study: Study, sets: dict, system, spectrum, t_fb: float):
+    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons)."""
+    b = study.building
+    if study.basis == "asce7":
+        from isolation.design_asce7 import ElfBuilding, asce7_elf
+
+        elevations = tuple(np.cumsum(b.storey_heights).tolist())
+        # Without a mapped S_1, S_M1 stands in (conservative for the ELF limit S_1 < 0.6 g where
+        # F_v >= 1); for a tabulated spectrum, its S_M1 equivalent max(T Sa) over 1-5 s.
+        s1 = study.site.s1
+        if s1 is None:
+            from isolation.fixed_base import design_values
+            s1 = study.site.sm1 if study.site.sm1 is not None else 1.5 * design_values(spectrum)[1]
+        elf = ElfBuilding(base_weight=b.base_weight, floor_weights=b.floor_weights, floor_elevations=elevations,
+                          plan_length=b.plan_length, plan_width=b.plan_width,
+                          response_modification=b.response_modification, eccentricity=b.eccentricity,
+                          isolator_kind="sliding" if system.is_sliding else "other", fixed_base_period=t_fb,
+                          frame=_FRAMES[b.lateral_system], importance=b.importance,
+                          wind_base_shear=study.wind_base_shear or 0.0, s1=s1, site_class=study.site.site_class)
+        report = asce7_elf(sets, elf, spectrum)
+        names = {"displacement": "D_M", "total_displacement": "D_TM", "isolation_shear": "V_b",
+                 "superstructure_shear": "V_s", "fixed_base_shear": "V_fb", "shear_ratio": "V_s/V_fb"}
+        applicability = getattr(report, "applicability", None)
+        if applicability is None:  # older report layout: ELF limits among the checks
+            applicability = [c for c in report.checks if "response-history" in getattr(c, "consequence", "")]
+        reasons = tuple(c.name for c in applicability if not c.passed)
+        return report, {k: report.value(v) for k, v in names.items()}, report.elf_permitted, reasons
+    from isolation.design_eurocode import EurocodeBuilding, eurocode_simplified
+
+    ec = EurocodeBuilding(weight=b.total_weight, superstructure_period=t_fb, plan_length=b.plan_length,
+                          plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
+                          behaviour_factor=b.response_modification)
+    report = eurocode_simplified(sets, ec, spectrum)
+    names = {"displacement": "d_dc", "total_displacement": "d_d", "isolation_shear": "V",
+             "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
+    quantities = {}
+    for key, symbol in names.items():
+        try:
+            quantities[key] = report.value(symbol)
+        except KeyError:
+            quantities[key] = None
+    reasons = tuple(c.name for c in report.applicability if not c.passed)
+    return report, quantities, report.simplified_permitted, reasons
+
+
+def check_study(study: Study) -> None:
+    """Checks of a valid study against its own models, before anything runs.
+
+    Raises :class:`isolation.errors.InputError` naming the key when the time
+    step cannot resolve the superstructure or a bearing cannot be built.
+    """
+    from isolation.errors import InputError
+
+    _check_time_step(study, superstructure(study))
+    for i, alternative in enumerate(study.alternatives):
+        try:
+            isolation_system(alternative)
+        except ValueError as error:
+            raise InputError(f"alternative[{i}] ({alternative.name!r}): {' '.join(str(error).split())}") from None
+
+
+def _check_time_step(study: Study, structure) -> None:
+    """analysis.time_step must resolve the superstructure's shortest mode (dt <= T_min/10)."""
+    from isolation.errors import InputError
+    from isolation.history import DT_FRACTION
+
+    shortest = float(np.min(structure.modal().periods))
+    limit = shortest / DT_FRACTION
+    if study.analysis.time_step > limit:
+        raise InputError(f"analysis.time_step = {study.analysis.time_step:g} s is not allowed for this "
+                         f"building: must be <= T_min/{DT_FRACTION:g} = {limit:.4g} s (T_min = {shortest:.4g} s, "
+                         "its shortest fixed-base period)")
+
+
+def _plateau(spectrum) -> float:
+    periods = np.linspace(0.1, 0.6, 26)
+    low, high = spectrum.period_range
+    periods = periods[(periods >= low) & (periods <= high)]
+    return float(np.max(spectrum.sa(periods))) if periods.size else float(spectrum.sa(max(low, 0.2)))
+
+
+def _figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
+    """The verdict's numbers for one alternative (see :class:`isolation.verdict.Figures`)."""
+    b = study.building
+    upper = bounds["upper"]
+    # Overturning: V_b at the effective height of the code's force distribution, rigid body on
+    # a uniform bearing field across the width B: dP/P = 6 M/(W B) (derived); net gravity
+    # (1 - 0.2 S_MS), vertical earthquake after ASCE/SEI 7-16 §12.4.2.2 (from memory), with the
+    # spectrum plateau standing for S_MS.
+    heights = np.cumsum(b.storey_heights)
+    forces = [s.force for s in getattr(report, "storey_forces", ())]
+    if forces and sum(forces) > 0:
+        effective_height = float(np.dot(forces, heights) / sum(forces))
+    else:
+        effective_height = 2.0 / 3.0 * b.height
+    moment = upper.base_shear * effective_height
+    net = max(1.0 - 0.2 * _plateau(spectrum), 1e-6)
+    uplift = 6.0 * moment / (b.total_weight * b.plan_width) / net
+    ratio = float(spectrum.sa(upper.period, upper.damping)) / float(spectrum.sa(t_fb, 0.05))
+    drift_limit, drift_source = 0.020, "ASCE/SEI 7-16 §17.6.4.4, MCE_R response-history analysis (from memory)"
+    return _verdict.Figures(
+        alternative=alternative.name, fixed_base_period=t_fb, isolated_period=upper.period,
+        total_displacement=q["total_displacement"], displacement_capacity=q["displacement_capacity"],
+        moat=alternative.moat, history_displacement=summary["isolator_displacement_with_torsion"],
+        base_shear_ratio=summary["superstructure_shear_ratio"], design_shear_ratio=q["shear_ratio"],
+        floor_acceleration_ratio=summary["floor_acceleration_ratio"],
+        drift_ratio=summary["drift_ratio_isolated"], drift_limit=drift_limit, drift_source=drift_source,
+        uplift_ratio=uplift, slenderness=b.height / b.plan_width,
+        site_class=study.site.site_class or study.site.ground_type, basis=study.basis,
+        near_fault=study.site.near_fault, spectral_ratio=ratio, wind_base_shear=study.wind_base_shear,
+        characteristic_strength=q["characteristic_strength"], elf_permitted=permitted,
+        elf_reasons=tuple(reasons), failed_checks=tuple(c.name for c in checks if not c.passed),
+        effective_damping=max(r.damping for r in bounds.values()), units=study.units)

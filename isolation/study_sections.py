@@ -1,0 +1,259 @@
+"""Readers of the tables of a study file, one per table, each building one input.
+
+Each reader takes the :class:`isolation.study_keys.Reader` of its table (None
+when the table is missing), reads and checks its keys, reports unknown keys and
+returns the dataclass of :mod:`isolation.study_inputs` (None when it failed).
+:func:`isolation.study.parse_study` calls them in order.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+from pathlib import Path
+from typing import Any
+
+from isolation.study_inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
+from isolation.study_keys import BEARING_KEYS, Problems, Reader
+
+__all__ = ["LATERAL_SYSTEMS"]
+
+
+def _project(t: Reader | None) -> Project | None:
+    if t is None:
+        return None
+    values = dict(
+        name=t.text("name"), client=t.text("client"), prepared_by=t.text("prepared_by"),
+        revision=t.text("revision", allow_int=True), date=t.date("date"),
+    )
+    t.done()
+    return Project(**values)
+
+
+def _basis(t: Reader | None) -> str:
+    if t is None:
+        return "asce7"
+    basis = t.choice("basis", ("asce7", "eurocode"))
+    t.done()
+    return basis or "asce7"
+
+
+def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
+    if t is None:
+        return None
+    values: dict[str, Any] = {"near_fault": t.boolean("near_fault", required=False, default=False)}
+    tabulated = "spectrum_file" in t.mapping
+    t.known.add("spectrum_file")
+    if tabulated:
+        name = t.text("spectrum_file")
+        if name:
+            path = (base_dir / name) if not Path(name).is_absolute() else Path(name)
+            table = _read_spectrum_table(path, t.path_of("spectrum_file"), t.problems)
+            if table:
+                values["spectrum_file"] = str(path)
+                values["spectrum_periods"], values["spectrum_values"] = table
+        shape_keys = ("sms", "sm1", "long_period") if basis == "asce7" else ("ag", "spectrum_type")
+        for key in shape_keys:
+            if key in t.mapping:
+                t.problems.add(f"{t.path_of(key)} = {t.mapping[key]!r} is not allowed together with "
+                               f"site.spectrum_file: give either the spectrum file or the code parameters")
+                t.used.add(key)
+    if basis == "asce7":
+        if not tabulated:
+            values["sms"] = t.number("sms", low=0.0, high=5.0, low_inclusive=False, unit="g")
+            values["sm1"] = t.number("sm1", low=0.0, high=5.0, low_inclusive=False, unit="g")
+            values["long_period"] = t.quantity("long_period", "time", low=1.0, high=20.0,
+                                               required=False, default=8.0)
+        values["s1"] = t.number("s1", low=0.0, high=5.0, unit="g", required=False)
+        values["site_class"] = t.choice("site_class", ("A", "B", "C", "D", "E", "F"))
+        if not tabulated and isinstance(values.get("sms"), float) and isinstance(values.get("sm1"), float):
+            tl = values.get("long_period")
+            if isinstance(tl, float) and tl <= values["sm1"] / values["sms"]:
+                t.problems.add(f"site.long_period = {tl:g} s is not allowed: must exceed "
+                               f"T_S = sm1/sms = {values['sm1'] / values['sms']:.3g} s")
+    else:
+        if not tabulated:
+            values["ag"] = t.number("ag", low=0.0, high=1.5, low_inclusive=False, unit="g")
+            values["spectrum_type"] = t.choice("spectrum_type", (1, 2), required=False, default=1)
+        values["ground_type"] = t.choice("ground_type", ("A", "B", "C", "D", "E"))
+    t.done()
+    return Site(**values)
+
+
+def _read_spectrum_table(path: Path, key: str, problems: Problems):
+    """Two columns: period [s], Sa [g] at 5 % damping; an optional header line."""
+    try:
+        lines = path.read_text(encoding="utf-8").splitlines()
+    except OSError:
+        problems.add(f"{key} = {str(path)!r} is not allowed: must name an existing CSV file "
+                     "(relative to the study file) with columns period [s], Sa [g]")
+        return None
+    periods, values = [], []
+    for number, row in enumerate(csv.reader(lines), 1):
+        if not row or not "".join(row).strip() or row[0].lstrip().startswith("#"):
+            continue
+        try:
+            t_value, sa_value = (float(x) for x in row[:2])
+            if len(row) != 2:
+                raise ValueError
+        except ValueError:
+            if not periods and number == 1:
+                continue  # header line
+            problems.add(f"{key}: line {number} = {','.join(row)!r} is not allowed: "
+                         "must be two numbers, period [s] and Sa [g]")
+            return None
+        periods.append(t_value)
+        values.append(sa_value)
+    if len(periods) < 2:
+        problems.add(f"{key} = {str(path)!r} is not allowed: must hold at least 2 rows period [s], Sa [g]")
+        return None
+    bad = [i for i in range(len(periods)) if not (math.isfinite(periods[i]) and math.isfinite(values[i])
+                                                  and periods[i] >= 0 and values[i] > 0)]
+    rising = all(b > a for a, b in zip(periods, periods[1:]))
+    if bad or not rising:
+        problems.add(f"{key} = {str(path)!r} is not allowed: periods must be >= 0 and strictly "
+                     "increasing and Sa values > 0 [s, g]")
+        return None
+    return tuple(periods), tuple(values)
+
+
+LATERAL_SYSTEMS = ("steel_moment_frame", "concrete_moment_frame", "braced_frame", "other")
+"""Lateral systems for the code's approximate fixed-base period (ASCE/SEI 7-16 Table 12.8-2)."""
+
+
+def _building(t: Reader | None, basis: str) -> Building | None:
+    if t is None:
+        return None
+    storeys = t.integer("storeys", low=1, high=40)
+    count = storeys if isinstance(storeys, int) else None
+    values = dict(
+        storeys=storeys,
+        floor_weights=t.quantity_list("floor_weights", "weight", length=count, low=0.0,
+                                      low_inclusive=False),
+        base_weight=t.quantity("base_weight", "weight", low=0.0, low_inclusive=False),
+        storey_heights=t.quantity_list("storey_heights", "length", length=count, low=1.5, high=20.0),
+        lateral_system=t.choice("lateral_system", LATERAL_SYSTEMS),
+        response_modification=t.number("response_modification", low=1.0, high=8.0),
+        importance=t.number("importance", low=0.8, high=1.5, required=False, default=1.0),
+        plan_length=t.quantity("plan_length", "length", low=1.0, high=500.0),
+        plan_width=t.quantity("plan_width", "length", low=1.0, high=500.0),
+        fixed_base_period=t.quantity("fixed_base_period", "time", low=0.02, high=10.0, required=False),
+        eccentricity=t.quantity("eccentricity", "length", low=0.0, required=False, default=0.0),
+        damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05),
+    )
+    length, width = values["plan_length"], values["plan_width"]
+    if isinstance(width, float) and isinstance(length, float) and width > length:
+        t.problems.add(f"building.plan_width = {width:g} m is not allowed: must not exceed "
+                       f"building.plan_length = {length:g} m (length is the longer side)")
+    ecc = values["eccentricity"]
+    if isinstance(ecc, float) and isinstance(length, float) and ecc > 0.5 * length:
+        t.problems.add(f"building.eccentricity = {ecc:g} m is not allowed: must be at most half the "
+                       f"plan length ({0.5 * length:g} m)")
+    t.done()
+    if t.failed():
+        return None
+    return Building(**values)
+
+
+def _analysis(t: Reader | None) -> Analysis:
+    if t is None:
+        return Analysis()
+    values = dict(
+        suite_size=t.choice("suite_size", (7, 11), required=False, default=7),
+        seed=t.integer("seed", low=0, high=2**32 - 1, required=False, default=0),
+        duration=t.quantity("duration", "time", low=5.0, high=120.0, required=False, default=30.0),
+        time_step=t.quantity("time_step", "time", low=0.001, high=0.02, required=False, default=0.005),
+        damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05),
+    )
+    t.done()
+    if t.failed():
+        return Analysis()
+    return Analysis(**values)
+
+
+def _alternatives(tables: list | None, total_weight: float | None) -> tuple:
+    if not tables:
+        return ()
+    alternatives, names = [], set()
+    for t in tables:
+        name = t.text("name")
+        if isinstance(name, str):
+            if name in names:
+                t.problems.add(f"{t.path_of('name')} = {name!r} is not allowed: alternative names must be unique")
+            names.add(name)
+        moat = t.quantity("moat", "length", low=0.0, high=5.0, low_inclusive=False, required=False)
+        factors = t.table("property_factors", required=False)
+        lower, upper = 0.85, 1.2
+        if factors is not None:
+            lower = factors.number("lower", low=0.3, high=1.0, required=False, default=lower)
+            upper = factors.number("upper", low=1.0, high=3.0, required=False, default=upper)
+            factors.done()
+        groups = t.array_of_tables("bearings") or []
+        specs = [_bearing_group(g) for g in groups]
+        t.done()
+        if not specs or any(s is None for s in specs) or not isinstance(name, str):
+            continue
+        specs = _share_axial_loads(specs, total_weight, t)
+        alternatives.append(Alternative(name=name, bearings=tuple(specs), lower_factor=lower,
+                                        upper_factor=upper, moat=moat))
+    return tuple(alternatives)
+
+
+def _bearing_group(t: Reader) -> BearingSpec | None:
+    kind = t.choice("type", tuple(BEARING_KEYS))
+    count = t.integer("count", low=1, high=2000)
+    axial = t.quantity("axial_load", "force", low=0.0, low_inclusive=False, required=False)
+    properties = {}
+    if kind in BEARING_KEYS:
+        for key, spec in BEARING_KEYS[kind].items():
+            value = t.by_spec(key, spec)
+            if value is not None:
+                properties[key] = value
+        _cross_check_bearing(t, kind, properties)
+        t.done()  # unknown keys are judged only when the type is known
+    if kind not in BEARING_KEYS or not isinstance(count, int) or t.failed():
+        return None
+    return BearingSpec(type=kind, count=count, axial_load=axial or 0.0, properties=properties,
+                       axial_load_given=axial is not None)
+
+
+def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
+    """Checks between keys of one bearing group."""
+    pairs = []
+    if kind == "friction_pendulum":
+        pairs = [("slider_height", "radius", "m"), ("friction_slow", "friction", "-")]
+    elif kind == "double_concave":
+        pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
+    elif kind == "lead_rubber":
+        pairs = [("lead_diameter", "outer_diameter", "m")]
+    elif kind == "high_damping_rubber":
+        pairs = [("inner_diameter", "outer_diameter", "m")]
+    for small, large, unit in pairs:
+        a, b = props.get(small), props.get(large)
+        if a is None or b is None:
+            continue
+        strict = small != "friction_slow"
+        if (a >= b) if strict else (a > b):
+            relation = "<" if strict else "<="
+            t.problems.add(f"{t.path_of(small)} = {a:.4g} {unit} is not allowed: must be {relation} "
+                           f"{large} = {b:.4g} {unit}")
+
+
+def _share_axial_loads(specs: list, total_weight: float | None, t: Reader) -> list:
+    given = [s.axial_load_given for s in specs]
+    if any(given) and not all(given):
+        t.problems.add(f"{t.path_of('bearings')}: axial_load is given for some bearing groups but not "
+                       "others: give it for every group or for none (equal share of the weight)")
+        return specs
+    if total_weight is None:
+        return specs
+    count = sum(s.count for s in specs)
+    if not any(given):
+        share = total_weight / count
+        return [BearingSpec(s.type, s.count, share, s.properties, False) for s in specs]
+    total = sum(s.count * s.axial_load for s in specs)
+    if not 0.5 * total_weight <= total <= 2.0 * total_weight:
+        t.problems.add(f"{t.path_of('bearings')}: the axial loads add up to {total:.4g} kN, which is not "
+                       f"allowed: must lie between 0.5 and 2 times the building weight "
+                       f"{total_weight:.4g} kN (check the units)")
+    return specs
