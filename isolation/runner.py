@@ -166,15 +166,24 @@ def load_results(path: str | Path) -> StudyResults:
     return StudyResults.from_dict(json.loads(Path(path).read_text(encoding="utf-8")))
 
 
-def _history_isolator(backbone, result):
-    """Backbone the history engine integrates: itself when bilinear / multi-linear,
-    else the bilinear with the same K_eff and damping at the design displacement."""
-    from isolation.bearings import Bilinear, MultiLinear
-    try:
-        from isolation.bearings.damping_rubber import equivalent_bilinear
-    except ImportError:  # older layout of the bearings package
-        from isolation.bearings.rubber import equivalent_bilinear
+def _history_isolator(backbone, result, system=None, case: str = "nominal"):
+    """Isolator law the history engine integrates for one property case.
 
+    A single group of friction pendulums whose friction depends on velocity
+    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
+    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
+    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
+    bilinear with the same K_eff and damping at the design displacement.
+    """
+    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
+    from isolation.bearings.damping_rubber import equivalent_bilinear
+
+    groups = getattr(system, "groups", ())
+    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
+        bearing = groups[0].bearing
+        if bearing.friction_slow != bearing.friction:
+            factor = 1.0 if case == "nominal" else getattr(system.factors.friction, case)
+            return bearing.with_friction_factor(factor)
     if isinstance(backbone, (Bilinear, MultiLinear)):
         return backbone
     return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
@@ -308,7 +317,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
     results, live_histories, live_reports = [], {"fixed": fixed}, {}
     for alternative, system, sets, report, quantities, permitted, reasons, checks in designs:
         bounds = report.bounds.results
-        isolators = {case: _history_isolator(sets[case], bounds[case]) for case in ("lower", "upper")}
+        isolators = {case: _history_isolator(sets[case], bounds[case], system, case)
+                     for case in ("lower", "upper")}
         try:
             histories = run_cases(structure, base_mass, isolators, suite.acceleration, suite.dt,
                                   include_fixed=False)
