@@ -25,7 +25,7 @@ bench: $(STAMP)
 # PDF reports need XeLaTeX and pandoc (Debian packages, about 0.7 GB).
 tex:
 	apt-get update -q && DEBIAN_FRONTEND=noninteractive apt-get install -y -q \
-	  texlive-xetex texlive-fonts-recommended texlive-plain-generic pandoc poppler-utils
+	  texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra pandoc poppler-utils
 
 clean-venv:
 	rm -rf $(VENV)

@@ -57,7 +57,9 @@ TITLE_FIELDS = ("title", "project", "client", "date", "revision", "prepared_by",
 REPORT_FIELDS_MIME = "application/vnd.isolation.report-fields+json"
 """Output type by which a workbook hands title-page fields to :func:`render`."""
 
-TEX_PACKAGES = ("texlive-xetex", "texlive-fonts-recommended", "texlive-plain-generic", "pandoc")
+TEX_PACKAGES = (
+    "texlive-xetex", "texlive-fonts-recommended", "texlive-plain-generic", "texlive-latex-extra", "pandoc",
+)
 """Debian packages the PDF report needs."""
 
 PAPERS = ("a4", "letter")

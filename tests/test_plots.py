@@ -141,7 +141,11 @@ def test_captioned_gives_png_and_caption():
     fig.add_subplot().plot([0, 1], [1, 0])
     data, meta = plots.captioned(fig, "A caption [m]", dpi=40)._repr_png_()
     assert data.startswith(PNG_SIGNATURE)
-    assert meta == {"caption": "A caption [m]"}
+    assert meta == {"caption": "A caption [m]", "caption_latex": "A caption [m]"}
+    # The report prints caption_latex: LaTeX specials escaped (Lamport §2.2.1), D_M as a subscript.
+    _, meta = plots.captioned(fig, "Loops at D_M & 5 %", dpi=40)._repr_png_()
+    assert meta["caption"] == "Loops at D_M & 5 %"
+    assert meta["caption_latex"] == r"Loops at \(D_{\mathrm{M}}\) \& 5 \%"
     with pytest.raises(ValueError, match="figure = .* matplotlib Figure"):
         plots.captioned("not a figure", "x")
 

@@ -3,15 +3,19 @@
 The notebooks here are built by hand with outputs already in place (no kernel),
 so each test checks the render pipeline alone. Outside references: page sizes
 of ISO 216 (A4 = 210 x 297 mm = 595.3 x 841.9 pt) and ANSI letter
-(8.5 x 11 in = 612 x 792 pt), read back with poppler's pdfinfo.
+(8.5 x 11 in = 612 x 792 pt), read back with poppler's pdfinfo; the text of
+the PDF as poppler's pdftotext extracts it, NFKC-normalised (Unicode Standard
+Annex #15) so math italic letters read as plain ones.
 """
 
 from __future__ import annotations
 
 import base64
 import os
+import re
 import shutil
 import subprocess
+import unicodedata
 import warnings
 
 import nbformat
@@ -62,10 +66,11 @@ def _notebook(path, *, extra_latex: str | None = None, paper: str | None = None)
         columns=("Bound", "D_M [m]", "T_M [s]"),
         rows=(("lower", 0.3127, 3.046), ("upper", 0.2514, 2.702)),
         caption="Equivalent-linear results for both bounds",
+        notes="Invented for the test; D_M at T_M.",
     )
     outputs = [
         new_output("stream", name="stdout", text=PRINTED + "\n"),
-        _png_output("Site spectrum & periods (5 % damping)"),
+        _png_output("Site spectrum & periods (5 % damping) with T_fb"),
         _table_output(table),
         new_output("display_data", data=report.title_block(project="Invented Hillside Depot",
                                                             client="Demo Client Board",
@@ -88,7 +93,10 @@ def _notebook(path, *, extra_latex: str | None = None, paper: str | None = None)
 def _text(pdf) -> str:
     raw = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True, text=True,
                          check=True).stdout
-    return " ".join(raw.split())  # one line: phrases may wrap in the PDF
+    # One line (phrases may wrap in the PDF); NFKC turns math italic letters (U+1D400 block) into plain
+    # ones; pdftotext puts a space after a subscript, before punctuation, which is dropped.
+    text = " ".join(unicodedata.normalize("NFKC", raw).split())
+    return re.sub(r" (?=[.,;:)])", "", text)
 
 
 def _page_size(pdf) -> tuple[float, float]:
@@ -134,6 +142,17 @@ def test_pdf_numbers_figures_and_tables_and_keeps_table_values(a4_report):
     # Table values rounded to 3 significant figures by isolation.tables.
     for number in ("0.313", "3.05", "0.251", "2.70"):
         assert number in text
+
+
+@pytest.mark.slow
+def test_pdf_sets_symbols_as_subscripts(a4_report):
+    _, text = a4_report
+    # Subscripts come out of pdftotext as plain letters after the base letter, with no underscore.
+    assert "Bound DM [m] TM [s]" in text
+    assert "with Tfb" in text  # figure caption
+    assert "Invented for the test; DM at TM." in text  # table notes
+    for plain in ("D_M", "T_M", "T_fb", "D\\_M"):
+        assert plain not in text
 
 
 @pytest.mark.slow
@@ -184,7 +203,8 @@ def test_html_fallback_when_tex_missing(tmp_path, monkeypatch):
     with pytest.warns(report.TexMissingWarning) as caught:
         path = report.render(source, tmp_path / "out", title_fields={"prepared_by": "J. Doe"})
     message = str(caught[0].message)
-    for package in ("texlive-xetex", "texlive-fonts-recommended", "texlive-plain-generic", "pandoc"):
+    for package in ("texlive-xetex", "texlive-fonts-recommended", "texlive-plain-generic", "texlive-latex-extra",
+                    "pandoc"):
         assert package in message
     assert path == tmp_path / "out" / "report.html"
     html = path.read_text()
@@ -232,4 +252,4 @@ def test_missing_or_broken_notebook_is_refused(tmp_path):
 def test_install_hint_names_the_debian_packages():
     hint = report.install_hint(["xelatex"])
     assert "xelatex" in hint
-    assert "apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic pandoc" in hint
+    assert "apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra pandoc" in hint

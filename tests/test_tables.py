@@ -4,11 +4,15 @@ Outside checks: markdown tables are parsed by mistune (the markdown library
 nbconvert uses, GFM table syntax); LaTeX's ten special characters and their
 escapes follow Lamport, "LaTeX: A Document Preparation System", 2nd ed.,
 §2.2.1 and the textcomp commands (from memory); significant-figure rounding
-is checked against hand-rounded values.
+is checked against hand-rounded values. Symbols: subscripts in TeX math
+syntax (Lamport §3.3.1, from memory), descriptive subscripts upright and index
+subscripts italic (ISO 80000-2, from memory); pandoc (the converter nbconvert
+uses for markdown in the PDF) must read the markdown form as TeX math.
 """
 
 from __future__ import annotations
 
+import json
 import math
 import re
 
@@ -49,7 +53,7 @@ def test_format_number(value, digits, text):
 def _table() -> Table:
     return Table(
         columns=("Bound", "D_M [m]", "T_M [s]", "Note"),
-        rows=(("lower", 0.31274, 3.046, "50% & $"), ("upper", 0.25, 2.7, "a_b #1")),
+        rows=(("lower", 0.31274, 3.046, "50% & $"), ("upper", 0.25, 2.7, "lead_rubber #1")),
         caption="Results {both} bounds",
         notes="Source: ASCE 7-16 §17.5.3.1",
     )
@@ -59,9 +63,10 @@ def test_markdown_parses_to_a_table_with_the_cells():
     html = mistune.create_markdown(plugins=["table"])(_table()._repr_markdown_())
     headers = re.findall(r"<th[^>]*>(.*?)</th>", html)
     cells = re.findall(r"<td[^>]*>(.*?)</td>", html)
-    assert headers == ["Bound", "D_M [m]", "T_M [s]", "Note"]
+    # Symbols as TeX math, which the notebook and the HTML report render with MathJax.
+    assert headers == ["Bound", r"$D_{\mathrm{M}}$ [m]", r"$T_{\mathrm{M}}$ [s]", "Note"]
     assert cells[:4] == ["lower", "0.313", "3.05", "50% &amp; $"]
-    assert cells[4:] == ["upper", "0.250", "2.70", "a_b #1"]
+    assert cells[4:] == ["upper", "0.250", "2.70", "lead_rubber #1"]  # a word, not a symbol
     assert "Results {both} bounds" in html
 
 
@@ -78,8 +83,11 @@ def test_latex_is_a_captioned_booktabs_table_with_escaped_cells():
     assert r"\toprule" in latex and r"\midrule" in latex and r"\bottomrule" in latex
     assert r"\begin{tabular}{@{}lrrr@{}}" in latex
     assert r"lower & 0.313 & 3.05 & 50\% \& \$ \\" in latex
-    assert r"upper & 0.250 & 2.70 & a\_b \#1 \\" in latex
+    assert r"upper & 0.250 & 2.70 & lead\_rubber \#1 \\" in latex
+    assert r"\textbf{\(D_{\mathrm{M}}\) [m]} & \textbf{\(T_{\mathrm{M}}\) [s]}" in latex
     assert r"Source: ASCE 7-16 §17.5.3.1" in latex
+    # Notes sit inside the table's own width.
+    assert r"\begin{threeparttable}" in latex and r"\item[] Source" in latex
 
 
 def test_escape_latex_of_the_ten_special_characters():
@@ -235,4 +243,117 @@ def test_verdict_suite_and_alternatives_tables():
     assert "required at least 1.10" in suite.notes and "met" in suite.notes
     alternatives = alternatives_table(results)
     assert alternatives.cells[0][:3] == ("Invented sliders", "friction pendulum", "12")
-    assert "R = 2.50" in alternatives.cells[0][3] and alternatives.cells[0][4] == "0.85 / 1.20"
+    # No-break spaces keep each size on one line; LaTeX writes them as ties.
+    assert "R\u00a0=\u00a02.50\u00a0m" in alternatives.cells[0][3] and alternatives.cells[0][4] == "0.85 / 1.20"
+    assert r"R~=~2.50~m" in alternatives._repr_latex_()
+
+
+# --- symbols as subscripts (one helper for tables, captions and workbook text) ----------------
+@pytest.mark.parametrize(
+    "plain, latex",
+    [
+        ("D_TM = 0.58 m", r"\(D_{\mathrm{TM}}\) = 0.58 m"),         # descriptive subscript upright
+        ("T_M/T_fb", r"\(T_{\mathrm{M}}\)/\(T_{\mathrm{fb}}\)"),
+        ("S_M1 (MCE_R)", r"\(S_{\mathrm{M1}}\) (\(\mathrm{MCE}_{\mathrm{R}}\))"),
+        ("beta_M and β_eff", r"\(\beta_{\mathrm{M}}\) and \(\beta_{\mathrm{eff}}\)"),
+        ("V_s,min,wind", r"\(V_{\mathrm{s,min,wind}}\)"),
+        ("F_x at level x", r"\(F_{x}\) at level x"),                # index subscript italic
+        ("T_C T_D/T^2", r"\(T_{\mathrm{C}}\) \(T_{\mathrm{D}}\)/\(T^{2}\)"),
+        ("lead_rubber & 5 %", r"lead\_rubber \& 5 \%"),              # a word, not a symbol: escaped
+        ("e_1x2y3z is long", r"e\_1x2y3z is long"),                  # subscript over 5 characters
+    ],
+)
+def test_symbols_as_latex(plain, latex):
+    from isolation.tables import latex_text
+
+    assert latex_text(plain) == latex
+
+
+def test_symbols_in_markdown_leave_math_and_code_alone():
+    from isolation.tables import markdown_text
+
+    assert markdown_text("**A:** D_TM = 0.5 m") == r"**A:** $D_{\mathrm{TM}}$ = 0.5 m"
+    assert markdown_text("kept $D_M$ and `T_M`") == "kept $D_M$ and `T_M`"
+
+
+def test_pandoc_reads_the_markdown_symbols_as_math(tmp_path):
+    # pandoc turns markdown cells into the PDF's LaTeX; its tex_math_dollars reading is the outside check.
+    import shutil
+    import subprocess
+
+    from isolation.tables import markdown_text
+
+    if shutil.which("pandoc") is None:
+        pytest.skip("pandoc missing")
+    text = markdown_text("Total D_TM = 0.584 m, T_M/T_fb = 4.6.")
+    latex = subprocess.run(["pandoc", "-f", "markdown", "-t", "latex"], input=text, capture_output=True,
+                           text=True, check=True).stdout
+    assert r"\(D_{\mathrm{TM}}\) = 0.584 m" in latex
+    assert r"\(T_{\mathrm{M}}\)/\(T_{\mathrm{fb}}\) = 4.6" in latex
+
+
+# --- the owner's summary (hand-made, invented numbers; expected values worked by hand) ----------
+def _two_alternatives(second_outcome: str, first_outcome: str = "feasible with conditions") -> dict:
+    results = _results()
+    first = results["alternatives"][0]
+    first["verdict"]["outcome"] = first_outcome
+    first["quantities"]["moat"] = 0.75
+    first["history"]["summary"].update(superstructure_shear_ratio=0.25, floor_acceleration_ratio=0.3)
+    second = json.loads(json.dumps(first))
+    second["name"] = second["verdict"]["alternative"] = "Invented rubber"
+    second["quantities"].update(total_displacement=0.45, period_lower=2.2, period_upper=1.9)
+    second["history"]["summary"].update(floor_acceleration_ratio=0.4, drift_ratio_isolated=0.005)
+    second["verdict"]["outcome"] = second_outcome
+    if second_outcome == "not recommended":
+        second["verdict"]["reasons"].append({"topic": "moat", "level": "against",
+                                             "message": "moat 0.40 m is narrower than D_TM", "source": "s3"})
+    results["alternatives"].append(second)
+    return results
+
+
+def test_summary_table_reads_the_results():
+    from isolation.tables import summary_table
+
+    table = summary_table(_two_alternatives("not recommended"))
+    assert table.columns == ("", "Invented sliders", "Invented rubber")
+    assert _row(table, "Verdict")[1:] == ("feasible with conditions", "not recommended")
+    assert _row(table, "Isolated period T_M, upper to lower bound [s]")[1:] == ("2.50 – 3.00", "1.90 – 2.20")
+    assert _row(table, "Total design displacement D_TM [m]")[1:] == ("0.600", "0.450")
+    assert _row(table, "Moat width [m]")[1:] == ("0.750", "0.750")
+    assert _row(table, "Base shear above the isolators [% of fixed base]")[1:] == ("25", "25")  # 0.25
+    assert _row(table, "Peak floor acceleration [% of fixed base]")[1:] == ("30", "40")  # 0.3, 0.4
+    # drift 0.003 and 0.005 isolated, 0.012 fixed base, in %
+    assert _row(table, "Peak storey drift ratio, isolated / fixed base [%]")[1:] == ("0.30 / 1.2", "0.50 / 1.2")
+    assert "licensed structural engineer" in table.notes
+    us = summary_table(_results("US"))
+    assert _row(us, "Total design displacement D_TM [in]")[1] == "23.6"  # 0.6 m / 0.0254 m
+    assert _row(us, "Moat width [in]")[1] == "not given"
+
+
+def test_summary_prefers_the_better_verdict_and_names_what_decides():
+    from isolation.tables import preferred_alternative, summary_text
+
+    results = _two_alternatives("not recommended")
+    assert preferred_alternative(results)["name"] == "Invented sliders"
+    text = summary_text(results)
+    assert text.startswith("**Invented sliders** is the preferred alternative: feasible with conditions, "
+                           "the best verdict of the 2 alternatives studied.")
+    assert r"$D_{\mathrm{TM}}$ = 0.600 m (moat 0.750 m)" in text
+    assert "Its main condition: tension." in text  # the condition of the hand-made verdict
+    assert r"**Invented rubber** is not recommended: moat 0.40 m is narrower than $D_{\mathrm{TM}}$." in text
+    assert 2 <= text.count(". ") + 1 <= 4  # two to four sentences
+
+
+def test_summary_between_equal_verdicts_and_when_none_is_recommended():
+    from isolation.tables import preferred_alternative, summary_text
+
+    # Equal verdicts and conditions: the lower floor acceleration (0.3 against 0.4) decides.
+    equal = _two_alternatives("feasible with conditions")
+    assert preferred_alternative(equal)["name"] == "Invented sliders"
+    assert "with the lower peak floor acceleration" in summary_text(equal)
+    # A feasible alternative beats one with conditions even with more floor acceleration.
+    better = _two_alternatives("feasible")
+    assert preferred_alternative(better)["name"] == "Invented rubber"
+    none = _two_alternatives("not recommended", first_outcome="not recommended")
+    assert preferred_alternative(none) is None
+    assert summary_text(none).startswith("None of the 2 alternatives studied is recommended as designed.")

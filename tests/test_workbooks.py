@@ -4,7 +4,8 @@ becomes a client PDF that shows the study's key numbers and no code.
 Outside checks: the title-page fields are read from the demo study file with
 the standard library's tomllib, not through the package; the key numbers
 are read from the results JSON the run wrote and searched in the text that
-poppler's pdftotext extracts from the PDF; page size A4 per ISO 216.
+poppler's pdftotext extracts from the PDF (NFKC-normalised, Unicode Standard
+Annex #15, so a typeset subscript D_TM reads "DTM"); page size A4 per ISO 216.
 """
 
 from __future__ import annotations
@@ -12,9 +13,12 @@ from __future__ import annotations
 import json
 import math
 import os
+import re
 import shutil
 import subprocess
 import tomllib
+import unicodedata
+import warnings
 from pathlib import Path
 
 import nbformat
@@ -113,7 +117,7 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
     # Every section of the report is there, in order.
     headings = [line for c in nb.cells if c.cell_type == "markdown" for line in c.source.splitlines()
                 if line.startswith("# ")]
-    assert headings == ["# Scope and cautions", "# Basis and assumptions", "# Site spectrum and period shift",
+    assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions", "# Site spectrum and period shift",
                         "# Isolation system and bearing checks", "# Equivalent-linear results for both bounds",
                         "# Motion suite", "# Response-history comparison", "# Verdict", "# Cautions"]
     captions = [o.metadata["image/png"].get("caption", "") for o in _outputs(nb, "image/png")]
@@ -127,9 +131,20 @@ def feasibility_pdf(feasibility_run):
     pdf = report.render(out / "feasibility.ipynb", out / "report", paper=None)
     raw = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True, text=True,
                          check=True).stdout
-    # pandoc typesets straight quotes as curly ones; compare on straight quotes.
-    text = " ".join(raw.split()).replace("\u2019", "'").replace("\u2018", "'")
-    return pdf, text, data
+    return pdf, _pdf_words(raw), data
+
+
+def _pdf_words(raw: str) -> str:
+    """pdftotext output as one line: NFKC turns math italic letters (U+1D400 block) into plain ones,
+    the space pdftotext leaves after a subscript before punctuation goes, straight quotes (pandoc
+    typesets curly ones)."""
+    text = " ".join(unicodedata.normalize("NFKC", raw).split()).replace("\u2019", "'").replace("\u2018", "'")
+    return re.sub(r" (?=[.,;:)])", "", text)
+
+
+def _typeset(symbol: str) -> str:
+    """How a symbol set with a subscript reads in the extracted text: D_TM -> DTM."""
+    return symbol.replace("_", "")
 
 
 @pytest.mark.slow
@@ -153,14 +168,42 @@ def test_pdf_shows_the_key_numbers_of_the_results_json(feasibility_pdf):
     _, text, data = feasibility_pdf
     for alternative in data["alternatives"]:
         q = alternative["quantities"]
-        assert f"D_M = {_three_figures(q['displacement'])} m" in text
-        assert f"D_TM = {_three_figures(q['total_displacement'])} m" in text
-        assert f"T_M = {q['period_lower']:.2f} s" in text
+        assert f"{_typeset('D_M')} = {_three_figures(q['displacement'])} m" in text
+        assert f"{_typeset('D_TM')} = {_three_figures(q['total_displacement'])} m" in text
+        assert f"{_typeset('T_M')} = {q['period_lower']:.2f} s" in text
         assert f"{alternative['name']}: {alternative['verdict']['outcome']}" in text
         for reason in alternative["verdict"]["reasons"]:
             if reason["level"] in ("against", "condition"):
-                assert " ".join(reason["message"].split()[:6]) in text
-    assert f"T_fb = {data['fixed_base']['period']:.2f} s" in text
+                assert _typeset(" ".join(reason["message"].split()[:6])) in text
+    assert f"{_typeset('T_fb')} = {data['fixed_base']['period']:.2f} s" in text
+    for plain in ("D_TM", "T_fb", "D\\_TM"):  # every symbol typeset, none left as plain text
+        assert plain not in text
+
+
+@pytest.mark.slow
+def test_pdf_opens_with_a_summary_matching_the_results_json(feasibility_pdf):
+    _, text, data = feasibility_pdf
+    assert "1 Summary" in text and "2 Scope and cautions" in text  # first section, after the contents
+    start = text.index("Table 1: Summary of the isolation alternatives")
+    summary = text[start:text.index("Scope and cautions", start)]
+    alternatives = data["alternatives"]
+    outcomes = [a["verdict"]["outcome"] for a in alternatives]
+    assert "Verdict " + " ".join(outcomes) in summary
+    totals = " ".join(_three_figures(a["quantities"]["total_displacement"]) for a in alternatives)
+    assert f"Total design displacement {_typeset('D_TM')} [m] {totals}" in summary
+    floors = " ".join(f"{100 * a['history']['summary']['floor_acceleration_ratio']:.0f}" for a in alternatives)
+    assert f"Peak floor acceleration [% of fixed base] {floors}" in summary
+    # The demo's verdicts differ, so the better one is the preferred alternative.
+    order = ["feasible", "feasible with conditions", "not recommended"]
+    ranked = sorted(alternatives, key=lambda a: order.index(a["verdict"]["outcome"]))
+    assert order.index(ranked[0]["verdict"]["outcome"]) < order.index(ranked[1]["verdict"]["outcome"])
+    best = ranked[0]
+    assert f"{best['name']} is the preferred alternative: {best['verdict']['outcome']}" in summary
+    assert f"{_typeset('D_TM')} = {_three_figures(best['quantities']['total_displacement'])} m" in summary
+    for other in ranked[1:]:  # the others' deciding findings are named
+        for reason in other["verdict"]["reasons"]:
+            if reason["level"] in ("against", "condition"):
+                assert reason["topic"] in summary
 
 
 @pytest.mark.slow
@@ -182,3 +225,51 @@ def test_feasibility_workbook_fails_loudly_on_a_bad_study(tmp_path):
     with pytest.raises(pm.PapermillExecutionError, match="sms"):
         _execute("feasibility.ipynb", tmp_path, study_path=str(bad), output_dir=str(tmp_path), quick=True)
     assert not (tmp_path / "results.json").exists()
+
+
+@pytest.fixture(scope="module")
+def eurocode_report(tmp_path_factory):
+    """The demo on an EN 1998-1 Type 1 spectrum (ground B, a_g = 0.3 g), first alternative, quick run."""
+    from isolation.records import to_toml
+    from isolation.study import apply_overrides, read_study_mapping
+
+    out = tmp_path_factory.mktemp("eurocode")
+    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode"})
+    for key in ("sms", "sm1", "long_period", "s1", "site_class"):
+        del mapping["site"][key]
+    mapping["site"].update(ag=0.3, ground_type="B", spectrum_type=1)
+    mapping["alternative"] = mapping["alternative"][:1]
+    study_file = out / "eurocode.toml"
+    study_file.write_text(to_toml(mapping), encoding="utf-8")
+    results = out / "results.json"
+    _execute("feasibility.ipynb", out, study_path=str(study_file), output_dir=str(out),
+             results_path=str(results), quick=True)
+    with warnings.catch_warnings():  # without TeX the report is HTML, which must show the note too
+        warnings.simplefilter("ignore", report.TexMissingWarning)
+        path = report.render(out / "feasibility.ipynb", out / "report")
+    if path.suffix == ".pdf":
+        if shutil.which("pdftotext") is None:
+            pytest.skip("pdftotext missing")
+        raw = subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True, text=True,
+                             check=True).stdout
+        text = _pdf_words(raw)
+    else:
+        text = " ".join(path.read_text(encoding="utf-8").split())
+    return path, text, json.loads(results.read_text())
+
+
+@pytest.mark.slow
+def test_eurocode_report_states_the_spectrum_assumption(eurocode_report):
+    path, text, data = eurocode_report
+    # EN 1998-1 §3.2.2.2 defines the elastic spectrum up to 4 s; beyond it Annex A gives the
+    # displacement spectrum (from memory). The run states that it extends the 1/T^2 branch instead.
+    note = data["spectrum"]["note"]
+    assert "Annex A" in note
+    assert "Site spectrum:" in text
+    assert note.split(";")[-1].strip() in text  # "the displacement spectrum of EN 1998-1 Annex A ..."
+    if path.suffix == ".pdf":
+        # Eurocode symbols in the summary: d_d total design displacement, T_eff isolated period.
+        q = data["alternatives"][0]["quantities"]
+        assert (f"Total design displacement {_typeset('d_d')} [m] "
+                f"{_three_figures(q['total_displacement'])}") in text
+        assert f"Isolated period {_typeset('T_eff')}, upper to lower bound [s]" in text

@@ -8,6 +8,8 @@ from typing import Any
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
+from isolation.tables.symbols import latex_text
+
 __all__ = ["WIDTH", "COLOURS", "captioned"]
 
 
@@ -46,7 +48,8 @@ class _Captioned:
         return buffer.getvalue()
 
     def _repr_png_(self):
-        return self.png(), {"caption": self.caption}
+        # The report template prints caption_latex: escaped, symbols (D_M, T_fb) as subscripts.
+        return self.png(), {"caption": self.caption, "caption_latex": latex_text(self.caption)}
 
 
 def captioned(figure: Figure, caption: str, *, dpi: int = 150) -> _Captioned:
@@ -57,7 +60,8 @@ def captioned(figure: Figure, caption: str, *, dpi: int = 150) -> _Captioned:
     figure : matplotlib.figure.Figure
         The figure.
     caption : str
-        Caption text (plain text; units in brackets).
+        Caption text (plain text; units in brackets; symbols written plainly,
+        e.g. ``D_M``, come out as subscripts in the PDF).
     dpi : int
         Resolution of the embedded PNG. [dots per inch]
     """

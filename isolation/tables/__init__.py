@@ -9,13 +9,21 @@ into such tables.
 Numbers are formatted for reading (:func:`format_number`); the JSON results
 keep full precision.
 
+Symbols written plainly (``D_TM``, ``T_fb``, ``beta_M``) are typeset as
+subscripts in one place, :mod:`~isolation.tables.symbols`: tables do it
+themselves; workbook text goes through :func:`markdown_text`.
+
 Modules: :mod:`~isolation.tables.table` (the table object, number formatting,
-generic builders), :mod:`~isolation.tables.results` (tables of a study's results).
+generic builders), :mod:`~isolation.tables.results` (tables of a study's results),
+:mod:`~isolation.tables.summary` (the owner's summary table and sentences),
+:mod:`~isolation.tables.symbols` (symbols as subscripts).
 """
 
 from isolation.tables.results import (alternatives_table, bounds_table, code_quantities_table,
                                       comparison_table, display_quantity, history_table, inputs_table,
                                       suite_table, verdict_table)
+from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
+from isolation.tables.symbols import latex_text, markdown_text
 from isolation.tables.table import Table, checks_table, escape_latex, format_number, key_value_table
 
 __all__ = [
@@ -33,4 +41,10 @@ __all__ = [
     "verdict_table",
     "comparison_table",
     "display_quantity",
+    "summary_table",
+    "summary_text",
+    "preferred_alternative",
+    "code_symbols",
+    "latex_text",
+    "markdown_text",
 ]

@@ -97,12 +97,13 @@ def alternatives_table(results: Any) -> Table:
                                      ("outer_diameter", "D_o", "length"), ("lead_diameter", "D_L", "length"),
                                      ("layers", "layers", None), ("displacement_capacity", "capacity", "length")):
                 if props.get(key) is not None:
-                    value = props[key] if kind is None else _display(props[key], kind, system)[0]
-                    sizes.append(f"{label} = {format_number(value)}")
+                    value, unit = (props[key], "") if kind is None else _display(props[key], kind, system)
+                    # No-break spaces keep "R = 3.00 m" on one line when the cell wraps.
+                    sizes.append(f"{label}\u00a0=\u00a0{format_number(value)}" + (f"\u00a0{unit}" if unit else ""))
             rows.append((alternative["name"], group["type"].replace("_", " "), group["count"], ", ".join(sizes),
                          f"{alternative['lower_factor']:.2f} / {alternative['upper_factor']:.2f}",
                          None if moat is None else _display(moat, "length", system)[0]))
-    return Table(columns=("Alternative", "Bearing", "Count", f"Main properties [{length_unit}, -]",
+    return Table(columns=("Alternative", "Bearing", "Count", "Main properties",
                           "Factors [-]", f"Moat [{length_unit}]"),
                  rows=tuple(rows), caption="Isolation alternatives", align="plrprr")
 
@@ -151,6 +152,8 @@ def suite_table(results: Any) -> Table:
              f"{check['lowest_mean_ratio']:.3f} of the target at {check['period_of_lowest_mean_s']:.2f} s; "
              f"required at least {check['required_mean_ratio']:.2f} ({check['rule']} rule): "
              f"{'met' if check['mean_ok'] else 'NOT met'}.")
+    if suite.get("note"):
+        notes += f" Note: {suite['note']}."
     return Table(columns=("Record", "Seed", "Lowest ratio [-]", "Highest ratio [-]",
                           f"Within {low:.2f}-{high:.2f}", "Baseline ok"),
                  rows=rows, caption="Matched motion suite: spectral ratios to the target", notes=notes)

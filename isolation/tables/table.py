@@ -20,6 +20,8 @@ from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
 
+from isolation.tables.symbols import latex_text, markdown_cell
+
 __all__ = [
     "Table",
     "format_number",
@@ -39,6 +41,7 @@ _LATEX_SPECIALS = {
     "}": r"\}",
     "~": r"\textasciitilde{}",
     "^": r"\textasciicircum{}",
+    "\u00a0": "~",  # no-break space: LaTeX's tie
 }
 
 _LONG_TABLE_ROWS = 28  # beyond this a table may run over a page break
@@ -46,12 +49,17 @@ _LONG_WRAPPED_ROWS = 12  # the same for tables whose text wraps (rows of several
 
 
 def escape_latex(text: str) -> str:
-    """Text with LaTeX's special characters escaped."""
+    """Text with LaTeX's special characters escaped (a no-break space becomes a tie ``~``)."""
     return "".join(_LATEX_SPECIALS.get(ch, ch) for ch in str(text))
 
 
 def _escape_markdown(text: str) -> str:
     return str(text).replace("\\", "\\\\").replace("|", "\\|").replace("\n", " ")
+
+
+def _markdown(text: str) -> str:
+    """A table's text as markdown: escaped, with symbols (D_TM, T_fb, ...) as math."""
+    return markdown_cell(text, _escape_markdown)
 
 
 def format_number(value: Any, digits: int = 3) -> str:
@@ -113,8 +121,11 @@ class Table:
     Notes
     -----
     The LaTeX form needs the packages booktabs, adjustbox, tabularx, longtable,
-    xltabular, array and float (the report template loads them all). Tables
+    xltabular, threeparttable, array and float (the report template loads them all). Tables
     of more than 28 rows, or more than 12 with a "p" column, break across pages.
+    Symbols written plainly in any text (``D_TM``, ``T_fb``, ``beta_M``) come out
+    as subscripts in both forms (:mod:`isolation.tables.symbols`); ``cells`` and
+    ``to_dict()`` keep the plain text.
     """
 
     columns: tuple[str, ...]
@@ -167,20 +178,20 @@ class Table:
         marks = {"l": ":--", "r": "--:", "c": ":-:", "p": ":--"}
         lines = []
         if self.caption:
-            lines += [f"**{_escape_markdown(self.caption)}**", ""]
-        lines.append("| " + " | ".join(_escape_markdown(c) for c in self.columns) + " |")
+            lines += [f"**{_markdown(self.caption)}**", ""]
+        lines.append("| " + " | ".join(_markdown(c) for c in self.columns) + " |")
         lines.append("|" + "|".join(marks[a] for a in self.align) + "|")
-        lines += ["| " + " | ".join(_escape_markdown(c) for c in row) + " |" for row in self._text]
+        lines += ["| " + " | ".join(_markdown(c) for c in row) + " |" for row in self._text]
         if self.notes:
-            lines += ["", f"*{_escape_markdown(self.notes)}*"]
+            lines += ["", f"*{_markdown(self.notes)}*"]
         return "\n".join(lines) + "\n"
 
     def _repr_latex_(self) -> str:
-        head = " & ".join(rf"\textbf{{{escape_latex(c)}}}" for c in self.columns) + r" \\"
-        body = "\n".join(" & ".join(escape_latex(c) for c in row) + r" \\" for row in self._text)
-        caption = rf"\caption{{{escape_latex(self.caption)}}}" if self.caption else ""
+        head = " & ".join(rf"\textbf{{{latex_text(c)}}}" for c in self.columns) + r" \\"
+        body = "\n".join(" & ".join(latex_text(c) for c in row) + r" \\" for row in self._text)
+        caption = rf"\caption{{{latex_text(self.caption)}}}" if self.caption else ""
         notes = (
-            rf"\par\smallskip{{\footnotesize {escape_latex(self.notes)}\par}}" if self.notes else ""
+            rf"\par\smallskip{{\footnotesize\raggedright {latex_text(self.notes)}\par}}" if self.notes else ""
         )
         wraps = "p" in self.align
         if wraps and len(self._text) <= _LONG_WRAPPED_ROWS:
@@ -213,16 +224,22 @@ class Table:
                 rf"\end{{{environment}}}}}",
                 notes,
             ])
+        # Narrow table: the notes take the table's own width (threeparttable), not the page's.
+        opening, closing = ([r"\begin{threeparttable}"],
+                            [r"\begin{tablenotes}[flushleft]\footnotesize",
+                             rf"\item[] {latex_text(self.notes)}", r"\end{tablenotes}",
+                             r"\end{threeparttable}"]) if self.notes else ([], [])
         return "\n".join([
             r"\begin{table}[H]",
             r"\centering\small",
             caption,
             r"\begin{adjustbox}{max width=\linewidth}",
+            *opening,
             rf"\begin{{tabular}}{{@{{}}{self.align}@{{}}}}",
             r"\toprule", head, r"\midrule", body, r"\bottomrule",
             r"\end{tabular}",
+            *closing,
             r"\end{adjustbox}",
-            notes,
             r"\end{table}",
         ])
 
