@@ -182,8 +182,7 @@ def _history_isolator(backbone, result, system=None, case: str = "nominal"):
     if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
         bearing = groups[0].bearing
         if bearing.friction_slow != bearing.friction:
-            factor = 1.0 if case == "nominal" else getattr(system.factors.friction, case)
-            return bearing.with_friction_factor(factor)
+            return bearing.with_friction_factor(system.factors.friction.factor(case))
     if isinstance(backbone, (Bilinear, MultiLinear)):
         return backbone
     return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
