@@ -70,6 +70,7 @@ def test_vertical_stiffness_and_heights():
     # K_v = E_c A_r/T_r = 540 000 * 0.4712389/0.2 = 1 272 345 kN/m (hand arithmetic).
     lrb = LeadRubber(**LRB, end_plate_thickness=0.03)
     assert lrb.vertical_stiffness == pytest.approx(1272345.0, rel=1e-6)
+    # Hand arithmetic: rubber 0.2 m + 19 internal shims of the documented default 3 mm (common practice).
     assert lrb.height == pytest.approx(0.2 + 19 * 0.003)
     assert lrb.total_height == pytest.approx(0.257 + 0.06)
 
@@ -213,8 +214,9 @@ def test_equivalent_bilinear_refuses_damping_beyond_a_bilinear_loop():
 
 def test_typical_compound_is_marked_common_practice():
     assert "common practice" in TYPICAL_COMPOUND.source
-    assert all(300.0 <= g <= 1500.0 for g in TYPICAL_COMPOUND.shear_moduli)  # G 0.4-1.4 MPa range [trade]
-    assert all(0.10 <= b <= 0.20 for b in TYPICAL_COMPOUND.dampings)  # 10-20 % [trade]
+    # G 0.4-1.4 MPa and damping 10-20 % (isolation-formulas.md §3 high-damping rubber, common practice)
+    assert all(400.0 <= g <= 1400.0 for g in TYPICAL_COMPOUND.shear_moduli)
+    assert all(0.10 <= b <= 0.20 for b in TYPICAL_COMPOUND.dampings)
 
 
 def test_hdr_checks_flag_strain_beyond_the_table():
@@ -311,7 +313,7 @@ def test_rated_displacement_capacity_is_checked_when_given():
 
 
 def test_compound_damping_beyond_a_bilinear_loop_is_refused_at_construction():
-    # (2/pi)(sqrt(10) - 1)/(sqrt(10) + 1) = 0.33066 for K_u/K_d = 10 (derived from the bilinear loop).
+    # (2/pi)(sqrt(10) - 1)/(sqrt(10) + 1) = 0.3307 for K_u/K_d = 10 (derived from the bilinear loop).
     compound = RubberCompound((0.5, 1.0), (700.0, 500.0), (0.34, 0.30))
     with pytest.raises(ValueError, match=r"^compound.dampings = "):
         HighDampingRubber(0.8, 0.01, 20, compound=compound)

@@ -90,6 +90,7 @@ def test_rubber_factors_scale_stiffness_and_strength_separately():
 def test_group_factors_override_the_system_factors():
     own = PropertyFactors(friction=(0.9, 1.1))
     system = IsolationSystem([BearingGroup(FP, 10, 1000.0, factors=own)])  # system default: unqualified
+    # hand arithmetic: mu 0.06 x group upper factor 1.1 = 0.066, times 10 x 1000 kN
     assert system.property_sets()["upper"].characteristic_strength == pytest.approx(0.066 * 10000.0)
 
 

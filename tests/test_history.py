@@ -162,7 +162,9 @@ def test_nan_record_is_refused_with_its_index():
 
 
 def test_dt_too_large_for_the_structure_is_refused_with_the_rule():
-    # rule: dt <= T_min/10 (T_min = shortest period of the model integrated)
+    # Package guard dt <= T_min/10 (T_min = shortest period of the model integrated); issue 4 asks
+    # for a clear error when dt is too large; the T_min/10 limit is common practice (reference §3
+    # recommends T_min/20 for accuracy).
     b = small_building()
     t_min = b.modal().periods.min()
     acc = np.zeros(100)

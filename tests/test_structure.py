@@ -54,6 +54,8 @@ def test_effective_masses_sum_to_total_mass_and_shapes_have_unit_roof():
 def test_from_period_reaches_target_and_keeps_profile():
     b = ShearBuilding.from_period(0.8, [500.0] * 4, [3.5] * 4, profile="linear")
     assert b.modal().periods[0] == pytest.approx(0.8, rel=1e-10)
+    # profile "linear" as documented in from_period: N at the first storey falling to 1 at the
+    # top (hand arithmetic for N = 4: 4, 3, 2, 1).
     ratios = np.asarray(b.stiffnesses) / b.stiffnesses[-1]
     np.testing.assert_allclose(ratios, [4.0, 3.0, 2.0, 1.0])
 

@@ -244,12 +244,15 @@ def eurocode_report(tmp_path_factory):
     results = out / "results.json"
     _execute("feasibility.ipynb", out, study_path=str(study_file), output_dir=str(out),
              results_path=str(results), quick=True)
+    if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
+        _require_pdf_tools()  # fails (not skips) when a PDF tool is missing
     with warnings.catch_warnings():  # without TeX the report is HTML, which must show the note too
         warnings.simplefilter("ignore", report.TexMissingWarning)
         path = report.render(out / "feasibility.ipynb", out / "report")
+    if os.environ.get("ISOLATION_REQUIRE_TEX") == "1" and path.suffix != ".pdf":
+        pytest.fail(f"ISOLATION_REQUIRE_TEX=1 but the report came out as {path.name}")
     if path.suffix == ".pdf":
-        if shutil.which("pdftotext") is None:
-            pytest.skip("pdftotext missing")
+        _require_pdf_tools()  # pdftotext reads the PDF back
         raw = subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True, text=True,
                              check=True).stdout
         text = _pdf_words(raw)
