@@ -199,3 +199,128 @@ def test_history_adapters_use_suite_means_of_peaks():
 
     fig = plots.history_displacements(cases["lower"], design_displacement=0.25)
     assert max(_line(fig.axes[0], "record 2").get_ydata()) == pytest.approx(300.0)
+
+
+# --- display units: US customary figures are the SI figures converted at display ------------
+# NIST SP 811 (2008), Appendix B.8/B.9: 1 in = 0.0254 m and 1 ft = 0.3048 m exactly;
+# 1 kip = 1000 lbf = 4.4482216152605 kN.
+INCH = 0.0254  # m, exact (NIST SP 811 B.8)
+FOOT = 0.3048  # m, exact (NIST SP 811 B.8)
+KIP = 4.4482216152605  # kN (NIST SP 811 B.8, 1 lbf = 4.4482216152605 N)
+PER_M_IN_US, PER_MM_IN_US = 1.0 / INCH, 1.0 / (1000.0 * INCH)
+
+
+def _pair(draw):
+    """The same figure drawn in SI (default) and in US units."""
+    return draw(), draw(units="US")
+
+
+def _assert_line_scaled(si_line, us_line, x_factor, y_factor):
+    np.testing.assert_allclose(us_line.get_xdata(), np.asarray(si_line.get_xdata()) * x_factor, rtol=1e-12)
+    np.testing.assert_allclose(us_line.get_ydata(), np.asarray(si_line.get_ydata()) * y_factor, rtol=1e-12)
+
+
+def test_force_displacement_in_us_units_is_the_si_figure_in_inches_and_kips():
+    lower = Bilinear(60_000.0, 3_000.0, 500.0)
+    upper = lower.scaled(stiffness=1.1, strength=1.3)
+    si, us = _pair(lambda **kw: plots.force_displacement({"lower": lower, "upper": upper},
+                                                         amplitudes={"lower": 0.3}, **kw))
+    assert (si.axes[0].get_xlabel(), si.axes[0].get_ylabel()) == ("Displacement [mm]",
+                                                                  "Force, isolation plane [kN]")
+    assert (us.axes[0].get_xlabel(), us.axes[0].get_ylabel()) == ("Displacement [in]",
+                                                                  "Force, isolation plane [kip]")
+    # 0.3 m / 0.0254 m/in = 11.81 in, written to 0.1 in.
+    loop_us = _line(us.axes[0], "lower: loop at D = 11.8 in")
+    _assert_line_scaled(_line(si.axes[0], "lower: loop at D = 300 mm"), loop_us, PER_MM_IN_US, 1.0 / KIP)
+    assert max(loop_us.get_xdata()) == pytest.approx(0.3 / INCH)
+    assert max(loop_us.get_ydata()) == pytest.approx((500.0 + 3_000.0 * 0.3) / KIP)  # Q_d + K_d D
+    data_lines = 0
+    for si_line, us_line in zip(si.axes[0].get_lines(), us.axes[0].get_lines()):  # backbones too
+        if len(si_line.get_xdata()) and si_line.get_transform() == si.axes[0].transData:  # not the axis lines
+            _assert_line_scaled(si_line, us_line, PER_MM_IN_US, 1.0 / KIP)
+            data_lines += 1
+    assert data_lines == 3  # two backbones and one loop
+
+
+def test_equivalent_linear_bounds_in_us_units_shows_spectral_displacement_in_inches():
+    spectrum = CodeSpectrum(sms=1.5, sm1=0.9)
+    results = {"lower": {"displacement": 0.40, "period": 3.2, "damping": 0.18}}
+    si, us = _pair(lambda **kw: plots.equivalent_linear_bounds(spectrum, results, **kw))
+    assert us.axes[0].get_xlabel() == "Spectral displacement [in]"
+    assert us.axes[0].get_ylabel() == "Spectral acceleration [g]"  # accelerations stay in g
+    point = _line(us.axes[0], "lower: D = 15.7 in, T = 3.20 s")  # 0.40 / 0.0254 = 15.75
+    assert point.get_xdata()[0] == pytest.approx(0.40 / INCH)
+    _assert_line_scaled(_line(si.axes[0], "lower: D = 400 mm, T = 3.20 s"), point, PER_MM_IN_US, 1.0)
+    _assert_line_scaled(_line(si.axes[0], "lower: demand at 18 % damping"),
+                        _line(us.axes[0], "lower: demand at 18 % damping"), PER_MM_IN_US, 1.0)
+
+
+def test_history_figures_in_us_units():
+    time = np.linspace(0.0, 10.0, 501)
+    disp = np.vstack([0.2 * np.sin(time), 0.1 * np.sin(2 * time)])
+    si, us = _pair(lambda **kw: plots.displacement_histories(time, disp, design_displacement=0.25,
+                                                             capacity=0.4, **kw))
+    assert us.axes[0].get_ylabel() == "Isolator displacement [in]"
+    _assert_line_scaled(_line(si.axes[0], "record 1"), _line(us.axes[0], "record 1"), 1.0, PER_MM_IN_US)
+    assert _line(us.axes[0], "capacity").get_ydata()[0] == pytest.approx(0.4 / INCH)
+
+    force = 2000 * disp[0]
+    si, us = _pair(lambda **kw: plots.hysteresis_loops({"upper": disp[0]}, {"upper": force}, **kw))
+    assert (us.axes[0].get_xlabel(), us.axes[0].get_ylabel()) == ("Isolator displacement [in]",
+                                                                  "Isolator force [kip]")
+    loop = _line(us.axes[0], "upper")
+    np.testing.assert_allclose(loop.get_xdata(), disp[0] / INCH, rtol=1e-12)
+    np.testing.assert_allclose(loop.get_ydata(), force / KIP, rtol=1e-12)
+    _assert_line_scaled(_line(si.axes[0], "upper"), loop, PER_MM_IN_US, 1.0 / KIP)
+
+    # Energy: 1 kip in = 4.4482216152605 kN x 0.0254 m (NIST SP 811 B.8 factors multiplied).
+    si, us = _pair(lambda **kw: plots.energy_stack(time, {"kinetic": np.ones_like(time), "hysteretic": time},
+                                                   input_energy=time + 1.0, **kw))
+    assert us.axes[0].get_ylabel() == "Energy [kip in]" and si.axes[0].get_ylabel() == "Energy [kN m]"
+    np.testing.assert_allclose(_line(us.axes[0], "input").get_ydata(), (time + 1.0) / (KIP * INCH), rtol=1e-12)
+    top = us.axes[0].collections[-1].get_paths()[0].vertices[:, 1].max()
+    assert top == pytest.approx(11.0 / (KIP * INCH))
+
+
+def test_base_shear_and_profiles_in_us_units():
+    values = {"fixed base": 8000.0, "isolated lower": 2000.0, "isolated upper": 3000.0}
+    si, us = _pair(lambda **kw: plots.base_shear_comparison(values, reference="fixed base", **kw))
+    assert us.axes[0].get_ylabel() == "Base shear [kip]" and si.axes[0].get_ylabel() == "Base shear [kN]"
+    heights = [patch.get_height() for patch in us.axes[0].patches]
+    assert heights == pytest.approx([v / KIP for v in values.values()], rel=1e-12)
+    assert [t.get_text() for t in us.axes[0].texts] == ["100 %", "25 %", "38 %"]  # ratios unchanged
+
+    levels = [0.0, 4.0, 7.5, 11.0]
+    si, us = _pair(lambda **kw: plots.storey_profiles(levels, {"fixed base": [0.010, 0.008, 0.005]},
+                                                      {"fixed base": [0.5, 0.7, 0.9, 1.2]}, **kw))
+    assert us.axes[0].get_ylabel() == "Height [ft]" and si.axes[0].get_ylabel() == "Height [m]"
+    assert us.axes[0].get_xlabel() == "Peak storey drift ratio [%]"  # a ratio in both systems
+    _assert_line_scaled(_line(si.axes[0], "fixed base"), _line(us.axes[0], "fixed base"), 1.0, 1.0 / FOOT)
+    accel = _line(us.axes[1], "fixed base")
+    assert list(accel.get_xdata()) == pytest.approx([0.5, 0.7, 0.9, 1.2])  # g in both systems
+    assert list(accel.get_ydata()) == pytest.approx([h / FOOT for h in levels])
+
+
+def test_history_adapters_pass_the_unit_system_on():
+    cases = {"fixed": _history("fixed", False, 1.0), "lower": _history("lower", True, 0.5)}
+    loop = _line(plots.history_loops(cases, units="US").axes[0], "isolated, lower")
+    np.testing.assert_allclose(loop.get_xdata(), np.array([0.0, 0.1, -0.2, 0.05]) / INCH, rtol=1e-12)
+    np.testing.assert_allclose(loop.get_ydata(), np.array([0.0, 100.0, -150.0, 20.0]) / KIP, rtol=1e-12)
+    record = _line(plots.history_displacements(cases["lower"], units="US").axes[0], "record 2")
+    assert max(record.get_ydata()) == pytest.approx(0.3 / INCH)
+    fig = plots.history_base_shear(cases, units="US")
+    # Fixed: mean of peaks (300, 500) = 400 kN; isolated half of that.
+    assert [p.get_height() for p in fig.axes[0].patches] == pytest.approx([400.0 / KIP, 200.0 / KIP])
+    drift = _line(plots.history_profiles(cases, units="US").axes[0], "fixed base")
+    assert list(drift.get_xdata()) == pytest.approx([1.0, 1.0, 0.5, 0.5])  # % in both systems
+    assert list(drift.get_ydata()) == pytest.approx([0.0, 4.0 / FOOT, 4.0 / FOOT, 8.0 / FOOT])
+    energy = _line(plots.history_energy(cases["lower"], units="US").axes[0], "input")
+    assert max(energy.get_ydata()) == pytest.approx(10.0 / (KIP * INCH))
+
+
+@pytest.mark.parametrize("units", ["metric", "us", "", None])
+def test_unknown_unit_system_is_refused(units):
+    with pytest.raises(ValueError, match=r"units = .* is not allowed: must be one of 'SI', 'US'"):
+        plots.force_displacement({"lower": Bilinear(1e4, 1e3, 100.0)}, units=units)
+    with pytest.raises(ValueError, match=r"units = .* is not allowed"):
+        plots.hysteresis_loops({"a": [0.0, 0.1]}, {"a": [0.0, 1.0]}, units=units)

@@ -7,15 +7,20 @@ plain arrays otherwise, so figures can also be drawn from results read back
 from JSON. :func:`captioned` wraps a figure for display in a workbook: the PNG
 carries its caption, which the report template turns into a numbered figure.
 
-Units on the axes: periods [s], spectral acceleration [g], displacement [m]
-(shown in mm where noted), force [kN], heights [m], energy [kN m].
+Inputs are in the package's units: periods [s], spectral acceleration [g],
+displacement [m], force [kN], heights [m], energy [kN m]. Functions that draw
+lengths, forces or energy take a keyword ``units="SI"`` or ``"US"`` (the
+study's display system) and convert only on the axes, through
+:mod:`isolation.units`: displacement mm or in, force kN or kip, heights m or
+ft, energy kN m or kip in. Periods, drift ratios and accelerations (g) are the
+same in both systems.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
 motion suite), :mod:`~isolation.plots.history` (response histories).
 """
 
-from isolation.plots.common import COLOURS, WIDTH, captioned
+from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
 from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
                                     suite_figure, suite_match)
 from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
@@ -26,6 +31,8 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
 __all__ = [
     "COLOURS",
     "WIDTH",
+    "AxisUnit",
+    "axis_unit",
     "captioned",
     "site_spectrum",
     "force_displacement",

@@ -3,20 +3,93 @@
 from __future__ import annotations
 
 import io
+from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
+import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from isolation.tables.symbols import latex_text
+from isolation.units import SYSTEMS, convert
+from isolation.validate import one_of
 
-__all__ = ["WIDTH", "COLOURS", "captioned"]
+__all__ = ["WIDTH", "COLOURS", "AxisUnit", "axis_unit", "captioned"]
 
 
 WIDTH = 6.4  # figure width [in]; the report scales it to the text width
 
 
 COLOURS = {"lower": "#1f5fa8", "nominal": "#4a4a4a", "upper": "#b23a10", "fixed": "#7a7a7a"}
+
+
+# Unit shown on a figure axis per quantity and display system: (unit name for
+# isolation.units.convert, axis label, decimals in legend text). Only names are
+# chosen here; every conversion factor comes from isolation.units (pint).
+# Displacements are shown in mm rather than the tables' m so loops read easily.
+_AXIS_UNITS = {
+    "displacement": ("m", {"SI": ("mm", "mm", 0), "US": ("in", "in", 1)}),
+    "force": ("kN", {"SI": ("kN", "kN", 0), "US": ("kip", "kip", 0)}),
+    "height": ("m", {"SI": ("m", "m", 1), "US": ("ft", "ft", 0)}),
+    "energy": ("kN*m", {"SI": ("kN*m", "kN m", 0), "US": ("kip*in", "kip in", 0)}),
+}
+
+
+@dataclass(frozen=True)
+class AxisUnit:
+    """How a figure shows one quantity: axis label and factor from the internal unit.
+
+    Attributes
+    ----------
+    label : str
+        Unit as written on the axis, e.g. ``"mm"``, ``"in"``, ``"kip"``.
+    factor : float
+        Display value per internal value (internal units m, kN, kN m). [label/internal]
+    decimals : int
+        Decimals of a value written in a legend. [-]
+    """
+
+    label: str
+    factor: float
+    decimals: int
+
+    def __call__(self, values: Any) -> Any:
+        """Values in the internal unit, converted for display (arrays keep their shape)."""
+        return np.asarray(values, dtype=float) * self.factor
+
+    def text(self, value: float) -> str:
+        """One internal value as legend text, e.g. ``"300 mm"`` or ``"11.8 in"``."""
+        return f"{float(value) * self.factor:.{self.decimals}f} {self.label}"
+
+
+@lru_cache(maxsize=None)
+def _axis_unit(quantity: str, units: str) -> AxisUnit:
+    internal, systems = _AXIS_UNITS[quantity]
+    unit, label, decimals = systems[units]
+    return AxisUnit(label, 1.0 if unit == internal else convert(1.0, internal, unit), decimals)
+
+
+def axis_unit(quantity: str, units: str = "SI") -> AxisUnit:
+    """Display unit of a figure quantity in a unit system.
+
+    Parameters
+    ----------
+    quantity : str
+        ``"displacement"`` (internal m; shown in mm or in), ``"force"``
+        (internal kN; kN or kip), ``"height"`` (internal m; m or ft) or
+        ``"energy"`` (internal kN m; kN m or kip in).
+    units : str
+        Display unit system of the study, ``"SI"`` or ``"US"``.
+
+    Raises
+    ------
+    ValueError
+        When ``units`` or ``quantity`` is not one of the allowed names.
+    """
+    one_of("units", units, SYSTEMS)
+    one_of("quantity", quantity, _AXIS_UNITS)
+    return _axis_unit(quantity, units)
 
 
 def _figure(height: float = 3.4, ncols: int = 1, width: float = WIDTH) -> tuple[Figure, Any]:

@@ -7,7 +7,7 @@ from typing import Any, Mapping, Sequence
 import numpy as np
 from matplotlib.figure import Figure
 
-from isolation.plots.common import COLOURS, _colour, _figure
+from isolation.plots.common import COLOURS, _colour, _figure, axis_unit
 
 __all__ = ["site_spectrum", "masing_loop", "force_displacement", "equivalent_linear_bounds",
            "suite_match", "suite_figure"]
@@ -112,6 +112,7 @@ def force_displacement(
     amplitudes: Mapping[str, float] | None = None,
     max_displacement: float | None = None,
     per: str = "isolation plane",
+    units: str = "SI",
 ) -> Figure:
     """Backbones and closed loops of the isolation system, one curve per label.
 
@@ -125,30 +126,34 @@ def force_displacement(
         Extent of the displacement axis. [m]
     per : str
         What the force is for ("isolation plane", "one bearing").
+    units : str
+        Display unit system, "SI" (mm, kN) or "US" (in, kip); inputs stay in m and kN.
     """
+    length, force = axis_unit("displacement", units), axis_unit("force", units)
     amplitudes = dict(amplitudes or {})
     extent = max_displacement or 1.2 * max(list(amplitudes.values()) or [0.5])
     fig, ax = _figure()
     d = np.linspace(-extent, extent, 401)
     for index, (label, backbone) in enumerate(backbones.items()):
         colour = _colour(label, index)
-        ax.plot(1000 * d, backbone.force(d), color=colour, lw=0.8, ls="--")
+        ax.plot(length(d), force(backbone.force(d)), color=colour, lw=0.8, ls="--")
         if label in amplitudes:
             x, f = masing_loop(backbone, amplitudes[label])
-            ax.plot(1000 * x, f, color=colour, lw=1.5,
-                    label=f"{label}: loop at D = {1000 * amplitudes[label]:.0f} mm")
+            ax.plot(length(x), force(f), color=colour, lw=1.5,
+                    label=f"{label}: loop at D = {length.text(amplitudes[label])}")
         else:
             ax.plot([], [], color=colour, ls="--", label=f"{label}: backbone")
     ax.axhline(0, color="0.6", lw=0.5)
     ax.axvline(0, color="0.6", lw=0.5)
-    ax.set_xlabel("Displacement [mm]")
-    ax.set_ylabel(f"Force, {per} [kN]")
+    ax.set_xlabel(f"Displacement [{length.label}]")
+    ax.set_ylabel(f"Force, {per} [{force.label}]")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
     return fig
 
 
-def equivalent_linear_bounds(spectrum: Any, results: Mapping[str, Any], *, max_period: float = 6.0) -> Figure:
+def equivalent_linear_bounds(spectrum: Any, results: Mapping[str, Any], *, max_period: float = 6.0,
+                             units: str = "SI") -> Figure:
     """Displacement-acceleration (ADRS) view of the equivalent-linear answer per bound.
 
     Demand curves at each bound's effective damping, the secant stiffness line
@@ -163,22 +168,25 @@ def equivalent_linear_bounds(spectrum: Any, results: Mapping[str, Any], *, max_p
         ``period`` [s] and ``damping`` [-] (attributes or dict keys).
     max_period : float
         Longest period of the demand curves. [s]
+    units : str
+        Display unit system of the spectral displacement, "SI" (mm) or "US" (in).
     """
+    length = axis_unit("displacement", units)
     low, high = spectrum.period_range
     periods = np.linspace(max(low, 0.02), min(high, max_period), 300)
     fig, ax = _figure()
     for index, (label, result) in enumerate(results.items()):
         d_m, t_m, beta = (_get(result, k) for k in ("displacement", "period", "damping"))
         colour = _colour(label, index)
-        ax.plot(1000 * spectrum.sd(periods, beta), spectrum.sa(periods, beta), color=colour, lw=1.0,
+        ax.plot(length(spectrum.sd(periods, beta)), spectrum.sa(periods, beta), color=colour, lw=1.0,
                 ls="--", label=f"{label}: demand at {100 * beta:.0f} % damping")
         sa_point = float(spectrum.sa(t_m, beta))
-        ax.plot([0, 1000 * d_m * 1.4], [0, sa_point * 1.4], color=colour, lw=0.8)
-        ax.plot([1000 * d_m], [sa_point], "o", color=colour,
-                label=f"{label}: D = {1000 * d_m:.0f} mm, T = {t_m:.2f} s")
+        ax.plot(length([0.0, d_m * 1.4]), [0, sa_point * 1.4], color=colour, lw=0.8)
+        ax.plot(length([d_m]), [sa_point], "o", color=colour,
+                label=f"{label}: D = {length.text(d_m)}, T = {t_m:.2f} s")
     ax.set_xlim(left=0)
     ax.set_ylim(bottom=0)
-    ax.set_xlabel("Spectral displacement [mm]")
+    ax.set_xlabel(f"Spectral displacement [{length.label}]")
     ax.set_ylabel("Spectral acceleration [g]")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)

@@ -12,7 +12,7 @@ from typing import Any, Mapping, Sequence
 import numpy as np
 from matplotlib.figure import Figure
 
-from isolation.plots.common import _colour, _figure
+from isolation.plots.common import _colour, _figure, axis_unit
 
 __all__ = ["displacement_histories", "base_shear_comparison", "storey_profiles", "floor_spectra",
            "hysteresis_loops", "energy_stack", "history_profiles", "history_base_shear",
@@ -26,6 +26,7 @@ def displacement_histories(
     labels: Sequence[str] | None = None,
     design_displacement: float | None = None,
     capacity: float | None = None,
+    units: str = "SI",
 ) -> Figure:
     """Isolator displacement histories, one line per record.
 
@@ -39,24 +40,27 @@ def displacement_histories(
         Equivalent-linear displacement for comparison. [m]
     capacity : float, optional
         Displacement capacity of the bearing or moat. [m]
+    units : str
+        Display unit system, "SI" or "US" (mm or in); inputs stay in SI.
     """
+    length = axis_unit("displacement", units)
     series = np.atleast_2d(np.asarray(displacement, dtype=float))
     fig, ax = _figure(3.0)
     for index, row in enumerate(series):
         name = labels[index] if labels is not None else f"record {index + 1}"
-        ax.plot(time, 1000 * row, lw=0.7, color=f"C{index % 10}", label=name if len(series) <= 11 else None)
+        ax.plot(time, length(row), lw=0.7, color=f"C{index % 10}", label=name if len(series) <= 11 else None)
     for value, text, style in ((design_displacement, "equivalent-linear D", "--"), (capacity, "capacity", "-")):
         if value is not None:
             for sign in (1, -1):
-                ax.axhline(sign * 1000 * value, color="k", lw=0.9, ls=style, label=text if sign > 0 else None)
+                ax.axhline(sign * float(length(value)), color="k", lw=0.9, ls=style, label=text if sign > 0 else None)
     ax.set_xlabel("Time [s]")
-    ax.set_ylabel("Isolator displacement [mm]")
+    ax.set_ylabel(f"Isolator displacement [{length.label}]")
     ax.grid(alpha=0.3)
     fig.legend(fontsize=7, ncol=6, loc="outside upper center", frameon=False)
     return fig
 
 
-def base_shear_comparison(values: Mapping[str, float], *, unit: str = "kN", reference: str | None = None) -> Figure:
+def base_shear_comparison(values: Mapping[str, float], *, reference: str | None = None, units: str = "SI") -> Figure:
     """Bar chart of base shear by case (fixed base, isolated bounds, ...).
 
     Parameters
@@ -65,18 +69,21 @@ def base_shear_comparison(values: Mapping[str, float], *, unit: str = "kN", refe
         Base shear by case label. [kN]
     reference : str, optional
         Label of the case the others are compared with (percent shown on bars).
+    units : str
+        Display unit system, "SI" or "US" (kN or kip); inputs stay in SI.
     """
+    force = axis_unit("force", units)
     labels = list(values)
-    heights = np.array([float(values[k]) for k in labels])
+    heights = force([float(values[k]) for k in labels])
     fig, ax = _figure(3.0)
     bars = ax.bar(labels, heights, color=[_colour(k, i) for i, k in enumerate(labels)])
     if reference is not None and reference in values and values[reference] > 0:
-        base = float(values[reference])
+        base = float(force(values[reference]))
         for bar, value in zip(bars, heights):
             ax.text(bar.get_x() + bar.get_width() / 2, value, f"{100 * value / base:.0f} %",
                     ha="center", va="bottom", fontsize=8)
     ax.set_ylim(0.0, 1.12 * max(float(heights.max()), 1e-12))
-    ax.set_ylabel(f"Base shear [{unit}]")
+    ax.set_ylabel(f"Base shear [{force.label}]")
     ax.grid(alpha=0.3, axis="y")
     return fig
 
@@ -85,6 +92,8 @@ def storey_profiles(
     heights: Sequence[float],
     drift_ratios: Mapping[str, Sequence[float]],
     floor_accelerations: Mapping[str, Sequence[float]],
+    *,
+    units: str = "SI",
 ) -> Figure:
     """Storey drift ratio and peak floor acceleration over the height, per case.
 
@@ -96,8 +105,11 @@ def storey_profiles(
         Peak storey drift ratio by case, one per storey. [-]
     floor_accelerations : mapping
         Peak floor acceleration by case, one per level including the base. [g]
+    units : str
+        Display unit system, "SI" or "US" (heights in m or ft; drift ratio and acceleration are unitless or g); inputs stay in SI.
     """
-    levels = np.asarray(heights, dtype=float)
+    height = axis_unit("height", units)
+    levels = height(heights)
     fig, (left, right) = _figure(3.6, ncols=2)
     for index, (label, drifts) in enumerate(drift_ratios.items()):
         values = 100 * np.asarray(drifts, dtype=float)
@@ -110,7 +122,7 @@ def storey_profiles(
     left.set_xlabel("Peak storey drift ratio [%]")
     right.set_xlabel("Peak floor acceleration [g]")
     for ax in (left, right):
-        ax.set_ylabel("Height [m]")
+        ax.set_ylabel(f"Height [{height.label}]")
         ax.set_xlim(left=0)
         ax.grid(alpha=0.3)
         ax.legend(fontsize=7)
@@ -140,7 +152,8 @@ def floor_spectra(periods: Sequence[float], spectra: Mapping[str, Sequence[float
     return fig
 
 
-def hysteresis_loops(displacement: Mapping[str, Sequence[float]], force: Mapping[str, Sequence[float]]) -> Figure:
+def hysteresis_loops(displacement: Mapping[str, Sequence[float]], force: Mapping[str, Sequence[float]],
+                     *, units: str = "SI") -> Figure:
     """Isolator force-displacement histories (loops) by case.
 
     Parameters
@@ -149,20 +162,24 @@ def hysteresis_loops(displacement: Mapping[str, Sequence[float]], force: Mapping
         Isolator displacement history by case. [m]
     force : mapping
         Isolator force history by case, same keys. [kN]
+    units : str
+        Display unit system, "SI" or "US" (mm and kN, or in and kip); inputs stay in SI.
     """
+    length, force_unit = axis_unit("displacement", units), axis_unit("force", units)
     fig, ax = _figure()
     for index, label in enumerate(displacement):
-        ax.plot(1000 * np.asarray(displacement[label]), force[label], lw=0.7, color=_colour(label, index), label=label)
+        ax.plot(length(displacement[label]), force_unit(force[label]), lw=0.7, color=_colour(label, index), label=label)
     ax.axhline(0, color="0.6", lw=0.5)
     ax.axvline(0, color="0.6", lw=0.5)
-    ax.set_xlabel("Isolator displacement [mm]")
-    ax.set_ylabel("Isolator force [kN]")
+    ax.set_xlabel(f"Isolator displacement [{length.label}]")
+    ax.set_ylabel(f"Isolator force [{force_unit.label}]")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
     return fig
 
 
-def energy_stack(time: Sequence[float], components: Mapping[str, Sequence[float]], *, input_energy: Sequence[float] | None = None) -> Figure:
+def energy_stack(time: Sequence[float], components: Mapping[str, Sequence[float]], *,
+                 input_energy: Sequence[float] | None = None, units: str = "SI") -> Figure:
     """Cumulative energy by component (stacked), with the input energy as a line.
 
     Parameters
@@ -173,14 +190,17 @@ def energy_stack(time: Sequence[float], components: Mapping[str, Sequence[float]
         Energy histories by component (kinetic, strain, viscous, hysteretic...). [kN m]
     input_energy : array, optional
         Input energy history. [kN m]
+    units : str
+        Display unit system, "SI" or "US" (kN m or kip in); inputs stay in SI.
     """
+    energy = axis_unit("energy", units)
     fig, ax = _figure(3.0)
     names = list(components)
-    ax.stackplot(time, *[np.asarray(components[k], dtype=float) for k in names], labels=names, alpha=0.8)
+    ax.stackplot(time, *[energy(components[k]) for k in names], labels=names, alpha=0.8)
     if input_energy is not None:
-        ax.plot(time, input_energy, color="k", lw=1.0, ls="--", label="input")
+        ax.plot(time, energy(input_energy), color="k", lw=1.0, ls="--", label="input")
     ax.set_xlabel("Time [s]")
-    ax.set_ylabel("Energy [kN m]")
+    ax.set_ylabel(f"Energy [{energy.label}]")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8, loc="upper left")
     return fig
@@ -194,11 +214,12 @@ def _label(case: str) -> str:
     return "fixed base" if case == "fixed" else f"isolated, {case}"
 
 
-def history_profiles(results: Mapping[str, Any]) -> Figure:
+def history_profiles(results: Mapping[str, Any], *, units: str = "SI") -> Figure:
     """:func:`storey_profiles` of suite means from :class:`isolation.response.HistoryResult` by case.
 
     The lowest level shows the peak ground acceleration (fixed base) or the
-    peak base-slab acceleration (isolated), suite means. [g]
+    peak base-slab acceleration (isolated), suite means. [g] ``units``: "SI" or
+    "US", the display system of the heights.
     """
     drifts, accelerations, levels = {}, {}, None
     for case, result in results.items():
@@ -208,35 +229,38 @@ def history_profiles(results: Mapping[str, Any]) -> Figure:
         drifts[_label(case)] = peaks["drift_ratio"].mean(axis=0)
         accelerations[_label(case)] = np.concatenate(
             [[np.abs(base).max(axis=1).mean()], peaks["floor_acceleration"].mean(axis=0)])
-    return storey_profiles(levels, drifts, accelerations)
+    return storey_profiles(levels, drifts, accelerations, units=units)
 
 
-def history_base_shear(results: Mapping[str, Any]) -> Figure:
-    """:func:`base_shear_comparison` of suite-mean peak base shear by case, against fixed base."""
+def history_base_shear(results: Mapping[str, Any], *, units: str = "SI") -> Figure:
+    """:func:`base_shear_comparison` of suite-mean peak base shear by case, against fixed base.
+
+    ``units``: "SI" (kN) or "US" (kip), the display system.
+    """
     values = {_label(case): float(r.peaks()["base_shear"].mean()) for case, r in results.items()}
-    return base_shear_comparison(values, reference="fixed base" if "fixed" in results else None)
+    return base_shear_comparison(values, reference="fixed base" if "fixed" in results else None, units=units)
 
 
 def history_displacements(result: Any, *, design_displacement: float | None = None,
-                          capacity: float | None = None) -> Figure:
-    """:func:`displacement_histories` of an isolated :class:`HistoryResult`."""
+                          capacity: float | None = None, units: str = "SI") -> Figure:
+    """:func:`displacement_histories` of an isolated :class:`HistoryResult` (``units``: "SI" or "US")."""
     return displacement_histories(result.time, result.isolator_displacement,
-                                  design_displacement=design_displacement, capacity=capacity)
+                                  design_displacement=design_displacement, capacity=capacity, units=units)
 
 
-def history_loops(results: Mapping[str, Any], record: int = 0) -> Figure:
-    """:func:`hysteresis_loops` of one record for every isolated case."""
+def history_loops(results: Mapping[str, Any], record: int = 0, *, units: str = "SI") -> Figure:
+    """:func:`hysteresis_loops` of one record for every isolated case (``units``: "SI" or "US")."""
     isolated = {_label(c): r for c, r in results.items() if r.isolated}
     return hysteresis_loops({k: r.isolator_displacement[record] for k, r in isolated.items()},
-                            {k: r.isolator_force[record] for k, r in isolated.items()})
+                            {k: r.isolator_force[record] for k, r in isolated.items()}, units=units)
 
 
-def history_energy(result: Any, record: int = 0) -> Figure:
-    """:func:`energy_stack` of one record of a :class:`HistoryResult`."""
+def history_energy(result: Any, record: int = 0, *, units: str = "SI") -> Figure:
+    """:func:`energy_stack` of one record of a :class:`HistoryResult` (``units``: "SI" or "US")."""
     names = {"kinetic": "kinetic", "elastic_strain": "elastic strain", "viscous": "viscous damping",
              "hysteretic": "isolator hysteresis"}
     parts = {label: result.energy[key][record] for key, label in names.items() if key in result.energy}
-    return energy_stack(result.time, parts, input_energy=result.energy["input"][record])
+    return energy_stack(result.time, parts, input_energy=result.energy["input"][record], units=units)
 
 
 def history_floor_spectra(results: Mapping[str, Any], periods: Sequence[float] | None = None,
