@@ -9,6 +9,11 @@ procedure are reported as checks; each failure says that a fuller analysis is
 required. A fixed-base comparison uses the EN 1998-1 design spectrum with the
 behaviour factor q (§3.2.2.5) and the lateral force method (§4.3.3.2).
 
+The importance factor gamma_I (EN 1998-1 §4.2.5, recommended 0.8/1.0/1.2/1.4
+for importance classes I-IV, from memory) enters through the spectrum
+(a_g = gamma_I a_gR, :class:`isolation.spectra.EurocodeSpectrum`); a study
+takes it from ``building.importance``.
+
 Scope: concept-stage feasibility, not construction design. Clauses marked
 "from memory" were not re-read; National Annexes may change the values.
 

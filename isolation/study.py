@@ -27,9 +27,13 @@ internal units: kN, m, s, kPa, spectral values in g.
 * ``[building]`` storeys*, floor_weights* (level 1 to roof; one value for
   all), base_weight*, storey_heights*, lateral_system* (steel_moment_frame,
   concrete_moment_frame, braced_frame, other), response_modification* (R, or
-  q for Eurocode), importance (1.0), plan_length*, plan_width* (length is the
-  longer side), fixed_base_period (code estimate), eccentricity (0 m),
-  damping (0.05).
+  q for Eurocode), importance (1.0; ASCE 7: the seismic importance factor I_e,
+  0.8-1.5, of the fixed-base design shear; Eurocode: the importance factor
+  gamma_I of EN 1998-1 §4.2.5, 0.8-1.4, recommended 0.8/1.0/1.2/1.4 for
+  importance classes I-IV (from memory), which scales the site spectrum as
+  a_g = gamma_I a_gR with ``site.ag`` = a_gR; a ``spectrum_file`` is used as
+  given, gamma_I included), plan_length*, plan_width* (length is the longer
+  side), fixed_base_period (code estimate), eccentricity (0 m), damping (0.05).
 * ``[analysis]`` suite_size 7 or 11, seed (0), duration (30 s), time_step
   (0.005 s), damping (0.05).
 * ``[wind]`` base_shear (no wind check without it).

@@ -72,7 +72,11 @@ class Building:
     ``floor_weights`` [kN] from level 1 to the roof, ``base_weight`` [kN] of
     the floor just above the isolators, ``storey_heights`` [m],
     ``fixed_base_period`` [s] or None (code estimate), ``plan_length`` and
-    ``plan_width`` [m], ``eccentricity`` [m], ``damping`` [-].
+    ``plan_width`` [m], ``eccentricity`` [m], ``damping`` [-]. ``importance``
+    [-] is I_e (ASCE/SEI 7-16 Table 1.5-2) for an ASCE 7 basis and gamma_I
+    (EN 1998-1 §4.2.5, 0.8/1.0/1.2/1.4 for classes I-IV, from memory) for a
+    Eurocode basis; allowed ranges in
+    :data:`isolation.study_sections.IMPORTANCE_RANGES`.
     """
 
     storeys: int

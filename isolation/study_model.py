@@ -23,6 +23,7 @@ import numpy as np
 
 from isolation import GRAVITY
 from isolation import verdict as _verdict
+from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
@@ -36,7 +37,8 @@ EUROCODE_MAX_PERIOD = 10.0
 but the suite-mean check (up to 2 T_M) and the matched band (up to max(6 s, 1.5 T_M)) of
 isolated buildings reach beyond it, so the T_C T_D/T^2 branch is continued to 10 s."""
 
-EUROCODE_SPECTRUM_NOTE = ("EN 1998-1 elastic spectrum: beyond 4 s its T_C T_D/T^2 branch is extended to "
+EUROCODE_SPECTRUM_NOTE = ("EN 1998-1 elastic spectrum with a_g = gamma_I a_gR, gamma_I = building.importance "
+                          "(§2.1(3), §4.2.5, from memory): beyond 4 s its T_C T_D/T^2 branch is extended to "
                           f"{EUROCODE_MAX_PERIOD:g} s (constant spectral displacement); the displacement "
                           "spectrum of EN 1998-1 Annex A is not implemented")
 """Assumption stated in the results of a study on a Eurocode (not tabulated) spectrum."""
@@ -191,7 +193,7 @@ def _figures(study, spectrum, alternative, q, summary, report, permitted, reason
     # Overturning: V_b at the effective height of the code's force distribution, rigid body on
     # a uniform bearing field across the width B: dP/P = 6 M/(W B) (derived); net gravity
     # (1 - 0.2 S_MS), vertical earthquake after ASCE/SEI 7-16 §12.4.2.2 (from memory), with the
-    # spectrum plateau standing for S_MS.
+    # spectrum plateau standing for S_MS (for a Eurocode basis the same 0.2 is common practice).
     heights = np.cumsum(b.storey_heights)
     forces = [s.force for s in getattr(report, "storey_forces", ())]
     if forces and sum(forces) > 0:
@@ -202,7 +204,9 @@ def _figures(study, spectrum, alternative, q, summary, report, permitted, reason
     net = max(1.0 - 0.2 * _plateau(spectrum), 1e-6)
     uplift = 6.0 * moment / (b.total_weight * b.plan_width) / net
     ratio = float(spectrum.sa(upper.period, upper.damping)) / float(spectrum.sa(t_fb, 0.05))
-    drift_limit, drift_source = 0.020, "ASCE/SEI 7-16 §17.6.4.4, MCE_R response-history analysis (from memory)"
+    # Drift of the response histories: 2 % at MCE_R (ASCE/SEI 7-16 §17.6.4.4) or under the design
+    # action (EN 1998-1 §4.4.3.2 with nu = 0.5), both from memory; the clause follows study.basis.
+    drift_limit, drift_source = _drift_limit(study.basis)
     return _verdict.Figures(
         alternative=alternative.name, fixed_base_period=t_fb, isolated_period=upper.period,
         total_displacement=q["total_displacement"], displacement_capacity=q["displacement_capacity"],

@@ -16,7 +16,7 @@ from typing import Any
 from isolation.study_inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
 from isolation.study_keys import BEARING_KEYS, Problems, Reader
 
-__all__ = ["LATERAL_SYSTEMS"]
+__all__ = ["LATERAL_SYSTEMS", "IMPORTANCE_RANGES"]
 
 
 def _project(t: Reader | None) -> Project | None:
@@ -121,6 +121,28 @@ LATERAL_SYSTEMS = ("steel_moment_frame", "concrete_moment_frame", "braced_frame"
 """Lateral systems for the code's approximate fixed-base period (ASCE/SEI 7-16 Table 12.8-2)."""
 
 
+IMPORTANCE_RANGES = {"asce7": (1.0, 1.5), "eurocode": (0.8, 1.4)}
+"""Allowed ``building.importance`` [-] per code basis. ASCE 7: the seismic importance
+factor I_e (ASCE/SEI 7-16 Table 1.5-2: 1.0, 1.25, 1.5). Eurocode: the importance factor
+gamma_I (EN 1998-1 §4.2.5, recommended 0.8, 1.0, 1.2, 1.4 for importance classes I-IV;
+it scales a_g = gamma_I a_gR, §2.1(3)). Both from memory; National Annexes may differ."""
+
+_IMPORTANCE_MEANING = {"asce7": "I_e of ASCE/SEI 7-16 Table 1.5-2",
+                       "eurocode": "gamma_I of EN 1998-1 §4.2.5, 0.8/1.0/1.2/1.4 for classes I-IV"}
+
+
+def _importance(t: Reader, basis: str) -> float | None:
+    """building.importance: I_e (ASCE 7) or gamma_I (Eurocode), range per basis."""
+    value = t.number("importance", required=False, default=1.0)
+    low, high = IMPORTANCE_RANGES.get(basis, IMPORTANCE_RANGES["asce7"])
+    if value is not None and not low <= value <= high:
+        meaning = _IMPORTANCE_MEANING.get(basis, _IMPORTANCE_MEANING["asce7"])
+        t.problems.add(f"{t.path_of('importance')} = {value:g} is not allowed: must be a number in "
+                       f"[{low:g}, {high:g}] [-] for code.basis = {basis!r} ({meaning})")
+        return None
+    return value
+
+
 def _building(t: Reader | None, basis: str) -> Building | None:
     if t is None:
         return None
@@ -134,7 +156,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
         storey_heights=t.quantity_list("storey_heights", "length", length=count, low=1.5, high=20.0),
         lateral_system=t.choice("lateral_system", LATERAL_SYSTEMS),
         response_modification=t.number("response_modification", low=1.0, high=8.0),
-        importance=t.number("importance", low=0.8, high=1.5, required=False, default=1.0),
+        importance=_importance(t, basis),
         plan_length=t.quantity("plan_length", "length", low=1.0, high=500.0),
         plan_width=t.quantity("plan_width", "length", low=1.0, high=500.0),
         fixed_base_period=t.quantity("fixed_base_period", "time", low=0.02, high=10.0, required=False),

@@ -11,9 +11,12 @@ rule over a :class:`Figures` record and combines them:
 * otherwise           -> ``"feasible"``
 
 The rules and :class:`Reason` live in :mod:`isolation.verdict_rules` and are
-re-exported here. Limits marked "common practice" have no single source;
-"from memory" means the clause was not re-read when this was written. This is
-a screening aid for a feasibility study; a licensed engineer decides.
+re-exported here. Each finding cites the clause of the study's code basis
+(``Figures.basis``: ASCE/SEI 7-16 Chapter 17 or EN 1998-1:2004 Section 10,
+see :mod:`isolation.verdict_sources`). Limits marked "common practice" have no
+single source, whatever the basis; "from memory" means the clause was not
+re-read when this was written. This is a screening aid for a feasibility
+study; a licensed engineer decides.
 """
 
 from __future__ import annotations
@@ -24,8 +27,8 @@ from typing import Any, Mapping
 from isolation.verdict_rules import (Reason, base_shear_reduction, bearing_checks, design_shear,
                                      displacement_capacity, displacement_size, effective_damping,
                                      elf_applicability, floor_acceleration_reduction, isolated_period,
-                                     moat_clearance, near_fault, period_shift, site_suitability, slenderness,
-                                     spectral_benefit, storey_drift, uplift, wind)
+                                     moat_clearance, period_shift, storey_drift, uplift)
+from isolation.verdict_site import near_fault, site_suitability, slenderness, spectral_benefit, wind
 
 __all__ = [
     "FEASIBLE",
@@ -127,10 +130,12 @@ class Figures:
     drift_ratio : float or None
         Largest storey drift ratio of the isolated building (upper bound,
         suite mean). [-]
-    drift_limit : float
-        Allowed storey drift ratio. [-]
+    drift_limit : float or None
+        Allowed storey drift ratio; None for the basis' default (0.015 for
+        ASCE 7, see :func:`isolation.verdict_rules.storey_drift`). [-]
     drift_source : str
-        Where ``drift_limit`` comes from (default: the ELF limit's clause).
+        Where ``drift_limit`` comes from (default: the basis' clause for the
+        default limit, see :func:`isolation.verdict_rules.storey_drift`).
     uplift_ratio : float or None
         Change of axial load at the edge bearings from overturning over their
         gravity load less vertical earthquake; >= 1 means net tension. [-]
@@ -139,7 +144,8 @@ class Figures:
     site_class : str or None
         ASCE 7 site class (A-F) or Eurocode ground type (A-E).
     basis : str
-        ``"asce7"`` or ``"eurocode"``.
+        Code basis, ``"asce7"`` (ASCE/SEI 7-16) or ``"eurocode"`` (EN 1998-1):
+        every rule cites the clauses of this basis.
     near_fault : bool
         Whether the study flags the site as near an active fault.
     spectral_ratio : float or None
@@ -172,7 +178,7 @@ class Figures:
     design_shear_ratio: float | None = None
     floor_acceleration_ratio: float | None = None
     drift_ratio: float | None = None
-    drift_limit: float = 0.015
+    drift_limit: float | None = None
     drift_source: str = ""
     uplift_ratio: float | None = None
     slenderness: float | None = None
@@ -210,27 +216,29 @@ def combine(reasons) -> str:
 def assess(figures: Figures) -> Verdict:
     """Run every rule over ``figures`` and return the :class:`Verdict`."""
     f = figures
+    basis = f.basis
     found = [
-        period_shift(f.isolated_period, f.fixed_base_period),
-        isolated_period(f.isolated_period),
+        period_shift(f.isolated_period, f.fixed_base_period, basis=basis),
+        isolated_period(f.isolated_period, basis=basis),
         displacement_capacity(f.total_displacement, f.displacement_capacity, f.history_displacement,
-                              system=f.units),
-        moat_clearance(f.total_displacement, f.moat, system=f.units),
+                              system=f.units, basis=basis),
+        moat_clearance(f.total_displacement, f.moat, system=f.units, basis=basis),
         displacement_size(f.total_displacement, system=f.units),
         base_shear_reduction(f.base_shear_ratio) if f.base_shear_ratio is not None else None,
-        design_shear(f.design_shear_ratio) if f.design_shear_ratio is not None else None,
+        design_shear(f.design_shear_ratio, basis=basis) if f.design_shear_ratio is not None else None,
         (floor_acceleration_reduction(f.floor_acceleration_ratio)
          if f.floor_acceleration_ratio is not None else None),
-        storey_drift(f.drift_ratio, f.drift_limit, f.drift_source) if f.drift_ratio is not None else None,
-        uplift(f.uplift_ratio) if f.uplift_ratio is not None else None,
+        (storey_drift(f.drift_ratio, f.drift_limit, f.drift_source, basis=basis)
+         if f.drift_ratio is not None else None),
+        uplift(f.uplift_ratio, basis=basis) if f.uplift_ratio is not None else None,
         slenderness(f.slenderness) if f.slenderness is not None else None,
-        site_suitability(f.site_class, f.basis),
+        site_suitability(f.site_class, basis),
         spectral_benefit(f.spectral_ratio) if f.spectral_ratio is not None else None,
-        near_fault(f.near_fault),
-        wind(f.wind_base_shear, f.characteristic_strength, system=f.units),
-        elf_applicability(f.elf_permitted, tuple(f.elf_reasons)),
+        near_fault(f.near_fault, basis=basis),
+        wind(f.wind_base_shear, f.characteristic_strength, system=f.units, basis=basis),
+        elf_applicability(f.elf_permitted, tuple(f.elf_reasons), basis=basis),
         bearing_checks(tuple(f.failed_checks)),
-        effective_damping(f.effective_damping),
+        effective_damping(f.effective_damping, basis=basis),
     ]
     reasons = tuple(r for r in found if r is not None)
     return Verdict(alternative=f.alternative, outcome=combine(reasons), reasons=reasons)

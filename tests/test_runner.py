@@ -187,8 +187,10 @@ def test_tabulated_spectrum_gives_the_code_answer(tmp_path):
 
 
 def eurocode_demo(**overrides):
-    """The demo study on an EN 1998-1 Type 1 spectrum, ground B, a_g 0.3 g, first alternative only."""
-    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode", **overrides})
+    """The demo study on an EN 1998-1 Type 1 spectrum, ground B, a_g 0.3 g, first alternative only,
+    importance class IV: gamma_I = 1.4 (EN 1998-1 §4.2.5, recommended value, from memory)."""
+    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode", "building.importance": 1.4,
+                                                         **overrides})
     site = mapping["site"]
     for key in ("sms", "sm1", "long_period", "s1", "site_class"):
         del site[key]
@@ -207,10 +209,10 @@ def test_eurocode_basis_runs():
     q = fp.quantities
     t, xi = q["period_lower"], q["damping_lower"]
     eta = max(math.sqrt(10 / (5 + 100 * xi)), 0.55)
-    # gamma_I = 1.5: building.importance of the demo study file, taken as the EN 1998-1 §2.1(3)
+    # gamma_I = 1.4: building.importance set in eurocode_demo, the EN 1998-1 §2.1(3)
     # importance factor (a_g = gamma_I a_gR), applied below.
     se = 0.3 * 1.0 * 1.2 * 2.5 * eta * 0.5 * 2.0 / t**2
-    d_expected = GRAVITY * 1.5 * se * t**2 / (4 * math.pi**2)
+    d_expected = GRAVITY * 1.4 * se * t**2 / (4 * math.pi**2)
     assert t > 2.0
     assert q["displacement"] == pytest.approx(d_expected, rel=0.01)
     # EN 1998-1 §3.2.3.1.2(4) (from memory): the suite mean is checked from 0.2 T to 2 T. With
@@ -220,6 +222,13 @@ def test_eurocode_basis_runs():
     assert results.suite["check"]["check_range_s"][1] == pytest.approx(2.0 * t, rel=1e-9)
     assert results.spectrum["definition"]["max_period"] == 10.0
     assert "Annex A is not implemented" in results.spectrum["note"]
+    # The basis reaches the verdict: every reason cites EN 1998-1 (Section 10, §4.4.3.2) or common
+    # practice, none ASCE/SEI 7.
+    sources = {r["topic"]: r["source"] for r in fp.verdict["reasons"]}
+    assert fp.figures["basis"] == "eurocode"
+    assert not [s for s in sources.values() if "ASCE" in s]
+    for topic in ("period shift", "displacement capacity", "drift", "analysis procedure"):
+        assert "EN 1998-1" in sources[topic], (topic, sources[topic])
 
 
 def test_eurocode_suite_band_reaches_twice_a_long_isolated_period():

@@ -274,7 +274,8 @@ def test_spectrum_file_and_code_parameters_together_are_refused(tmp_path):
 
 
 def test_eurocode_site_keys():
-    mapping = apply_overrides(demo_mapping(), {"code.basis": "eurocode"})
+    # gamma_I = 1.2: importance class III, EN 1998-1 §4.2.5 (from memory); the demo's 1.5 is an ASCE 7 I_e.
+    mapping = apply_overrides(demo_mapping(), {"code.basis": "eurocode", "building.importance": 1.2})
     site = mapping["site"]
     for key in ("sms", "sm1", "long_period", "s1", "site_class"):
         del site[key]
@@ -284,6 +285,41 @@ def test_eurocode_site_keys():
     site["ground_type"] = "F"   # EN 1998-1 Table 3.1 has A-E (and S1, S2 for special studies)
     problems = problems_of(mapping)
     assert problems == ["site.ground_type = 'F' is not allowed: must be one of 'A', 'B', 'C', 'D', 'E'"]
+
+
+def eurocode_mapping(importance):
+    mapping = apply_overrides(demo_mapping(), {"code.basis": "eurocode", "building.importance": importance})
+    for key in ("sms", "sm1", "long_period", "s1", "site_class"):
+        del mapping["site"][key]
+    mapping["site"].update(ag=0.3, ground_type="B", spectrum_type=1)
+    return mapping
+
+
+@pytest.mark.parametrize("importance", [0.8, 1.0, 1.2, 1.4])
+def test_eurocode_importance_classes_are_accepted(importance):
+    # EN 1998-1 §4.2.5 (from memory): recommended gamma_I 0.8, 1.0, 1.2, 1.4 for classes I-IV.
+    assert parse_study(eurocode_mapping(importance), source="ec.toml").building.importance == importance
+
+
+@pytest.mark.parametrize("importance", [1.5, 0.7])
+def test_eurocode_importance_outside_gamma_i_range_is_bad_input(importance):
+    # building.importance is gamma_I for a Eurocode basis: 0.8-1.4 (EN 1998-1 §4.2.5, from memory),
+    # so the ASCE 7 I_e = 1.5 of an essential facility (ASCE/SEI 7-16 Table 1.5-2) is not allowed.
+    problems = problems_of(eurocode_mapping(importance))
+    assert len(problems) == 1, problems
+    assert problems[0].startswith(f"building.importance = {importance:g} is not allowed: must be")
+    assert "[0.8, 1.4]" in problems[0] and "gamma_I" in problems[0] and "EN 1998-1" in problems[0]
+
+
+def test_asce7_importance_keeps_its_range():
+    # ASCE/SEI 7-16 Table 1.5-2: I_e is 1.0, 1.25 or 1.5 (risk categories I-IV); 1.6 and 0.9 are not.
+    for allowed in (1.0, 1.25, 1.5):
+        assert parse_study(apply_overrides(demo_mapping(), {"building.importance": allowed}),
+                           source="t.toml").building.importance == allowed
+    for value in (1.6, 0.9):
+        problems = problems_of(apply_overrides(demo_mapping(), {"building.importance": value}))
+        assert problems == [f"building.importance = {value:g} is not allowed: must be a number in [1, 1.5] [-] "
+                            "for code.basis = 'asce7' (I_e of ASCE/SEI 7-16 Table 1.5-2)"]
 
 
 def test_long_period_must_exceed_ts():

@@ -35,6 +35,10 @@ from isolation.tables import Table, checks_table, escape_latex, format_number, k
         (2.5e9, 3, "2.50e+09"),
         (0.000123, 2, "1.2e-04"),
         (-0.5, 3, "-0.500"),
+        (0.99999, 3, "1.00"),       # rounds up across a power of ten: still 3 figures
+        (99.996, 3, "100"),
+        (9.9996, 3, "10.0"),
+        (-999.7, 3, "-1000"),
         (0.0, 3, "0"),
         (7, 3, "7"),
         (np.int64(11), 3, "11"),
@@ -151,6 +155,55 @@ def test_checks_table_reads_check_objects_and_dicts():
     assert table.cells[1] == ("tension", "310", "240", "kPa", "FAIL", "--")
 
 
+# NIST SP 811 (2008), Appendix B: 1 in = 0.0254 m exactly; 1 lbf = 4.448 221 615 260 5 N exactly
+# (defining: 0.453 592 37 kg x 9.806 65 m/s2); 1 psi = 1 lbf/in2 = 6.894 757 293 168 kPa.
+_INCH_M = 0.0254
+_KIP_KN = 4.4482216152605
+_PSI_KPA = _KIP_KN / 1000.0 / _INCH_M**2  # 1 lbf (kip/1000) over 1 in2, in kPa
+_KIP_PER_IN_KN_M = _KIP_KN / _INCH_M
+
+
+def _unit_checks():
+    return [
+        {"name": "displacement capacity", "value": _INCH_M, "limit": 2 * _INCH_M, "passed": True, "unit": "m",
+         "source": "s"},
+        {"name": "net tension (uplift)", "value": _KIP_KN, "limit": 0.0, "passed": True, "unit": "kN", "source": ""},
+        {"name": "tension stress", "value": 100 * _PSI_KPA, "limit": 3 * 80 * _PSI_KPA, "passed": True,
+         "unit": "kPa", "source": ""},
+        {"name": "compression modulus", "value": 1000 * _PSI_KPA, "limit": None, "passed": True, "unit": "kPa",
+         "source": ""},
+        {"name": "shear strain", "value": 1.8, "limit": 2.5, "passed": True, "unit": "-", "source": ""},
+        {"name": "vertical period", "value": 0.08, "limit": 0.1, "passed": True, "unit": "s", "source": ""},
+        {"name": "mapped S_1 below 0.6 g", "value": 0.45, "limit": 0.6, "passed": True, "unit": "g", "source": ""},
+    ]
+
+
+def test_checks_table_in_us_units_converts_lengths_forces_and_stresses_only():
+    us = checks_table(_unit_checks(), "Checks", system="US")
+    assert _row(us, "displacement capacity")[1:4] == ("1.00", "2.00", "in")
+    assert _row(us, "net tension (uplift)")[1:4] == ("1.00", "0", "kip")
+    assert _row(us, "tension stress")[1:4] == ("100", "240", "psi")   # 3 G with G = 80 psi
+    assert _row(us, "compression modulus")[1:4] == ("1000", "--", "psi")
+    # Dimensionless, periods and spectral values: as given.
+    assert _row(us, "shear strain")[1:4] == ("1.80", "2.50", "-")
+    assert _row(us, "vertical period")[1:4] == ("0.0800", "0.100", "s")
+    assert _row(us, "mapped S_1 below 0.6 g")[1:4] == ("0.450", "0.600", "g")
+
+
+def test_checks_table_in_si_units_is_unchanged():
+    si = checks_table(_unit_checks(), "Checks", system="SI")
+    assert si.cells == checks_table(_unit_checks(), "Checks").cells
+    assert _row(si, "displacement capacity")[1:4] == ("0.0254", "0.0508", "m")
+    assert _row(si, "net tension (uplift)")[1:4] == ("4.45", "0", "kN")
+    assert _row(si, "tension stress")[1:4] == ("689", "1650", "kPa")
+    assert _row(si, "shear strain")[1:4] == ("1.80", "2.50", "-")
+
+
+def test_checks_table_refuses_an_unknown_unit_system():
+    with pytest.raises(ValueError, match=r"system = 'imperial' is not allowed: must be one of 'SI', 'US'"):
+        checks_table(_unit_checks(), "Checks", system="imperial")
+
+
 # --- builders over a study's results (hand-made, invented numbers) ---------------------------
 def _results(units: str = "SI") -> dict:
     bound = {"displacement": 0.5, "period": 3.0, "damping": 0.2, "damping_coefficient": 1.5,
@@ -229,6 +282,27 @@ def test_bounds_history_and_comparison_tables():
     assert _row(compared, "Verdict")[1] == "feasible with conditions"
     us = bounds_table(results["alternatives"][0], "US")
     assert us.columns[1] == "D [in]" and _row(us, "lower")[1] == "19.7"  # 0.5 m / 0.0254 m
+
+
+def test_code_quantities_table_in_si_and_us_units():
+    from isolation.tables import code_quantities_table
+
+    alternative = _results()["alternatives"][0]
+    alternative["report"]["quantities"] += [
+        {"name": "effective stiffness", "symbol": "K_eff", "value": _KIP_PER_IN_KN_M, "unit": "kN/m", "source": "x"},
+        {"name": "isolation-system shear", "symbol": "V_b", "value": 250 * _KIP_KN, "unit": "kN", "source": "x"},
+        {"name": "reduction factor", "symbol": "R_I", "value": 2.0, "unit": "-", "source": "x"},
+        {"name": "fixed-base period", "symbol": "T_fb", "value": 0.5, "unit": "s", "source": "x"},
+    ]
+    si = code_quantities_table(alternative)
+    assert _row(si, "maximum displacement (D_M)")[1:3] == ("0.500", "m")
+    assert _row(si, "effective stiffness (K_eff)")[1:3] == ("175", "kN/m")  # 4.4482216 kN / 0.0254 m
+    us = code_quantities_table(alternative, "US")
+    assert _row(us, "maximum displacement (D_M)")[1:3] == ("19.7", "in")  # 0.5 m / 0.0254 m
+    assert _row(us, "effective stiffness (K_eff)")[1:3] == ("1.00", "kip/in")
+    assert _row(us, "isolation-system shear (V_b)")[1:3] == ("250", "kip")
+    assert _row(us, "reduction factor (R_I)")[1:3] == ("2.00", "-")
+    assert _row(us, "fixed-base period (T_fb)")[1:3] == ("0.500", "s")
 
 
 def test_verdict_suite_and_alternatives_tables():

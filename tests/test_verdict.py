@@ -9,6 +9,9 @@ Limits and where they come from (the same sources the module cites):
 * Wind must not yield the isolation plane: ASCE/SEI 7-16 §17.2.4.3 (from memory).
 Reduction thresholds (base shear < 0.7, floor acceleration < 0.6,
 spectral ratio < 0.5/0.8) are common practice.
+On a Eurocode basis the same limits cite EN 1998-1:2004 (from memory): §10.9
+simplified analysis (T_eff >= 3 T_f, xi_eff <= 30 %), §10.3 gamma_x and §10.4
+for the isolators, §10.10(5) q <= 1.5, §4.4.3.2 damage limitation for drift.
 """
 
 import json
@@ -188,6 +191,60 @@ def test_soft_long_period_site_case_is_not_recommended():
     assert result.by_level("condition")[0].topic == "period shift"
     conditions = {r.topic for r in result.by_level("condition")}
     assert {"period shift", "moat", "soft soil"} <= conditions
+
+
+# Topics whose limit has a code clause on each basis (Eurocode: EN 1998-1:2004 §10.3 gamma_x,
+# §10.4 compliance criteria, §10.9 simplified analysis, §10.10, §4.4.3.2 damage limitation; all
+# from memory), and those that are common practice whatever the basis.
+CODE_TOPICS = ("period shift", "displacement capacity", "moat", "design shear", "drift",
+               "analysis procedure", "effective damping")
+PRACTICE_TOPICS = ("displacement size", "base shear", "floor acceleration", "slenderness", "soft soil")
+
+
+def reasons_by_topic(basis, **changes):
+    # near_fault and a long isolated period bring in the near-fault and 5 s notes as well.
+    figures = good_figures(basis=basis, near_fault=True, isolated_period=5.5, **changes)
+    return {r.topic: r for r in v.assess(figures).reasons}
+
+
+def test_eurocode_basis_cites_en_1998_and_no_asce():
+    reasons = reasons_by_topic("eurocode")
+    for topic in CODE_TOPICS:
+        assert "EN 1998-1" in reasons[topic].source, (topic, reasons[topic].source)
+    for topic in PRACTICE_TOPICS:
+        assert reasons[topic].source == "common practice", (topic, reasons[topic].source)
+    for reason in reasons.values():
+        assert "ASCE" not in reason.source, (reason.topic, reason.source)
+        assert "ELF" not in reason.message and "equivalent lateral force" not in reason.message
+    assert "§10.9" in reasons["analysis procedure"].source
+    assert "§10.3" in reasons["displacement capacity"].source
+    assert "from memory" in reasons["period shift"].source
+    assert "common practice" in reasons["wind"].source and "common practice" in reasons["near fault"].source
+    assert "common practice" in reasons["isolated period"].source   # the 5 s end of the band
+    # EN 1998-1 §4.4.3.2: d_r nu <= 0.010 h with nu = 0.5 gives 2 % under the design action (from memory).
+    assert reasons["drift"].limit == 0.020 and "§4.4.3.2" in reasons["drift"].source
+
+
+def test_asce7_basis_keeps_its_sources():
+    reasons = reasons_by_topic("asce7")
+    for topic in CODE_TOPICS:
+        assert "ASCE/SEI 7-16" in reasons[topic].source, (topic, reasons[topic].source)
+        assert "EN 1998" not in reasons[topic].source
+    for topic in PRACTICE_TOPICS:
+        assert reasons[topic].source == "common practice", (topic, reasons[topic].source)
+    # The clauses cited before the basis reached the rules (ASCE/SEI 7-16, from memory).
+    assert reasons["moat"].source == "ASCE/SEI 7-16 §17.2.6 (from memory): separation not less than D_TM"
+    assert reasons["wind"].source.startswith("ASCE/SEI 7-16 §17.2.4.3")
+    assert reasons["near fault"].source == "ASCE/SEI 7-16 §17.3.2 (from memory)"
+    assert reasons["isolated period"].source == "ASCE/SEI 7-16 §17.4.1 (from memory)"
+    assert reasons["drift"].source == "ASCE/SEI 7-16 §17.5.6 (from memory)" and reasons["drift"].limit == 0.015
+    assert reasons["analysis procedure"].message == "the equivalent lateral force procedure is permitted"
+    assert "§11.4.8" in v.site_suitability("F", "asce7").source
+
+
+def test_unknown_basis_is_bad_input():
+    with pytest.raises(ValueError, match=r"basis = 'nzs' is not allowed: must be one of 'asce7', 'eurocode'"):
+        v.moat_clearance(0.4, 0.5, basis="nzs")
 
 
 def test_combine_rules():

@@ -234,7 +234,8 @@ def eurocode_report(tmp_path_factory):
     from isolation.study import apply_overrides, read_study_mapping
 
     out = tmp_path_factory.mktemp("eurocode")
-    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode"})
+    # gamma_I = 1.4, importance class IV (EN 1998-1 §4.2.5, from memory); the demo's 1.5 is an ASCE 7 I_e.
+    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode", "building.importance": 1.4})
     for key in ("sms", "sm1", "long_period", "s1", "site_class"):
         del mapping["site"][key]
     mapping["site"].update(ag=0.3, ground_type="B", spectrum_type=1)

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
-from isolation.tables.table import Table, format_number
+from isolation.tables.table import Table, format_number, in_study_units
 
 __all__ = [
     "inputs_table",
@@ -132,11 +132,19 @@ def bounds_table(alternative: Any, system: str = "SI") -> Table:
     )
 
 
-def code_quantities_table(alternative: Any) -> Table:
-    """The code procedure's key quantities (symbol, value, unit, source), internal units."""
+def code_quantities_table(alternative: Any, system: str = "SI") -> Table:
+    """The code procedure's key quantities (symbol, value, unit, source).
+
+    Lengths, forces, stiffnesses and stresses are shown in the units of the
+    ``system`` ("SI" or "US", :func:`~isolation.tables.table.in_study_units`);
+    periods, ratios and spectral values as they are.
+    """
     items = _part(alternative, "report").get("quantities", [])
-    rows = tuple((f"{i['name']} ({i['symbol']})", i["value"], i["unit"], i.get("source", "")) for i in items)
-    return Table(columns=("Quantity", "Value", "Unit", "Source"), rows=rows, align="prcp",
+    rows = []
+    for i in items:
+        value, unit = in_study_units(i["value"], i["unit"], system)
+        rows.append((f"{i['name']} ({i['symbol']})", value, unit, i.get("source", "")))
+    return Table(columns=("Quantity", "Value", "Unit", "Source"), rows=tuple(rows), align="prcp",
                  caption=f"Code procedure quantities, {_part(alternative, 'name')}")
 
 

@@ -28,6 +28,7 @@ __all__ = [
     "escape_latex",
     "key_value_table",
     "checks_table",
+    "in_study_units",
 ]
 
 _LATEX_SPECIALS = {
@@ -90,9 +91,12 @@ def format_number(value: Any, digits: int = 3) -> str:
         magnitude = abs(number)
         if magnitude >= 1e9 or magnitude < 10 ** -(digits + 1):
             return f"{number:.{max(digits - 1, 0)}e}"
-        if magnitude >= 10 ** digits:  # whole number, rounded to the significant figures
-            return f"{int(round(number, digits - 1 - int(math.floor(math.log10(magnitude))))):d}"
-        decimals = max(digits - 1 - int(math.floor(math.log10(magnitude))), 0)
+        # Order of magnitude after rounding to the significant figures, so that 0.99999 reads
+        # "1.00" and 99.996 reads "100", not "1.000" and "100.0".
+        exponent = int(f"{magnitude:.{max(digits - 1, 0)}e}".split("e")[1])
+        if exponent >= digits:  # whole number, rounded to the significant figures
+            return f"{int(round(number, digits - 1 - exponent)):d}"
+        decimals = max(digits - 1 - exponent, 0)
         return f"{number:.{decimals}f}"
     return str(value)
 
@@ -272,25 +276,34 @@ def key_value_table(
     )
 
 
-def checks_table(checks: Iterable[Any], caption: str, *, digits: int = 3) -> Table:
+def checks_table(checks: Iterable[Any], caption: str, *, digits: int = 3, system: str = "SI") -> Table:
     """Pass/fail checks (objects or dicts with name, value, limit, passed, unit, source).
 
     Parameters
     ----------
     checks : iterable
-        :class:`isolation.bearings.Check` objects or their ``to_dict()`` forms.
+        :class:`isolation.bearings.Check` objects or their ``to_dict()`` forms,
+        values and limits in internal units (m, kN, kPa, kN/m).
     caption : str
         Table caption.
+    digits : int
+        Significant figures of the values and limits. [-]
+    system : str
+        "SI" or "US": lengths, forces, stiffnesses and stresses are shown in
+        this system's units (:func:`in_study_units`); dimensionless checks,
+        periods and spectral values as they are.
     """
     rows = []
     for check in checks:
         item = check if isinstance(check, Mapping) else _as_mapping(check)
         unit = item.get("unit") or ""
+        value, shown = in_study_units(item.get("value"), unit, system)
+        limit, _ = in_study_units(item.get("limit"), unit, system)
         rows.append((
             item.get("name", ""),
-            item.get("value"),
-            item.get("limit"),
-            unit if unit else "--",
+            value,
+            limit,
+            shown if shown else "--",
             "pass" if item.get("passed") else "FAIL",
             item.get("source", "") or "--",
         ))
@@ -301,6 +314,46 @@ def checks_table(checks: Iterable[Any], caption: str, *, digits: int = 3) -> Tab
         align="prrccp",
         digits=digits,
     )
+
+
+def in_study_units(value: Any, unit: str, system: str = "SI") -> tuple[Any, str]:
+    """A value written in an internal unit, in a unit system's units for its kind.
+
+    The internal units of :data:`isolation.units.KINDS` (m, kN, kPa, kN/m, t)
+    become the units a study of that system is written in
+    (:data:`isolation.units.BARE_UNITS`: SI m, kN, kPa, kN/m; US in, kip,
+    psi, kip/in); lengths, forces and stiffnesses thus match the display units
+    of the other tables. Any other unit ("-", "s", "g", "") and a value that is
+    not a number (None, text) pass through unchanged.
+
+    Parameters
+    ----------
+    value : float, None or any
+        Value in ``unit``. [unit]
+    unit : str
+        Internal unit the value is written in, e.g. "m", "kN", "kPa", "-".
+    system : str
+        "SI" or "US".
+
+    Returns
+    -------
+    (value, str)
+        The converted value and its unit name.
+    """
+    from isolation import units, validate
+
+    validate.one_of("system", system, units.SYSTEMS)
+    kinds = {internal: kind for kind, (internal, _) in units.KINDS.items() if kind != "weight"}
+    kind = kinds.get(unit)
+    if kind is None:
+        return value, unit
+    target = units.BARE_UNITS[system][kind]
+    if target == unit or isinstance(value, bool) or not isinstance(value, (int, float, np.integer, np.floating)):
+        return value, target
+    number = float(value)
+    if not math.isfinite(number):
+        return value, target
+    return units.convert(number, unit, target), target
 
 
 def _as_mapping(obj: Any) -> Mapping[str, Any]:

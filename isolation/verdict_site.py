@@ -1,0 +1,123 @@
+"""Verdict rules about the site and the building's shape: soft soil, long-period
+site, near-fault motion, wind against the isolators' strength, slenderness.
+
+Pure functions over plain numbers, one :class:`~isolation.verdict_rules.Reason`
+each, like :mod:`isolation.verdict_rules`; every name here is re-exported from
+:mod:`isolation.verdict`. Rules that cite a code take ``basis`` (``"asce7"``
+or ``"eurocode"``) and cite the clause of that basis (see
+:mod:`isolation.verdict_sources`); limits with no single source are "common
+practice". A screening aid for a feasibility study; a licensed engineer decides.
+"""
+
+from __future__ import annotations
+
+from isolation.verdict_rules import Reason, _force
+from isolation.verdict_sources import PRACTICE as _PRACTICE
+from isolation.verdict_sources import source as _source
+
+__all__ = ["slenderness", "site_suitability", "spectral_benefit", "near_fault", "wind"]
+
+
+def slenderness(ratio: float) -> Reason:
+    """Height over plan width: above 3 isolation is a poor fit (common practice).
+
+    Parameters
+    ----------
+    ratio : float
+        H / B. [-]
+    """
+    if ratio > 3.0:
+        return Reason("slenderness", "condition", f"height/width = {ratio:.2f} exceeds 3: a "
+                      "slender building rocks on its bearings", ratio, 3.0, "-", _PRACTICE)
+    return Reason("slenderness", "ok", f"height/width = {ratio:.2f}", ratio, 3.0, "-", _PRACTICE)
+
+
+def site_suitability(site_class: str | None, basis: str = "asce7") -> Reason | None:
+    """Soft sites: ASCE 7 class F against, E condition; Eurocode ground D or E condition.
+
+    Parameters
+    ----------
+    site_class : str or None
+        ASCE 7 site class A-F or Eurocode ground type A-E.
+    basis : str
+        ``"asce7"`` or ``"eurocode"``.
+    """
+    if site_class is None:
+        return None
+    name = "site class" if basis == "asce7" else "ground type"
+    if basis == "asce7" and site_class == "F":
+        return Reason("soft soil", "against", f"{name} F needs a site-specific response analysis; "
+                      "soft or liquefiable soil amplifies long periods", None, None, "-",
+                      _source("soft soil class F", basis))
+    soft = ("E",) if basis == "asce7" else ("D", "E")
+    if site_class in soft:
+        return Reason("soft soil", "condition", f"{name} {site_class} is soft: long-period "
+                      "motion is amplified, check the isolated period range with a site-specific "
+                      "spectrum", None, None, "-", _PRACTICE)
+    return Reason("soft soil", "ok", f"{name} {site_class}", None, None, "-", _PRACTICE)
+
+
+def spectral_benefit(ratio: float) -> Reason:
+    """Sa(T_M, beta_M)/Sa(T_fb, 5 %): < 0.5 ok, 0.5-0.8 condition, >= 0.8 against.
+
+    Parameters
+    ----------
+    ratio : float
+        Spectral acceleration at the isolated period and damping over that at
+        the fixed-base period and 5 %. [-]
+    """
+    text = (f"the site spectrum at the isolated period and damping is {ratio:.0%} of its value "
+            "at the fixed-base period")
+    source = f"site spectrum (derived); thresholds {_PRACTICE}"
+    if ratio >= 0.8:
+        return Reason("long-period site", "against", text + ": the period shift buys little",
+                      ratio, 0.8, "-", source)
+    if ratio >= 0.5:
+        return Reason("long-period site", "condition", text + ": a long-period site limits the "
+                      "benefit", ratio, 0.5, "-", source)
+    return Reason("long-period site", "ok", text, ratio, 0.5, "-", source)
+
+
+def near_fault(flag: bool, *, basis: str = "asce7") -> Reason | None:
+    """Near-fault sites need pulse-like motions in the suite (condition).
+
+    Parameters
+    ----------
+    flag : bool
+        True when the site is near an active fault.
+    basis : str
+        ``"asce7"`` or ``"eurocode"``: the clause cited.
+    """
+    if not flag:
+        return None
+    return Reason("near fault", "condition", "the site is near an active fault: include "
+                  "pulse-like records and check displacement with them", None, None, "-",
+                  _source("near fault", basis))
+
+
+def wind(wind_base_shear: float | None, characteristic_strength: float | None, *,
+         system: str = "SI", basis: str = "asce7") -> Reason:
+    """Wind base shear against the isolation plane's characteristic strength Q_d.
+
+    Parameters
+    ----------
+    wind_base_shear : float or None
+        Design wind base shear. [kN]
+    characteristic_strength : float or None
+        Q_d of the whole isolation plane, lower bound. [kN]
+    system : str
+        "SI" or "US": units of the forces in the message.
+    basis : str
+        ``"asce7"`` or ``"eurocode"``: the clause cited.
+    """
+    source = _source("wind", basis)
+    if wind_base_shear is None or characteristic_strength is None:
+        return Reason("wind", "note", "wind was not checked (no wind base shear given)",
+                      None, None, "kN", source)
+    text = (f"wind base shear {_force(wind_base_shear, system)} against the characteristic strength "
+            f"Q_d = {_force(characteristic_strength, system)} (lower bound)")
+    if wind_base_shear >= characteristic_strength:
+        return Reason("wind", "condition", text + ": the isolators would slide or yield in wind, "
+                      "so a wind restraint is needed", wind_base_shear, characteristic_strength,
+                      "kN", source)
+    return Reason("wind", "ok", text, wind_base_shear, characteristic_strength, "kN", source)
