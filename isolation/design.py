@@ -32,6 +32,7 @@ from scipy.optimize import brentq
 
 from isolation import GRAVITY, validate
 from isolation.errors import RunError
+from isolation.plain import plain
 from isolation.spectra import RULES, damping_coefficient
 
 __all__ = [
@@ -43,22 +44,10 @@ __all__ = [
 ]
 
 
-def _plain(value: Any) -> Any:
-    """Plain JSON types from dataclasses, tuples, numpy scalars."""
-    if hasattr(value, "to_dict"):
-        return value.to_dict()
-    if isinstance(value, Mapping):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    if isinstance(value, np.generic):
-        return value.item()
-    return value
-
-
 class _ToDict:
     def to_dict(self) -> dict:
-        return {f.name: _plain(getattr(self, f.name)) for f in fields(self)}
+        # NaN and infinity stay floats here; the study results turn them into None.
+        return {f.name: plain(getattr(self, f.name), keep_nonfinite=True) for f in fields(self)}
 
 
 @dataclass(frozen=True)

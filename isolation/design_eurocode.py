@@ -29,7 +29,8 @@ from typing import Any, Mapping
 
 from isolation import validate
 from isolation.bearings.checks import Check
-from isolation.design import BoundsResult, Item, _force, _plain, _unit, design_bounds
+from isolation.design import BoundsResult, Item, _force, _unit, design_bounds
+from isolation.plain import plain
 from isolation.spectra import EurocodeSpectrum, eurocode_eta
 
 __all__ = [
@@ -49,7 +50,7 @@ _EC8_CT = {"steel_moment": 0.085, "concrete_moment": 0.075, "braced": 0.075, "ot
 
 
 def _to_dict(obj) -> dict:
-    return {f.name: _plain(getattr(obj, f.name)) for f in fields(obj)}
+    return {f.name: plain(getattr(obj, f.name), keep_nonfinite=True) for f in fields(obj)}
 
 
 def eurocode_approximate_period(height: float, frame: str = "other") -> float:

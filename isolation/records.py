@@ -42,6 +42,7 @@ from typing import Any, Mapping
 
 from isolation import __version__
 from isolation.errors import InputError, RunError
+from isolation.files import write_text_atomic
 
 __all__ = ["RecordOutcome", "run_record", "render_record", "read_manifest", "study_input_hash",
            "sanitise_name", "to_toml", "WORKBOOK", "LIBRARIES"]
@@ -158,9 +159,7 @@ def _versions() -> dict:
 
 
 def _write_json(path: Path, data: Mapping) -> None:
-    temporary = path.with_name(f".{path.name}.part")
-    temporary.write_text(json.dumps(data, indent=1, default=str), encoding="utf-8")
-    os.replace(temporary, path)
+    write_text_atomic(path, json.dumps(data, indent=1, default=str))
 
 
 def _sha256(path: Path) -> str:

@@ -31,6 +31,7 @@ from typing import Any, Mapping
 import nbformat
 
 from isolation.errors import RunError
+from isolation.files import write_bytes_atomic
 from isolation.validate import one_of
 
 __all__ = [
@@ -192,12 +193,6 @@ def _caption_figures_as_text(nb) -> None:
         cell.outputs = outputs
 
 
-def _atomic_write(path: Path, data: bytes) -> None:
-    tmp = path.with_name(f".{path.name}.part")
-    tmp.write_bytes(data)
-    os.replace(tmp, path)
-
-
 def render(
     notebook_path: str | os.PathLike,
     out_dir: str | os.PathLike,
@@ -301,7 +296,7 @@ def _render_pdf(nb, target: Path, stem: str) -> Path:
             if proc.returncode != 0:
                 raise RunError(f"xelatex failed on the report of {stem}: {_first_tex_error(build_dir, proc.stdout)}")
         pdf = target / "report.pdf"
-        _atomic_write(pdf, (build_dir / "report.pdf").read_bytes())
+        write_bytes_atomic(pdf, (build_dir / "report.pdf").read_bytes())
     return pdf
 
 
@@ -349,7 +344,7 @@ def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
     )
     body, _ = exporter.from_notebook_node(nb, resources={"metadata": {"name": fields["title"]}})
     html = target / "report.html"
-    _atomic_write(html, body.encode("utf-8"))
+    write_bytes_atomic(html, body.encode("utf-8"))
     return html
 
 

@@ -27,8 +27,6 @@ checks every value against the governing local code.
 from __future__ import annotations
 
 import json
-import math
-import os
 import time
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -39,6 +37,8 @@ import numpy as np
 from isolation import GRAVITY, __version__
 from isolation import verdict as _verdict
 from isolation.errors import RunError
+from isolation.files import write_text_atomic
+from isolation.plain import plain
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, _design, _figures, check_study, fixed_base_period,
                                    isolation_system, site_spectrum, superstructure)
@@ -52,23 +52,6 @@ SCOPE = ("Feasibility study of seismic base isolation, not construction design. 
 
 QUICK = {"count": 3, "duration": 10.0, "control_points": 30, "max_iterations": 8}
 """Suite settings of a quick run (tests and trials only, not for reports)."""
-
-
-def _plain(value: Any) -> Any:
-    """Plain JSON types; NaN and infinity become None."""
-    if hasattr(value, "to_dict") and not isinstance(value, type):
-        return _plain(value.to_dict())
-    if isinstance(value, Mapping):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    if isinstance(value, np.ndarray):
-        return _plain(value.tolist())
-    if isinstance(value, np.generic):
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
 
 
 @dataclass(frozen=True)
@@ -102,7 +85,7 @@ class AlternativeResults:
         return self.verdict["outcome"]
 
     def to_dict(self) -> dict:
-        return _plain({k: getattr(self, k) for k in self.__dataclass_fields__})
+        return plain({k: getattr(self, k) for k in self.__dataclass_fields__})
 
 
 @dataclass(frozen=True)
@@ -143,7 +126,7 @@ class StudyResults:
     def to_dict(self) -> dict:
         data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope")}
         data["alternatives"] = [a.to_dict() for a in self.alternatives]
-        return _plain(data)
+        return plain(data)
 
     @classmethod
     def from_dict(cls, mapping: Mapping[str, Any]) -> "StudyResults":
@@ -155,10 +138,7 @@ class StudyResults:
     def save(self, path: str | Path) -> Path:
         """Write ``to_dict()`` as JSON (via a temporary file and a rename)."""
         path = Path(path)
-        temporary = path.with_name(f".{path.name}.part")
-        temporary.write_text(json.dumps(self.to_dict(), indent=1, allow_nan=False), encoding="utf-8")
-        os.replace(temporary, path)
-        return path
+        return write_text_atomic(path, json.dumps(self.to_dict(), indent=1, allow_nan=False))
 
 
 def load_results(path: str | Path) -> StudyResults:
@@ -341,13 +321,13 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
                            checks, bounds, t_fb)
         judged = _verdict.assess(figures)
         results.append(AlternativeResults(
-            name=alternative.name, system=_plain(system), bounds=_plain(bounds), report=_plain(report),
-            quantities=_plain(quantities), checks=_plain(checks),
-            history={"statistics": _plain(stats), "summary": _plain(summary),
+            name=alternative.name, system=plain(system), bounds=plain(bounds), report=plain(report),
+            quantities=plain(quantities), checks=plain(checks),
+            history={"statistics": plain(stats), "summary": plain(summary),
                      "model": "lower and upper property sets; " + (
                          "bilinear backbones" if all(isolators[c] is sets[c] for c in isolators)
                          else "equivalent bilinear at the design displacement")},
-            figures=_plain(figures), verdict=_plain(judged)))
+            figures=plain(figures), verdict=plain(judged)))
         live_histories[alternative.name] = histories
         live_reports[alternative.name] = (system, sets, report)
     timings["histories"] = time.perf_counter() - mark
@@ -356,19 +336,19 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
     curve_low, curve_high = spectrum.period_range
     curve = np.geomspace(max(curve_low, 0.02), min(curve_high, 10.0), 120)
     suite_data = suite.to_dict()
-    suite_data["check"] = _plain(suite.check())
+    suite_data["check"] = plain(suite.check())
     suite_data["quick"] = quick
     suite_data["note"] = suite_note
     extended = study.basis == "eurocode" and not study.site.spectrum_periods
     spectrum_note = EUROCODE_SPECTRUM_NOTE if extended else ""
     return StudyResults(
         study=study.to_dict(),
-        spectrum={"definition": _plain(spectrum), "periods": curve.tolist(),
+        spectrum={"definition": plain(spectrum), "periods": curve.tolist(),
                   "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
                   "note": spectrum_note},
-        fixed_base={"period": t_fb, "period_source": t_fb_source, "model": _plain(structure),
-                    "statistics": _plain(fixed_stats)},
-        suite=_plain(suite_data),
+        fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(structure),
+                    "statistics": plain(fixed_stats)},
+        suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
         live={"spectrum": spectrum, "suite": suite, "superstructure": structure,

@@ -8,9 +8,9 @@ All names here are re-exported from :mod:`isolation.study`.
 from __future__ import annotations
 
 from dataclasses import asdict, dataclass, field
-from typing import Any
 
 from isolation.errors import InputError
+from isolation.plain import plain
 
 __all__ = ["StudyError", "Project", "Site", "Building", "BearingSpec", "Alternative", "Analysis", "Study"]
 
@@ -177,12 +177,4 @@ class Study:
 
     def to_dict(self) -> dict:
         """Plain JSON types (lists, not tuples), internal units."""
-        return _plain(asdict(self))
-
-
-def _plain(value: Any) -> Any:
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    return value
+        return plain(asdict(self), keep_nonfinite=True)

@@ -25,12 +25,12 @@ __all__ = ["validate_plan", "variant_hash", "check_variants"]
 CHUNK_FROM = 64  # batches this large are checked in parallel on an executor [variants]
 
 
-def _plain(value: Any) -> Any:
+def _hashable(value: Any) -> Any:
     """Values made JSON-stable for hashing (NaN and infinity as text, others as str)."""
     if isinstance(value, Mapping):
-        return {str(k): _plain(v) for k, v in value.items()}
+        return {str(k): _hashable(v) for k, v in value.items()}
     if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
+        return [_hashable(v) for v in value]
     if isinstance(value, float) and not math.isfinite(value):
         return repr(value)
     if isinstance(value, (str, int, float, bool)) or value is None:
@@ -55,7 +55,7 @@ def variant_hash(study_mapping: Mapping, settings: Mapping | None = None) -> str
     str
         Hex digest.
     """
-    payload = json.dumps({"study": _plain(study_mapping), "settings": _plain(settings or {})}, sort_keys=True)
+    payload = json.dumps({"study": _hashable(study_mapping), "settings": _hashable(settings or {})}, sort_keys=True)
     return hashlib.sha256(payload.encode("utf-8")).hexdigest()
 
 

@@ -37,7 +37,8 @@ from typing import Callable
 from isolation.batch.executors import executor_for, open_executor, terminate
 from isolation.batch.plan import BatchPlan
 from isolation.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
-from isolation.batch.summary import atomic_write_text, write_summary
+from isolation.batch.summary import write_summary
+from isolation.files import write_text_atomic
 
 __all__ = [
     "BatchReport",
@@ -111,7 +112,7 @@ def _load_state(out_dir: Path) -> dict:
 
 def _write_state(out_dir: Path, plan: BatchPlan, entries: dict, settings: dict) -> None:
     payload = {"batch": plan.to_dict(), "settings": settings, "variants": entries}
-    atomic_write_text(out_dir / STATE_FILE, json.dumps(payload, indent=1, sort_keys=False) + "\n")
+    write_text_atomic(out_dir / STATE_FILE, json.dumps(payload, indent=1, sort_keys=False) + "\n")
 
 
 def _record_intact(out_dir: Path, entry: dict) -> bool:

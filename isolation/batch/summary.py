@@ -38,10 +38,10 @@ from __future__ import annotations
 import csv
 import io
 import math
-import os
-import tempfile
 from pathlib import Path
 from typing import Any, Iterable, Mapping
+
+from isolation.files import write_bytes_atomic, write_text_atomic
 
 __all__ = [
     "RESULT_COLUMNS",
@@ -49,7 +49,6 @@ __all__ = [
     "summary_columns",
     "write_summary",
     "read_summary",
-    "atomic_write_text",
 ]
 
 RESULT_COLUMNS = (
@@ -95,19 +94,6 @@ def summary_columns(override_keys: Iterable[str]) -> list[str]:
     return ["variant", "status", *override_keys, *RESULT_COLUMNS, *TAIL_COLUMNS]
 
 
-def atomic_write_text(path: Path, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file and a rename."""
-    path = Path(path)
-    handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
-            stream.write(text)
-        os.replace(temporary, path)
-    except BaseException:
-        Path(temporary).unlink(missing_ok=True)
-        raise
-
-
 def _cell(value: Any) -> Any:
     if value is None:
         return ""
@@ -144,20 +130,17 @@ def write_summary(rows: list[Mapping], out_dir: Path, override_keys: Iterable[st
     for row in rows:
         writer.writerow({name: _cell(row.get(name)) for name in columns})
     written = [out_dir / "summary.csv"]
-    atomic_write_text(written[0], buffer.getvalue())
+    write_text_atomic(written[0], buffer.getvalue())
     try:
         import pyarrow
         import pyarrow.parquet as parquet
     except ImportError:
         return written
     target = out_dir / "summary.parquet"
-    temporary = out_dir / ".summary.parquet.partial"
-    try:
-        table = pyarrow.table({name: _parquet_column([row.get(name) for row in rows]) for name in columns})
-        parquet.write_table(table, temporary)
-        os.replace(temporary, target)
-    finally:
-        temporary.unlink(missing_ok=True)
+    table = pyarrow.table({name: _parquet_column([row.get(name) for row in rows]) for name in columns})
+    sink = pyarrow.BufferOutputStream()
+    parquet.write_table(table, sink)
+    write_bytes_atomic(target, sink.getvalue().to_pybytes())
     written.append(target)
     return written
 
