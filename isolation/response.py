@@ -6,12 +6,14 @@ the superstructure (floor i sits on top of storey i).
 
 from __future__ import annotations
 
+import io
 import json
 from dataclasses import dataclass, field, fields
 from pathlib import Path
 
 import numpy as np
 
+from isolation.files import write_bytes_atomic
 from isolation.oscillator import response_spectrum
 
 __all__ = ["HistoryResult", "suite_statistics"]
@@ -184,11 +186,9 @@ class HistoryResult:
         arrays = {name: getattr(self, name) for name in _ARRAYS if getattr(self, name) is not None}
         arrays.update({f"energy_{k}": v for k, v in self.energy.items()})
         meta = {"case": self.case, "dt": self.dt, "model": self.model}
-        tmp = path.with_name(path.name + ".part")
-        with open(tmp, "wb") as handle:
-            np.savez_compressed(handle, meta=np.array(json.dumps(meta)), **arrays)
-        tmp.replace(path)
-        return path
+        buffer = io.BytesIO()
+        np.savez_compressed(buffer, meta=np.array(json.dumps(meta)), **arrays)
+        return write_bytes_atomic(path, buffer.getvalue())
 
     @classmethod
     def load_npz(cls, path) -> "HistoryResult":

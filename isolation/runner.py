@@ -40,8 +40,8 @@ from isolation.errors import RunError
 from isolation.files import write_text_atomic
 from isolation.plain import plain
 from isolation.study import Study
-from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, _design, _figures, check_study, fixed_base_period,
-                                   isolation_system, site_spectrum, superstructure)
+from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
+                                   isolation_system, site_spectrum, superstructure, verdict_figures)
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
@@ -271,7 +271,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
         try:
             system = isolation_system(alternative)
             sets = system.property_sets(weight)
-            report, quantities, permitted, reasons = _design(study, sets, system, spectrum, t_fb)
+            report, quantities, permitted, reasons = design_alternative(study, sets, system, spectrum, t_fb)
             checks = system.checks(quantities["total_displacement"])
         except (ValueError, RunError) as error:
             raise RunError(f"{step} failed: {' '.join(str(error).split())}") from error
@@ -317,7 +317,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
             damping_lower=bounds["lower"].damping, damping_upper=bounds["upper"].damping,
             characteristic_strength=float(strength), displacement_capacity=system.displacement_capacity,
             moat=alternative.moat, fixed_base_period=t_fb)
-        figures = _figures(study, spectrum, alternative, quantities, summary, report, permitted, reasons,
+        figures = verdict_figures(study, spectrum, alternative, quantities, summary, report, permitted, reasons,
                            checks, bounds, t_fb)
         judged = _verdict.assess(figures)
         results.append(AlternativeResults(
@@ -375,7 +375,7 @@ def export_suite(study: Study, out_dir: str | Path, *, quick: bool = False) -> P
     periods = []
     for alternative in study.alternatives:
         system = isolation_system(alternative)
-        report = _design(study, system.property_sets(study.building.total_weight), system, spectrum, t_fb)[0]
+        report = design_alternative(study, system.property_sets(study.building.total_weight), system, spectrum, t_fb)[0]
         periods += [report.bounds.results["upper"].period, report.bounds.results["lower"].period]
     suite, _ = _suite(study, spectrum, (min(periods), max(periods)), quick, progress=False)
     out = Path(out_dir)

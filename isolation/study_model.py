@@ -10,8 +10,8 @@ The building blocks of :func:`isolation.runner.run_study` (re-exported from
 * :func:`fixed_base_period` and :func:`superstructure` - the fixed-base
   period and the shear building above the isolators;
 * :func:`check_study` - checks of a valid study against its own models;
-* ``_design`` - the code's single-mode report for all property sets, and
-  ``_figures`` - the numbers of :class:`isolation.verdict.Figures`.
+* ``design_alternative`` - the code's single-mode report for all property sets, and
+  ``verdict_figures`` - the numbers of :class:`isolation.verdict.Figures`.
 
 Scope: a feasibility study, not construction design; a licensed engineer
 checks every value against the governing local code.
@@ -27,6 +27,7 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
+           "design_alternative", "verdict_figures",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
 _FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
@@ -105,7 +106,7 @@ def superstructure(study: Study):
                                      damping=building.damping)
 
 
-def _design(study: Study, sets: dict, system, spectrum, t_fb: float):
+def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
     """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons)."""
     b = study.building
     if study.basis == "asce7":
@@ -186,7 +187,7 @@ def _plateau(spectrum) -> float:
     return float(np.max(spectrum.sa(periods))) if periods.size else float(spectrum.sa(max(low, 0.2)))
 
 
-def _figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
+def verdict_figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
     """The verdict's numbers for one alternative (see :class:`isolation.verdict.Figures`)."""
     b = study.building
     upper = bounds["upper"]

@@ -10,7 +10,7 @@ verdict rests on the equivalent-linear numbers only (``verdict_basis`` =
 promising variants through the full workbook afterwards.
 
 It uses the study run's own code-report, verdict-figure and equivalent-
-bilinear steps (``isolation.study_model._design`` / ``_figures``,
+bilinear steps (``isolation.study_model.design_alternative`` / ``verdict_figures``,
 ``isolation.runner._history_isolator``) so that a sweep and a record judge a
 variant alike.
 
@@ -70,7 +70,7 @@ def design_rows(study) -> list[dict]:
     for alternative in study.alternatives:
         system = model.isolation_system(alternative)
         sets = system.property_sets(weight)
-        report, quantities, permitted, reasons = model._design(study, sets, system, spectrum, period)
+        report, quantities, permitted, reasons = model.design_alternative(study, sets, system, spectrum, period)
         checks = system.checks(quantities["total_displacement"])
         bounds = report.bounds.results
         strength = getattr(sets["lower"], "characteristic_strength", None)
@@ -80,7 +80,7 @@ def design_rows(study) -> list[dict]:
             strength = _history_isolator(sets["lower"], bounds["lower"]).characteristic_strength
         quantities = dict(quantities, displacement_capacity=system.displacement_capacity, moat=alternative.moat,
                           characteristic_strength=strength)
-        figures = model._figures(study, spectrum, alternative, quantities, _NO_HISTORY, report, permitted,
+        figures = model.verdict_figures(study, spectrum, alternative, quantities, _NO_HISTORY, report, permitted,
                                   reasons, checks, bounds, period)
         judged = verdict.assess(figures)
         alternatives.append({
