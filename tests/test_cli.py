@@ -3,8 +3,6 @@ messages without tracebacks, --help everywhere, and the record layout that outsi
 checks rely on (issue 5: `python -m isolation check|run`)."""
 
 import json
-import os
-import shutil
 import subprocess
 import sys
 from pathlib import Path
@@ -12,6 +10,7 @@ from pathlib import Path
 import pytest
 
 from isolation import cli
+from tools import require_tools
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "examples" / "demo_study.toml"
@@ -149,10 +148,7 @@ def test_motions_exports_the_suite(tmp_path, capsys):
 
 
 def _require_tex():
-    missing = [t for t in ("xelatex", "pandoc") if shutil.which(t) is None]
-    if missing and os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-        pytest.fail(f"ISOLATION_REQUIRE_TEX=1 but {', '.join(missing)} missing")
-    return missing
+    return require_tools("xelatex", "pandoc", skip=False)
 
 
 @pytest.mark.slow

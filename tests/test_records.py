@@ -7,7 +7,6 @@ bottom run the real workbook and report (marked slow).
 
 import hashlib
 import json
-import os
 import shutil
 import signal
 import subprocess
@@ -22,6 +21,7 @@ from isolation.errors import InputError
 from isolation.records import (read_manifest, render_record, run_record, sanitise_name, study_input_hash,
                                to_toml)
 from isolation.study import apply_overrides
+from tools import require_tools
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "examples" / "demo_study.toml"
@@ -31,11 +31,7 @@ STUDY_FOLDER = "venhollow-emergency-communications-centre"
 
 
 def require_tex():
-    missing = [t for t in ("xelatex", "pandoc") if shutil.which(t) is None]
-    if missing:
-        if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-            pytest.fail(f"ISOLATION_REQUIRE_TEX=1 but {', '.join(missing)} missing")
-        pytest.skip(f"{', '.join(missing)} not installed")
+    require_tools("xelatex", "pandoc")
 
 
 def visible(folder: Path) -> list[str]:

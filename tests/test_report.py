@@ -11,9 +11,7 @@ Annex #15) so math italic letters read as plain ones.
 from __future__ import annotations
 
 import base64
-import os
 import re
-import shutil
 import subprocess
 import unicodedata
 import warnings
@@ -24,6 +22,7 @@ from matplotlib.figure import Figure
 from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook, new_output
 
 from isolation import report
+from tools import require_pdf_tools
 from isolation.errors import RunError
 from isolation.plots import captioned
 from isolation.tables import Table
@@ -33,13 +32,6 @@ PRINTED = "PRINTED_CONSOLE_TEXT"
 PLAIN = "PLAIN_RESULT_TEXT"
 
 
-def _require_pdf_tools() -> None:
-    missing = report.missing_tools() + [t for t in ("pdftotext", "pdfinfo") if shutil.which(t) is None]
-    if missing:
-        message = f"PDF tools missing: {', '.join(missing)}"
-        if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-            pytest.fail(message + " (ISOLATION_REQUIRE_TEX=1)")
-        pytest.skip(message)
 
 
 def _png_output(caption: str) -> dict:
@@ -108,7 +100,7 @@ def _page_size(pdf) -> tuple[float, float]:
 
 @pytest.fixture(scope="module")
 def a4_report(tmp_path_factory):
-    _require_pdf_tools()
+    require_pdf_tools()
     folder = tmp_path_factory.mktemp("a4")
     source = _notebook(folder)
     pdf = report.render(source, folder / "out", title_fields={"prepared_by": "J. Doe (invented)"})
@@ -179,7 +171,7 @@ def test_paper_sizes(a4_report, tmp_path):
 
 @pytest.mark.slow
 def test_tex_error_raises_run_error_and_leaves_no_pdf(tmp_path):
-    _require_pdf_tools()
+    require_pdf_tools()
     source = _notebook(tmp_path, extra_latex=r"\thiscommanddoesnotexist")
     with pytest.raises(RunError, match="Undefined control sequence"):
         report.render(source, tmp_path / "out")

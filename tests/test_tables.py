@@ -352,17 +352,12 @@ def test_symbols_in_markdown_leave_math_and_code_alone():
 
 def test_pandoc_reads_the_markdown_symbols_as_math(tmp_path):
     # pandoc turns markdown cells into the PDF's LaTeX; its tex_math_dollars reading is the outside check.
-    import os
-    import shutil
     import subprocess
 
     from isolation.tables import markdown_text
+    from tools import require_tools
 
-    if shutil.which("pandoc") is None:
-        # pandoc is part of the PDF path: a CI run that requires TeX must fail here, not skip.
-        if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-            pytest.fail("ISOLATION_REQUIRE_TEX=1 but pandoc missing")
-        pytest.skip("pandoc missing")
+    require_tools("pandoc")  # part of the PDF path: fails, not skips, when CI requires TeX
     text = markdown_text("Total D_TM = 0.584 m, T_M/T_fb = 4.6.")
     latex = subprocess.run(["pandoc", "-f", "markdown", "-t", "latex"], input=text, capture_output=True,
                            text=True, check=True).stdout

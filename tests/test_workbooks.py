@@ -14,7 +14,6 @@ import json
 import math
 import os
 import re
-import shutil
 import subprocess
 import tomllib
 import unicodedata
@@ -26,6 +25,7 @@ import papermill as pm
 import pytest
 
 from isolation import report
+from tools import require_pdf_tools
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKBOOKS = ROOT / "workbooks"
@@ -45,13 +45,6 @@ def _outputs(nb, mime: str) -> list:
             if mime in o.get("data", {})]
 
 
-def _require_pdf_tools() -> None:
-    missing = report.missing_tools() + [t for t in ("pdftotext", "pdfinfo") if shutil.which(t) is None]
-    if missing:
-        message = f"PDF tools missing: {', '.join(missing)}"
-        if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-            pytest.fail(message + " (ISOLATION_REQUIRE_TEX=1)")
-        pytest.skip(message)
 
 
 def test_feasibility_parameters_cell_follows_the_house_form():
@@ -126,7 +119,7 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
 
 @pytest.fixture(scope="module")
 def feasibility_pdf(feasibility_run):
-    _require_pdf_tools()
+    require_pdf_tools()
     out, _, data = feasibility_run
     pdf = report.render(out / "feasibility.ipynb", out / "report", paper=None)
     raw = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True, text=True,
@@ -246,14 +239,14 @@ def eurocode_report(tmp_path_factory):
     _execute("feasibility.ipynb", out, study_path=str(study_file), output_dir=str(out),
              results_path=str(results), quick=True)
     if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-        _require_pdf_tools()  # fails (not skips) when a PDF tool is missing
+        require_pdf_tools()  # fails (not skips) when a PDF tool is missing
     with warnings.catch_warnings():  # without TeX the report is HTML, which must show the note too
         warnings.simplefilter("ignore", report.TexMissingWarning)
         path = report.render(out / "feasibility.ipynb", out / "report")
     if os.environ.get("ISOLATION_REQUIRE_TEX") == "1" and path.suffix != ".pdf":
         pytest.fail(f"ISOLATION_REQUIRE_TEX=1 but the report came out as {path.name}")
     if path.suffix == ".pdf":
-        _require_pdf_tools()  # pdftotext reads the PDF back
+        require_pdf_tools()  # pdftotext reads the PDF back
         raw = subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True, text=True,
                              check=True).stdout
         text = _pdf_words(raw)
