@@ -24,7 +24,8 @@ __all__ = ["Key", "BEARING_KEYS", "ROOT_KEYS", "Problems", "Reader"]
 @dataclass(frozen=True)
 class Key:
     """What a key accepts: ``kind`` is a unit kind of :mod:`isolation.units`,
-    ``"number"`` (unit ``unit``) or ``"integer"``; range ``low``..``high``."""
+    ``"number"`` (unit ``unit``), ``"integer"`` or ``"choice"`` (one of
+    ``options``); range ``low``..``high``."""
 
     kind: str
     required: bool = True
@@ -32,6 +33,7 @@ class Key:
     high: float | None = None
     low_inclusive: bool = True
     unit: str = "-"
+    options: tuple = ()
 
 
 BEARING_KEYS: dict[str, dict[str, Key]] = {
@@ -62,6 +64,7 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
         "lead_yield_stress": Key("stress", required=False, low=1000.0, high=30000.0),
         "stiffness_ratio": Key("number", required=False, low=1.0, high=50.0, low_inclusive=False),
         "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "lead_core": Key("choice", required=False, options=("hole", "filled")),
     },
     "high_damping_rubber": {
         "outer_diameter": Key("length", low=0.2, high=2.5),
@@ -250,6 +253,8 @@ class Reader:
         return tuple(numbers)
 
     def by_spec(self, key: str, spec: Key):
+        if spec.kind == "choice":
+            return self.choice(key, spec.options, required=spec.required)
         if spec.kind == "number":
             return self.number(key, low=spec.low, high=spec.high, low_inclusive=spec.low_inclusive,
                                unit=spec.unit, required=spec.required)

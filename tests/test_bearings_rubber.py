@@ -29,6 +29,8 @@ from isolation.bearings.damping_rubber import equivalent_bilinear
 
 # Invented demo bearing: 800 mm bonded diameter, 200 mm lead, 20 layers of 10 mm, G = 0.4 MPa.
 LRB = dict(outer_diameter=0.8, lead_diameter=0.2, layer_thickness=0.01, layers=20, shear_modulus=400.0)
+# The same bearing with the lead core taken as keeping the inner face from bulging.
+LRB_FILLED = dict(LRB, lead_core="filled")
 
 
 def test_lead_rubber_bilinear_from_geometry():
@@ -52,7 +54,10 @@ def test_lead_rubber_options_change_strength_and_ratio():
 def test_shape_factor_circular_annular_and_hollow():
     # Solid D/(4t); lead-filled annulus (Do^2 - Di^2)/(4 Do t); empty hole (Do - Di)/(4 t).
     assert shape_factor(0.8, 0.01) == pytest.approx(20.0)
-    assert LeadRubber(**LRB).shape_factor == pytest.approx(0.60 / 0.032)  # 18.75, hand arithmetic
+    assert LeadRubber(**LRB_FILLED).shape_factor == pytest.approx(0.60 / 0.032)  # 18.75, hand arithmetic
+    # Default: the lead core counts as a hole, S = (Do - Di)/(4 t) = 15 (Kumar, Whittaker &
+    # Constantinou 2014, Earthquake Eng. Struct. Dyn. 43(13), from memory).
+    assert LeadRubber(**LRB).shape_factor == pytest.approx(15.0)
     assert shape_factor(0.8, 0.01, 0.2, inner_face_free=True) == pytest.approx(15.0)
     assert HighDampingRubber(0.8, 0.01, 20, inner_diameter=0.2).shape_factor == pytest.approx(15.0)
 
@@ -61,14 +66,14 @@ def test_compression_modulus_incompressible_and_with_bulk_modulus():
     # E_c = 6 G S^2 for incompressible rubber (Kelly & Konstantinidis 2011).
     assert compression_modulus(400.0, 18.75) == pytest.approx(6 * 400 * 18.75**2)
     # With K = 2000 MPa: 1/E_c = 1/843 750 + 4/(3 * 2e6) -> E_c = 540 000 kPa (hand arithmetic).
-    assert LeadRubber(**LRB).compression_modulus == pytest.approx(540000.0, rel=1e-9)
+    assert LeadRubber(**LRB_FILLED).compression_modulus == pytest.approx(540000.0, rel=1e-9)
     # Very large shape factors approach the bulk limit 3K/4 (limit of the same formula).
     assert compression_modulus(400.0, 1e4, 2.0e6) == pytest.approx(1.5e6, rel=1e-3)
 
 
 def test_vertical_stiffness_and_heights():
     # K_v = E_c A_r/T_r = 540 000 * 0.4712389/0.2 = 1 272 345 kN/m (hand arithmetic).
-    lrb = LeadRubber(**LRB, end_plate_thickness=0.03)
+    lrb = LeadRubber(**LRB_FILLED, end_plate_thickness=0.03)
     assert lrb.vertical_stiffness == pytest.approx(1272345.0, rel=1e-6)
     # Hand arithmetic: rubber 0.2 m + 19 internal shims of the documented default 3 mm (common practice).
     assert lrb.height == pytest.approx(0.2 + 19 * 0.003)
@@ -113,7 +118,7 @@ def test_buckling_at_displacement_scales_with_overlap():
 
 
 def test_strain_checks_by_hand():
-    lrb = LeadRubber(**LRB)
+    lrb = LeadRubber(**LRB_FILLED)
     p, pmax, d, theta = 2000.0, 3000.0, 0.3, 0.005
     checks = {c.name: c for c in lrb.checks(p, d, axial_load_max=pmax, axial_load_min=-200.0,
                                             rotation=theta)}
@@ -148,7 +153,7 @@ def test_checks_fail_when_limits_are_exceeded():
     assert not checks["compression strain"].passed
     assert not checks["buckling load at zero displacement / axial load"].passed
     assert not checks["tension stress (cavitation)"].passed
-    assert checks["shape factor"].value == pytest.approx(0.24 / 0.024)
+    assert checks["shape factor"].value == pytest.approx(0.4 / 0.048)  # (Do - Di)/(4 t), lead core as a hole
 
 
 def test_restoring_force_of_lead_rubber():
@@ -318,3 +323,61 @@ def test_compound_damping_beyond_a_bilinear_loop_is_refused_at_construction():
     with pytest.raises(ValueError, match=r"^compound.dampings = "):
         HighDampingRubber(0.8, 0.01, 20, compound=compound)
     assert HighDampingRubber(0.8, 0.01, 20, compound=compound, stiffness_ratio=20.0).effective_damping(0.1) == 0.34
+
+
+# --- bearings with a central hole: Constantinou, Kartoum & Kelly (1992), Eng. Struct. 14(2) 103-111 ---
+def _paper_hole_factor(do, di):
+    # F = (r^2 + 1)/(r - 1)^2 + (1 + r)/((1 - r) ln r), r = Do/Di (the 1992 paper's closed form,
+    # typed here from the paper's equation, independently of the package).
+    r = do / di
+    return (r * r + 1) / (r - 1) ** 2 + (1 + r) / ((1 - r) * math.log(r))
+
+
+def test_hole_factor_closed_form_and_limits():
+    from isolation.bearings.checks import hole_factor
+    for do, di in ((0.9, 0.2), (0.8, 0.2), (1.0, 0.5), (0.6, 0.05)):
+        assert hole_factor(do, di) == pytest.approx(_paper_hole_factor(do, di), rel=1e-12)
+    # Hand arithmetic of the formula at r = 4: 17/9 - 5/(3 ln 4) = 0.686644.
+    assert hole_factor(0.8, 0.2) == pytest.approx(17 / 9 - 5 / (3 * math.log(4)), rel=1e-12)
+    # No hole: F = 1 (solid pad, E_c = 6 G S^2); a vanishing hole tends to 1 (limit r -> inf, derived).
+    assert hole_factor(0.8, 0.0) == 1.0
+    assert hole_factor(0.8, 1e-7) == pytest.approx(1.0, abs=0.08)
+    assert 0.0 < hole_factor(0.8, 0.6) < hole_factor(0.8, 0.2) < 1.0
+    with pytest.raises(ValueError, match="inner_diameter"):
+        hole_factor(0.8, 0.8)
+
+
+def test_hollow_high_damping_bearing_uses_the_hole_factor():
+    # Do/Di = 4.5 (the case where F matters): S = (Do - Di)/(4 t), E_c = 6 G S^2 F with K
+    # in series (Constantinou, Kartoum & Kelly 1992; Kelly & Konstantinidis 2011 for K).
+    do, di, t = 0.9, 0.2, 0.01
+    hdr = HighDampingRubber(do, t, 20, inner_diameter=di)
+    g, k = hdr.shear_modulus, hdr.bulk_modulus
+    s = (do - di) / (4 * t)
+    f = _paper_hole_factor(do, di)
+    expected = 1 / (1 / (6 * g * s**2 * f) + 4 / (3 * k))
+    assert hdr.shape_factor == pytest.approx(s)
+    assert hdr.compression_modulus == pytest.approx(expected, rel=1e-12)
+    # Buckling P_cr = sqrt(P_S P_E) with E_c/3 in bending of the annulus (Kelly & Konstantinidis 2011),
+    # E_c from the hole factor.
+    area, inertia = math.pi * (do**2 - di**2) / 4, math.pi * (do**4 - di**4) / 64
+    tr, h = 0.2, 0.2 + 19 * 0.003
+    p_s, p_e = g * area * h / tr, math.pi**2 * expected / 3 * inertia * (h / tr) / h**2
+    assert hdr.buckling_load(0.0) == pytest.approx(math.sqrt(p_s * p_e), rel=1e-9)
+
+
+def test_lead_core_conventions_hole_is_default_and_lower():
+    hole, filled = LeadRubber(**LRB), LeadRubber(**LRB_FILLED)
+    assert hole.lead_core == "hole"
+    f = _paper_hole_factor(0.8, 0.2)
+    expected = 1 / (1 / (6 * 400.0 * 15.0**2 * f) + 4 / (3 * 2.0e6))
+    assert hole.hole_factor == pytest.approx(f)
+    assert hole.compression_modulus == pytest.approx(expected, rel=1e-12)
+    assert filled.hole_factor == 1.0
+    # The filled convention gives the larger S, E_c and buckling load.
+    assert filled.shape_factor > hole.shape_factor
+    assert filled.compression_modulus > hole.compression_modulus
+    assert filled.buckling_load() > hole.buckling_load()
+    assert hole.bilinear() == filled.bilinear()  # horizontal behaviour does not depend on it
+    with pytest.raises(ValueError, match="lead_core"):
+        LeadRubber(**LRB, lead_core="plugged")

@@ -373,3 +373,18 @@ def test_any_friction_is_either_kept_or_refused_by_name(value):
         problems = problems_of(mapping)
         assert len(problems) == 1
         assert problems[0].startswith("alternative[0].bearings[0].friction = ")
+
+
+def test_lead_core_convention_is_read_and_checked():
+    # lead_rubber.lead_core: "hole" (default, Constantinou, Kartoum & Kelly 1992 hole factor) or "filled".
+    mapping = demo_mapping()
+    group = next(g for a in mapping["alternative"] for g in a["bearings"] if g["type"] == "lead_rubber")
+    study = parse_study(mapping, source="test.toml", base_dir=ROOT / "examples")
+    spec = next(g for a in study.alternatives for g in a.bearings if g.type == "lead_rubber")
+    assert "lead_core" not in spec.properties  # default left to the bearing: "hole"
+    group["lead_core"] = "filled"
+    study = parse_study(mapping, source="test.toml", base_dir=ROOT / "examples")
+    spec = next(g for a in study.alternatives for g in a.bearings if g.type == "lead_rubber")
+    assert spec.properties["lead_core"] == "filled"
+    group["lead_core"] = "solid"
+    assert any("lead_core" in p and "'hole'" in p for p in problems_of(mapping))

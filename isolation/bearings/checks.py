@@ -41,7 +41,7 @@ import numpy as np
 from isolation import GRAVITY, validate
 
 __all__ = [
-    "Check", "shape_factor", "compression_modulus", "overlap_area", "overlap_ratio",
+    "Check", "shape_factor", "hole_factor", "compression_modulus", "overlap_area", "overlap_ratio",
     "buckling_load", "rotation_strain", "restoring_force_check", "slider_checks", "elastomer_checks",
     "LIMITS",
 ]
@@ -135,8 +135,38 @@ def shape_factor(outer_diameter, layer_thickness, inner_diameter=0.0, *, inner_f
     return (do**2 - di**2) / (4.0 * do * t)
 
 
-def compression_modulus(shear_modulus, shape, bulk_modulus=None) -> float:
-    """Compression modulus of a bonded circular layer, 1/E_c = 1/(6 G S^2) + 4/(3 K).
+def hole_factor(outer_diameter, inner_diameter) -> float:
+    """Factor F on the compression modulus of a layer with an empty central hole.
+
+    F = (r^2 + 1)/(r - 1)^2 + (1 + r)/((1 - r) ln r) with r = D_o/D_i, used with
+    S = (D_o - D_i)/(4 t) in E_c = 6 G S^2 F (Constantinou, Kartoum & Kelly 1992,
+    Analysis of compression of hollow circular elastomeric bearings, Eng. Struct.
+    14(2) 103-111). F tends to 1 as the hole closes (D_i -> 0): no hole gives 1.
+
+    Parameters
+    ----------
+    outer_diameter : float
+        Bonded outer diameter D_o, > 0. [m]
+    inner_diameter : float
+        Hole diameter D_i, in [0, outer_diameter). [m]
+
+    Returns
+    -------
+    float
+        F, in (0, 1]. [-]
+    """
+    do = validate.positive("outer_diameter", outer_diameter, "m")
+    di = validate.non_negative("inner_diameter", inner_diameter, "m")
+    if di >= do:
+        raise ValueError(f"inner_diameter = {inner_diameter!r} is not allowed: must be < outer_diameter = {do!r} [m]")
+    if di == 0.0:
+        return 1.0
+    r = do / di
+    return (r**2 + 1.0) / (r - 1.0) ** 2 + (1.0 + r) / ((1.0 - r) * math.log(r))
+
+
+def compression_modulus(shear_modulus, shape, bulk_modulus=None, hole=1.0) -> float:
+    """Compression modulus of a bonded circular layer, 1/E_c = 1/(6 G S^2 F) + 4/(3 K).
 
     Parameters
     ----------
@@ -145,7 +175,10 @@ def compression_modulus(shear_modulus, shape, bulk_modulus=None) -> float:
     shape : float
         Shape factor S, > 0. [-]
     bulk_modulus : float or None, optional
-        Bulk modulus K, > 0; None for incompressible rubber (E_c = 6 G S^2). [kPa]
+        Bulk modulus K, > 0; None for incompressible rubber (E_c = 6 G S^2 F). [kPa]
+    hole : float, optional
+        Hole factor F of :func:`hole_factor` for a layer with an empty central
+        hole, in (0, 1]; 1 for a solid layer (default). [-]
 
     Returns
     -------
@@ -154,7 +187,8 @@ def compression_modulus(shear_modulus, shape, bulk_modulus=None) -> float:
     """
     g = validate.positive("shear_modulus", shear_modulus, "kPa")
     s = validate.positive("shape_factor", shape, "-")
-    incompressible = 6.0 * g * s**2
+    f = validate.in_range("hole", hole, 0.0, 1.0, "-", low_inclusive=False)
+    incompressible = 6.0 * g * s**2 * f
     if bulk_modulus is None:
         return incompressible
     k = validate.positive("bulk_modulus", bulk_modulus, "kPa")
@@ -324,7 +358,8 @@ def elastomer_checks(bearing, axial_load, displacement, *, axial_load_max=None, 
     out += [
         _at_least("shape factor", s, "shape_factor", "-"),
         Check("compression modulus", bearing.compression_modulus, None, True, "kPa",
-              "Kelly & Konstantinidis 2011: 1/E_c = 1/(6 G S^2) + 4/(3 K); reported, no limit"),
+              "Kelly & Konstantinidis 2011: 1/E_c = 1/(6 G S^2 F) + 4/(3 K), hole factor F of "
+              "Constantinou, Kartoum & Kelly 1992 (1 without a hole); reported, no limit"),
     ]
     vertical_period = 2.0 * math.pi * math.sqrt(p / (GRAVITY * bearing.vertical_stiffness))
     out.append(_at_most("vertical period", vertical_period, "vertical_period", "s"))

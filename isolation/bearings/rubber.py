@@ -29,7 +29,10 @@ from isolation import validate
 from isolation.bearings import checks as _checks
 from isolation.bearings.backbone import Bilinear
 
-__all__ = ["LeadRubber"]
+__all__ = ["LeadRubber", "LEAD_CORE_CONVENTIONS"]
+
+LEAD_CORE_CONVENTIONS = ("hole", "filled")
+"""Treatments of the lead core in the vertical mechanics of :class:`LeadRubber`."""
 
 
 def _layers(value) -> int:
@@ -95,8 +98,18 @@ class _Elastomer:
 
     @property
     def compression_modulus(self) -> float:
-        """E_c with compressibility, 1/E_c = 1/(6 G S^2) + 4/(3 K). [kPa]"""
-        return _checks.compression_modulus(self.shear_modulus, self.shape_factor, self.bulk_modulus)
+        """E_c with compressibility, 1/E_c = 1/(6 G S^2 F) + 4/(3 K); F is the hole factor of
+        Constantinou, Kartoum & Kelly (1992, Eng. Struct. 14(2)) when the central hole's face
+        bulges (empty hole, or a lead core treated as a hole), else 1. [kPa]"""
+        return _checks.compression_modulus(self.shear_modulus, self.shape_factor, self.bulk_modulus,
+                                           hole=self.hole_factor)
+
+    @property
+    def hole_factor(self) -> float:
+        """Hole factor F on E_c (1 without a bulging inner face). [-]"""
+        if not self._inner_face_free:
+            return 1.0
+        return _checks.hole_factor(self.outer_diameter, self._inner)
 
     @property
     def vertical_stiffness(self) -> float:
@@ -163,7 +176,8 @@ class _Elastomer:
                 "shim_thickness": self.shim_thickness, "end_plate_thickness": self.end_plate_thickness,
                 "displacement_capacity": self.displacement_capacity,
                 "rubber_thickness": self.rubber_thickness, "rubber_area": self.rubber_area,
-                "shape_factor": self.shape_factor, "compression_modulus": self.compression_modulus,
+                "shape_factor": self.shape_factor, "hole_factor": self.hole_factor,
+                "compression_modulus": self.compression_modulus,
                 "vertical_stiffness": self.vertical_stiffness, "total_height": self.total_height}
 
 
@@ -198,6 +212,16 @@ class LeadRubber(_Elastomer):
     displacement_capacity : float or None, optional
         Displacement the bearing is rated for (from the maker's tests), > 0,
         or None when not given (the capacity check is then left out). [m]
+    lead_core : {"hole", "filled"}, optional
+        How the vertical mechanics treat the lead core. "hole" (default,
+        conservative): the core is taken as an empty central hole, S =
+        (D_o - D_L)/(4 t) and E_c with the hole factor F of Constantinou,
+        Kartoum & Kelly (1992), as in Kumar, Whittaker & Constantinou (2014,
+        Earthquake Eng. Struct. Dyn. 43(13)) and Constantinou et al. (2011,
+        MCEER-11-0004), both from memory. "filled": the core keeps the inner
+        face from bulging, S = (D_o^2 - D_L^2)/(4 D_o t) and F = 1 (bonded-
+        annulus convention with only the outer face free, e.g. Naeim & Kelly
+        1999, from memory); gives a larger S, E_c and buckling load. [-]
     """
 
     outer_diameter: float
@@ -211,9 +235,11 @@ class LeadRubber(_Elastomer):
     shim_thickness: float = 0.003
     end_plate_thickness: float = 0.0
     displacement_capacity: float | None = None
+    lead_core: str = "hole"
 
     def __post_init__(self) -> None:
         self._check_geometry("lead_diameter", self.lead_diameter, "positive")
+        validate.one_of("lead_core", self.lead_core, LEAD_CORE_CONVENTIONS)
         for name, value in (("shear_modulus", validate.positive("shear_modulus", self.shear_modulus, "kPa")),
                             ("lead_yield_stress",
                              validate.positive("lead_yield_stress", self.lead_yield_stress, "kPa"))):
@@ -226,6 +252,10 @@ class LeadRubber(_Elastomer):
     @property
     def _inner(self) -> float:
         return self.lead_diameter
+
+    @property
+    def _inner_face_free(self) -> bool:
+        return self.lead_core == "hole"
 
     @property
     def lead_area(self) -> float:
@@ -271,7 +301,7 @@ class LeadRubber(_Elastomer):
     def to_dict(self) -> dict:
         out = {"kind": "lead_rubber", "lead_diameter": self.lead_diameter,
                "shear_modulus": self.shear_modulus, "lead_yield_stress": self.lead_yield_stress,
-               "stiffness_ratio": self.stiffness_ratio}
+               "stiffness_ratio": self.stiffness_ratio, "lead_core": self.lead_core}
         out.update(self._geometry_dict())
         out.update({"post_yield_stiffness": self.post_yield_stiffness,
                     "characteristic_strength": self.characteristic_strength,
