@@ -77,6 +77,17 @@ class Building:
     (EN 1998-1 §4.2.5, 0.8/1.0/1.2/1.4 for classes I-IV, from memory) for a
     Eurocode basis; allowed ranges in
     :data:`isolation.study_sections.IMPORTANCE_RANGES`.
+
+    The comparison building: ``fixed_base_model`` "yielding" (default; storey
+    strengths from the code design, :mod:`isolation.strength`) or "elastic";
+    ``overstrength`` [-] and ``deflection_amplification`` [-] replace the code
+    table's Omega_0 (or alpha_u/alpha_1) and C_d when given;
+    ``storey_strengths`` / ``isolated_storey_strengths`` [kN] replace the
+    designed yield shears of the fixed-base / isolated superstructure;
+    ``hardening`` [-] is the post-yield storey stiffness ratio (default 0.03,
+    common practice); ``p_delta`` includes gravity P-delta in yielding storeys;
+    ``design_level`` ("high" or "moderate") picks the damage-state medians of
+    :mod:`isolation.damage`.
     """
 
     storeys: int
@@ -91,6 +102,14 @@ class Building:
     fixed_base_period: float | None = None
     eccentricity: float = 0.0
     damping: float = 0.05
+    fixed_base_model: str = "yielding"
+    overstrength: float | None = None
+    deflection_amplification: float | None = None
+    storey_strengths: tuple = ()
+    isolated_storey_strengths: tuple = ()
+    hardening: float = 0.03
+    p_delta: bool = True
+    design_level: str = "high"
 
     @property
     def total_weight(self) -> float:

@@ -163,6 +163,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
         eccentricity=t.quantity("eccentricity", "length", low=0.0, required=False, default=0.0),
         damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05),
     )
+    values.update(_yielding_keys(t, count))
     length, width = values["plan_length"], values["plan_width"]
     if isinstance(width, float) and isinstance(length, float) and width > length:
         t.problems.add(f"building.plan_width = {width:g} m is not allowed: must not exceed "
@@ -175,6 +176,29 @@ def _building(t: Reader | None, basis: str) -> Building | None:
     if t.failed():
         return None
     return Building(**values)
+
+
+FIXED_BASE_MODELS = ("yielding", "elastic")
+"""``building.fixed_base_model``: the comparison building yields at its code-design storey strengths
+(default) or stays elastic (then the isolated superstructure stays elastic too)."""
+
+
+def _yielding_keys(t: Reader, count: int | None) -> dict:
+    """Optional keys of the yielding superstructure (defaults keep older study files valid)."""
+    values = dict(
+        fixed_base_model=t.choice("fixed_base_model", FIXED_BASE_MODELS, required=False) or "yielding",
+        overstrength=t.number("overstrength", low=1.0, high=5.0, required=False),
+        deflection_amplification=t.number("deflection_amplification", low=1.0, high=10.0, required=False),
+        hardening=t.number("hardening", low=0.0, high=0.5, required=False, default=0.03),
+        p_delta=t.boolean("p_delta", required=False, default=True),
+        design_level=t.choice("design_level", ("high", "moderate"), required=False) or "high",
+    )
+    for key in ("storey_strengths", "isolated_storey_strengths"):
+        t.known.add(key)
+        values[key] = ()
+        if key in t.mapping:
+            values[key] = t.quantity_list(key, "force", length=count, low=0.0, low_inclusive=False) or ()
+    return values
 
 
 def _analysis(t: Reader | None) -> Analysis:

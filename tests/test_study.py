@@ -388,3 +388,23 @@ def test_lead_core_convention_is_read_and_checked():
     assert spec.properties["lead_core"] == "filled"
     group["lead_core"] = "solid"
     assert any("lead_core" in p and "'hole'" in p for p in problems_of(mapping))
+
+
+def test_yielding_building_keys_default_and_checks():
+    # Older study files stay valid: the comparison building yields at its code-design strengths.
+    study = parse_study(demo_mapping(), source="test.toml", base_dir=ROOT / "examples")
+    b = study.building
+    assert (b.fixed_base_model, b.overstrength, b.storey_strengths, b.p_delta) == ("yielding", None, (), True)
+    assert b.hardening == 0.03 and b.design_level == "high"
+    mapping = demo_mapping()
+    n = mapping["building"]["storeys"]
+    mapping["building"].update(fixed_base_model="elastic", overstrength=2.0, storey_strengths=["5000 kN"] * n,
+                               hardening=0.05, p_delta=False)
+    b = parse_study(mapping, source="test.toml", base_dir=ROOT / "examples").building
+    assert (b.fixed_base_model, b.overstrength, b.hardening, b.p_delta) == ("elastic", 2.0, 0.05, False)
+    assert b.storey_strengths == (5000.0,) * n
+    mapping["building"].update(fixed_base_model="plastic", overstrength=0.5, storey_strengths=["5000 kN"] * (n + 1))
+    problems = problems_of(mapping)
+    assert any("building.fixed_base_model" in p and "'yielding'" in p for p in problems)
+    assert any("building.overstrength = 0.5" in p for p in problems)
+    assert any("building.storey_strengths" in p for p in problems)
