@@ -52,8 +52,10 @@ class FixedBaseComparison:
     yielding: bool
 
     def to_dict(self) -> dict:
+        notes = getattr(self.building, "p_delta_notes", None)
         return {"factors": self.factors.to_dict(), "design": self.design.to_dict(), "drift_check": self.drift.to_dict(),
-                "yielding": self.yielding, "model": plain(self.building)}
+                "yielding": self.yielding, "model": plain(self.building),
+                "p_delta_notes": list(notes()) if callable(notes) else []}
 
 
 def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: bool = True):

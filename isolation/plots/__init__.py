@@ -17,7 +17,8 @@ same in both systems.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
-motion suite), :mod:`~isolation.plots.history` (response histories).
+motion suite), :mod:`~isolation.plots.history` (response histories),
+:mod:`~isolation.plots.yielding` (ductility, residual drift, shear over strength).
 """
 
 from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
@@ -27,6 +28,7 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
                                      storey_profiles)
+from isolation.plots.yielding import yielding_profiles
 
 __all__ = [
     "COLOURS",
@@ -52,4 +54,5 @@ __all__ = [
     "history_loops",
     "history_energy",
     "history_floor_spectra",
+    "yielding_profiles",
 ]
