@@ -119,7 +119,10 @@ def isolated_superstructure(study, report, building):
 def _mean_peak(values) -> list | None:
     if values is None:
         return None
-    return np.mean(np.abs(np.asarray(values, dtype=float)), axis=0).tolist()
+    values = np.abs(np.asarray(values, dtype=float))
+    if not np.any(np.isfinite(values)):
+        return None  # elastic storeys: no ductility
+    return np.mean(values, axis=0).tolist()
 
 
 def response_indicators(result, strengths, thresholds) -> dict:
