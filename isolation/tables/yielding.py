@@ -58,6 +58,8 @@ def fixed_base_design_table(results: Any) -> Table:
     notes = (f"Design: {design['source']}. Yield shear: {strength}. Drift check ({checked}) {verdict}: "
              f"{drift['source']}. Stability coefficient theta against {drift['stability_limit']:.3g}. "
              "Strength design of members, capacity design and the real overstrength are for the designer.")
+    if comparison.get("p_delta_notes"):
+        notes += " P-delta in the yielding model: " + "; ".join(comparison["p_delta_notes"]) + "."
     return Table(columns=("Storey", f"Design force [{force}]", f"Design storey shear [{force}]",
                           f"Yield shear [{force}]", "Code drift ratio [%]", "Allowed [%]", "theta [-]"),
                  rows=tuple(rows), align="rrrrrrr", notes=notes,
