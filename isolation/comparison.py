@@ -58,10 +58,12 @@ class FixedBaseComparison:
                 "p_delta_notes": list(notes()) if callable(notes) else []}
 
 
-def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: bool = True):
-    """The shear building ``building`` with storey yield shears [kN], post-yield ratio [-] and P-delta."""
+def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: bool = True,
+                   hysteresis: str = "bilinear"):
+    """The shear building ``building`` with storey yield shears [kN], post-yield ratio [-], P-delta
+    and storey law ("bilinear" or "clough", see :class:`isolation.structure.ShearBuilding`)."""
     return dataclasses.replace(building, yield_shears=tuple(float(v) for v in yield_shears),
-                               hardening=float(hardening), p_delta=bool(p_delta))
+                               hardening=float(hardening), p_delta=bool(p_delta), hysteresis=hysteresis)
 
 
 def _factors(study) -> SystemFactors:
@@ -94,8 +96,8 @@ def fixed_base_comparison(study, spectrum, building, period: float) -> FixedBase
         design = design.with_yield_shears(b.storey_strengths)
     drift = code_drift_check(building, design, factors, basis=study.basis, importance=b.importance)
     yielding = b.fixed_base_model == "yielding"
-    model = with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta) \
-        if yielding else building
+    model = with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta,
+                           hysteresis=b.storey_hysteresis) if yielding else building
     return FixedBaseComparison(factors, design, drift, model, building, yielding)
 
 
@@ -113,7 +115,8 @@ def isolated_superstructure(study, report, building):
         design = design.with_yield_shears(b.isolated_storey_strengths)
     if b.fixed_base_model != "yielding":
         return building, design
-    return with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta), design
+    return with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta,
+                          hysteresis=b.storey_hysteresis), design
 
 
 def _mean_peak(values) -> list | None:

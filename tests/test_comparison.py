@@ -121,3 +121,27 @@ def test_study_results_json_carry_the_design_and_drift_check(demo):
     assert comparison["drift_check"]["limit"] == pytest.approx(0.010)  # demo I_e = 1.5: risk category IV
     assert len(comparison["design"]["yield_shears"]) == data["study"]["building"]["storeys"]
     assert data["fixed_base"]["damage_thresholds"]["building_type"] == "S2M"
+
+
+def test_elastic_fixed_base_model_restores_the_elastic_comparison():
+    mapping = read_study_mapping(DEMO)
+    mapping["building"]["fixed_base_model"] = "elastic"
+    mapping["alternative"] = mapping["alternative"][:1]
+    results = run_study(parse_study(mapping, source="demo", base_dir=DEMO.parent), quick=True)
+    s = results.alternatives[0].history["summary"]
+    assert s["floor_acceleration_ratio"] == pytest.approx(s["floor_acceleration_ratio_elastic"])
+    assert s["superstructure_shear_ratio"] == pytest.approx(s["superstructure_shear_ratio_elastic"])
+    assert s["ductility_fixed"] is None and s["shear_over_strength_fixed"] is None
+    assert results.fixed_base["comparison"]["yielding"] is False
+    assert "elastic" in tables.fixed_base_label(results)
+
+
+def test_degrading_storey_law_is_passed_to_the_model():
+    mapping = read_study_mapping(DEMO)
+    mapping["building"]["storey_hysteresis"] = "clough"
+    study = parse_study(mapping, source="demo", base_dir=DEMO.parent)
+    comparison = fixed_base_comparison(study, site_spectrum(study), superstructure(study), fixed_base_period(study)[0])
+    assert comparison.building.hysteresis == "clough"
+    mapping["building"]["storey_hysteresis"] = "takeda"
+    with pytest.raises(ValueError, match="storey_hysteresis"):
+        parse_study(mapping, source="demo", base_dir=DEMO.parent)
