@@ -225,7 +225,7 @@ def _dynamic_notes(building: ShearBuilding, drift: np.ndarray) -> tuple:
 
 def _finish(case, dt, acc, building, u_floor, v_floor, a_abs_floor, drift, storey_force, reaction, energy_cols,
             model, **extra) -> HistoryResult:
-    energy = {name: np.ascontiguousarray(energy_cols[..., i]) for i, name in enumerate(COMPONENTS)}
+    energy = {name: energy_cols[i] for i, name in enumerate(COMPONENTS)}
     heights = np.asarray(building.heights)
     strength = np.asarray(building.yield_shears) if building.yielding else None
     return HistoryResult(case, dt, acc, a_abs_floor / GRAVITY, u_floor, drift, storey_force,
@@ -254,12 +254,8 @@ def _run_fixed(building: ShearBuilding, acc: np.ndarray, dt: float, compiled=Non
     ground = acc * GRAVITY
     out = simulate(masses, k_lin, building.damping_matrix(), _storey_spec(building, 0), None, ground, dt, nsub,
                    [("fixed", r) for r in range(records)], compiled=compiled)
-    u, v = out["u"], out["v"]
-    a_abs = out["a"] + ground[:, :, None]
-    drift = np.diff(u, axis=-1, prepend=0.0)
-    reaction = -np.einsum("rsi,i->rs", a_abs, masses)
-    return _finish("fixed", dt, acc, building, u, v, a_abs, drift, out["storey_force"], reaction, out["energy"],
-                   model)
+    return _finish("fixed", dt, acc, building, out["u"], out["v"], out["a"], out["drift"], out["storey_force"],
+                   out["reaction"], out["energy"], model)
 
 
 def _isolator_spec(laws, dampers, records) -> dict:
@@ -307,9 +303,7 @@ def _run_isolated(superstructure, base_mass, names, laws, dampers, isolators, ac
     labels = [(name, r) for name in names for r in range(records)]
     out = simulate(masses, k_lin, c, storeys, _isolator_spec(laws, dampers, records), ground, dt, nsub, labels,
                    compiled=compiled)
-    u_all, v_all = out["u"], out["v"]
-    a_abs_all = out["a"] + ground[:, :, None]
-    reaction_all = -np.einsum("rsi,i->rs", a_abs_all, masses)
+    u_all, v_all, a_abs_all, reaction_all = out["u"], out["v"], out["a"], out["reaction"]
     storeys_count = superstructure.storeys
     floor_masses = np.asarray(superstructure.masses)
     results = {}
@@ -327,7 +321,7 @@ def _run_isolated(superstructure, base_mass, names, laws, dampers, isolators, ac
             floor_abs = a_abs[:, :, 1:]
             floor_disp = u[:, :, 1:]
             floor_vel = v[:, :, 1:]
-            drift = np.diff(u, axis=-1)
+            drift = out["drift"][sl]
             force = out["storey_force"][sl]
         iso_force = np.ascontiguousarray(out["isolator_force"][sl])
         damper_force = dampers[index] * v[:, :, 0]
@@ -337,7 +331,7 @@ def _run_isolated(superstructure, base_mass, names, laws, dampers, isolators, ac
                  "regularisation": friction_regularisation(isolators[name], friction_law)}
         results[name] = _finish(
             name, dt, acc, superstructure, floor_disp, floor_vel, floor_abs, drift, force, reaction_all[sl],
-            out["energy"][sl], model, isolator_displacement=ub, isolator_force=iso_force,
+            out["energy"][:, sl], model, isolator_displacement=ub, isolator_force=iso_force,
             damper_force=damper_force, base_acceleration=a_abs[:, :, 0] / GRAVITY,
             isolator_velocity=np.ascontiguousarray(v[:, :, 0]))
     return results

@@ -389,8 +389,9 @@ def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, com
 
     Returns
     -------
-    dict of arrays: "u", "v", "a" (cols, steps, dofs) relative [m, m/s, m/s2]; "storey_force"
-    (cols, steps, storeys) [kN]; "isolator_force" (cols, steps) [kN]; "energy" (cols, steps, 5) [kN m].
+    dict of arrays: "u", "v" (cols, steps, dofs) relative [m, m/s], "a" absolute [m/s2]; "drift",
+    "storey_force" (cols, steps, storeys) [m, kN]; "isolator_force", "reaction" (cols, steps) [kN];
+    "energy" (5, cols, steps) [kN m] in the order of :data:`isolation.energy.COMPONENTS`.
     """
     module = kernel_module(compiled)
     ground = np.ascontiguousarray(ground, dtype=float)
@@ -419,17 +420,19 @@ def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, com
         iso_f = np.ascontiguousarray(isolator["f"], dtype=float)
         damper = np.ascontiguousarray(isolator["damper"], dtype=float)
     out = {name: np.empty((cols, steps, nd)) for name in ("u", "v", "a")}
+    out["drift"] = np.empty((cols, steps, ns))
     out["storey_force"] = np.empty((cols, steps, ns))
     out["isolator_force"] = np.zeros((cols, steps))
-    out["energy"] = np.empty((cols, steps, 5))
+    out["reaction"] = np.empty((cols, steps))
+    out["energy"] = np.empty((5, cols, steps))
     status = np.zeros(3)
     tol_storey = 1e-10 * float(fy.max()) if kind != 0 and ns else 0.0
     module.run_columns(ground, float(dt), int(nsub), np.asarray(mass, dtype=float), np.ascontiguousarray(c),
                        ainv, gmat, lower, upper, kind, kel, np.asarray(storeys["k_geo"], dtype=float), fy,
                        float(storeys["alpha"]), iso_kind, iso_p, iso_k, iso_f, damper, int(MAX_ITERATIONS),
                        float(CONVERGENCE_DISPLACEMENT) * 1e-1, tol_storey,
-                       out["u"], out["v"], out["a"], out["storey_force"], out["isolator_force"], out["energy"],
-                       status)
+                       out["u"], out["v"], out["a"], out["drift"], out["storey_force"], out["isolator_force"],
+                       out["reaction"], out["energy"], status)
     if status[0] >= 0:
         column = int(status[0])
         case, record = labels[column]
