@@ -101,7 +101,7 @@ def yielding_response_table(alternative: Any, system: str = "SI") -> Table:
                        "overstrength (bilinear, P-delta). Isolated: the superstructure yields at its own design "
                        "shear V_s times the same overstrength. The elastic fixed base (unreduced, never yields) "
                        "is a second view only. Ductility: peak storey drift over yield drift; '--' where the "
-                       "storeys stay elastic or the quantity does not apply.")
+                       "storeys stay elastic or the quantity does not apply. Residual drift: at the end of each record.")
 
 
 def damage_table(results: Any, alternative: Any) -> Table:
