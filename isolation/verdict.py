@@ -252,7 +252,7 @@ def assess(figures: Figures) -> Verdict:
         bearing_checks(tuple(f.failed_checks)),
         effective_damping(f.effective_damping, basis=basis),
         superstructure_yielding(f.ductility_isolated, f.residual_drift_isolated, f.ductility_fixed,
-                                f.residual_drift_fixed),
+                                f.residual_drift_fixed, basis=basis),
     ]
     reasons = tuple(r for r in found if r is not None)
     return Verdict(alternative=f.alternative, outcome=combine(reasons), reasons=reasons)

@@ -8,17 +8,22 @@ from __future__ import annotations
 
 from isolation.verdict_rules import Reason
 
-__all__ = ["superstructure_yielding", "YIELDING_SOURCE"]
+__all__ = ["superstructure_yielding", "YIELDING_SOURCES"]
 
-YIELDING_SOURCE = ("common practice: R_I <= 2 (ASCE/SEI 7-16 §17.5.4.2) or q <= 1.5 (EN 1998-1 §10.10(5)) aim "
-                   "at an essentially elastic isolated superstructure, ductility demand above 2 taken as more "
-                   "than that (from memory); residual drift ratio 0.5 % at which the structure needs "
-                   "realignment, FEMA P-58-1 (2012) residual drift damage states (from memory)")
+_RESIDUAL = ("residual drift ratio 0.5 % at which the structure needs realignment, FEMA P-58-1 (2012) "
+             "residual drift damage states (from memory)")
+YIELDING_SOURCES = {
+    "asce7": ("common practice: R_I <= 2 (ASCE/SEI 7-16 §17.5.4.2) aims at an essentially elastic isolated "
+              "superstructure, ductility demand above 2 taken as more than that (from memory); " + _RESIDUAL),
+    "eurocode": ("common practice: q <= 1.5 (EN 1998-1 §10.10(5)) keeps the isolated superstructure essentially "
+                 "elastic, ductility demand above 2 taken as more than that (from memory); " + _RESIDUAL),
+}
+"""Source of the limits per code basis."""
 
 
 def superstructure_yielding(ductility_isolated: float | None, residual_drift_isolated: float | None,
                             ductility_fixed: float | None = None,
-                            residual_drift_fixed: float | None = None) -> Reason | None:
+                            residual_drift_fixed: float | None = None, *, basis: str = "asce7") -> Reason | None:
     """Storey ductility and residual drift of the isolated superstructure, beside the fixed base's.
 
     Ductility <= 2 and residual drift < 0.5 %: ok; else a condition (more
@@ -34,7 +39,12 @@ def superstructure_yielding(ductility_isolated: float | None, residual_drift_iso
         Largest residual storey drift ratio, isolated (suite mean). [-]
     ductility_fixed, residual_drift_fixed : float or None
         The same for the code-designed fixed-base building. [-]
+    basis : str
+        ``"asce7"`` or ``"eurocode"``: the clause the source cites. [-]
     """
+    from isolation import validate
+
+    source = YIELDING_SOURCES[validate.one_of("basis", basis, tuple(YIELDING_SOURCES))]
     if ductility_isolated is None or residual_drift_isolated is None:
         return None
     text = (f"the isolated superstructure reaches storey ductility {ductility_isolated:.2f} and residual drift "
@@ -44,8 +54,8 @@ def superstructure_yielding(ductility_isolated: float | None, residual_drift_iso
                  "fixed-base building")
     if residual_drift_isolated >= 0.005:
         return Reason("superstructure yielding", "condition", text + ": residual drift needs more strength or "
-                      "stiffness above the isolators", residual_drift_isolated, 0.005, "-", YIELDING_SOURCE)
+                      "stiffness above the isolators", residual_drift_isolated, 0.005, "-", source)
     if ductility_isolated > 2.0:
         return Reason("superstructure yielding", "condition", text + ": more than limited yielding; give the "
-                      "superstructure more strength", ductility_isolated, 2.0, "-", YIELDING_SOURCE)
-    return Reason("superstructure yielding", "ok", text, ductility_isolated, 2.0, "-", YIELDING_SOURCE)
+                      "superstructure more strength", ductility_isolated, 2.0, "-", source)
+    return Reason("superstructure yielding", "ok", text, ductility_isolated, 2.0, "-", source)

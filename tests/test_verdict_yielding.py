@@ -27,3 +27,11 @@ def test_assess_includes_the_rule_only_with_numbers():
     verdict = assess(Figures(**base, ductility_isolated=3.0, residual_drift_isolated=0.001))
     found = [r for r in verdict.reasons if r.topic == "superstructure yielding"]
     assert found and found[0].level == "condition"
+
+
+def test_source_follows_the_code_basis():
+    assert "ASCE/SEI 7-16" in superstructure_yielding(1.0, 0.0).source
+    ec = superstructure_yielding(1.0, 0.0, basis="eurocode").source
+    assert "EN 1998-1" in ec and "ASCE" not in ec
+    with pytest.raises(ValueError, match="basis"):
+        superstructure_yielding(1.0, 0.0, basis="other")
