@@ -308,10 +308,10 @@ class ShearBuilding:
         """Plain sentences for storeys whose tangent stiffness with P-delta approaches zero.
 
         Elastic storeys: noted when theta >= 0.5 (the elastic tangent is
-        halved). Yielding storeys: noted when the post-yield tangent
-        alpha k - P/h falls to 10 % of k or below (theta >= alpha - 0.1),
-        and said to be negative when theta > alpha. Thresholds are
-        common practice for a feasibility screen.
+        halved). Yielding storeys: noted when P-delta takes half or more of
+        the post-yield tangent alpha k (theta >= alpha/2), and said to be
+        negative when theta > alpha. Thresholds are common practice for a
+        feasibility screen.
         """
         if not self.p_delta or self.rigid:
             return []
@@ -324,9 +324,9 @@ class ShearBuilding:
             elif self.yielding and t > self.hardening:
                 notes.append(f"storey {i}: negative post-yield stiffness with P-delta (alpha = {self.hardening:.3f} "
                              f"< theta = {t:.3f}); drift can ratchet towards collapse once it yields")
-            elif self.yielding and t >= self.hardening - 0.1:
-                notes.append(f"storey {i}: post-yield stiffness with P-delta near zero (alpha - theta = "
-                             f"{self.hardening - t:.3f})")
+            elif self.yielding and t >= 0.5 * self.hardening:
+                notes.append(f"storey {i}: P-delta takes half or more of the post-yield stiffness "
+                             f"(theta = {t:.3f} against alpha = {self.hardening:.3f}); the tangent is near zero")
         return notes
 
     def with_strengths(self, yield_shears, hardening=None, p_delta=None, hysteresis=None) -> "ShearBuilding":
@@ -353,6 +353,46 @@ class ShearBuilding:
         if hysteresis is not None:
             changes["hysteresis"] = hysteresis
         return dataclasses.replace(self, **changes)
+
+    def storey_loop(self, drift, storey: int = 0) -> np.ndarray:
+        """Spring force of one storey under an imposed drift history (loops and checks).
+
+        Parameters
+        ----------
+        drift : array (steps,)
+            Imposed storey drift, starting from the unloaded state. [m]
+        storey : int, optional
+            Storey index from 0 (the first storey). [-]
+
+        Returns
+        -------
+        ndarray (steps,)
+            Storey spring force, without P-delta. [kN]
+        """
+        from isolation import kernel
+
+        d = validate.finite_array("drift", drift, "m")
+        if d.ndim != 1:
+            raise ValueError(f"drift has shape {d.shape}: must be 1-D (steps,) [m]")
+        if self.rigid:
+            raise ValueError("storey_loop is not available for a rigid building (no storey springs)")
+        if not isinstance(storey, (int, np.integer)) or not 0 <= storey < self.storeys:
+            raise ValueError(f"storey = {storey!r} is not allowed: must be an integer in [0, {self.storeys - 1}]")
+        k = self.stiffnesses[storey]
+        if not self.yielding:
+            return k * d
+        fy = self.yield_shears[storey]
+        kind = {"bilinear": kernel.STOREY_BILINEAR, "clough": kernel.STOREY_CLOUGH}[self.hysteresis]
+        state = np.zeros((1, kernel.STOREY_STATE))
+        state[0, 1], state[0, 2] = fy / k, -fy / k
+        trial = state.copy()
+        out = np.empty_like(d)
+        previous = 0.0
+        for n, value in enumerate(d):
+            out[n] = kernel.storey_force(kind, k, fy, self.hardening, previous, float(value), state, trial, 0)
+            state[:] = trial
+            previous = float(value)
+        return out
 
     def mass_matrix(self) -> np.ndarray:
         """Diagonal mass matrix of the fixed-base floors. [t]"""
