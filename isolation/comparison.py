@@ -16,7 +16,6 @@ Scope: feasibility, not construction design.
 
 from __future__ import annotations
 
-import dataclasses
 from dataclasses import dataclass
 from typing import Any
 
@@ -62,8 +61,8 @@ def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: 
                    hysteresis: str = "bilinear"):
     """The shear building ``building`` with storey yield shears [kN], post-yield ratio [-], P-delta
     and storey law ("bilinear" or "clough", see :class:`isolation.structure.ShearBuilding`)."""
-    return dataclasses.replace(building, yield_shears=tuple(float(v) for v in yield_shears),
-                               hardening=float(hardening), p_delta=bool(p_delta), hysteresis=hysteresis)
+    return building.with_strengths(tuple(float(v) for v in yield_shears), hardening=float(hardening),
+                                   p_delta=bool(p_delta), hysteresis=hysteresis)
 
 
 def _factors(study) -> SystemFactors:
