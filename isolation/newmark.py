@@ -356,7 +356,7 @@ def kernel_module(compiled: bool | None = None):
         sys.modules[spec.name] = module  # numba's cache finds the module by name when it loads
         spec.loader.exec_module(module)
         for name in module.JIT_FUNCTIONS:
-            setattr(module, name, numba.njit(cache=True, nogil=True)(getattr(module, name)))
+            setattr(module, name, numba.njit(cache=True, nogil=True, error_model="numpy")(getattr(module, name)))
         _COMPILED_MODULE = module
     return _COMPILED_MODULE
 
