@@ -311,7 +311,8 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     fy (ns,); iso_p (cols, 6), iso_k/iso_f (cols, elements); damper (cols,). Outputs (cols, steps, .):
     u, v relative and a absolute (nd), drift d and storey hysteretic force s (ns); (cols, steps):
     isolator force f, reaction r = -sum m a_abs; energies (5, cols, steps: input, kinetic, viscous,
-    elastic strain, hysteretic). status[0:3] = column, step, residual of the first failure (column -1
+    elastic strain, hysteretic). status[0:4] = column, step, residual, what (1 isolator [m], 2 storeys
+    [kN]) of the first failure (column -1
     when all converged).
     """
     cols, steps = ground.shape
@@ -418,6 +419,7 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                             status[0] = col
                             status[1] = n + 1
                             status[2] = res
+                            status[3] = 1.0
                             return
                         phi = f_iso + cd * (a1 * du_b - vn[0])
                         for i in range(nd):
@@ -446,6 +448,7 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                     status[0] = col
                     status[1] = n + 1
                     status[2] = change
+                    status[3] = 2.0
                     return
                 # Newmark update, energy increments (trapezoid rule), commit
                 # (v + v_n)/2 = du/h exactly, so the viscous work is du' C du / h
