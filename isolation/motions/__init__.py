@@ -50,7 +50,9 @@ from isolation.motions.records_io import (
     write_suite,
 )
 from isolation.motions.pair_spectra import component_correlation, rotd100_spectrum, rotd_spectrum, srss_spectrum
-from isolation.motions.pairs import PAIR_RULES, MatchedPairs, PairCheck, RecordedPair, matched_pairs, read_pair
+from isolation.motions.pair_io import RecordedPair, read_pair
+from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs, PairCheck
+from isolation.motions.pairs import matched_pairs
 from isolation.motions.spectrum import ResponseSpectra, log_periods, response_spectra, response_spectrum
 from isolation.motions.suite import (
     BASELINE_TOLERANCE,
