@@ -25,7 +25,9 @@ is lifted) and 1 otherwise.
   straight step ``dd = |dd| e`` the law integrates in closed form (derived):
   with ``a = z . e`` and ``b = z - a e``, unloading (``a < 0``) is elastic,
   ``a <- a + x`` with ``x = |dd| / Y``, until ``a = 0``; loading gives
-  ``a = tanh(c + x)``, ``b = b0 cosh(c) / cosh(c + x)`` with ``c = atanh(a0)``.
+  ``a = tanh(c + x)``, ``b = b0 cosh(c) / cosh(c + x)`` with ``c = atanh(a0)``,
+  evaluated as ``a = (a0 + t)/(1 + a0 t)``, ``b = b0 sqrt(1 - t^2)/(1 + a0 t)``
+  with ``t = tanh x`` (addition theorems).
   So ``|z| <= 1`` and, in steady sliding, ``z`` points along the velocity:
   the friction force has magnitude ``mu N`` along the sliding direction
   (Mokha, Constantinou & Reinhorn 1993, J. Struct. Eng. 119(1)).
@@ -53,11 +55,6 @@ __all__ = ["BiaxialLaws", "smooth_update", "radial_return"]
 _EDGE = 1.0 - 1e-15
 
 
-def _logcosh(x: np.ndarray) -> np.ndarray:
-    ax = np.abs(x)
-    return ax + np.log1p(np.exp(-2.0 * ax)) - np.log(2.0)
-
-
 def smooth_update(z0: np.ndarray, step: np.ndarray, inv_yield: np.ndarray) -> np.ndarray:
     """Closed-form biaxial Bouc-Wen update (beta = gamma = 1/2, n = 2) along a straight step.
 
@@ -82,12 +79,12 @@ def smooth_update(z0: np.ndarray, step: np.ndarray, inv_yield: np.ndarray) -> np
     b0 = z0 - a0[..., None] * e
     x = length * inv_yield
     elastic = np.minimum(x, np.maximum(-a0, 0.0))
-    a1 = a0 + elastic
-    rest = x - elastic
-    c = np.arctanh(np.clip(a1, 0.0, _EDGE))
-    loading = rest > 0.0
-    a = np.where(loading, np.tanh(c + rest), a1)
-    shrink = np.where(loading, np.exp(_logcosh(c) - _logcosh(c + rest)), 1.0)
+    a1 = np.minimum(a0 + elastic, _EDGE)
+    t = np.tanh(x - elastic)
+    # tanh(atanh(a1) + r) = (a1 + t)/(1 + a1 t) and cosh(c)/cosh(c + r) = sqrt(1 - t^2)/(1 + a1 t), t = tanh r
+    denominator = 1.0 + a1 * t
+    a = (a1 + t) / denominator
+    shrink = np.sqrt(1.0 - t * t) / denominator
     z = a[..., None] * e + shrink[..., None] * b0
     return np.where(moving[..., None], z, z0)
 

@@ -31,7 +31,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from isolation import GRAVITY, validate
+from isolation import GRAVITY, plan_kernel, validate
 from isolation.plan_bearings import BiaxialLaws
 from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding
 
@@ -221,7 +221,50 @@ def run_plan_cases(buildings, acceleration, dt, *, vertical=None) -> list:
             for case in range(len(buildings))]
 
 
-def _integrate(buildings, structure, m, k, c, ground, dt, vertical):
+def _integrate(buildings, structure, m, k, c, ground, dt, vertical, compiled=None):
+    """Step every column; the compiled loop (:mod:`isolation.plan_kernel`) when numba is there."""
+    use_kernel = plan_kernel.available if compiled is None else bool(compiled)
+    if buildings is not None and use_kernel:
+        return _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical)
+    return _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical)
+
+
+def _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical):
+    records, _, steps = ground.shape
+    cases = len(buildings)
+    cols = cases * records
+    nd = m.shape[0]
+    r = _influence(nd // 3)
+    g = np.ascontiguousarray(np.tile(ground, (cases, 1, 1)))
+    k_inv = np.linalg.inv(k + (2.0 / dt) * c + (4.0 / dt**2) * m)
+    pos = np.ascontiguousarray(buildings[0].positions, dtype=float)
+    nb = pos.shape[0]
+    laws = BiaxialLaws([(b.bearings, b.gravity_loads) for b in buildings], records)
+    gravity = np.repeat(np.array([b.gravity_loads for b in buildings]), records, axis=0)
+    vert = np.zeros((cols, steps)) if vertical is None else np.ascontiguousarray(np.tile(vertical, (cases, 1)))
+    heights = np.concatenate([[0.0], structure.floor_elevations])
+    floor_mass = np.concatenate([[buildings[0].base_mass], structure.masses])
+    u = np.zeros((steps, cols, nd))
+    acc = np.zeros((steps, cols, nd))
+    force = np.zeros((steps, cols, 3))
+    axial_min = np.zeros((cols, nb))
+    axial_max = np.zeros((cols, nb))
+    uplift = np.zeros((cols, nb), dtype=np.int64)
+    energy = np.zeros((cols, 5))
+    failed = plan_kernel.isolated_loop(
+        dt, m, c, k_inv, m @ r, g, pos, heights, floor_mass, gravity, vert, vertical is not None, laws.slider,
+        laws.k0, laws.q_fast, laws.q_drop, laws.rate, laws.inv_y, laws.strength, laws.inv_element_yield,
+        1e-9 * laws.smallest_yield, _MAX_ITERATIONS, u, acc, force, axial_min, axial_max, uplift, energy)
+    if failed:
+        raise RuntimeError(f"plan isolator iteration did not converge at step {failed} (t = {failed * dt:.4g} s)")
+    final = u[-1]
+    strain = 0.5 * ((final @ k) * final).sum(axis=1)
+    balance = np.abs(energy[:, 0] - (energy[:, 4] + energy[:, 1] + strain + energy[:, 2]))
+    return {"u": u, "a": acc, "ground": g, "energy_error": balance / np.maximum(energy[:, 3], 1e-300),
+            "base_force": force, "axial_min": axial_min, "axial_max": axial_max, "uplift": uplift}
+
+
+def _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical):
     records, _, steps = ground.shape
     cases = len(buildings) if buildings else 1
     cols = cases * records
