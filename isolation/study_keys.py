@@ -53,6 +53,17 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
         "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
         "displacement_capacity_2": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
     },
+    "triple_pendulum": {
+        "radius_outer": Key("length", low=0.3, high=20.0),
+        "radius_inner": Key("length", low=0.1, high=10.0),
+        "friction_inner": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_4": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "slider_height_outer": Key("length", required=False, low=0.0, high=2.0),
+        "slider_height_inner": Key("length", required=False, low=0.0, high=1.0),
+        "displacement_capacity_outer": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "displacement_capacity_inner": Key("length", required=False, low=0.0, high=1.0, low_inclusive=False),
+    },
     "lead_rubber": {
         "outer_diameter": Key("length", low=0.2, high=2.5),
         "lead_diameter": Key("length", low=0.0, high=1.0, low_inclusive=False),

@@ -246,6 +246,9 @@ def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
         pairs = [("slider_height", "radius", "m"), ("friction_slow", "friction", "-")]
     elif kind == "double_concave":
         pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
+    elif kind == "triple_pendulum":
+        pairs = [("slider_height_outer", "radius_outer", "m"), ("slider_height_inner", "radius_inner", "m"),
+                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"), ("friction_1", "friction_4", "-")]
     elif kind == "lead_rubber":
         pairs = [("lead_diameter", "outer_diameter", "m")]
     elif kind == "high_damping_rubber":
@@ -254,7 +257,7 @@ def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
         a, b = props.get(small), props.get(large)
         if a is None or b is None:
             continue
-        strict = small != "friction_slow"
+        strict = small not in ("friction_slow", "friction_1")
         if (a >= b) if strict else (a > b):
             relation = "<" if strict else "<="
             t.problems.add(f"{t.path_of(small)} = {a:.4g} {unit} is not allowed: must be {relation} "
