@@ -143,6 +143,11 @@ class Reader:
             self.problems.add(f"{self.path_of(key)} is missing: must be {allowed}")
         return _MISSING
 
+    def raw(self, key: str) -> Any:
+        """The value of an optional key as written (None when absent), for readers of composite values."""
+        value = self._get(key, False, "")
+        return None if value is _MISSING else value
+
     def _bad(self, key: str, value: Any, allowed: str) -> None:
         self.problems.add(f"{self.path_of(key)} = {value!r} is not allowed: must be {allowed}")
 

@@ -17,7 +17,8 @@ same in both systems.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
-motion suite), :mod:`~isolation.plots.history` (response histories).
+motion suite), :mod:`~isolation.plots.history` (response histories),
+:mod:`~isolation.plots.plan` (bidirectional analysis: orbits, plan demand).
 """
 
 from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
@@ -27,8 +28,11 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
                                      storey_profiles)
+from isolation.plots.plan import bearing_orbits, plan_demand
 
 __all__ = [
+    "bearing_orbits",
+    "plan_demand",
     "COLOURS",
     "WIDTH",
     "AxisUnit",

@@ -19,7 +19,7 @@ generic builders), :mod:`~isolation.tables.results` (tables of a study's results
 :mod:`~isolation.tables.symbols` (symbols as subscripts).
 """
 
-from isolation.tables.results import (alternatives_table, bounds_table, code_quantities_table,
+from isolation.tables.results import (alternatives_table, bidirectional_table, bounds_table, code_quantities_table,
                                       comparison_table, display_quantity, history_table, inputs_table,
                                       suite_table, verdict_table)
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
@@ -28,6 +28,7 @@ from isolation.tables.table import (Table, checks_table, escape_latex, format_nu
                                     key_value_table)
 
 __all__ = [
+    "bidirectional_table",
     "Table",
     "format_number",
     "escape_latex",
