@@ -86,3 +86,19 @@ def test_bidirectional_study_end_to_end(tmp_path):
     again = load_results(path)
     assert again.alternatives[0].history["bidirectional"]["grid"] == results.alternatives[0].history["bidirectional"]["grid"]
     json.loads(path.read_text())
+
+
+def test_batch_overrides_vary_the_layout(tmp_path):
+    # Batch variants are dotted-key overrides of the study: bearing count, grid, eccentricity and the
+    # bidirectional switch are ordinary keys, so a batch grid can vary the layout.
+    from isolation.study import apply_overrides
+
+    mapping = tomllib.loads(open(DEMO).read())
+    changed = apply_overrides(mapping, {"alternative.0.bearings.0.count": 24, "alternative.0.grid": [6, 4],
+                                        "building.eccentricity": "1.5 m", "analysis.bidirectional": True})
+    study = parse_study(changed, base_dir=tmp_path)
+    assert study.alternatives[0].grid == (6, 4) and study.alternatives[0].count == 24
+    assert study.building.eccentricity == pytest.approx(1.5) and study.analysis.bidirectional
+    wrong = apply_overrides(mapping, {"alternative.0.bearings.0.count": 24, "alternative.0.grid": [6, 5]})
+    with pytest.raises(StudyError, match=r"alternative\[?.?0\]?.grid"):
+        parse_study(wrong, base_dir=tmp_path)
