@@ -32,6 +32,20 @@ def test_default_grid_is_the_squarest_spacing(count, length, width, grid):
     assert default_grid(count, length, width) == grid
 
 
+def test_tables_are_absent_without_a_bidirectional_run():
+    from isolation import tables
+
+    class Alternative:
+        history = {"bidirectional": None}
+        name = "x"
+
+    class Results:
+        suite = {}
+
+    assert tables.bidirectional_table(Alternative()) is None
+    assert tables.pairs_table(Results()) is None
+
+
 def test_code_limits_as_read():
     # ASCE/SEI 7-16 §17.6.3.4 (from memory): 80 %; EN 1998-1 §10.9: no such limit; 5 % eccentricity.
     assert HISTORY_LOWER_LIMIT == {"asce7": 0.8, "eurocode": 0.0}
@@ -82,6 +96,16 @@ def test_bidirectional_study_end_to_end(tmp_path):
         assert all(lo <= g <= hi for lo, g, hi in zip(b["bearing_axial_min_kN"], b["gravity_load_kN"],
                                                        b["bearing_axial_max_kN"]))
     assert results.suite["pairs"]["pair_spectrum"] == "RotD100"
+    # the report's table and figures are made from these results
+    from isolation import plots, tables
+
+    table = tables.bidirectional_table(results.alternatives[0])
+    governing = results.alternatives[0].history["bidirectional"]["total_displacement_governing"]
+    assert table.rows[3][0].startswith("D_TM used by the verdict") and table.rows[3][1] == pytest.approx(governing)
+    assert tables.pairs_table(results).rows[0][0] == 1
+    b = results.alternatives[0].history["bidirectional"]
+    assert plots.bearing_orbits(b).axes and plots.plan_demand(b, (42.0, 28.0)).axes
+    assert plots.pairs_figure(results.live["pairs"]).axes
     path = results.save(tmp_path / "results.json")
     again = load_results(path)
     assert again.alternatives[0].history["bidirectional"]["grid"] == results.alternatives[0].history["bidirectional"]["grid"]

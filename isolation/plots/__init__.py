@@ -28,11 +28,12 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
                                      storey_profiles)
-from isolation.plots.plan import bearing_orbits, plan_demand
+from isolation.plots.plan import bearing_orbits, pairs_figure, plan_demand
 
 __all__ = [
     "bearing_orbits",
     "plan_demand",
+    "pairs_figure",
     "COLOURS",
     "WIDTH",
     "AxisUnit",

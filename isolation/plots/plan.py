@@ -10,7 +10,7 @@ from matplotlib.patches import Rectangle
 
 from isolation.plots.common import _figure, axis_unit
 
-__all__ = ["bearing_orbits", "plan_demand"]
+__all__ = ["bearing_orbits", "plan_demand", "pairs_figure"]
 
 
 def bearing_orbits(summary: Mapping[str, Any], *, units: str = "SI"):
@@ -93,3 +93,18 @@ def plan_demand(summary: Mapping[str, Any], plan: tuple, *, units: str = "SI"):
     ax.set_xlim(length_unit(-lx / 2 - pad), length_unit(lx / 2 + pad))
     ax.set_ylim(length_unit(-ly / 2 - pad), length_unit(ly / 2 + pad))
     return fig
+
+
+def pairs_figure(pairs: Any):
+    """Pair spectra (RotD100 or SRSS) of a :class:`isolation.motions.MatchedPairs` against the target.
+
+    The band and the shaded period range are the pairs' own (``pairs.check()``). [g, s]
+    """
+    from isolation.plots.design import suite_match
+
+    check = pairs.check()
+    low, high = check.band
+    figure = suite_match(pairs.periods, pairs.target, pairs.spectra, lower_factor=low, upper_factor=high,
+                         period_range=tuple(pairs.check_range))
+    figure.axes[0].set_ylabel(f"{check.spectrum} spectral acceleration [g]")
+    return figure

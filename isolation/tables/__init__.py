@@ -21,7 +21,7 @@ generic builders), :mod:`~isolation.tables.results` (tables of a study's results
 
 from isolation.tables.results import (alternatives_table, bidirectional_table, bounds_table, code_quantities_table,
                                       comparison_table, display_quantity, history_table, inputs_table,
-                                      suite_table, verdict_table)
+                                      pairs_table, suite_table, verdict_table)
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.tables.symbols import latex_text, markdown_text
 from isolation.tables.table import (Table, checks_table, escape_latex, format_number, in_study_units,
@@ -29,6 +29,7 @@ from isolation.tables.table import (Table, checks_table, escape_latex, format_nu
 
 __all__ = [
     "bidirectional_table",
+    "pairs_table",
     "Table",
     "format_number",
     "escape_latex",

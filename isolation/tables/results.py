@@ -13,6 +13,7 @@ from isolation.tables.table import Table, format_number, in_study_units
 
 __all__ = [
     "bidirectional_table",
+    "pairs_table",
     "inputs_table",
     "alternatives_table",
     "bounds_table",
@@ -166,6 +167,26 @@ def suite_table(results: Any) -> Table:
     return Table(columns=("Record", "Seed", "Lowest ratio [-]", "Highest ratio [-]",
                           f"Within {low:.2f}-{high:.2f}", "Baseline ok"),
                  rows=rows, caption="Matched motion suite: spectral ratios to the target", notes=notes)
+
+
+def pairs_table(results: Any) -> Table | None:
+    """Per-pair tolerance check of the matched pairs (bidirectional runs); None when not run."""
+    pairs = _part(results, "suite").get("pairs")
+    if not pairs:
+        return None
+    check = pairs["check"]
+    low, high = check["band"]
+    rows = tuple((row["pair"], seeds[0], seeds[1], row["lowest_ratio"], row["highest_ratio"],
+                  "yes" if row["within_band"] else "NO", row["correlation"], "yes" if row["baseline_ok"] else "NO")
+                 for row, seeds in zip(check["pairs"], pairs["seeds"]))
+    notes = (f"{check['spectrum']} spectra of the pairs; suite mean over {check['check_range_s'][0]:.2f}-"
+             f"{check['check_range_s'][1]:.2f} s: lowest {check['lowest_mean_ratio']:.3f} of the target at "
+             f"{check['period_of_lowest_mean_s']:.2f} s, required at least {check['required_mean_ratio']:.2f} "
+             f"({check['rule']} rule for pairs): {'met' if check['mean_ok'] else 'NOT met'}.")
+    return Table(columns=("Pair", "Seed x", "Seed y", "Lowest ratio [-]", "Highest ratio [-]",
+                          f"Within {low:.2f}-{high:.2f}", "Correlation [-]", "Baseline ok"),
+                 rows=rows, caption=f"Matched pairs of components: {check['spectrum']} ratios to the target",
+                 notes=notes)
 
 
 def history_table(alternative: Any, system: str = "SI") -> Table:
