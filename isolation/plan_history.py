@@ -27,6 +27,7 @@ scheme on the linear part); :attr:`PlanHistoryResult.energy_error`.
 
 from __future__ import annotations
 
+import os
 from dataclasses import dataclass
 
 import numpy as np
@@ -222,8 +223,11 @@ def run_plan_cases(buildings, acceleration, dt, *, vertical=None) -> list:
 
 
 def _integrate(buildings, structure, m, k, c, ground, dt, vertical, compiled=None):
-    """Step every column; the compiled loop (:mod:`isolation.plan_kernel`) when numba is there."""
-    use_kernel = plan_kernel.available if compiled is None else bool(compiled)
+    """Step every column; the compiled loop (:mod:`isolation.plan_kernel`) when numba is there and
+    ``ISOLATION_ENGINE`` is not ``"python"`` (as for the planar engine), else the array loop."""
+    if compiled is None:
+        compiled = plan_kernel.available and os.environ.get("ISOLATION_ENGINE", "") != "python"
+    use_kernel = bool(compiled) and plan_kernel.available
     if buildings is not None and use_kernel:
         return _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical)
     return _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical)
