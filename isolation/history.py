@@ -100,9 +100,11 @@ def run(building, acceleration, dt, *, friction_law="smooth") -> HistoryResult:
 
     Parameters
     ----------
-    building : ShearBuilding or IsolatedBuilding
-        A ShearBuilding is analysed on a fixed base. [-]
-    acceleration : array (steps,) or (records, steps)
+    building : ShearBuilding, IsolatedBuilding, PlanShearBuilding or PlanIsolatedBuilding
+        A ShearBuilding is analysed on a fixed base. Plan buildings
+        (:mod:`isolation.plan_structure`) run bidirectionally in
+        :func:`isolation.plan_history.run_plan`. [-]
+    acceleration : array (steps,) or (records, steps); (2, steps) or (records, 2, steps) for plan buildings
         Ground acceleration, sampled every ``dt``. [g]
     dt : float
         Time step of the motion; sub-stepped when above T_min/10 (module notes). [s]
@@ -111,9 +113,16 @@ def run(building, acceleration, dt, *, friction_law="smooth") -> HistoryResult:
 
     Returns
     -------
-    HistoryResult
-        Case "fixed" for a ShearBuilding, "isolated" for an IsolatedBuilding.
+    HistoryResult or PlanHistoryResult
+        Case "fixed" for a ShearBuilding, "isolated" for an IsolatedBuilding;
+        a :class:`isolation.plan_history.PlanHistoryResult` for a plan building.
     """
+    from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding
+
+    if isinstance(building, (PlanShearBuilding, PlanIsolatedBuilding)):
+        from isolation.plan_history import run_plan
+
+        return run_plan(building, acceleration, dt)
     if isinstance(building, ShearBuilding):
         return run_cases(building, 1.0, {}, acceleration, dt, include_fixed=True)["fixed"]
     if isinstance(building, IsolatedBuilding):

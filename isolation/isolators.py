@@ -274,6 +274,11 @@ def isolator_law(isolator, weight: float, friction_law: str = "smooth"):
             return isolator_law(bilinear(), weight)
         except TypeError:
             pass
+    backbone = getattr(isolator, "backbone", None)
+    if callable(backbone):  # e.g. a triple friction pendulum: piecewise-linear backbone under the weight
+        curve = backbone(weight)
+        if isinstance(curve, (Bilinear, MultiLinear)):
+            return isolator_law(curve, weight)
     raise ValueError(
         f"isolator = {isolator!r} is not allowed: must be a Bilinear, MultiLinear, BoucWen, "
         "FrictionPendulum, DoubleConcave or an object with .bilinear() (e.g. LeadRubber)"

@@ -39,6 +39,7 @@ from isolation import verdict as _verdict
 from isolation.errors import RunError
 from isolation.files import write_text_atomic
 from isolation.plain import plain
+from isolation.plan_study import bidirectional_summary, with_bidirectional
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
                                    isolation_system, site_spectrum, superstructure, verdict_figures)
@@ -201,6 +202,20 @@ def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
 def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
     from isolation.motions import matched_suite
 
+    options, note = _suite_options(study, spectrum, periods, quick, progress)
+    return matched_suite(spectrum, **options), note
+
+
+def _pair_suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
+    """Matched component pairs with the settings of the single-component suite (bidirectional runs)."""
+    from isolation.motions import matched_pairs
+
+    options, _ = _suite_options(study, spectrum, periods, quick, progress)
+    return matched_pairs(spectrum, **options)
+
+
+def _suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
+    """Settings of the matched suite and a note when its check range had to change."""
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
     options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
@@ -231,7 +246,7 @@ def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
                 f"(up to {band_end:.2f} s): the suite is checked over its whole band")
     elif longest > max(6.0, 1.5 * max(periods)):
         options["period_range"] = (max(0.05, 4.0 * a.time_step, spectrum.period_range[0]), min(longest, band_end))
-    return matched_suite(spectrum, **options), note
+    return options, note
 
 
 def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> StudyResults:
@@ -294,6 +309,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
         suite, suite_note = _suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
         fixed = run_history(comparison.building, suite.acceleration, suite.dt)
         fixed_elastic = run_history(structure, suite.acceleration, suite.dt) if comparison.yielding else fixed
+        pairs = (_pair_suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
+                 if study.analysis.bidirectional else None)
     except (ValueError, RunError) as error:
         raise RunError(f"motion suite / fixed-base history failed: {' '.join(str(error).split())}") from error
     timings["suite"] = time.perf_counter() - mark
@@ -336,6 +353,15 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
             moat=alternative.moat, fixed_base_period=t_fb)
         figures = verdict_figures(study, spectrum, alternative, quantities, summary, report, permitted, reasons,
                            checks, bounds, t_fb)
+        bidirectional = None
+        if pairs is not None:
+            try:
+                bidirectional = bidirectional_summary(study, alternative, system, structure, base_mass, pairs,
+                                                      quantities["total_displacement"], quantities["displacement"])
+            except (ValueError, RuntimeError) as error:
+                raise RunError(f"alternative {alternative.name!r}: bidirectional history failed: "
+                               f"{' '.join(str(error).split())}") from error
+            figures = with_bidirectional(figures, bidirectional)
         judged = _verdict.assess(figures)
         results.append(AlternativeResults(
             name=alternative.name, system=plain(system), bounds=plain(bounds), report=plain(report),
@@ -344,7 +370,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
                      "isolated_design": plain(isolated_design),
                      "model": "lower and upper property sets; " + (
                          "bilinear backbones" if all(isolators[c] is sets[c] for c in isolators)
-                         else "equivalent bilinear at the design displacement")},
+                         else "equivalent bilinear at the design displacement"),
+                     "bidirectional": plain(bidirectional)},
             figures=plain(figures), verdict=plain(judged)))
         live_histories[alternative.name] = histories
         live_reports[alternative.name] = (system, sets, report)
@@ -357,6 +384,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
     suite_data["check"] = plain(suite.check())
     suite_data["quick"] = quick
     suite_data["note"] = suite_note
+    if pairs is not None:
+        suite_data["pairs"] = plain(pairs.to_dict())
     extended = study.basis == "eurocode" and not study.site.spectrum_periods
     spectrum_note = EUROCODE_SPECTRUM_NOTE if extended else ""
     return StudyResults(
@@ -370,7 +399,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
-        live={"spectrum": spectrum, "suite": suite, "superstructure": structure, "comparison": comparison,
+        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure, "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
     )
 

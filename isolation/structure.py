@@ -31,7 +31,7 @@ import scipy.linalg
 from isolation import GRAVITY, validate
 from isolation.isolators import describe, isolator_law
 
-__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES"]
+__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES", "PlanShearBuilding", "PlanIsolatedBuilding"]
 
 HYSTERESES = ("bilinear", "clough")
 """Storey laws of a yielding ShearBuilding (see its ``hysteresis`` parameter)."""
@@ -572,3 +572,7 @@ def linear_isolated_matrices(superstructure: ShearBuilding, base_mass: float):
     k = t.T @ superstructure.stiffness_matrix() @ t
     c = t.T @ superstructure.damping_matrix() @ t
     return m, k, c
+
+
+# Plan (x, y, rotation) buildings live in their own module; re-exported here with the planar ones.
+from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding  # noqa: E402

@@ -145,6 +145,9 @@ class Alternative:
     ``moat`` [m] is the clear gap provided around the isolated building (None
     when not yet fixed); ``lower_factor`` / ``upper_factor`` [-] are the
     property modification factors applied to the bearings' nominal properties.
+    ``grid`` (bearings along the plan length, along the width) lays the
+    bearings out for the plan model; None chooses the grid closest to the plan
+    proportions (:func:`isolation.plan_study.default_grid`).
     """
 
     name: str
@@ -152,6 +155,7 @@ class Alternative:
     lower_factor: float
     upper_factor: float
     moat: float | None = None
+    grid: tuple | None = None
 
     @property
     def count(self) -> int:
@@ -162,13 +166,16 @@ class Alternative:
 @dataclass(frozen=True)
 class Analysis:
     """Analysis options: ``suite_size`` (7 or 11), ``seed``, ``duration`` [s],
-    ``time_step`` [s], ``damping`` [-] of the matched spectra."""
+    ``time_step`` [s], ``damping`` [-] of the matched spectra; ``bidirectional``:
+    also run the plan model under matched component pairs (bearings at plan
+    positions, torsion from the layout, axial loads from overturning)."""
 
     suite_size: int = 7
     seed: int = 0
     duration: float = 30.0
     time_step: float = 0.005
     damping: float = 0.05
+    bidirectional: bool = False
 
 
 @dataclass(frozen=True)

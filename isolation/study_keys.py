@@ -55,6 +55,17 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
         "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
         "displacement_capacity_2": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
     },
+    "triple_pendulum": {
+        "radius_outer": Key("length", low=0.3, high=20.0),
+        "radius_inner": Key("length", low=0.1, high=10.0),
+        "friction_inner": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_4": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "slider_height_outer": Key("length", required=False, low=0.0, high=2.0),
+        "slider_height_inner": Key("length", required=False, low=0.0, high=1.0),
+        "displacement_capacity_outer": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "displacement_capacity_inner": Key("length", required=False, low=0.0, high=1.0, low_inclusive=False),
+    },
     "lead_rubber": {
         "outer_diameter": Key("length", low=0.2, high=2.5),
         "lead_diameter": Key("length", low=0.0, high=1.0, low_inclusive=False),
@@ -134,6 +145,11 @@ class Reader:
         if required:
             self.problems.add(f"{self.path_of(key)} is missing: must be {allowed}")
         return _MISSING
+
+    def raw(self, key: str) -> Any:
+        """The value of an optional key as written (None when absent), for readers of composite values."""
+        value = self._get(key, False, "")
+        return None if value is _MISSING else value
 
     def _bad(self, key: str, value: Any, allowed: str) -> None:
         self.problems.add(f"{self.path_of(key)} = {value!r} is not allowed: must be {allowed}")

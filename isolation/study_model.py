@@ -67,9 +67,10 @@ def site_spectrum(study: Study):
 def isolation_system(alternative: Alternative):
     """Bearing groups and property factors of one alternative."""
     from isolation.bearings import (BearingGroup, DoubleConcave, FrictionPendulum, HighDampingRubber,
-                                    IsolationSystem, LeadRubber, PropertyFactors)
+                                    IsolationSystem, LeadRubber, PropertyFactors, TripleFrictionPendulum)
 
     kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
+             "triple_pendulum": TripleFrictionPendulum,
              "lead_rubber": LeadRubber, "high_damping_rubber": HighDampingRubber}
     groups = []
     for i, spec in enumerate(alternative.bearings):

@@ -211,6 +211,7 @@ def _analysis(t: Reader | None) -> Analysis:
         duration=t.quantity("duration", "time", low=5.0, high=120.0, required=False, default=30.0),
         time_step=t.quantity("time_step", "time", low=0.001, high=0.02, required=False, default=0.005),
         damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05),
+        bidirectional=t.boolean("bidirectional", required=False, default=False),
     )
     t.done()
     if t.failed():
@@ -237,13 +238,32 @@ def _alternatives(tables: list | None, total_weight: float | None) -> tuple:
             factors.done()
         groups = t.array_of_tables("bearings") or []
         specs = [_bearing_group(g) for g in groups]
+        grid = _grid(t, specs)
         t.done()
         if not specs or any(s is None for s in specs) or not isinstance(name, str):
             continue
         specs = _share_axial_loads(specs, total_weight, t)
         alternatives.append(Alternative(name=name, bearings=tuple(specs), lower_factor=lower,
-                                        upper_factor=upper, moat=moat))
+                                        upper_factor=upper, moat=moat, grid=grid))
     return tuple(alternatives)
+
+
+def _grid(t: Reader, specs: list) -> tuple | None:
+    """Optional ``grid = [along length, along width]`` whose product is the bearing count."""
+    value = t.raw("grid")
+    if value is None:
+        return None
+    allowed = "two whole numbers >= 1 [along length, along width] whose product is the number of bearings"
+    if (not isinstance(value, list) or len(value) != 2
+            or any(isinstance(v, bool) or not isinstance(v, int) or not 1 <= v <= 200 for v in value)):
+        t.problems.add(f"{t.path_of('grid')} = {value!r} is not allowed: must be {allowed}")
+        return None
+    count = sum(s.count for s in specs if s is not None)
+    if all(s is not None for s in specs) and value[0] * value[1] != count:
+        t.problems.add(f"{t.path_of('grid')} = {value!r} is not allowed: {value[0]} x {value[1]} = "
+                       f"{value[0] * value[1]} must equal the number of bearings ({count})")
+        return None
+    return (int(value[0]), int(value[1]))
 
 
 def _bearing_group(t: Reader) -> BearingSpec | None:
@@ -271,6 +291,9 @@ def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
         pairs = [("slider_height", "radius", "m"), ("friction_slow", "friction", "-")]
     elif kind == "double_concave":
         pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
+    elif kind == "triple_pendulum":
+        pairs = [("slider_height_outer", "radius_outer", "m"), ("slider_height_inner", "radius_inner", "m"),
+                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"), ("friction_1", "friction_4", "-")]
     elif kind == "lead_rubber":
         pairs = [("lead_diameter", "outer_diameter", "m")]
     elif kind == "high_damping_rubber":
@@ -279,7 +302,7 @@ def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
         a, b = props.get(small), props.get(large)
         if a is None or b is None:
             continue
-        strict = small != "friction_slow"
+        strict = small not in ("friction_slow", "friction_1")
         if (a >= b) if strict else (a > b):
             relation = "<" if strict else "<="
             t.problems.add(f"{t.path_of(small)} = {a:.4g} {unit} is not allowed: must be {relation} "

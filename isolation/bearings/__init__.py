@@ -11,6 +11,7 @@ from isolation.bearings.damping_rubber import (
 from isolation.bearings.double_concave import DoubleConcave
 from isolation.bearings.friction import FrictionPendulum
 from isolation.bearings.rubber import LeadRubber
+from isolation.bearings.triple_pendulum import TripleFrictionPendulum
 from isolation.bearings.system import (
     BearingGroup,
     CombinedBackbone,
@@ -21,7 +22,7 @@ from isolation.bearings.system import (
 
 __all__ = [
     "Bilinear", "MultiLinear",
-    "FrictionPendulum", "DoubleConcave",
+    "FrictionPendulum", "DoubleConcave", "TripleFrictionPendulum",
     "LeadRubber", "HighDampingRubber", "RubberCompound", "TYPICAL_COMPOUND", "AmplitudeBackbone",
     "Check",
     "BearingGroup", "IsolationSystem", "PropertyFactors", "PropertyBound", "CombinedBackbone",

@@ -30,6 +30,7 @@ from isolation.bearings.damping_rubber import HighDampingRubber
 from isolation.bearings.double_concave import DoubleConcave
 from isolation.bearings.friction import FrictionPendulum
 from isolation.bearings.rubber import LeadRubber
+from isolation.bearings.triple_pendulum import TripleFrictionPendulum
 
 __all__ = ["PropertyBound", "PropertyFactors", "BearingGroup", "IsolationSystem", "CombinedBackbone",
            "UNQUALIFIED_LOWER", "UNQUALIFIED_UPPER"]
@@ -152,8 +153,8 @@ class PropertyFactors:
                 "friction": self.friction.to_dict()}
 
 
-_SLIDERS = (FrictionPendulum, DoubleConcave)
-_BEARINGS = (FrictionPendulum, DoubleConcave, LeadRubber, HighDampingRubber)
+_SLIDERS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum)
+_BEARINGS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum, LeadRubber, HighDampingRubber)
 
 
 @dataclass(frozen=True)

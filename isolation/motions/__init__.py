@@ -18,6 +18,11 @@ suite
     :class:`MatchedSuite` and its tolerance report :class:`SuiteCheck`.
 records_io
     Reading plain-text accelerograms and writing suites.
+pair_spectra
+    Spectra of component pairs: RotD100, RotDnn by rotation, SRSS, correlation.
+pairs
+    :func:`matched_pairs`: pairs of orthogonal components matched by the
+    code's pair rule; :func:`read_pair` for recorded pairs.
 """
 
 from isolation.motions.envelope import intensity_envelope, typical_significant_duration
@@ -44,6 +49,10 @@ from isolation.motions.records_io import (
     read_text_accelerogram,
     write_suite,
 )
+from isolation.motions.pair_spectra import component_correlation, rotd100_spectrum, rotd_spectrum, srss_spectrum
+from isolation.motions.pair_io import RecordedPair, read_pair
+from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs, PairCheck
+from isolation.motions.pairs import matched_pairs
 from isolation.motions.spectrum import ResponseSpectra, log_periods, response_spectra, response_spectrum
 from isolation.motions.suite import (
     BASELINE_TOLERANCE,
@@ -55,6 +64,16 @@ from isolation.motions.suite import (
 )
 
 __all__ = [
+    "PAIR_RULES",
+    "MatchedPairs",
+    "PairCheck",
+    "RecordedPair",
+    "component_correlation",
+    "matched_pairs",
+    "read_pair",
+    "rotd100_spectrum",
+    "rotd_spectrum",
+    "srss_spectrum",
     "Accelerogram",
     "BASELINE_TOLERANCE",
     "FORMAT_NAME",

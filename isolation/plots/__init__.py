@@ -18,7 +18,8 @@ same in both systems.
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
 motion suite), :mod:`~isolation.plots.history` (response histories),
-:mod:`~isolation.plots.yielding` (ductility, residual drift, shear over strength).
+:mod:`~isolation.plots.yielding` (ductility, residual drift, shear over strength),
+:mod:`~isolation.plots.plan` (bidirectional analysis: orbits, plan demand).
 """
 
 from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
@@ -29,8 +30,12 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
                                      storey_profiles)
 from isolation.plots.yielding import yielding_profiles
+from isolation.plots.plan import bearing_orbits, pairs_figure, plan_demand
 
 __all__ = [
+    "bearing_orbits",
+    "plan_demand",
+    "pairs_figure",
     "COLOURS",
     "WIDTH",
     "AxisUnit",

@@ -20,9 +20,9 @@ generic builders), :mod:`~isolation.tables.results` (tables of a study's results
 :mod:`~isolation.tables.yielding` (comparison with the code-designed yielding fixed base).
 """
 
-from isolation.tables.results import (alternatives_table, bounds_table, code_quantities_table,
+from isolation.tables.results import (alternatives_table, bidirectional_table, bounds_table, code_quantities_table,
                                       comparison_table, display_quantity, history_table, inputs_table,
-                                      suite_table, verdict_table)
+                                      pairs_table, suite_table, verdict_table)
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.tables.symbols import latex_text, markdown_text
 from isolation.tables.yielding import damage_table, fixed_base_design_table, fixed_base_label, yielding_response_table
@@ -30,6 +30,8 @@ from isolation.tables.table import (Table, checks_table, escape_latex, format_nu
                                     key_value_table)
 
 __all__ = [
+    "bidirectional_table",
+    "pairs_table",
     "Table",
     "format_number",
     "escape_latex",

@@ -12,6 +12,8 @@ from typing import Any, Mapping
 from isolation.tables.table import Table, format_number, in_study_units
 
 __all__ = [
+    "bidirectional_table",
+    "pairs_table",
     "inputs_table",
     "alternatives_table",
     "bounds_table",
@@ -167,6 +169,26 @@ def suite_table(results: Any) -> Table:
                  rows=rows, caption="Matched motion suite: spectral ratios to the target", notes=notes)
 
 
+def pairs_table(results: Any) -> Table | None:
+    """Per-pair tolerance check of the matched pairs (bidirectional runs); None when not run."""
+    pairs = _part(results, "suite").get("pairs")
+    if not pairs:
+        return None
+    check = pairs["check"]
+    low, high = check["band"]
+    rows = tuple((row["pair"], seeds[0], seeds[1], row["lowest_ratio"], row["highest_ratio"],
+                  "yes" if row["within_band"] else "NO", row["correlation"], "yes" if row["baseline_ok"] else "NO")
+                 for row, seeds in zip(check["pairs"], pairs["seeds"]))
+    notes = (f"{check['spectrum']} spectra of the pairs; suite mean over {check['check_range_s'][0]:.2f}-"
+             f"{check['check_range_s'][1]:.2f} s: lowest {check['lowest_mean_ratio']:.3f} of the target at "
+             f"{check['period_of_lowest_mean_s']:.2f} s, required at least {check['required_mean_ratio']:.2f} "
+             f"({check['rule']} rule for pairs): {'met' if check['mean_ok'] else 'NOT met'}.")
+    return Table(columns=("Pair", "Seed x", "Seed y", "Lowest ratio [-]", "Highest ratio [-]",
+                          f"Within {low:.2f}-{high:.2f}", "Correlation [-]", "Baseline ok"),
+                 rows=rows, caption=f"Matched pairs of components: {check['spectrum']} ratios to the target",
+                 notes=notes)
+
+
 def history_table(alternative: Any, system: str = "SI") -> Table:
     """Suite means of the peak responses: fixed base against the isolated bounds."""
     s = _part(alternative, "history")["summary"]
@@ -248,3 +270,36 @@ def display_quantity(value: float | None, kind: str, system: str = "SI", digits:
     """
     magnitude, unit = _display(value, kind, system)
     return f"{format_number(magnitude, digits)} {unit}"
+
+
+def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
+    """Bidirectional (plan-model) results of an alternative against the single-mode D_TM; None when not run."""
+    b = _part(alternative, "history").get("bidirectional")
+    if not b:
+        return None
+    length = _display(1.0, "length", system)[1]
+    force = _display(1.0, "force", system)[1]
+
+    def show(value, kind):
+        return None if value is None else _display(value, kind, system)[0]
+
+    rows = (
+        (f"D_TM from the histories (largest bearing, suite mean) [{length}]", show(b["total_displacement_history"], "length")),
+        (f"D_TM of the single-mode procedure [{length}]", show(b["total_displacement_code"], "length")),
+        ("Lower limit on history results [x single-mode D_TM]", b["lower_limit_factor"]),
+        (f"D_TM used by the verdict [{length}]", show(b["total_displacement_governing"], "length")),
+        (f"Centre-of-mass displacement [{length}]", show(b["centre_displacement_history"], "length")),
+        ("Torsional amplification (corner / centre) [-]", b["torsional_amplification"]),
+        (f"Smallest axial load on a bearing [{force}]", show(min(b["bearing_axial_min_kN"]), "force")),
+        (f"Largest axial load on a bearing [{force}]", show(max(b["bearing_axial_max_kN"]), "force")),
+        ("Bearings lifted (sliders, axial load <= 0) [-]", b["uplifted_bearings"]),
+    )
+    check = b["pair_check"]
+    notes = (f"Plan model: {b['grid'][0]} x {b['grid'][1]} bearings, accidental eccentricity 5 % of the plan "
+             f"dimensions, four sign combinations, lower and upper properties; storeys alike in both directions "
+             f"(assumption). Pairs matched by their {check['spectrum']} spectra: suite mean lowest "
+             f"{check['lowest_mean_ratio']:.3f} of the target, required {check['required_mean_ratio']:.2f}; "
+             f"component correlation at most {max(abs(p['correlation']) for p in check['pairs']):.2f}.")
+    return Table(columns=("Bidirectional response", "Value"), rows=rows,
+                 caption=f"Bidirectional response histories with torsion, {_part(alternative, 'name')}",
+                 align="pr", notes=notes)
