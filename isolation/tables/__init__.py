@@ -24,11 +24,12 @@ from isolation.tables.results import (alternatives_table, bounds_table, code_qua
                                       suite_table, verdict_table)
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.tables.symbols import latex_text, markdown_text
-from isolation.tables.table import (Table, checks_table, escape_latex, format_number, in_study_units,
+from isolation.tables.table import (TYPST_MIME, Table, checks_table, escape_latex, format_number, in_study_units,
                                     key_value_table)
 
 __all__ = [
     "Table",
+    "TYPST_MIME",
     "format_number",
     "escape_latex",
     "key_value_table",
