@@ -300,13 +300,10 @@ def render(
 
 
 def _render_typst(nb, target: Path, fields: dict[str, str], paper: str) -> Path:
-    from isolation.typeset.document import build_document, compile_pdf
-    from isolation.typeset.exporter import FontCoverageWarning
+    from isolation.typeset.document import build_document, compile_pdf, warn_replaced
 
     document = build_document(nb, fields=fields, paper=paper)
-    if document.replaced:
-        warnings.warn("the report's fonts lack " + ", ".join(document.replaced)
-                      + "; printed as code points (U+XXXX) instead", FontCoverageWarning, stacklevel=3)
+    warn_replaced(document, stacklevel=4)
     pdf = target / "report.pdf"
     write_bytes_atomic(pdf, compile_pdf(document))
     return pdf

@@ -18,8 +18,8 @@ Modules: :mod:`~isolation.typeset.markup` (markdown and TeX math to Typst),
 template ``report.typ``.
 """
 
-from isolation.typeset.document import PAPER_SIZES, TEMPLATE_FILE, TypstDocument, build_document, compile_pdf
-from isolation.typeset.exporter import FontCoverageWarning, TypstPdfExporter, TypstReportExporter
+from isolation.typeset.document import (PAPER_SIZES, TEMPLATE_FILE, FontCoverageWarning, TypstDocument,
+                                        build_document, compile_pdf)
 from isolation.typeset.markup import markdown_to_typst, tex_math
 
 __all__ = [
@@ -34,3 +34,12 @@ __all__ = [
     "TEMPLATE_FILE",
     "PAPER_SIZES",
 ]
+
+
+def __getattr__(name: str):
+    # The exporters import nbconvert (about a second): only when asked for.
+    if name in ("TypstPdfExporter", "TypstReportExporter"):
+        from isolation.typeset import exporter
+
+        return getattr(exporter, name)
+    raise AttributeError(f"module 'isolation.typeset' has no attribute {name!r}")

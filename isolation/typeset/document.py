@@ -29,7 +29,8 @@ from isolation.tables.table import TYPST_MIME
 from isolation.typeset import fonts
 from isolation.typeset.markup import markdown_to_typst, tex_math, typst_string
 
-__all__ = ["TypstDocument", "build_document", "compile_pdf", "TEMPLATE_FILE", "PAPER_SIZES"]
+__all__ = ["TypstDocument", "build_document", "compile_pdf", "warn_replaced", "FontCoverageWarning",
+           "TEMPLATE_FILE", "PAPER_SIZES"]
 
 TEMPLATE_FILE = Path(__file__).resolve().parent / "report.typ"
 """The report's Typst template (page, title page, header and footer, figure and table style)."""
@@ -43,6 +44,19 @@ _FIGURE_HEIGHT = 0.42  # and this share of the paper height at most [-]
 _IMAGE_TYPES = (("image/svg+xml", "svg"), ("image/png", "png"), ("image/jpeg", "jpg"))
 _LATEX_MATH = re.compile(r"^\s*(?:\$\$(.+)\$\$|\$(.+)\$|\\\[(.+)\\\]|\\\((.+)\\\))\s*$", re.S)
 _LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_-]*$")
+
+
+class FontCoverageWarning(UserWarning):
+    """Characters no embedded font covers were printed as their code points instead."""
+
+
+def warn_replaced(document: "TypstDocument", stacklevel: int = 3) -> None:
+    """Warn (:class:`FontCoverageWarning`) naming the characters the document had to replace."""
+    if document.replaced:
+        import warnings
+
+        warnings.warn("the report's fonts lack " + ", ".join(document.replaced)
+                      + "; printed as code points (U+XXXX) instead", FontCoverageWarning, stacklevel=stacklevel)
 
 
 @dataclass

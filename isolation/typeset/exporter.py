@@ -10,17 +10,14 @@ workbook's own choice, else A4).
 from __future__ import annotations
 
 import copy
-import warnings
 from typing import Any
 
 from nbconvert.exporters import Exporter
 from traitlets import Unicode, default
 
+from isolation.typeset.document import FontCoverageWarning, warn_replaced
+
 __all__ = ["TypstReportExporter", "TypstPdfExporter", "FontCoverageWarning", "prepare"]
-
-
-class FontCoverageWarning(UserWarning):
-    """Characters no embedded font covers were printed as their code points instead."""
 
 
 def prepare(nb, *, paper: str | None = None, title_fields=None):
@@ -60,10 +57,7 @@ class TypstReportExporter(Exporter):
         prepared, fields, paper = prepare(nb, paper=self.paper or (resources or {}).get("isolation_paper"),
                                           title_fields=title_fields)
         document = build_document(prepared, fields=fields, paper=paper)
-        if document.replaced:
-            warnings.warn(
-                "the report's fonts lack " + ", ".join(document.replaced)
-                + "; printed as code points (U+XXXX) instead", FontCoverageWarning, stacklevel=3)
+        warn_replaced(document, stacklevel=4)
         for note in document.notes:
             self.log.info("isolation report: %s", note)
         return document
