@@ -34,8 +34,6 @@ import warnings
 from pathlib import Path
 from typing import Any, Mapping
 
-import nbformat
-
 from isolation.errors import RunError
 from isolation.files import write_bytes_atomic
 from isolation.validate import one_of
@@ -78,6 +76,14 @@ ENGINES = ("typst", "latex")
 """PDF engines, the default first."""
 
 _XELATEX_RUNS = 2  # table of contents and "page N of M" settle on the second run
+
+
+def _nbformat():
+    # Imported when a report is made, not when a workbook imports title_block: nbformat's
+    # schema validation imports take about a second, in every kernel that imports this module.
+    import nbformat
+
+    return nbformat
 
 
 class PdfUnavailableWarning(UserWarning):
@@ -217,7 +223,7 @@ def _caption_figures_as_text(nb) -> None:
             caption = output.get("metadata", {}).get("image/png", {}).get("caption")
             if caption and "image/png" in output.get("data", {}):
                 number += 1
-                outputs.append(nbformat.v4.new_output(
+                outputs.append(_nbformat().v4.new_output(
                     "display_data", data={"text/markdown": f"*Figure {number}: {_md_cell(caption)}*"}
                 ))
         cell.outputs = outputs
@@ -270,7 +276,7 @@ def render(
     if not source.is_file():
         raise ValueError(f"notebook_path = {str(source)!r} is not allowed: must be an existing .ipynb file")
     try:
-        nb = nbformat.read(source, as_version=4)
+        nb = _nbformat().read(source, as_version=4)
     except Exception as exc:  # nbformat raises several types for a bad file
         raise ValueError(
             f"notebook_path = {str(source)!r} is not allowed: must be a readable notebook ({exc})"
@@ -384,7 +390,7 @@ def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
     rows = "\n".join(
         f"| {label} | {_md_cell(fields.get(key, ''))} |" for key, label in labels.items()
     )
-    front = nbformat.v4.new_markdown_cell(
+    front = _nbformat().v4.new_markdown_cell(
         f"# {_md_cell(fields['title'])}\n\n| | |\n|---|---|\n{rows}\n\n> {_SCOPE_HTML}\n"
     )
     nb.cells.insert(0, front)
