@@ -22,7 +22,8 @@ test: $(STAMP)
 bench: $(STAMP)
 	$(PY) -m benchmarks
 
-# PDF reports need XeLaTeX and pandoc (Debian packages, about 0.7 GB).
+# The LaTeX report engine (--engine latex) needs XeLaTeX and pandoc (Debian packages, about 0.7 GB);
+# the default engine, Typst, comes from PyPI with the package.
 tex:
 	apt-get update -q && DEBIAN_FRONTEND=noninteractive apt-get install -y -q \
 	  texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra pandoc poppler-utils

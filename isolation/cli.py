@@ -56,6 +56,7 @@ def _parser() -> argparse.ArgumentParser:
     run.add_argument("--no-pdf", action="store_true",
                      help="skip the report (no PDF or HTML); the record is still complete")
     run.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
+    _engine_option(run)
     run.add_argument("--quick", action="store_true",
                      help="small suite and short motions, for trying things out (not for reports)")
     run.add_argument("--run-id", metavar="NAME", default=None,
@@ -82,16 +83,24 @@ def _parser() -> argparse.ArgumentParser:
                                  "calculation record from its executed workbook.")
     render.add_argument("record", metavar="RECORD_DIR", help="a record folder")
     render.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
+    _engine_option(render)
 
     demo = commands.add_parser("demo", help="run the invented demo study into records/",
                                description="Run examples/demo_study.toml into records/ and print "
                                "where the report is and the verdict.")
     demo.add_argument("--out", metavar="DIR", default="records", help="records folder (default: records)")
     demo.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
+    _engine_option(demo)
 
     commands.add_parser("batch", help="run many study variants (see: batch --help)", add_help=False,
                         description="Run a batch of study variants.")
     return parser
+
+
+def _engine_option(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("--engine", choices=("typst", "latex"), default=None,
+                        help="PDF engine: typst (default; pip only) or latex (XeLaTeX and pandoc from "
+                             "Debian); HTML only when the engine cannot run")
 
 
 def _overrides(pairs: list[str]) -> dict:
@@ -149,7 +158,7 @@ def _record(*args, **kwargs):
 
 def _run(args) -> int:
     outcome = _record(args.study, args.out, pdf=not args.no_pdf, overrides=_overrides(args.set),
-                      run_id=args.run_id, paper=args.paper, quick=args.quick)
+                      run_id=args.run_id, paper=args.paper, quick=args.quick, engine=args.engine)
     if outcome.status != "done":
         _say(f"run failed: {outcome.error} (record: {outcome.path})")
         return FAILED
@@ -179,7 +188,7 @@ def _render(args) -> int:
 
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        path = render_record(args.record, paper=args.paper)
+        path = render_record(args.record, paper=args.paper, engine=args.engine)
     _notes(caught)
     print(f"report: {path}")
     return DONE
@@ -189,7 +198,7 @@ def _demo(args) -> int:
     study = Path(__file__).resolve().parent.parent / "examples" / "demo_study.toml"
     if not study.is_file():
         raise InputError(f"demo study {str(study)!r} is not allowed: must exist (examples/ missing?)")
-    outcome = _record(study, args.out, pdf=True, paper=args.paper)
+    outcome = _record(study, args.out, pdf=True, paper=args.paper, engine=args.engine)
     if outcome.status != "done":
         _say(f"demo failed: {outcome.error} (record: {outcome.path})")
         return FAILED

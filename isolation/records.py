@@ -231,7 +231,7 @@ def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout
 def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
                overrides: Mapping[str, Any] | None = None, run_id: str | None = None,
                paper: str = "a4", quick: bool = False, notebook: str | Path | None = None,
-               timeout: float | None = None) -> RecordOutcome:
+               timeout: float | None = None, engine: str | None = None) -> RecordOutcome:
     """Run a study through the feasibility workbook into a calculation record.
 
     Parameters
@@ -257,6 +257,9 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
         Workbook to execute (default :data:`WORKBOOK`).
     timeout : float, optional
         Limit per workbook cell. [s]
+    engine : {"typst", "latex"}, optional
+        PDF engine of the report (see :func:`isolation.report.render`);
+        default Typst, or LaTeX when Typst cannot run.
 
     Returns
     -------
@@ -275,6 +278,8 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
 
     try:
         one_of("paper", paper, ("a4", "letter"))
+        if engine is not None:
+            one_of("engine", engine, ("typst", "latex"))
     except ValueError as error:
         raise InputError(str(error)) from None
     study_file = Path(study_file)
@@ -308,7 +313,8 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
         "status": "running", "error": None, "scope": SCOPE,
         "study": {"project": study.project.name, "file": str(study_file), "folder": parent.name},
         "run_id": run_id, "input_hash": study_input_hash(study_file, overrides), "overrides": overrides,
-        "options": {"pdf": pdf, "paper": paper, "quick": quick, "workbook": notebook.name},
+        "options": {"pdf": pdf, "paper": paper, "quick": quick, "workbook": notebook.name,
+                    "engine": engine},
         "report": None, "started": _now(), "finished": None, "elapsed_s": None,
         "package": {"name": "isolation", "version": __version__}, "git_commit": commit, "git_dirty": dirty,
         "python": sys.version.split()[0], "platform": platform.platform(), "libraries": _versions(),
@@ -333,7 +339,7 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
                       "date": study.project.date, "revision": study.project.revision,
                       "prepared_by": study.project.prepared_by}
             report = Path(report_module.render(folder / "feasibility.ipynb", folder, paper=paper,
-                                               title_fields=fields)).name
+                                               title_fields=fields, engine=engine)).name
         manifest.update(status="done")
     except BaseException as error:  # noqa: BLE001 - every failure must leave a failed record
         failure = error
@@ -364,11 +370,12 @@ def _headlines(results_path: Path) -> tuple:
         raise RunError(f"results.json does not hold study results: {_one_line(error)}") from None
 
 
-def render_record(record_dir: str | Path, *, paper: str = "a4") -> Path:
+def render_record(record_dir: str | Path, *, paper: str = "a4", engine: str | None = None) -> Path:
     """Render the report of an existing, completed record into the record.
 
-    Returns the report's path; the manifest's ``report`` entry and file
-    hashes are updated.
+    ``engine`` is the PDF engine ("typst", "latex"; default Typst, see
+    :func:`isolation.report.render`). Returns the report's path; the
+    manifest's ``report`` entry and file hashes are updated.
     """
     record = Path(record_dir)
     manifest = read_manifest(record)
@@ -384,12 +391,12 @@ def render_record(record_dir: str | Path, *, paper: str = "a4") -> Path:
 
     project = manifest.get("study", {}).get("project")
     with tempfile.TemporaryDirectory(prefix=".render.", dir=record) as scratch:
-        made = Path(report_module.render(notebook, scratch, paper=paper,
+        made = Path(report_module.render(notebook, scratch, paper=paper, engine=engine,
                                          title_fields={"project": project} if project else None))
         target = record / made.name
         os.replace(made, target)
     manifest.update(report=target.name, files=_file_hashes(record),
-                    rendered={"at": _now(), "paper": paper})
+                    rendered={"at": _now(), "paper": paper, "engine": engine})
     _write_json(record / "manifest.json", manifest)
     return target
 

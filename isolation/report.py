@@ -1,18 +1,24 @@
-"""Client report: an executed workbook to a PDF (XeLaTeX) or, without TeX, HTML.
+"""Client report: an executed workbook to a PDF (Typst or XeLaTeX) or, failing both, HTML.
 
-The PDF comes from nbconvert's LaTeX exporter with the project's own template
-(``templates/isolation_report``) and XeLaTeX. The report shows no code: input
-cells, console text and plain-text outputs are left out; markdown, LaTeX
-tables (see :mod:`isolation.tables`) and PNG figures with captions (see
-:func:`isolation.plots.captioned`) are kept.
+Two engines make the PDF:
+
+* ``"typst"`` (the default): :mod:`isolation.typeset` typesets the report with
+  the ``typst`` wheel from PyPI, in process, fonts embedded, no network;
+* ``"latex"``: nbconvert's LaTeX exporter with the project's own template
+  (``templates/isolation_report``) and XeLaTeX (Debian packages).
+
+The report shows no code: input cells, console text and plain-text outputs are
+left out; markdown, tables (see :mod:`isolation.tables`) and figures with
+captions (see :func:`isolation.plots.captioned`) are kept.
 
 Title-page fields (title, project, client, date, revision, prepared_by,
 checked_by) come, in rising order of precedence, from the notebook metadata
 ``isolation_report``, from a :func:`title_block` output that the workbook
 displays, and from the ``title_fields`` argument of :func:`render`.
 
-When ``xelatex`` or ``pandoc`` is missing, :func:`render` writes
-``report.html`` instead and warns with the exact Debian packages to install.
+The default engine falls back to LaTeX when Typst cannot run; when the chosen
+engine cannot run (and, by default, neither can), :func:`render` writes
+``report.html`` instead and warns with the exact reason and what to install.
 """
 
 from __future__ import annotations
@@ -28,8 +34,6 @@ import warnings
 from pathlib import Path
 from typing import Any, Mapping
 
-import nbformat
-
 from isolation.errors import RunError
 from isolation.files import write_bytes_atomic
 from isolation.validate import one_of
@@ -41,6 +45,9 @@ __all__ = [
     "missing_tools",
     "install_hint",
     "TexMissingWarning",
+    "PdfUnavailableWarning",
+    "ENGINES",
+    "engine_problem",
     "TEMPLATE_DIR",
     "TITLE_FIELDS",
     "REPORT_FIELDS_MIME",
@@ -65,11 +72,40 @@ TEX_PACKAGES = (
 
 PAPERS = ("a4", "letter")
 
+ENGINES = ("typst", "latex")
+"""PDF engines, the default first."""
+
 _XELATEX_RUNS = 2  # table of contents and "page N of M" settle on the second run
 
 
-class TexMissingWarning(UserWarning):
-    """XeLaTeX or pandoc is missing: the report was written as HTML instead."""
+def _nbformat():
+    # Imported when a report is made, not when a workbook imports title_block: nbformat's
+    # schema validation imports take about a second, in every kernel that imports this module.
+    import nbformat
+
+    return nbformat
+
+
+class PdfUnavailableWarning(UserWarning):
+    """No PDF engine could run: the report was written as HTML instead (the message says why)."""
+
+
+class TexMissingWarning(PdfUnavailableWarning):
+    """XeLaTeX or pandoc is missing (and Typst, when it was asked for, could not run): HTML instead."""
+
+
+def engine_problem(engine: str) -> str | None:
+    """Why ``engine`` ("typst" or "latex") cannot make a PDF on this machine, or None when it can."""
+    one_of("engine", engine, ENGINES)
+    if engine == "latex":
+        missing = missing_tools()
+        return install_hint(missing) if missing else None
+    try:
+        import typst  # noqa: F401 - only whether it imports
+    except ImportError as error:
+        return (f"the Typst engine needs the typst package ({error}); install it with "
+                "`pip install typst` (or reinstall isolation)")
+    return None
 
 
 def missing_tools() -> list[str]:
@@ -187,7 +223,7 @@ def _caption_figures_as_text(nb) -> None:
             caption = output.get("metadata", {}).get("image/png", {}).get("caption")
             if caption and "image/png" in output.get("data", {}):
                 number += 1
-                outputs.append(nbformat.v4.new_output(
+                outputs.append(_nbformat().v4.new_output(
                     "display_data", data={"text/markdown": f"*Figure {number}: {_md_cell(caption)}*"}
                 ))
         cell.outputs = outputs
@@ -199,6 +235,7 @@ def render(
     *,
     paper: str | None = "a4",
     title_fields: Mapping[str, Any] | None = None,
+    engine: str | None = None,
 ) -> Path:
     """Turn an executed workbook into the client report.
 
@@ -214,27 +251,32 @@ def render(
     title_fields : mapping, optional
         Title-page fields (see :data:`TITLE_FIELDS`); these win over the
         notebook's own. A missing date becomes today's (UTC).
+    engine : {"typst", "latex"} or None
+        PDF engine; None: Typst, or LaTeX when Typst cannot run.
 
     Returns
     -------
     Path
-        ``out_dir/report.pdf``, or ``out_dir/report.html`` when XeLaTeX or
-        pandoc is missing (a :class:`TexMissingWarning` then says what to install).
+        ``out_dir/report.pdf``, or ``out_dir/report.html`` when the engine
+        cannot run (a :class:`TexMissingWarning` then gives the exact reason and
+        what to install).
 
     Raises
     ------
     ValueError
-        Bad ``paper`` or title field; notebook missing or unreadable.
+        Bad ``paper``, ``engine`` or title field; notebook missing or unreadable.
     RunError
-        XeLaTeX failed; the message quotes its first error line.
+        The typesetter failed; the message quotes its first error.
     """
     if paper is not None:
         one_of("paper", paper, PAPERS)
+    if engine is not None:
+        one_of("engine", engine, ENGINES)
     source = Path(notebook_path)
     if not source.is_file():
         raise ValueError(f"notebook_path = {str(source)!r} is not allowed: must be an existing .ipynb file")
     try:
-        nb = nbformat.read(source, as_version=4)
+        nb = _nbformat().read(source, as_version=4)
     except Exception as exc:  # nbformat raises several types for a bad file
         raise ValueError(
             f"notebook_path = {str(source)!r} is not allowed: must be a readable notebook ({exc})"
@@ -247,12 +289,30 @@ def render(
     target = Path(out_dir)
     target.mkdir(parents=True, exist_ok=True)
 
-    missing = missing_tools()
-    if missing:
+    chosen, reasons = None, []
+    for candidate in ([engine] if engine else list(ENGINES)):
+        problem = engine_problem(candidate)
+        if problem is None:
+            chosen = candidate
+            break
+        reasons.append(problem)
+    if chosen is None:
         path = _render_html(nb, target, fields)
-        warnings.warn(f"{install_hint(missing)}; wrote {path} instead", TexMissingWarning, stacklevel=2)
+        warnings.warn(f"{'; '.join(reasons)}; wrote {path} instead", TexMissingWarning, stacklevel=2)
         return path
+    if chosen == "typst":
+        return _render_typst(nb, target, fields, paper)
     return _render_pdf(nb, target, source.stem)
+
+
+def _render_typst(nb, target: Path, fields: dict[str, str], paper: str) -> Path:
+    from isolation.typeset.document import build_document, compile_pdf, warn_replaced
+
+    document = build_document(nb, fields=fields, paper=paper)
+    warn_replaced(document, stacklevel=4)
+    pdf = target / "report.pdf"
+    write_bytes_atomic(pdf, compile_pdf(document))
+    return pdf
 
 
 def _latex_exporter():
@@ -330,7 +390,7 @@ def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
     rows = "\n".join(
         f"| {label} | {_md_cell(fields.get(key, ''))} |" for key, label in labels.items()
     )
-    front = nbformat.v4.new_markdown_cell(
+    front = _nbformat().v4.new_markdown_cell(
         f"# {_md_cell(fields['title'])}\n\n| | |\n|---|---|\n{rows}\n\n> {_SCOPE_HTML}\n"
     )
     nb.cells.insert(0, front)

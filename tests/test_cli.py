@@ -59,6 +59,7 @@ def test_check_time_step_against_the_building(capsys):
     (["check"], ["required", "STUDY.toml"]),
     (["frobnicate"], ["invalid choice"]),
     (["run", str(DEMO), "--paper", "a3"], ["invalid choice", "a3"]),
+    (["demo", "--engine", "tex"], ["invalid choice", "tex"]),
     (["check", str(DEMO), "--set", "nokey"], ["--set 'nokey' is not allowed"]),
     (["render", "/nonexistent/record"], ["must be a record folder"]),
     ([], ["usage"]),
@@ -123,13 +124,26 @@ def test_run_writes_the_record(tmp_path, monkeypatch, capsys):
     assert json.loads((record / "manifest.json").read_text())["overrides"] == {"project.revision": "C"}
 
 
+def test_default_engine_makes_a_pdf_without_tex(tmp_path, monkeypatch, capsys):
+    import isolation.records
+    import isolation.report
+
+    monkeypatch.setattr(isolation.records, "WORKBOOK", FIXTURES / "record_workbook.ipynb")
+    monkeypatch.setattr(isolation.report, "missing_tools", lambda: ["xelatex", "pandoc"])
+    code, out, err = call(["run", str(DEMO), "--out", str(tmp_path), "--quick"], capsys)
+    assert code == 0, err
+    report = Path([l for l in out.splitlines() if l.startswith("report: ")][0].split(": ", 1)[1])
+    assert report.name == "report.pdf" and report.read_bytes().startswith(b"%PDF")
+    assert not [l for l in err.splitlines() if l.startswith("note: ")]
+
+
 def test_missing_tex_gives_html_and_says_what_to_install(tmp_path, monkeypatch, capsys):
     import isolation.records
     import isolation.report
 
     monkeypatch.setattr(isolation.records, "WORKBOOK", FIXTURES / "record_workbook.ipynb")
     monkeypatch.setattr(isolation.report, "missing_tools", lambda: ["xelatex"])
-    code, out, err = call(["run", str(DEMO), "--out", str(tmp_path), "--quick"], capsys)
+    code, out, err = call(["run", str(DEMO), "--out", str(tmp_path), "--quick", "--engine", "latex"], capsys)
     assert code == 0, err
     report = Path([l for l in out.splitlines() if l.startswith("report: ")][0].split(": ", 1)[1])
     assert report.name == "report.html" and report.is_file()
@@ -147,14 +161,16 @@ def test_motions_exports_the_suite(tmp_path, capsys):
     assert meta["count"] == 3
 
 
-def _require_tex():
-    return require_tools("xelatex", "pandoc", skip=False)
+def _require_pdf_readers():
+    # The default engine (Typst) comes with the package: the report is always a PDF.
+    require_tools("pdftotext", skip=False)
+    return False
 
 
 @pytest.mark.slow
 def test_outside_check_commands_end_to_end(tmp_path):
     """`python -m isolation run STUDY.toml --out DIR` as an outside check calls it."""
-    missing = _require_tex()
+    missing = _require_pdf_readers()
     done = subprocess.run([sys.executable, "-m", "isolation", "run", str(DEMO), "--out", str(tmp_path),
                            "--quick"], capture_output=True, text=True, cwd=ROOT, timeout=600)
     assert done.returncode == 0, done.stderr
@@ -168,7 +184,7 @@ def test_outside_check_commands_end_to_end(tmp_path):
 
 @pytest.mark.slow
 def test_demo_prints_two_lines(tmp_path):
-    missing = _require_tex()
+    missing = _require_pdf_readers()
     done = subprocess.run([sys.executable, "-m", "isolation", "demo", "--out", str(tmp_path)],
                           capture_output=True, text=True, cwd=ROOT, timeout=900)
     assert done.returncode == 0, done.stderr

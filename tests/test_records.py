@@ -216,7 +216,7 @@ def test_kill_half_way_leaves_nothing_that_looks_complete(tmp_path):
 # --------------------------------------------------------------------------
 @pytest.mark.slow
 def test_demo_record_with_pdf_shows_the_results(tmp_path):
-    require_tex()
+    require_tools("pdftotext")  # the default engine (Typst) needs nothing outside the Python packages
     outcome = run_record(DEMO, tmp_path, pdf=True, quick=True, paper="letter")
     assert outcome.status == "done", outcome.error
     assert outcome.report == outcome.path / "report.pdf"
@@ -242,10 +242,13 @@ def test_demo_record_with_pdf_shows_the_results(tmp_path):
 def test_render_an_existing_record(done_record):
     require_tex()
     _, outcome = done_record
-    path = render_record(outcome.path, paper="a4")
+    path = render_record(outcome.path, paper="a4", engine="latex")
     assert path == outcome.path / "report.pdf" and path.stat().st_size > 1000
     manifest = read_manifest(outcome.path)
     assert manifest["report"] == "report.pdf" and "report.pdf" in manifest["files"]
+    assert manifest["rendered"]["engine"] == "latex"
+    again = render_record(outcome.path, paper="letter")  # the default engine, Typst, replaces it
+    assert again == path and read_manifest(outcome.path)["rendered"]["engine"] is None
     assert not [p for p in outcome.path.iterdir() if p.name.startswith(".")]
 
 

@@ -1,4 +1,4 @@
-"""Client report: template, PDF through XeLaTeX, HTML fallback, title fields.
+"""Client report: both PDF engines (Typst, XeLaTeX), HTML fallback, title fields.
 
 The notebooks here are built by hand with outputs already in place (no kernel),
 so each test checks the render pipeline alone. Outside references: page sizes
@@ -22,7 +22,7 @@ from matplotlib.figure import Figure
 from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook, new_output
 
 from isolation import report
-from tools import require_pdf_tools
+from tools import PDF_READERS, require_pdf_tools, require_tools
 from isolation.errors import RunError
 from isolation.plots import captioned
 from isolation.tables import Table
@@ -46,11 +46,11 @@ def _png_output(caption: str) -> dict:
 
 
 def _table_output(table: Table) -> dict:
-    return new_output(
-        "display_data",
-        data={"text/markdown": table._repr_markdown_(), "text/latex": table._repr_latex_(),
-              "text/plain": "table"},
-    )
+    # What IPython's display() stores: the mimebundle (Typst) plus the markdown and LaTeX forms.
+    from IPython.core.formatters import DisplayFormatter
+
+    data, metadata = DisplayFormatter().format(table)
+    return new_output("display_data", data=data, metadata=metadata)
 
 
 def _notebook(path, *, extra_latex: str | None = None, paper: str | None = None) -> str:
@@ -98,12 +98,21 @@ def _page_size(pdf) -> tuple[float, float]:
     return float(parts[2]), float(parts[4])
 
 
-@pytest.fixture(scope="module")
-def a4_report(tmp_path_factory):
-    require_pdf_tools()
-    folder = tmp_path_factory.mktemp("a4")
+def _require(engine: str) -> None:
+    if engine == "latex":
+        require_pdf_tools()
+    else:
+        require_tools(*PDF_READERS)
+
+
+@pytest.fixture(scope="module", params=["typst", "latex"])
+def a4_report(request, tmp_path_factory):
+    engine = request.param
+    _require(engine)
+    folder = tmp_path_factory.mktemp(f"a4-{engine}")
     source = _notebook(folder)
-    pdf = report.render(source, folder / "out", title_fields={"prepared_by": "J. Doe (invented)"})
+    pdf = report.render(source, folder / "out", title_fields={"prepared_by": "J. Doe (invented)"},
+                        engine=engine)
     return pdf, _text(pdf)
 
 
@@ -155,16 +164,17 @@ def test_pdf_has_scope_box_header_footer_and_special_glyphs(a4_report):
     assert "licensed structural engineer" in text
     assert "Feasibility study" in text and "not for construction" in text  # running header
     assert "Page 1 of" in text  # footer with page total
-    assert "≤" in text  # glyph missing from the text font, mapped by the template
+    assert "≤" in text  # glyph missing from the LaTeX text font, mapped by the template
 
 
 @pytest.mark.slow
 def test_paper_sizes(a4_report, tmp_path):
     pdf, _ = a4_report
+    engine = "latex" if (pdf.parent.parent.name.startswith("a4-latex")) else "typst"
     width, height = _page_size(pdf)
     assert width == pytest.approx(595.28, abs=1.0) and height == pytest.approx(841.89, abs=1.0)  # ISO 216 A4
     # paper=None: the workbook's title block chooses letter.
-    letter = report.render(_notebook(tmp_path, paper="letter"), tmp_path / "out", paper=None)
+    letter = report.render(_notebook(tmp_path, paper="letter"), tmp_path / "out", paper=None, engine=engine)
     width, height = _page_size(letter)
     assert width == pytest.approx(612.0, abs=1.0) and height == pytest.approx(792.0, abs=1.0)  # ANSI letter
 
@@ -174,7 +184,7 @@ def test_tex_error_raises_run_error_and_leaves_no_pdf(tmp_path):
     require_pdf_tools()
     source = _notebook(tmp_path, extra_latex=r"\thiscommanddoesnotexist")
     with pytest.raises(RunError, match="Undefined control sequence"):
-        report.render(source, tmp_path / "out")
+        report.render(source, tmp_path / "out", engine="latex")
     assert not (tmp_path / "out" / "report.pdf").exists()
     assert not list((tmp_path / "out").glob(".*part"))
 
@@ -189,12 +199,22 @@ def test_latex_source_uses_our_template(tmp_path):
     assert any(name.endswith(".png") for name in resources["outputs"])
 
 
-def test_html_fallback_when_tex_missing(tmp_path, monkeypatch):
+def _no_typst(monkeypatch) -> None:
+    """Make ``import typst`` fail, as on a machine without the wheel."""
+    import sys
+
+    monkeypatch.setitem(sys.modules, "typst", None)
+
+
+def test_html_fallback_when_no_engine_can_run(tmp_path, monkeypatch):
     monkeypatch.setattr(report, "missing_tools", lambda: ["xelatex"])
+    _no_typst(monkeypatch)
     source = _notebook(tmp_path)
     with pytest.warns(report.TexMissingWarning) as caught:
         path = report.render(source, tmp_path / "out", title_fields={"prepared_by": "J. Doe"})
     message = str(caught[0].message)
+    # The exact reason for each engine: the missing wheel and the missing Debian packages.
+    assert "typst package" in message and "pip install typst" in message
     for package in ("texlive-xetex", "texlive-fonts-recommended", "texlive-plain-generic", "texlive-latex-extra",
                     "pandoc"):
         assert package in message
@@ -208,8 +228,31 @@ def test_html_fallback_when_tex_missing(tmp_path, monkeypatch):
     assert not (tmp_path / "out" / "report.pdf").exists()
 
 
+def test_latex_engine_asked_for_but_missing_gives_html_with_the_reason(tmp_path, monkeypatch):
+    monkeypatch.setattr(report, "missing_tools", lambda: ["xelatex"])
+    with pytest.warns(report.TexMissingWarning, match="PDF report needs xelatex") as caught:
+        path = report.render(_notebook(tmp_path), tmp_path / "out", engine="latex")
+    assert path.suffix == ".html" and "typst" not in str(caught[0].message)
+
+
+def test_default_engine_falls_back_to_latex_without_typst(tmp_path, monkeypatch):
+    _no_typst(monkeypatch)
+    calls = []
+    monkeypatch.setattr(report, "missing_tools", lambda: [])
+    monkeypatch.setattr(report, "_render_pdf", lambda nb, target, stem: calls.append(stem) or target / "x.pdf")
+    path = report.render(_notebook(tmp_path), tmp_path / "out")
+    assert calls == ["small"] and path.name == "x.pdf"
+
+
+@pytest.mark.parametrize("engine", ["tex", "html", "", "Typst"])
+def test_bad_engine_is_refused(tmp_path, engine):
+    with pytest.raises(ValueError, match=r"engine = .* must be one of 'typst', 'latex'"):
+        report.render(_notebook(tmp_path), tmp_path / "out", engine=engine)
+
+
 def test_title_fields_argument_wins_over_workbook(tmp_path, monkeypatch):
     monkeypatch.setattr(report, "missing_tools", lambda: ["pandoc"])
+    _no_typst(monkeypatch)
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", report.TexMissingWarning)
         path = report.render(_notebook(tmp_path), tmp_path / "out", title_fields={"client": "Other Board"})

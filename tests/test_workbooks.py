@@ -25,7 +25,7 @@ import papermill as pm
 import pytest
 
 from isolation import report
-from tools import require_pdf_tools
+from tools import PDF_READERS, require_pdf_tools, require_tools
 
 ROOT = Path(__file__).resolve().parent.parent
 WORKBOOKS = ROOT / "workbooks"
@@ -118,11 +118,12 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
     assert all(captions) and len(captions) >= 6 + 6 * len(names)
 
 
-@pytest.fixture(scope="module")
-def feasibility_pdf(feasibility_run):
-    require_pdf_tools()
+@pytest.fixture(scope="module", params=["typst", "latex"])
+def feasibility_pdf(request, feasibility_run):
+    engine = request.param
+    require_pdf_tools() if engine == "latex" else require_tools(*PDF_READERS)
     out, _, data = feasibility_run
-    pdf = report.render(out / "feasibility.ipynb", out / "report", paper=None)
+    pdf = report.render(out / "feasibility.ipynb", out / f"report-{engine}", paper=None, engine=engine)
     raw = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True, text=True,
                          check=True).stdout
     return pdf, _pdf_words(raw), data
@@ -149,7 +150,9 @@ def test_pdf_shows_title_page_fields_from_the_study(feasibility_pdf):
         assert str(project[key]) in text, key
     assert project["date"].isoformat() in text
     info = subprocess.run(["pdfinfo", str(pdf)], capture_output=True, text=True, check=True).stdout
-    assert "595.28 x 841.89" in info  # A4, ISO 216
+    size = next(line for line in info.splitlines() if line.startswith("Page size:")).split()
+    # A4, ISO 216: 210 x 297 mm = 595.28 x 841.89 pt (pdfinfo prints 595.28 or 595.276 by engine).
+    assert float(size[2]) == pytest.approx(595.28, abs=0.05) and float(size[4]) == pytest.approx(841.89, abs=0.05)
 
 
 def _three_figures(value: float) -> str:
@@ -240,14 +243,14 @@ def eurocode_report(tmp_path_factory):
     _execute("feasibility.ipynb", out, study_path=str(study_file), output_dir=str(out),
              results_path=str(results), quick=True)
     if os.environ.get("ISOLATION_REQUIRE_TEX") == "1":
-        require_pdf_tools()  # fails (not skips) when a PDF tool is missing
-    with warnings.catch_warnings():  # without TeX the report is HTML, which must show the note too
+        require_tools(*PDF_READERS)  # fails (not skips) when a PDF tool is missing
+    with warnings.catch_warnings():  # without a PDF engine the report is HTML, which must show the note too
         warnings.simplefilter("ignore", report.TexMissingWarning)
         path = report.render(out / "feasibility.ipynb", out / "report")
     if os.environ.get("ISOLATION_REQUIRE_TEX") == "1" and path.suffix != ".pdf":
         pytest.fail(f"ISOLATION_REQUIRE_TEX=1 but the report came out as {path.name}")
     if path.suffix == ".pdf":
-        require_pdf_tools()  # pdftotext reads the PDF back
+        require_tools(*PDF_READERS)  # pdftotext reads the PDF back
         raw = subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True, text=True,
                              check=True).stdout
         text = _pdf_words(raw)

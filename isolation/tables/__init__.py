@@ -26,13 +26,14 @@ from isolation.tables.results import (alternatives_table, bidirectional_table, b
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.tables.symbols import latex_text, markdown_text
 from isolation.tables.yielding import damage_table, fixed_base_design_table, fixed_base_label, yielding_response_table
-from isolation.tables.table import (Table, checks_table, escape_latex, format_number, in_study_units,
+from isolation.tables.table import (TYPST_MIME, Table, checks_table, escape_latex, format_number, in_study_units,
                                     key_value_table)
 
 __all__ = [
     "bidirectional_table",
     "pairs_table",
     "Table",
+    "TYPST_MIME",
     "format_number",
     "escape_latex",
     "key_value_table",

@@ -11,7 +11,9 @@ one place that turns them into subscripts and superscripts:
   it into LaTeX math for the PDF); text already inside ``$...$`` or backticks
   is left alone;
 * :func:`markdown_cell` - plain text to a markdown table cell (escaped, with
-  math symbols).
+  math symbols);
+* :func:`typst_text` - plain text to Typst markup: special characters escaped,
+  each symbol as Typst math, e.g. ``D_TM`` -> ``$D_"TM"$``.
 
 What counts as a symbol: one Latin or Greek letter (``beta``, ``mu``, ``xi``
 ... spelled out or as the glyph, or ``MCE``) followed by ``_`` and a subscript of
@@ -28,7 +30,8 @@ from __future__ import annotations
 import re
 from typing import Callable
 
-__all__ = ["latex_symbol", "latex_text", "markdown_text", "markdown_cell", "SYMBOL_PATTERN"]
+__all__ = ["latex_symbol", "latex_text", "markdown_text", "markdown_cell", "typst_symbol", "typst_text",
+           "escape_typst", "SYMBOL_PATTERN"]
 
 _GREEK = {
     "alpha": r"\alpha", "beta": r"\beta", "gamma": r"\gamma", "delta": r"\delta", "eta": r"\eta",
@@ -37,6 +40,15 @@ _GREEK = {
     "μ": r"\mu", "ξ": r"\xi", "ζ": r"\zeta", "ρ": r"\rho", "Δ": r"\Delta",
 }
 _WORD_BASES = {"MCE": r"\mathrm{MCE}"}
+_TYPST_GREEK = {
+    "alpha": "alpha", "beta": "beta", "gamma": "gamma", "delta": "delta", "eta": "eta", "theta": "theta",
+    "mu": "mu", "xi": "xi", "zeta": "zeta", "rho": "rho", "α": "alpha", "β": "beta", "γ": "gamma",
+    "δ": "delta", "η": "eta", "θ": "theta", "μ": "mu", "ξ": "xi", "ζ": "zeta", "ρ": "rho", "Δ": "Delta",
+}
+_TYPST_WORD_BASES = {"MCE": '"MCE"'}
+# Characters with a meaning in Typst markup; a backslash before each sets it as text.
+_TYPST_SPECIALS = set("\\#*_`$<>@[]~/=+-")
+_TYPST_NUMBERED = re.compile(r"^(\s*\d+)\.(?=\s|$)")  # "1." at the start of a line would begin a numbered list
 _INDEX_SUBSCRIPTS = {"i", "j", "n", "x"}
 
 _BASES = "|".join(sorted(list(_WORD_BASES) + [k for k in _GREEK if len(k) > 1], key=len, reverse=True))
@@ -98,3 +110,51 @@ def markdown_text(text: object) -> str:
 def markdown_cell(text: object, escape: Callable[[str], str]) -> str:
     """Plain text as markdown: ``escape`` applied to the text around the symbols, symbols as math."""
     return _convert(str(text), escape, lambda math: f"${math}$")
+
+
+def escape_typst(text: object) -> str:
+    """Text as Typst markup that prints it as it is (markup characters escaped).
+
+    Line breaks become spaces; a no-break space stays one.
+
+    Parameters
+    ----------
+    text : object
+        Text (anything else is converted with ``str``).
+    """
+    out = []
+    for ch in str(text):
+        if ch in _TYPST_SPECIALS:
+            out.append("\\" + ch)
+        elif ch in "\r\n":
+            out.append(" ")
+        else:
+            out.append(ch)
+    return _TYPST_NUMBERED.sub(r"\1\\.", "".join(out))
+
+
+def typst_symbol(match: re.Match) -> str:
+    """Typst math (without ``$``) of one :data:`SYMBOL_PATTERN` match, e.g. ``D_"TM"``."""
+    if match.group("pbase"):
+        return f"{match.group('pbase')}^{match.group('power')}"
+    base = match.group("base")
+    base = _TYPST_GREEK.get(base) or _TYPST_WORD_BASES.get(base) or base
+    sub = match.group("sub")
+    sub = sub if sub in _INDEX_SUBSCRIPTS else f'"{sub}"'
+    return f"{base}_{sub}"
+
+
+def typst_text(text: object) -> str:
+    """Plain text as Typst markup: markup characters escaped, symbols as Typst math.
+
+    Parameters
+    ----------
+    text : object
+        Text (anything else is converted with ``str``).
+    """
+    parts, position, text = [], 0, str(text)
+    for match in SYMBOL_PATTERN.finditer(text):
+        parts += [escape_typst(text[position:match.start()]), f"${typst_symbol(match)}$"]
+        position = match.end()
+    parts.append(escape_typst(text[position:]))
+    return "".join(parts)

@@ -3,9 +3,11 @@
 Results as tables that reach every output: notebook, HTML and the PDF report.
 
 nbconvert's LaTeX exporter drops HTML output, so a :class:`Table` offers
-``_repr_markdown_`` (notebook, HTML report) and ``_repr_latex_`` (PDF report: a
+``_repr_markdown_`` (notebook, HTML report), ``_repr_latex_`` (LaTeX PDF report: a
 numbered, captioned booktabs table, shrunk to the text width when wide, split
-over pages when long or holding wrapped text). :mod:`isolation.tables.results` turns a study's results
+over pages when long or holding wrapped text) and, through ``_repr_mimebundle_``,
+Typst markup under :data:`TYPST_MIME` (the default PDF report, see
+:mod:`isolation.typeset`). :mod:`isolation.tables.results` turns a study's results
 into such tables.
 
 Numbers are formatted for reading (:func:`format_number`); the JSON results
@@ -15,15 +17,17 @@ keep full precision.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
 import numpy as np
 
-from isolation.tables.symbols import latex_text, markdown_cell
+from isolation.tables.symbols import latex_text, markdown_cell, typst_text
 
 __all__ = [
     "Table",
+    "TYPST_MIME",
     "format_number",
     "escape_latex",
     "key_value_table",
@@ -44,6 +48,12 @@ _LATEX_SPECIALS = {
     "^": r"\textasciicircum{}",
     "\u00a0": "~",  # no-break space: LaTeX's tie
 }
+
+TYPST_MIME = "text/x-typst"
+"""Output type of Typst markup (a table or figure as a complete ``#figure``), read by :mod:`isolation.typeset`."""
+
+_LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_-]*$")
+_TYPST_ALIGN = {"l": "left", "r": "right", "c": "center", "p": "left"}
 
 _LONG_TABLE_ROWS = 28  # beyond this a table may run over a page break
 _LONG_WRAPPED_ROWS = 12  # the same for tables whose text wraps (rows of several lines)
@@ -121,6 +131,10 @@ class Table:
         Significant figures of numeric cells. [-]
     notes : str
         Text printed under the table (sources, assumptions).
+    label : str
+        Name by which report text refers to the table (letters, digits, ``-``
+        and ``_``; a letter first): a markdown link ``[](#label)`` becomes
+        "Table N" in the Typst report. Empty: no label.
 
     Notes
     -----
@@ -138,6 +152,7 @@ class Table:
     align: str | None = None
     digits: int = 3
     notes: str = ""
+    label: str = ""
     _text: tuple[tuple[str, ...], ...] = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
@@ -156,6 +171,11 @@ class Table:
             raise ValueError(
                 f"align = {self.align!r} is not allowed: must be one of l, r, c, p per column "
                 f"({len(columns)} letters)"
+            )
+        if self.label and not _LABEL.match(str(self.label)):
+            raise ValueError(
+                f"label = {self.label!r} is not allowed: must be letters, digits, '-' or '_', "
+                "beginning with a letter"
             )
         object.__setattr__(self, "columns", columns)
         object.__setattr__(self, "rows", rows)
@@ -189,6 +209,43 @@ class Table:
         if self.notes:
             lines += ["", f"*{_markdown(self.notes)}*"]
         return "\n".join(lines) + "\n"
+
+    def _repr_mimebundle_(self, include=None, exclude=None):
+        # IPython adds the markdown and LaTeX forms from the _repr_*_ methods.
+        metadata = {TYPST_MIME: {"label": self.label}} if self.label else {}
+        return {TYPST_MIME: self._repr_typst_()}, metadata
+
+    def _repr_typst_(self) -> str:
+        """Typst markup: a numbered figure of kind table, caption on top, notes under it."""
+        widths = ", ".join("1fr" if a == "p" else "auto" for a in self.align)
+        aligns = ", ".join(_TYPST_ALIGN[a] for a in self.align)
+        head = ", ".join(f"[#strong[{typst_text(c)}]]" for c in self.columns)
+        body = "\n".join("    " + ", ".join(f"[{typst_text(c)}]" for c in row) + "," for row in self._text)
+        table = "\n".join([
+            f"table(columns: ({widths},), align: ({aligns},),",
+            "    table.hline(stroke: 0.8pt),",
+            f"    table.header({head}, table.hline(stroke: 0.5pt)),",
+            body,
+            "    table.hline(stroke: 0.8pt),",
+            "  )",
+        ])
+        notes = f"text(size: 8pt)[{typst_text(self.notes)}]" if self.notes else ""
+        short = "p" not in self.align and len(self._text) <= _LONG_TABLE_ROWS
+        if notes and short:
+            # A narrow table: its notes take the table's own width.
+            content = ("context {\n  let t = " + table + "\n  let w = measure(t).width\n"
+                       "  stack(spacing: 0.5em, t, block(width: calc.max(w, 8cm), align(left, " + notes + ")))\n}")
+        elif notes:
+            content = "{\n  " + table + "\n  v(0.3em)\n  align(left, " + notes + ")\n}"
+        else:
+            content = table
+        caption = f"[{typst_text(self.caption)}]" if self.caption else "none"
+        label = f" <{self.label}>" if self.label else ""
+        figure = f"#figure(kind: table, caption: {caption},\n  {content}\n){label}\n"
+        if short or len(self._text) <= _LONG_WRAPPED_ROWS:
+            return figure  # kept on one page with its caption
+        # Many rows: may break across pages (the head repeats on each).
+        return "#[\n#show figure: set block(breakable: true)\n" + figure + "]\n"
 
     def _repr_latex_(self) -> str:
         head = " & ".join(rf"\textbf{{{latex_text(c)}}}" for c in self.columns) + r" \\"
