@@ -41,7 +41,8 @@ from isolation.files import write_text_atomic
 from isolation.plain import plain
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
-                                   isolation_system, site_spectrum, superstructure, verdict_figures)
+                                   history_isolator, isolation_system, site_spectrum, superstructure,
+                                   verdict_figures)
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
@@ -146,26 +147,7 @@ def load_results(path: str | Path) -> StudyResults:
     return StudyResults.from_dict(json.loads(Path(path).read_text(encoding="utf-8")))
 
 
-def _history_isolator(backbone, result, system=None, case: str = "nominal"):
-    """Isolator law the history engine integrates for one property case.
-
-    A single group of friction pendulums whose friction depends on velocity
-    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
-    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
-    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
-    bilinear with the same K_eff and damping at the design displacement.
-    """
-    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
-    from isolation.bearings.damping_rubber import equivalent_bilinear
-
-    groups = getattr(system, "groups", ())
-    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
-        bearing = groups[0].bearing
-        if bearing.friction_slow != bearing.friction:
-            return bearing.with_friction_factor(system.factors.friction.factor(case))
-    if isinstance(backbone, (Bilinear, MultiLinear)):
-        return backbone
-    return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
+_history_isolator = history_isolator  # the earlier private name, kept importable
 
 
 def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:

@@ -10,6 +10,7 @@ The building blocks of :func:`isolation.runner.run_study` (re-exported from
 * :func:`fixed_base_period` and :func:`superstructure` - the fixed-base
   period and the shear building above the isolators;
 * :func:`check_study` - checks of a valid study against its own models;
+* :func:`history_isolator` - the isolator law the history engine runs for one property set;
 * ``design_alternative`` - the code's single-mode report for all property sets, and
   ``verdict_figures`` - the numbers of :class:`isolation.verdict.Figures`.
 
@@ -27,7 +28,7 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
-           "design_alternative", "verdict_figures",
+           "design_alternative", "verdict_figures", "history_isolator",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
 _FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
@@ -106,8 +107,12 @@ def superstructure(study: Study):
                                      damping=building.damping)
 
 
-def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
-    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons)."""
+def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, bounds=None):
+    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons).
+
+    ``bounds`` (a :class:`isolation.design.BoundsResult` of ``sets`` under ``spectrum`` with the
+    basis's damping rule) skips the equivalent-linear iteration (array sweeps compute it for many
+    alternatives at once)."""
     b = study.building
     if study.basis == "asce7":
         from isolation.design_asce7 import ElfBuilding, asce7_elf
@@ -125,7 +130,7 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
                           isolator_kind="sliding" if system.is_sliding else "other", fixed_base_period=t_fb,
                           frame=_FRAMES[b.lateral_system], importance=b.importance,
                           wind_base_shear=study.wind_base_shear or 0.0, s1=s1, site_class=study.site.site_class)
-        report = asce7_elf(sets, elf, spectrum)
+        report = asce7_elf(sets, elf, spectrum, bounds=bounds)
         names = {"displacement": "D_M", "total_displacement": "D_TM", "isolation_shear": "V_b",
                  "superstructure_shear": "V_s", "fixed_base_shear": "V_fb", "shear_ratio": "V_s/V_fb"}
         applicability = getattr(report, "applicability", None)
@@ -138,7 +143,7 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
     ec = EurocodeBuilding(weight=b.total_weight, superstructure_period=t_fb, plan_length=b.plan_length,
                           plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
                           behaviour_factor=b.response_modification)
-    report = eurocode_simplified(sets, ec, spectrum)
+    report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
     names = {"displacement": "d_dc", "total_displacement": "d_d", "isolation_shear": "V",
              "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
     quantities = {}
@@ -149,6 +154,41 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
             quantities[key] = None
     reasons = tuple(c.name for c in report.applicability if not c.passed)
     return report, quantities, report.simplified_permitted, reasons
+
+
+def history_isolator(backbone, result, system=None, case: str = "nominal"):
+    """Isolator law the history engine integrates for one property case.
+
+    A single group of friction pendulums whose friction depends on velocity
+    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
+    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
+    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
+    bilinear with the same K_eff and damping at the design displacement.
+
+    Parameters
+    ----------
+    backbone : backbone
+        Whole-plane backbone of the case (from ``IsolationSystem.property_sets``).
+    result : isolation.design.EquivalentLinearResult or None
+        The case's equivalent-linear result (D [m], K_eff [kN/m], beta_eff [-]); used
+        only for backbones that are neither bilinear nor multi-linear.
+    system : IsolationSystem, optional
+        The plane, to run a velocity-dependent friction pendulum as itself.
+    case : str
+        ``"lower"``, ``"nominal"`` or ``"upper"``.
+
+    """
+    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
+    from isolation.bearings.damping_rubber import equivalent_bilinear
+
+    groups = getattr(system, "groups", ())
+    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
+        bearing = groups[0].bearing
+        if bearing.friction_slow != bearing.friction:
+            return bearing.with_friction_factor(system.factors.friction.factor(case))
+    if isinstance(backbone, (Bilinear, MultiLinear)):
+        return backbone
+    return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
 
 
 def check_study(study: Study) -> None:

@@ -95,15 +95,28 @@ def _run(args: argparse.Namespace) -> int:
     mode = "direct" if args.direct else "record"
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
+    if args.direct:  # key-by-key validation of bearing-property grids (same rules, same hashes)
+        from isolation.batch.sweep import validate_direct as validate
+    else:
+        def validate(plan, settings, executor=None):
+            return validate_plan(plan, settings=settings, executor=executor, model_checks=True)
     if args.check or len(plan.variants) < CHUNK_FROM:
-        hashes = validate_plan(plan, settings=settings, model_checks=not args.direct)
+        hashes = validate(plan, settings)
         if args.check:
             print(f"{plan.batch_file.name}: {len(plan.variants)} variants valid")
             return 0
         return _execute(args, plan, hashes, settings, executor, executor)
     with open_executor(executor, args.workers) as pool:  # large batches: validate on the workers too
-        hashes = validate_plan(plan, settings=settings, executor=pool, model_checks=not args.direct)
+        hashes = validate(plan, settings, executor=pool)
         return _execute(args, plan, hashes, settings, executor, pool)
+
+
+DIRECT_CHUNK = 500  # largest chunk of a direct sweep: the array kernel runs a chunk at once [variants]
+
+
+def _direct_chunk(count: int) -> int:
+    """Variants per task of a direct sweep: about 16 tasks, at most :data:`DIRECT_CHUNK`."""
+    return max(1, min(DIRECT_CHUNK, -(-count // 16)))
 
 
 def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
@@ -128,7 +141,7 @@ def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
         retry_failed=args.retry_failed,
         pdf=True if args.pdf else None,
         quick=settings["quick"],
-        chunk=None if args.direct else 1,
+        chunk=_direct_chunk(len(plan.variants)) if args.direct else 1,
         progress=not args.no_progress,
         settings={**settings, "executor": executor_name},
     )
