@@ -41,7 +41,8 @@ from isolation.files import write_text_atomic
 from isolation.plain import plain
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
-                                   history_isolator, isolation_system, site_spectrum, superstructure,
+                                   history_isolator, history_summary, isolation_system, site_spectrum,
+                                   superstructure,
                                    verdict_figures)
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
@@ -150,34 +151,7 @@ def load_results(path: str | Path) -> StudyResults:
 _history_isolator = history_isolator  # the earlier private name, kept importable
 
 
-def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
-    """Key response-history numbers: suite means of peaks (ASCE/SEI 7-16 §17.6.3.4 allows the
-    mean of 7 or more records, from memory)."""
-    def largest(case: str, name: str) -> float:
-        return float(np.max(stats[case][name]["mean"]))
-
-    fixed_acc = float(np.max(fixed["floor_acceleration"]["mean"]))
-    fixed_shear = float(np.max(fixed["base_shear"]["mean"]))
-    summary = {
-        "isolator_displacement_lower": largest("lower", "isolator_displacement"),
-        "isolator_displacement_upper": largest("upper", "isolator_displacement"),
-        "isolator_displacement_max_record": float(np.max(stats["lower"]["isolator_displacement"]["max"])),
-        "torsion_factor": torsion,
-        "floor_acceleration_fixed": fixed_acc,
-        "floor_acceleration_lower": largest("lower", "floor_acceleration"),
-        "floor_acceleration_upper": largest("upper", "floor_acceleration"),
-        "superstructure_shear_fixed": fixed_shear,
-        "superstructure_shear_upper": float(stats["upper"]["storey_shear"]["mean"][0]),
-        "isolation_shear_upper": largest("upper", "base_shear"),
-        "drift_ratio_fixed": float(np.max(fixed["drift_ratio"]["mean"])),
-        "drift_ratio_isolated": max(largest("lower", "drift_ratio"), largest("upper", "drift_ratio")),
-        "residual_displacement_lower": largest("lower", "residual_displacement"),
-    }
-    summary["floor_acceleration_ratio"] = max(summary["floor_acceleration_lower"],
-                                              summary["floor_acceleration_upper"]) / fixed_acc
-    summary["superstructure_shear_ratio"] = summary["superstructure_shear_upper"] / fixed_shear
-    summary["isolator_displacement_with_torsion"] = summary["isolator_displacement_lower"] * torsion
-    return summary
+_history_summary = history_summary  # the earlier private name, kept importable
 
 
 def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):

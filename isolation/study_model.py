@@ -28,7 +28,7 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
-           "design_alternative", "verdict_figures", "history_isolator",
+           "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
 _FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
@@ -189,6 +189,52 @@ def history_isolator(backbone, result, system=None, case: str = "nominal"):
     if isinstance(backbone, (Bilinear, MultiLinear)):
         return backbone
     return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
+
+
+def history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
+    """Key response-history numbers: suite means of peaks (ASCE/SEI 7-16 §17.6.3.4 allows the
+    mean of 7 or more records, from memory).
+
+    Parameters
+    ----------
+    stats : dict
+        ``{"lower": HistoryResult.statistics(), "upper": ...}`` of the isolated building.
+    fixed : dict
+        ``HistoryResult.statistics()`` of the same superstructure on a fixed base.
+    torsion : float
+        D_TM / D_M of the code report, applied to the lower-bound displacement. [-]
+
+    Returns
+    -------
+    dict
+        Displacements [m], floor accelerations [g], shears [kN], drift ratios [-] and the ratios
+        isolated / fixed base [-].
+    """
+    def largest(case: str, name: str) -> float:
+        return float(np.max(stats[case][name]["mean"]))
+
+    fixed_acc = float(np.max(fixed["floor_acceleration"]["mean"]))
+    fixed_shear = float(np.max(fixed["base_shear"]["mean"]))
+    summary = {
+        "isolator_displacement_lower": largest("lower", "isolator_displacement"),
+        "isolator_displacement_upper": largest("upper", "isolator_displacement"),
+        "isolator_displacement_max_record": float(np.max(stats["lower"]["isolator_displacement"]["max"])),
+        "torsion_factor": torsion,
+        "floor_acceleration_fixed": fixed_acc,
+        "floor_acceleration_lower": largest("lower", "floor_acceleration"),
+        "floor_acceleration_upper": largest("upper", "floor_acceleration"),
+        "superstructure_shear_fixed": fixed_shear,
+        "superstructure_shear_upper": float(stats["upper"]["storey_shear"]["mean"][0]),
+        "isolation_shear_upper": largest("upper", "base_shear"),
+        "drift_ratio_fixed": float(np.max(fixed["drift_ratio"]["mean"])),
+        "drift_ratio_isolated": max(largest("lower", "drift_ratio"), largest("upper", "drift_ratio")),
+        "residual_displacement_lower": largest("lower", "residual_displacement"),
+    }
+    summary["floor_acceleration_ratio"] = max(summary["floor_acceleration_lower"],
+                                              summary["floor_acceleration_upper"]) / fixed_acc
+    summary["superstructure_shear_ratio"] = summary["superstructure_shear_upper"] / fixed_shear
+    summary["isolator_displacement_with_torsion"] = summary["isolator_displacement_lower"] * torsion
+    return summary
 
 
 def check_study(study: Study) -> None:

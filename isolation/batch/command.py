@@ -54,6 +54,15 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
         action="store_true",
         help="equivalent-linear sweep without notebooks or records (thousands of variants); same summary columns",
     )
+    parser.add_argument(
+        "--histories",
+        action="store_true",
+        help="with --direct: response histories of every variant (lower and upper bound, one suite of motions, "
+        "fixed base once), no notebooks; summary gains history columns for the design-space maps",
+    )
+    parser.add_argument("--motions", metavar="SUITE.json",
+                        help="with --histories: the suite to use (metadata file written by 'python -m isolation "
+                        "motions'); default: the base study's matched suite")
     parser.add_argument("--check", action="store_true", help="validate the batch and every variant, run nothing")
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
     return parser
@@ -92,6 +101,13 @@ def _run(args: argparse.Namespace) -> int:
     from isolation.batch.plan import load_batch
 
     plan = load_batch(args.batch_file)
+    if (args.histories or args.motions) and not args.direct:
+        raise InputError("--histories and --motions are not allowed without --direct: "
+                         "history sweeps run as a direct sweep (no notebooks)")
+    if args.motions and not args.histories:
+        raise InputError(f"--motions = {args.motions!r} is not allowed without --histories")
+    if args.motions and not Path(args.motions).is_file():
+        raise InputError(f"--motions = {args.motions!r} is not allowed: must be an existing suite metadata file")
     mode = "direct" if args.direct else "record"
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
@@ -111,6 +127,12 @@ def _run(args: argparse.Namespace) -> int:
         return _execute(args, plan, hashes, settings, executor, pool)
 
 
+def _cores() -> int:
+    import os
+
+    return len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else (os.cpu_count() or 1)
+
+
 DIRECT_CHUNK = 500  # largest chunk of a direct sweep: the array kernel runs a chunk at once [variants]
 
 
@@ -123,7 +145,18 @@ def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
     from isolation.batch.execute import run_batch
 
     out_dir = Path(args.out) if args.out else DEFAULT_ROOT / plan.name
-    if args.direct:
+    chunk = _direct_chunk(len(plan.variants)) if args.direct else 1
+    if args.histories:
+        from isolation.batch.histories import history_chunk, history_runner, prepare_motions, with_motions
+
+        motions = prepare_motions(plan, out_dir, motions=args.motions, quick=bool(args.quick))
+        hashes = with_motions(hashes, motions)
+        settings = {**settings, "mode": "histories", "quick": bool(args.quick), "motions": motions["motions"],
+                    "motions_hash": motions["motions_hash"]}
+        workers = args.workers or _cores()
+        chunk = history_chunk(len(plan.variants), workers, motions["records"], motions["steps"])
+        runner = history_runner
+    elif args.direct:
         from isolation.batch.sweep import sweep_runner
 
         runner = sweep_runner
@@ -141,7 +174,7 @@ def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
         retry_failed=args.retry_failed,
         pdf=True if args.pdf else None,
         quick=settings["quick"],
-        chunk=_direct_chunk(len(plan.variants)) if args.direct else 1,
+        chunk=chunk,
         progress=not args.no_progress,
         settings={**settings, "executor": executor_name},
     )

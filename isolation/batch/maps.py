@@ -20,7 +20,7 @@ from __future__ import annotations
 import math
 from typing import Iterable
 
-from isolation.batch.summary import RESULT_COLUMNS, TAIL_COLUMNS
+from isolation.batch.summary import HISTORY_COLUMNS, RESULT_COLUMNS, TAIL_COLUMNS
 
 __all__ = [
     "VERDICT_ORDER",
@@ -43,7 +43,7 @@ VERDICT_COLOURS = {
 }
 OTHER_COLOUR = "#8c8c8c"
 MARKERS = ("o", "s", "^", "D", "v", "P")
-RESULT_KEYS = {"variant", "status", *RESULT_COLUMNS, *TAIL_COLUMNS}
+RESULT_KEYS = {"variant", "status", *RESULT_COLUMNS, *HISTORY_COLUMNS, *TAIL_COLUMNS}
 
 
 def _number(value) -> float | None:
