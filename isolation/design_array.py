@@ -34,6 +34,7 @@ in :mod:`isolation.design`.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
 from typing import Any, Mapping, Sequence
@@ -47,6 +48,8 @@ from isolation.spectra import RULES, damping_coefficient
 __all__ = ["EquivalentLinearArrays", "equivalent_linear_many", "design_bounds_many", "supports"]
 
 _FOUR_PI2 = 4.0 * math.pi**2
+_RESULT_FIELDS = ("displacement", "period", "damping", "damping_coefficient", "stiffness", "base_shear",
+                  "spectral_acceleration", "weight")  # EquivalentLinearResult's leading fields, in order
 
 
 # --- backbones as arrays ---------------------------------------------------------------
@@ -117,13 +120,19 @@ class _Rubber:
         return np.where(bad, np.nan, k_eff), np.where(bad, np.nan, beta_eff)
 
 
-def _kind(system) -> str | None:
+@functools.lru_cache(maxsize=1)
+def _classes() -> tuple:
     from isolation.bearings import Bilinear, MultiLinear
     from isolation.bearings.damping_rubber import AmplitudeBackbone
 
-    if isinstance(system, (Bilinear, MultiLinear)):
+    return (Bilinear, MultiLinear), AmplitudeBackbone
+
+
+def _kind(system) -> str | None:
+    elements, rubber = _classes()
+    if isinstance(system, elements):
         return "elements"
-    if isinstance(system, AmplitudeBackbone):
+    if isinstance(system, rubber):
         return "rubber"
     return None
 
@@ -186,15 +195,25 @@ class EquivalentLinearArrays:
         Raises the scalar path's :class:`isolation.errors.RunError` when system
         ``i`` has no converged displacement.
         """
-        if i in self.errors:
-            raise self.errors[i]
-        history = self.histories[i] if self.histories is not None else ()
-        return EquivalentLinearResult(
-            displacement=float(self.displacement[i]), period=float(self.period[i]), damping=float(self.damping[i]),
-            damping_coefficient=float(self.damping_coefficient[i]), stiffness=float(self.stiffness[i]),
-            base_shear=float(self.base_shear[i]), spectral_acceleration=float(self.spectral_acceleration[i]),
-            weight=float(self.weight[i]), rule=self.rule, iterations=int(self.iterations[i]), converged=True,
-            method=str(self.method[i]), history=history)
+        return self.results([i])[0]
+
+    def results(self, indices=None) -> list:
+        """:meth:`result` of each system in ``indices`` (default: all), in order."""
+        chosen = range(len(self)) if indices is None else list(indices)
+        for i in chosen:
+            if i in self.errors:
+                raise self.errors[i]
+        picked = np.asarray(chosen, dtype=int)
+        columns = [getattr(self, name)[picked].tolist() for name in _RESULT_FIELDS]
+        iterations = self.iterations[picked].tolist()
+        methods = self.method[picked].tolist()
+        out = []
+        for j, i in enumerate(chosen):
+            history = self.histories[i] if self.histories is not None else ()
+            out.append(EquivalentLinearResult(*(column[j] for column in columns), rule=self.rule,
+                                              iterations=iterations[j], converged=True, method=methods[j],
+                                              history=history))
+        return out
 
 
 def equivalent_linear_many(
@@ -389,8 +408,8 @@ def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spect
             names.append((i, str(name)))
     arrays = equivalent_linear_many(flat, np.asarray(owner), spectrum, rule, **options)
     results: list[dict] = [{} for _ in sets]
-    for j, (i, name) in enumerate(names):
-        results[i][name] = arrays.result(j)
+    for (i, name), result in zip(names, arrays.results()):
+        results[i][name] = result
     out = []
     for r in results:
         by_displacement = max(r, key=lambda n: r[n].displacement)
