@@ -266,7 +266,22 @@ def _check_time_step(study: Study, structure) -> None:
                          "its shortest fixed-base period)")
 
 
+_PLATEAUS: dict = {}  # spectrum -> plateau: sweeps judge thousands of alternatives on one site
+
+
 def _plateau(spectrum) -> float:
+    try:
+        return _PLATEAUS[spectrum]
+    except TypeError:  # an unhashable spectrum object: compute it each time
+        return _plateau_of(spectrum)
+    except KeyError:
+        if len(_PLATEAUS) > 64:
+            _PLATEAUS.clear()
+        value = _PLATEAUS[spectrum] = _plateau_of(spectrum)
+        return value
+
+
+def _plateau_of(spectrum) -> float:
     periods = np.linspace(0.1, 0.6, 26)
     low, high = spectrum.period_range
     periods = periods[(periods >= low) & (periods <= high)]
