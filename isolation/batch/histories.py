@@ -19,6 +19,9 @@ notebook or record per variant.
   whose cases run together in the ensemble engine; alternatives that do not
   change between variants (the other bearing type of the study) are run once
   per worker process.
+* **Where**: the local pool, a dask LocalCluster or a dask scheduler
+  (``--scheduler``); workers read the motions from the batch folder, so on a
+  remote cluster it must be on a file system the workers share.
 * **Progress and resume** come from the batch runner
   (:func:`isolation.batch.execute.run_batch`): ``batch.json`` keeps every
   finished variant; the input hash includes the motions, so a changed suite

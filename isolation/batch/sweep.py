@@ -152,7 +152,7 @@ def _split(overrides: Mapping) -> tuple[dict, tuple] | None:
     return fast, rest_key
 
 
-@functools.lru_cache(maxsize=16)
+@functools.lru_cache(maxsize=256)
 def _base_study(study_file: str, modified: float, rest: tuple):
     """The study with the non-fast overrides applied, parsed once (or the error it gives)."""
     from isolation.study import apply_overrides, parse_study
