@@ -84,12 +84,15 @@ def history_chunk(count: int, workers: int, records: int, steps: int) -> int:
     -------
     int
         Variants per task: about :data:`TARGET_TASK` seconds at 2 us per
-        record-step-case (common practice for the ensemble engine on one
-        core, measured), at most count/(2 workers) so every worker gets work.
+        record-step-case (the ensemble engine on one core, measured on this
+        project's demo study; cases of a task are stepped together, so more
+        per task is cheaper per case), and at most count/(2 max(workers, 2))
+        so every worker gets work (one worker gets the chunks two would, so
+        their timings compare).
     """
     per_variant = 2 * records * steps * 2e-6  # two bounds [s]
     size = max(1, int(TARGET_TASK / max(per_variant, 1e-9)))
-    return max(1, min(size, -(-count // max(2 * workers, 1))))
+    return max(1, min(size, -(-count // (2 * max(int(workers), 2)))))
 
 
 # --- motions and fixed base, once -------------------------------------------------------------
