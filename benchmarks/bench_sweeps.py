@@ -179,9 +179,11 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--histories", type=int, default=1000, help="history-sweep variants, about (default 1000)")
     parser.add_argument("--ratio", type=int, default=64, help="variants for the 1 vs 2 worker ratio (default 64)")
     parser.add_argument("--skip-histories", action="store_true", help="kernel and direct sweep only")
+    parser.add_argument("--histories-only", action="store_true", help="history sweeps only")
     args = parser.parse_args([] if argv is None else argv)
-    bench_kernel(args.grid)
-    bench_direct(args.grid)
+    if not args.histories_only:
+        bench_kernel(args.grid)
+        bench_direct(args.grid)
     if not args.skip_histories:
         bench_histories(args.histories, args.ratio)
     return 0

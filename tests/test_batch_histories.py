@@ -133,3 +133,13 @@ def test_command_runs_a_history_sweep_on_chosen_motions(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "--motions" in err and len(err.strip().splitlines()) == 1
     assert not (tmp_path / "x").exists() and not (tmp_path / "y").exists()
+
+
+def test_chunks_are_seconds_long_and_the_same_for_one_and_two_workers():
+    from isolation.batch.histories import history_chunk
+
+    # 7 records x 6000 steps x 2 bounds at 2 us per record-step-case: 0.168 s a variant (derived
+    # arithmetic), so about 4 s is 23 variants; never fewer than 4 tasks
+    assert history_chunk(1000, 2, 7, 6000) == history_chunk(1000, 1, 7, 6000) == 23
+    assert history_chunk(64, 1, 7, 6000) == history_chunk(64, 2, 7, 6000) == 16
+    assert history_chunk(3, 2, 7, 6000) == 1
