@@ -11,7 +11,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from isolation.errors import InputError
+from isolation.errors import InputError, RunError
 
 __all__ = ["main", "build_parser"]
 
@@ -93,6 +93,9 @@ def main(argv: list[str] | None = None) -> int:
     except OSError as error:  # e.g. a batch folder that cannot be written
         _say(f"error: {' '.join(str(error).split())}")
         return 2
+    except RunError as error:  # a valid batch whose shared step failed (e.g. the history sweep's motions)
+        _say(f"failed: {' '.join(str(error).split())}")
+        return 1
 
 
 def _run(args: argparse.Namespace) -> int:
