@@ -143,9 +143,9 @@ def bench_direct(side: int) -> None:
 
 def _history_run(path: Path, out: Path, workers: int) -> tuple[float, str]:
     load = _load()
-    wall, _, line, cpu = _measured([sys.executable, "-m", "isolation", "batch", str(path), "--direct", "--histories",
+    wall, peak, line, cpu = _measured([sys.executable, "-m", "isolation", "batch", str(path), "--direct", "--histories",
                                "--no-progress", "--workers", str(workers), "--out", str(out)])
-    return wall, f"[{line}; CPU {cpu:.0f} s; {load} before]"
+    return wall, f"[{line}; CPU {cpu:.0f} s; peak memory {peak:.0f} MB; {load} before]"
 
 
 def bench_histories(count: int, ratio_count: int) -> None:
