@@ -202,7 +202,8 @@ def _activation_force(system) -> float | None:
     return None
 
 
-def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum, *, rule: str | None = "asce7", **options) -> ElfReport:
+def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum, *, rule: str | None = "asce7",
+              bounds: BoundsResult | None = None, **options) -> ElfReport:
     """Equivalent lateral force report of ASCE/SEI 7-16 Ch. 17 for all property sets.
 
     Parameters
@@ -215,6 +216,10 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
         MCE_R site spectrum. [g]
     rule : str or None
         Damping rule for the displacement. [-]
+    bounds : BoundsResult, optional
+        The equivalent-linear results of ``property_sets`` already computed
+        (e.g. by :func:`isolation.design_array.design_bounds_many`); default:
+        computed here.
     **options
         Passed to :func:`equivalent_linear`.
 
@@ -224,7 +229,8 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     """
     if not isinstance(building, ElfBuilding):
         raise ValueError(f"building = {type(building).__name__} is not allowed: must be an ElfBuilding")
-    bounds = design_bounds(property_sets, building.total_weight, spectrum, rule, **options)
+    if bounds is None:
+        bounds = design_bounds(property_sets, building.total_weight, spectrum, rule, **options)
     low, up = bounds.displacement, bounds.force
     b, dwidth = building.plan_length, building.plan_width
     d_m = low.displacement

@@ -233,7 +233,8 @@ class EurocodeReport:
         return _to_dict(self)
 
 
-def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuilding, spectrum, **options) -> EurocodeReport:
+def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuilding, spectrum, *,
+                        bounds: BoundsResult | None = None, **options) -> EurocodeReport:
     """EN 1998-1 §10.9 simplified linear analysis for all property sets.
 
     Parameters
@@ -244,6 +245,9 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
         Weight, periods, plan and factors. [kN, s, m]
     spectrum : spectrum object
         Elastic site spectrum, usually a :class:`~isolation.spectra.EurocodeSpectrum`. [g]
+    bounds : BoundsResult, optional
+        The equivalent-linear results of ``property_sets`` already computed
+        (damping rule "eurocode"); default: computed here.
     **options
         Passed to :func:`isolation.design.equivalent_linear`.
 
@@ -261,7 +265,8 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     """
     if not isinstance(building, EurocodeBuilding):
         raise ValueError(f"building = {type(building).__name__} is not allowed: must be a EurocodeBuilding")
-    bounds = design_bounds(property_sets, building.weight, spectrum, "eurocode", **options)
+    if bounds is None:
+        bounds = design_bounds(property_sets, building.weight, spectrum, "eurocode", **options)
     low, up = bounds.displacement, bounds.force
     length, width = building.plan_length, building.plan_width
     e_tot = building.eccentricity + 0.05 * length

@@ -46,6 +46,7 @@ __all__ = [
     "explorer_figure",
     "update",
     "build_explorer",
+    "trade_off",
 ]
 
 BEARING_TYPES = ("friction pendulum", "lead rubber")
@@ -193,6 +194,58 @@ def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **valu
     backbones = chosen.system().property_sets(chosen.weight)
     bounds = design_bounds(backbones, chosen.weight, chosen.spectrum(), "asce7")
     return ExplorerAnswer(chosen, dict(bounds.results), backbones)
+
+
+def trade_off(settings: ExplorerSettings | Mapping[str, Any] | None = None, name: str = "radius",
+              values=None, **fixed: Any) -> dict:
+    """Equivalent-linear answers along one setting, for a trade-off curve (one array-kernel call).
+
+    Parameters
+    ----------
+    settings : ExplorerSettings or mapping, optional
+        Starting settings (default :class:`ExplorerSettings`).
+    name : str
+        The setting that varies (a field of :class:`ExplorerSettings`, e.g.
+        ``"radius"`` [m] or ``"friction"`` [-]).
+    values : sequence of float
+        Its values, in the setting's unit.
+    **fixed
+        Other settings to change, by field name.
+
+    Returns
+    -------
+    dict
+        ``values``; per property set ``lower``/``nominal``/``upper`` a dict of
+        arrays ``displacement`` [m], ``period`` [s], ``damping`` [-],
+        ``base_shear`` [kN]; ``shear_reduction`` (upper-bound V_b/W over the
+        fixed-base Sa(T_fb, 5 %)) [-]. Equal to :func:`explore` at each value.
+    """
+    from isolation.design_array import design_bounds_many
+
+    if name not in ExplorerSettings.__dataclass_fields__:
+        allowed = ", ".join(ExplorerSettings.__dataclass_fields__)
+        raise ValueError(f"name = {name!r} is not allowed: must be one of {allowed}")
+    if values is None or np.ndim(values) != 1 or len(values) == 0:
+        raise ValueError(f"values = {values!r} is not allowed: must be a non-empty sequence of {name} values")
+    base = settings if isinstance(settings, ExplorerSettings) else ExplorerSettings(**dict(settings or {}))
+    chosen = [ExplorerSettings(**{**asdict(base), **fixed, name: value}) for value in values]
+    weights = np.array([c.weight for c in chosen])
+    groups: dict = {}  # one kernel call per site spectrum (a spectrum setting may be the one varied)
+    for i, c in enumerate(chosen):
+        groups.setdefault(c.spectrum(), []).append(i)
+    bounds: list = [None] * len(chosen)
+    for spectrum, index in groups.items():
+        found = design_bounds_many([chosen[i].system().property_sets(chosen[i].weight) for i in index],
+                                   weights[index], spectrum, "asce7")
+        for i, b in zip(index, found):
+            bounds[i] = b
+    out: dict = {"values": list(values)}
+    for case in ("lower", "nominal", "upper"):
+        out[case] = {key: np.array([getattr(b.results[case], key) for b in bounds])
+                     for key in ("displacement", "period", "damping", "base_shear")}
+    fixed_sa = np.array([float(c.spectrum().sa(c.fixed_base_period, 0.05)) for c in chosen])
+    out["shear_reduction"] = out["upper"]["base_shear"] / weights / fixed_sa
+    return out
 
 
 def summary_table(answer: ExplorerAnswer) -> Table:

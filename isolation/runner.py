@@ -42,7 +42,9 @@ from isolation.plain import plain
 from isolation.plan_study import bidirectional_summary, with_bidirectional
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
-                                   isolation_system, site_spectrum, superstructure, verdict_figures)
+                                   history_isolator, history_summary, isolation_system, site_spectrum,
+                                   superstructure,
+                                   verdict_figures)
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
@@ -147,56 +149,10 @@ def load_results(path: str | Path) -> StudyResults:
     return StudyResults.from_dict(json.loads(Path(path).read_text(encoding="utf-8")))
 
 
-def _history_isolator(backbone, result, system=None, case: str = "nominal"):
-    """Isolator law the history engine integrates for one property case.
-
-    A single group of friction pendulums whose friction depends on velocity
-    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
-    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
-    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
-    bilinear with the same K_eff and damping at the design displacement.
-    """
-    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
-    from isolation.bearings.damping_rubber import equivalent_bilinear
-
-    groups = getattr(system, "groups", ())
-    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
-        bearing = groups[0].bearing
-        if bearing.friction_slow != bearing.friction:
-            return bearing.with_friction_factor(system.factors.friction.factor(case))
-    if isinstance(backbone, (Bilinear, MultiLinear)):
-        return backbone
-    return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
+_history_isolator = history_isolator  # the earlier private name, kept importable
 
 
-def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
-    """Key response-history numbers: suite means of peaks (ASCE/SEI 7-16 §17.6.3.4 allows the
-    mean of 7 or more records, from memory)."""
-    def largest(case: str, name: str) -> float:
-        return float(np.max(stats[case][name]["mean"]))
-
-    fixed_acc = float(np.max(fixed["floor_acceleration"]["mean"]))
-    fixed_shear = float(np.max(fixed["base_shear"]["mean"]))
-    summary = {
-        "isolator_displacement_lower": largest("lower", "isolator_displacement"),
-        "isolator_displacement_upper": largest("upper", "isolator_displacement"),
-        "isolator_displacement_max_record": float(np.max(stats["lower"]["isolator_displacement"]["max"])),
-        "torsion_factor": torsion,
-        "floor_acceleration_fixed": fixed_acc,
-        "floor_acceleration_lower": largest("lower", "floor_acceleration"),
-        "floor_acceleration_upper": largest("upper", "floor_acceleration"),
-        "superstructure_shear_fixed": fixed_shear,
-        "superstructure_shear_upper": float(stats["upper"]["storey_shear"]["mean"][0]),
-        "isolation_shear_upper": largest("upper", "reaction"),  # isolator + damper force
-        "drift_ratio_fixed": float(np.max(fixed["drift_ratio"]["mean"])),
-        "drift_ratio_isolated": max(largest("lower", "drift_ratio"), largest("upper", "drift_ratio")),
-        "residual_displacement_lower": largest("lower", "residual_displacement"),
-    }
-    summary["floor_acceleration_ratio"] = max(summary["floor_acceleration_lower"],
-                                              summary["floor_acceleration_upper"]) / fixed_acc
-    summary["superstructure_shear_ratio"] = summary["superstructure_shear_upper"] / fixed_shear
-    summary["isolator_displacement_with_torsion"] = summary["isolator_displacement_lower"] * torsion
-    return summary
+_history_summary = history_summary  # the earlier private name, kept importable
 
 
 def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):

@@ -10,6 +10,7 @@ The building blocks of :func:`isolation.runner.run_study` (re-exported from
 * :func:`fixed_base_period` and :func:`superstructure` - the fixed-base
   period and the shear building above the isolators;
 * :func:`check_study` - checks of a valid study against its own models;
+* :func:`history_isolator` - the isolator law the history engine runs for one property set;
 * ``design_alternative`` - the code's single-mode report for all property sets, and
   ``verdict_figures`` - the numbers of :class:`isolation.verdict.Figures`.
 
@@ -27,7 +28,7 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
-           "design_alternative", "verdict_figures",
+           "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
 _FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
@@ -107,8 +108,12 @@ def superstructure(study: Study):
                                      damping=building.damping)
 
 
-def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
-    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons)."""
+def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, bounds=None):
+    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons).
+
+    ``bounds`` (a :class:`isolation.design.BoundsResult` of ``sets`` under ``spectrum`` with the
+    basis's damping rule) skips the equivalent-linear iteration (array sweeps compute it for many
+    alternatives at once)."""
     b = study.building
     if study.basis == "asce7":
         from isolation.design_asce7 import ElfBuilding, asce7_elf
@@ -126,7 +131,7 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
                           isolator_kind="sliding" if system.is_sliding else "other", fixed_base_period=t_fb,
                           frame=_FRAMES[b.lateral_system], importance=b.importance,
                           wind_base_shear=study.wind_base_shear or 0.0, s1=s1, site_class=study.site.site_class)
-        report = asce7_elf(sets, elf, spectrum)
+        report = asce7_elf(sets, elf, spectrum, bounds=bounds)
         names = {"displacement": "D_M", "total_displacement": "D_TM", "isolation_shear": "V_b",
                  "superstructure_shear": "V_s", "fixed_base_shear": "V_fb", "shear_ratio": "V_s/V_fb"}
         applicability = getattr(report, "applicability", None)
@@ -139,7 +144,7 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
     ec = EurocodeBuilding(weight=b.total_weight, superstructure_period=t_fb, plan_length=b.plan_length,
                           plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
                           behaviour_factor=b.response_modification)
-    report = eurocode_simplified(sets, ec, spectrum)
+    report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
     names = {"displacement": "d_dc", "total_displacement": "d_d", "isolation_shear": "V",
              "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
     quantities = {}
@@ -150,6 +155,87 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
             quantities[key] = None
     reasons = tuple(c.name for c in report.applicability if not c.passed)
     return report, quantities, report.simplified_permitted, reasons
+
+
+def history_isolator(backbone, result, system=None, case: str = "nominal"):
+    """Isolator law the history engine integrates for one property case.
+
+    A single group of friction pendulums whose friction depends on velocity
+    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
+    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
+    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
+    bilinear with the same K_eff and damping at the design displacement.
+
+    Parameters
+    ----------
+    backbone : backbone
+        Whole-plane backbone of the case (from ``IsolationSystem.property_sets``).
+    result : isolation.design.EquivalentLinearResult or None
+        The case's equivalent-linear result (D [m], K_eff [kN/m], beta_eff [-]); used
+        only for backbones that are neither bilinear nor multi-linear.
+    system : IsolationSystem, optional
+        The plane, to run a velocity-dependent friction pendulum as itself.
+    case : str
+        ``"lower"``, ``"nominal"`` or ``"upper"``.
+
+    """
+    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
+    from isolation.bearings.damping_rubber import equivalent_bilinear
+
+    groups = getattr(system, "groups", ())
+    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
+        bearing = groups[0].bearing
+        if bearing.friction_slow != bearing.friction:
+            return bearing.with_friction_factor(system.factors.friction.factor(case))
+    if isinstance(backbone, (Bilinear, MultiLinear)):
+        return backbone
+    return equivalent_bilinear(result.stiffness, result.damping, result.displacement, 10.0)
+
+
+def history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
+    """Key response-history numbers: suite means of peaks (ASCE/SEI 7-16 §17.6.3.4 allows the
+    mean of 7 or more records, from memory).
+
+    Parameters
+    ----------
+    stats : dict
+        ``{"lower": HistoryResult.statistics(), "upper": ...}`` of the isolated building.
+    fixed : dict
+        ``HistoryResult.statistics()`` of the same superstructure on a fixed base.
+    torsion : float
+        D_TM / D_M of the code report, applied to the lower-bound displacement. [-]
+
+    Returns
+    -------
+    dict
+        Displacements [m], floor accelerations [g], shears [kN], drift ratios [-] and the ratios
+        isolated / fixed base [-].
+    """
+    def largest(case: str, name: str) -> float:
+        return float(np.max(stats[case][name]["mean"]))
+
+    fixed_acc = float(np.max(fixed["floor_acceleration"]["mean"]))
+    fixed_shear = float(np.max(fixed["base_shear"]["mean"]))
+    summary = {
+        "isolator_displacement_lower": largest("lower", "isolator_displacement"),
+        "isolator_displacement_upper": largest("upper", "isolator_displacement"),
+        "isolator_displacement_max_record": float(np.max(stats["lower"]["isolator_displacement"]["max"])),
+        "torsion_factor": torsion,
+        "floor_acceleration_fixed": fixed_acc,
+        "floor_acceleration_lower": largest("lower", "floor_acceleration"),
+        "floor_acceleration_upper": largest("upper", "floor_acceleration"),
+        "superstructure_shear_fixed": fixed_shear,
+        "superstructure_shear_upper": float(stats["upper"]["storey_shear"]["mean"][0]),
+        "isolation_shear_upper": largest("upper", "reaction"),  # isolator + damper force
+        "drift_ratio_fixed": float(np.max(fixed["drift_ratio"]["mean"])),
+        "drift_ratio_isolated": max(largest("lower", "drift_ratio"), largest("upper", "drift_ratio")),
+        "residual_displacement_lower": largest("lower", "residual_displacement"),
+    }
+    summary["floor_acceleration_ratio"] = max(summary["floor_acceleration_lower"],
+                                              summary["floor_acceleration_upper"]) / fixed_acc
+    summary["superstructure_shear_ratio"] = summary["superstructure_shear_upper"] / fixed_shear
+    summary["isolator_displacement_with_torsion"] = summary["isolator_displacement_lower"] * torsion
+    return summary
 
 
 def check_study(study: Study) -> None:
@@ -181,7 +267,22 @@ def _check_time_step(study: Study, structure) -> None:
                          "its shortest fixed-base period)")
 
 
+_PLATEAUS: dict = {}  # spectrum -> plateau: sweeps judge thousands of alternatives on one site
+
+
 def _plateau(spectrum) -> float:
+    try:
+        return _PLATEAUS[spectrum]
+    except TypeError:  # an unhashable spectrum object: compute it each time
+        return _plateau_of(spectrum)
+    except KeyError:
+        if len(_PLATEAUS) > 64:
+            _PLATEAUS.clear()
+        value = _PLATEAUS[spectrum] = _plateau_of(spectrum)
+        return value
+
+
+def _plateau_of(spectrum) -> float:
     periods = np.linspace(0.1, 0.6, 26)
     low, high = spectrum.period_range
     periods = periods[(periods >= low) & (periods <= high)]

@@ -134,3 +134,23 @@ def test_build_explorer_recomputes_on_change(monkeypatch):
     box.controls["radius"].value = 0.5
     assert "Not computed" in box.message.value and "radius = 0.5" in box.message.value
     assert box.summary.value == after  # the last good answer stays
+
+
+@pytest.mark.parametrize("name, values", [("radius", [1.5, 2.5, 4.0]), ("friction", [0.03, 0.06, 0.09]),
+                                          ("sm1", [0.5, 0.75, 1.0])])
+def test_trade_off_curve_equals_the_explorer_at_each_value(name, values):
+    # The curve runs the array kernel (isolation.design_array); each point must be what the
+    # explorer's own scalar procedure gives for that setting.
+    curve = explore.trade_off(name=name, values=values)
+    for i, value in enumerate(values):
+        answer = explore.explore(**{name: value})
+        for case in ("lower", "nominal", "upper"):
+            assert curve[case]["displacement"][i] == pytest.approx(answer.results[case].displacement, rel=1e-9)
+            assert curve[case]["period"][i] == pytest.approx(answer.results[case].period, rel=1e-9)
+        assert curve["shear_reduction"][i] == pytest.approx(answer.shear_reduction, rel=1e-9)
+    # a longer radius softens the pendulum: longer lower-bound period (T = 2 pi sqrt(R/g) of the
+    # sliding branch, Zayas, Low & Mahin 1990)
+    if name == "radius":
+        assert np.all(np.diff(curve["lower"]["period"]) > 0)
+    with pytest.raises(ValueError, match="name"):
+        explore.trade_off(name="radious", values=values)

@@ -5,7 +5,8 @@
 * :mod:`isolation.batch.runners`: one variant's task, outcome and runners;
 * :mod:`isolation.batch.executors`: local processes, dask LocalCluster, dask scheduler;
 * :mod:`isolation.batch.execute`: the run loop: progress, resume, failures, Ctrl-C;
-* :mod:`isolation.batch.sweep`: the direct equivalent-linear sweep (no notebooks);
+* :mod:`isolation.batch.sweep`: the direct equivalent-linear sweep (no notebooks, array kernel);
+* :mod:`isolation.batch.histories`: history sweeps (response histories per variant, one suite);
 * :mod:`isolation.batch.summary`: ``summary.csv`` / ``summary.parquet``;
 * :mod:`isolation.batch.rows`: summary rows from study results;
 * :mod:`isolation.batch.maps`: design-space tables and figures;

@@ -11,7 +11,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from isolation.errors import InputError
+from isolation.errors import InputError, RunError
 
 __all__ = ["main", "build_parser"]
 
@@ -54,6 +54,15 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
         action="store_true",
         help="equivalent-linear sweep without notebooks or records (thousands of variants); same summary columns",
     )
+    parser.add_argument(
+        "--histories",
+        action="store_true",
+        help="with --direct: response histories of every variant (lower and upper bound, one suite of motions, "
+        "fixed base once), no notebooks; summary gains history columns for the design-space maps",
+    )
+    parser.add_argument("--motions", metavar="SUITE.json",
+                        help="with --histories: the suite to use (metadata file written by 'python -m isolation "
+                        "motions'); default: the base study's matched suite")
     parser.add_argument("--check", action="store_true", help="validate the batch and every variant, run nothing")
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
     return parser
@@ -84,6 +93,9 @@ def main(argv: list[str] | None = None) -> int:
     except OSError as error:  # e.g. a batch folder that cannot be written
         _say(f"error: {' '.join(str(error).split())}")
         return 2
+    except RunError as error:  # a valid batch whose shared step failed (e.g. the history sweep's motions)
+        _say(f"failed: {' '.join(str(error).split())}")
+        return 1
 
 
 def _run(args: argparse.Namespace) -> int:
@@ -92,25 +104,62 @@ def _run(args: argparse.Namespace) -> int:
     from isolation.batch.plan import load_batch
 
     plan = load_batch(args.batch_file)
+    if (args.histories or args.motions) and not args.direct:
+        raise InputError("--histories and --motions are not allowed without --direct: "
+                         "history sweeps run as a direct sweep (no notebooks)")
+    if args.motions and not args.histories:
+        raise InputError(f"--motions = {args.motions!r} is not allowed without --histories")
+    if args.motions and not Path(args.motions).is_file():
+        raise InputError(f"--motions = {args.motions!r} is not allowed: must be an existing suite metadata file")
     mode = "direct" if args.direct else "record"
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
+    if args.direct:  # key-by-key validation of bearing-property grids (same rules, same hashes)
+        from isolation.batch.sweep import validate_direct as validate
+    else:
+        def validate(plan, settings, executor=None):
+            return validate_plan(plan, settings=settings, executor=executor, model_checks=True)
     if args.check or len(plan.variants) < CHUNK_FROM:
-        hashes = validate_plan(plan, settings=settings, model_checks=not args.direct)
+        hashes = validate(plan, settings)
         if args.check:
             print(f"{plan.batch_file.name}: {len(plan.variants)} variants valid")
             return 0
         return _execute(args, plan, hashes, settings, executor, executor)
     with open_executor(executor, args.workers) as pool:  # large batches: validate on the workers too
-        hashes = validate_plan(plan, settings=settings, executor=pool, model_checks=not args.direct)
+        hashes = validate(plan, settings, executor=pool)
         return _execute(args, plan, hashes, settings, executor, pool)
+
+
+def _cores() -> int:
+    import os
+
+    return len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else (os.cpu_count() or 1)
+
+
+DIRECT_CHUNK = 500  # largest chunk of a direct sweep: the array kernel runs a chunk at once [variants]
+
+
+def _direct_chunk(count: int) -> int:
+    """Variants per task of a direct sweep: about 16 tasks, at most :data:`DIRECT_CHUNK`."""
+    return max(1, min(DIRECT_CHUNK, -(-count // 16)))
 
 
 def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
     from isolation.batch.execute import run_batch
 
     out_dir = Path(args.out) if args.out else DEFAULT_ROOT / plan.name
-    if args.direct:
+    chunk = _direct_chunk(len(plan.variants)) if args.direct else 1
+    if args.histories:
+        from isolation.batch.histories import history_chunk, history_runner, prepare_motions, with_motions
+
+        motions = prepare_motions(plan, out_dir, motions=args.motions, quick=bool(args.quick))
+        hashes = with_motions(hashes, motions)
+        settings = {**settings, "mode": "histories", "quick": bool(args.quick), "motions": motions["motions"],
+                    "motions_hash": motions["motions_hash"]}
+        workers = args.workers or _cores()
+        chunk = history_chunk(len(plan.variants), workers, motions["records"], motions["steps"])
+        runner = history_runner
+    elif args.direct:
         from isolation.batch.sweep import sweep_runner
 
         runner = sweep_runner
@@ -128,7 +177,7 @@ def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
         retry_failed=args.retry_failed,
         pdf=True if args.pdf else None,
         quick=settings["quick"],
-        chunk=None if args.direct else 1,
+        chunk=chunk,
         progress=not args.no_progress,
         settings={**settings, "executor": executor_name},
     )

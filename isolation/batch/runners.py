@@ -221,5 +221,21 @@ def guarded_call(runner: Callable[[VariantTask], VariantOutcome], task: VariantT
 
 
 def guarded_chunk(runner: Callable[[VariantTask], VariantOutcome], tasks: list) -> list:
-    """:func:`guarded_call` over several variants in one worker call (short variants)."""
+    """:func:`guarded_call` over several variants in one worker call (short variants).
+
+    A runner with a ``many`` attribute (``many(tasks) -> outcomes``, e.g. the
+    direct sweep's array path) runs the chunk at once; if that raises, each
+    variant runs alone.
+    """
+    many = getattr(runner, "many", None)
+    if many is not None and len(tasks) > 1 and not any(t.invocation in _INTERRUPTED for t in tasks if t.invocation):
+        try:
+            return list(many(tasks))
+        except KeyboardInterrupt:
+            invocation = next((t.invocation for t in tasks if t.invocation), "")
+            if invocation:
+                _INTERRUPTED.add(invocation)
+            return [VariantOutcome(t.variant_id, "interrupted", error="interrupted by the user") for t in tasks]
+        except Exception:  # noqa: BLE001 - each alone names its own failure
+            pass
     return [guarded_call(runner, task) for task in tasks]

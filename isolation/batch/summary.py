@@ -29,6 +29,13 @@ Columns (units in the name where there is one):
 ``record``                 record folder relative to the batch folder
 =========================  ====================================================
 
+A history sweep (``--direct --histories``) adds :data:`HISTORY_COLUMNS`
+before ``error``: suite means of the peak isolator displacement per bound
+and with torsion [m], of the peak floor acceleration (largest floor) on a
+fixed base and per bound [g], the floor-acceleration reduction
+``1 - a_isolated / a_fixed`` per bound [-] and the largest isolated storey
+drift ratio [-].
+
 Written as ``summary.csv`` (and ``summary.parquet`` when pyarrow can be
 imported), atomically: a reader never sees half a table.
 """
@@ -45,6 +52,7 @@ from isolation.files import write_bytes_atomic, write_text_atomic
 
 __all__ = [
     "RESULT_COLUMNS",
+    "HISTORY_COLUMNS",
     "COLUMN_UNITS",
     "summary_columns",
     "write_summary",
@@ -70,6 +78,17 @@ RESULT_COLUMNS = (
     "moat_m",
 )
 TAIL_COLUMNS = ("error", "record")
+HISTORY_COLUMNS = (
+    "history_displacement_lower_m",
+    "history_displacement_upper_m",
+    "history_displacement_torsion_m",
+    "floor_acceleration_fixed_g",
+    "floor_acceleration_lower_g",
+    "floor_acceleration_upper_g",
+    "floor_acceleration_reduction_lower",
+    "floor_acceleration_reduction_upper",
+    "drift_ratio_isolated",
+)
 
 COLUMN_UNITS = {
     "D_M_lower_m": "m",
@@ -85,13 +104,23 @@ COLUMN_UNITS = {
     "floor_acceleration_ratio": "-",
     "displacement_capacity_m": "m",
     "moat_m": "m",
+    "history_displacement_lower_m": "m",
+    "history_displacement_upper_m": "m",
+    "history_displacement_torsion_m": "m",
+    "floor_acceleration_fixed_g": "g",
+    "floor_acceleration_lower_g": "g",
+    "floor_acceleration_upper_g": "g",
+    "floor_acceleration_reduction_lower": "-",
+    "floor_acceleration_reduction_upper": "-",
+    "drift_ratio_isolated": "-",
 }
 TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "error", "record")
 
 
-def summary_columns(override_keys: Iterable[str]) -> list[str]:
-    """All summary columns in order for a batch varying ``override_keys``."""
-    return ["variant", "status", *override_keys, *RESULT_COLUMNS, *TAIL_COLUMNS]
+def summary_columns(override_keys: Iterable[str], histories: bool = False) -> list[str]:
+    """All summary columns in order for a batch varying ``override_keys`` (``histories``: a history sweep's)."""
+    return ["variant", "status", *override_keys, *RESULT_COLUMNS, *(HISTORY_COLUMNS if histories else ()),
+            *TAIL_COLUMNS]
 
 
 def _cell(value: Any) -> Any:
@@ -111,7 +140,8 @@ def write_summary(rows: list[Mapping], out_dir: Path, override_keys: Iterable[st
     ----------
     rows : list of mapping
         One mapping per variant and alternative, keyed by column name;
-        missing columns are left empty.
+        missing columns are left empty; :data:`HISTORY_COLUMNS` are written
+        when any row has them.
     out_dir : Path
         The batch folder.
     override_keys : iterable of str
@@ -123,7 +153,9 @@ def write_summary(rows: list[Mapping], out_dir: Path, override_keys: Iterable[st
         The files written.
     """
     out_dir = Path(out_dir)
-    columns = summary_columns(override_keys)
+    rows = list(rows)
+    histories = any(row.get(HISTORY_COLUMNS[0]) is not None for row in rows)
+    columns = summary_columns(override_keys, histories)
     buffer = io.StringIO()
     writer = csv.DictWriter(buffer, fieldnames=columns, extrasaction="ignore", lineterminator="\n")
     writer.writeheader()
