@@ -121,6 +121,8 @@ class ExplorerSettings:
         ASCE 7: MCE_R spectral accelerations S_MS and S_M1, > 0. [g]
     long_period : float
         ASCE 7: long-period transition T_L. [s]
+    s1 : float
+        ASCE 7: mapped S_1, for the limits of the ELF procedure (§17.4.1), >= 0. [g]
     site_class : str
         ASCE 7: site class "A"-"F". [-]
     ag : float
@@ -166,6 +168,7 @@ class ExplorerSettings:
     sms: float = 1.5
     sm1: float = 0.75
     long_period: float = 8.0
+    s1: float = 0.5
     site_class: str = "D"
     ag: float = 0.3
     ground_type: str = "B"
@@ -194,7 +197,7 @@ class ExplorerSettings:
         for name in ("friction", "friction_1", "friction_2"):
             validate.in_range(name, getattr(self, name), 0.0, 0.3, "-", low_inclusive=False)
         for name in ("radius", "radius_1", "radius_2", "outer_diameter", "lead_diameter", "layer_thickness",
-                     "shear_modulus", "displacement_capacity", "sms", "sm1", "long_period", "ag",
+                     "shear_modulus", "displacement_capacity", "sms", "sm1", "s1", "long_period", "ag",
                      "storey_height", "plan_length", "plan_width"):
             validate.positive(name, getattr(self, name), _unit(name))
         validate.non_negative("eccentricity", self.eccentricity, "m")
@@ -559,7 +562,7 @@ class TradeOff:
     parameter : str
         The swept setting (see :data:`TRADE_OFF_PARAMETERS`).
     values : ndarray
-        Its values. [SI unit of the setting]
+        Its values, increasing, the current one among them. [SI unit of the setting]
     total_displacement : ndarray
         D_TM at each value (NaN where no answer). [m]
     base_shear_coefficient : ndarray
@@ -588,7 +591,7 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
     parameter : str, optional
         One of ``TRADE_OFF_PARAMETERS[settings.bearing_type]``; default the first.
     count : int
-        Number of values, >= 2. [-]
+        Number of values spread over the range, >= 2; the current value is added. [-]
     """
     from isolation.errors import RunError
 
@@ -599,7 +602,11 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
         raise ValueError(f"count = {count!r} is not allowed: must be a whole number >= 2")
     key = f"{parameter}_1" if settings.bearing_type == "double concave" and parameter != "layers" else parameter
     control = _CONTROL[key]
-    values = np.linspace(control.low, control.high, int(count))
+    high = control.high
+    if parameter == "lead_diameter":  # a core wider than half the bearing is not made (common practice)
+        high = min(high, 0.5 * settings.outer_diameter)
+    current = float(getattr(settings, key))
+    values = np.unique(np.append(np.linspace(control.low, high, int(count)), current))
     if control.integer:
         values = np.unique(np.round(values))
     displacement = np.full(values.shape, np.nan)

@@ -120,6 +120,7 @@ def test_trade_off_more_friction_less_displacement():
     # Kelly 1999, Ch. 4; the trend of V/W = D/R + mu at fixed R).
     curve = explore.trade_off(explore.ExplorerSettings(), "friction", count=5)
     assert curve.values[0] == pytest.approx(0.02) and curve.values[-1] == pytest.approx(0.15)
+    assert 0.06 in curve.values  # the current value is on the curve
     assert np.all(np.diff(curve.total_displacement) < 0)
     middle = explore.explore(friction=float(curve.values[2]))
     assert curve.total_displacement[2] == middle.quantities["total_displacement"]
@@ -203,19 +204,31 @@ def test_build_explorer_recomputes_on_change():
     moved = explore.explore(friction=0.045, radius=4.0)
     assert _cells(box.summary.value)["lower-D"] == moved.results["lower"].displacement
     # Plots are updated in place: the marks hold the new answer.
-    assert float(box.spectrum_marks["point-upper"].x[0]) == moved.results["upper"].period
+    assert float(box.spectrum_marks["points"].x[2]) == moved.results["upper"].period  # lower, nominal, upper, fixed
     assert box.message.value == ""
 
 
 def test_build_explorer_shows_only_the_chosen_types_controls():
+    from isolation.explorer.controls import CONTROLS, visible
+
     box = explore.build_explorer()
     rows = box.explorer.rows
-    assert rows["radius"].layout.display == "flex" and rows["lead_diameter"].layout.display == "none"
-    box.bearing.value = "lead rubber"
-    assert rows["radius"].layout.display == "none" and rows["lead_diameter"].layout.display == "flex"
-    assert rows["sms"].layout.display == "flex" and rows["ag"].layout.display == "none"
+
+    def shown(field):  # the page's CSS shows a typed row only under the root class of its type/basis
+        classes, root = rows[field]._dom_classes, box._dom_classes
+        typed = [c[len("iso-for-"):] for c in classes if c.startswith("iso-for-")]
+        based = [c[len("iso-on-"):] for c in classes if c.startswith("iso-on-")]
+        return ((not typed or any(f"iso-bearing-{t}" in root for t in typed))
+                and (not based or any(f"iso-basis-{b}" in root for b in based)))
+
+    for kind, basis in (("friction pendulum", "asce7"), ("lead rubber", "asce7"), ("lead rubber", "eurocode"),
+                        ("double concave", "eurocode"), ("high-damping rubber", "asce7")):
+        box.bearing.value, box.basis.value = kind, basis
+        for control in CONTROLS:
+            assert shown(control.field) == visible(control, kind, basis), (control.field, kind, basis)
+    assert shown("site_class") and not shown("ground_type")  # ASCE 7 last
+    assert "d_d, isolator design displacement" not in box.quantities.value  # ASCE 7 again
     box.basis.value = "eurocode"
-    assert rows["sms"].layout.display == "none" and rows["ag"].layout.display == "flex"
     assert "d_d, isolator design displacement" in box.quantities.value
 
 

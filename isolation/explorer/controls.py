@@ -89,6 +89,7 @@ CONTROLS: tuple[Control, ...] = (
     Control("displacement_capacity", "Displacement capacity", "length", 0.1, 1.5, 0.01, "Bearing"),
     Control("sms", "S_MS", "g", 0.2, 3.0, 0.01, "Site", basis="asce7"),
     Control("sm1", "S_M1", "g", 0.1, 2.0, 0.01, "Site", basis="asce7"),
+    Control("s1", "Mapped S_1 (ELF limits)", "g", 0.05, 1.5, 0.01, "Site", basis="asce7"),
     Control("long_period", "Long-period transition T_L", "time", 2.0, 16.0, 0.5, "Site", basis="asce7"),
     Control("ag", "Ground acceleration a_g", "g", 0.05, 0.6, 0.01, "Site", basis="eurocode"),
     Control("fixed_base_period", "Fixed-base period T_fb", "time", 0.1, 2.5, 0.01, "Building"),

@@ -19,11 +19,15 @@ from typing import Any
 import numpy as np
 
 from isolation import explore as ex
-from isolation.explorer.controls import (BEARING_TYPES, CHOICES, CONTROLS, GROUPS, from_display, to_display,
-                                         unit_factor, unit_name, visible)
+from isolation.explorer.controls import (BASES, BEARING_TYPES, CHOICES, CONTROLS, GROUPS, from_display, to_display,
+                                         unit_factor, unit_name)
 from isolation.plots import COLOURS
 
 __all__ = ["build"]
+
+def _slug(text: str) -> str:
+    return text.replace(" ", "-")
+
 
 _CSS = """
 <style>
@@ -40,6 +44,11 @@ _CSS = """
 .isolation-explorer .iso-caption { font-size: 12px; color: #333; margin: 0 0 8px 0; }
 .isolation-explorer.iso-busy .iso-results { opacity: 0.55; }
 .isolation-explorer.iso-busy { cursor: progress; }
+.isolation-explorer .iso-typed, .isolation-explorer .iso-based { display: none !important; }
+""" + "".join(
+    f".isolation-explorer.iso-bearing-{_slug(t)} .iso-for-{_slug(t)} {{ display: flex !important; }}\n"
+    for t in BEARING_TYPES) + "".join(
+    f".isolation-explorer.iso-basis-{b} .iso-on-{b} {{ display: flex !important; }}\n" for b in BASES) + """
 </style>
 """
 
@@ -47,8 +56,9 @@ _CAPTIONS = {
     "spectrum": ("Figure 1. Site spectrum at 5 % damping (black) and at each property set's effective damping "
                  "(dashed, lower blue, nominal grey, upper red); squares mark the isolated periods on their own "
                  "damped curve, the circle the fixed-base building; hollow grey marks a pinned alternative."),
-    "loops": ("Figure 2. Force-displacement loops of the whole isolation plane at D for each property set; the "
-              "black vertical line is D_TM (with torsion), the red one the bearing's displacement capacity."),
+    "loops": ("Figure 2. Force-displacement loops of the whole isolation plane at D for each property set "
+              "(lower bound blue, nominal grey, upper bound red); the black vertical line is D_TM (with "
+              "torsion), the red one the bearing's displacement capacity."),
     "trade": ("Figure 3. Trade-off: D_TM against the upper-bound base-shear coefficient V_b/W while the chosen "
               "parameter runs over its slider range (labels give its value); the black dot is the current "
               "alternative, the grey one the pinned alternative."),
@@ -126,6 +136,12 @@ class _Explorer:
             unit = w.HTML(unit_name(c.kind, settings.units), layout=w.Layout(width="40px"))
             row = w.HBox([label, slider, entry, unit], layout=w.Layout(align_items="center"))
             row.add_class(f"iso-row-{c.field}")
+            for kind in c.types:
+                row.add_class("iso-typed")
+                row.add_class(f"iso-for-{_slug(kind)}")
+            if c.basis:
+                row.add_class("iso-based")
+                row.add_class(f"iso-on-{c.basis}")
             self.entries[c.field], self.sliders[c.field], self.unit_labels[c.field] = entry, slider, unit
             self.rows[c.field] = row
             slider.observe(lambda change, c=c: self._slid(c, change["new"]), names="value")
@@ -135,6 +151,9 @@ class _Explorer:
             choice = w.Dropdown(options=list(options), value=getattr(settings, name), layout=w.Layout(width="95px"))
             label = w.HTML(f'<span class="iso-label">{html.escape(text)}</span>', layout=w.Layout(width="170px"))
             row = w.HBox([label, w.HTML("", layout=w.Layout(width="150px")), choice])
+            row.add_class(f"iso-row-{name}")
+            row.add_class("iso-based")
+            row.add_class(f"iso-on-{basis}")
             self.entries[name], self.rows[name] = choice, row
             choice.observe(lambda change, name=name: self._set(**{name: change["new"]}), names="value")
             groups["Site"].append(row)
@@ -153,20 +172,26 @@ class _Explorer:
         self.export_link = w.HTML()
 
         f1, sx1, sy1 = _figure("Period T [s]", "Sa [g]", "Spectrum and isolated periods")
-        self.spectrum_marks = {"sa5": _lines(bq, sx1, sy1, "black", "5 %", width=2.0)}
-        for case in ex.CASES:
-            self.spectrum_marks[f"damped-{case}"] = _lines(bq, sx1, sy1, COLOURS[case], style="dashed", width=1.0)
-        for case in ex.CASES:
-            self.spectrum_marks[f"point-{case}"] = _points(bq, sx1, sy1, COLOURS[case], label=case)
-        self.spectrum_marks["fixed"] = _points(bq, sx1, sy1, COLOURS["fixed"], marker="circle", label="fixed base")
-        self.spectrum_marks["pinned"] = _points(bq, sx1, sy1, "#9a9a9a", fill=False)
+        # Few marks, each holding several lines or points: one message per mark and change.
+        colours = [COLOURS[case] for case in ex.CASES]
+        self.spectrum_marks = {
+            "sa5": _lines(bq, sx1, sy1, "black", width=2.0),
+            "damped": bq.Lines(x=[0.0, 1.0], y=[[0.0, 0.0]] * 3, scales={"x": sx1, "y": sy1}, colors=colours,
+                               line_style="dashed", stroke_width=1.0),
+            "points": bq.Scatter(x=[0.0] * 4, y=[0.0] * 4, scales={"x": sx1, "y": sy1},
+                                 colors=colours + [COLOURS["fixed"]], marker="square", default_size=70),
+            "pinned": _points(bq, sx1, sy1, "#9a9a9a", fill=False),
+        }
         self.spectrum_marks["pinned"].visible = False
         f1.marks = list(self.spectrum_marks.values())
 
         f2, sx2, sy2 = _figure("Displacement", "Force", "Isolation plane at D")
-        self.loop_marks = {case: _lines(bq, sx2, sy2, COLOURS[case]) for case in ex.CASES}
-        self.loop_marks["dtm"] = _lines(bq, sx2, sy2, "black", width=1.0)
-        self.loop_marks["capacity"] = _lines(bq, sx2, sy2, "#d00000", style="dash_dotted", width=1.0)
+        self.loop_marks = {
+            "loops": bq.Lines(x=[[0.0, 1.0]] * 3, y=[[0.0, 0.0]] * 3, scales={"x": sx2, "y": sy2}, colors=colours,
+                              stroke_width=1.5),
+            "limits": bq.Lines(x=[[0.0, 0.0]] * 2, y=[[0.0, 1.0]] * 2, scales={"x": sx2, "y": sy2},
+                               colors=["black", "#d00000"], stroke_width=1.0),
+        }
         f2.marks = list(self.loop_marks.values())
         self.loop_axes = f2.axes
 
@@ -214,6 +239,7 @@ class _Explorer:
         self.root = w.VBox([header, bar, w.HBox([self.controls_box, results],
                                                  layout=w.Layout(flex_flow="row wrap", align_items="flex-start"))])
         self.root.add_class("isolation-explorer")
+        self.root.add_class("iso-bearing-none")
         self._show_controls()
         self._sweep_options()
         self._refresh()
@@ -277,11 +303,13 @@ class _Explorer:
         self._refresh()
 
     def _show_controls(self) -> None:
+        """Only the chosen bearing type's and code basis's rows show: one class on the root, CSS does the rest."""
         s = self.settings
-        for c in CONTROLS:
-            self.rows[c.field].layout.display = "flex" if visible(c, s.bearing_type, s.basis) else "none"
-        for name, (_, _, basis) in CHOICES.items():
-            self.rows[name].layout.display = "flex" if basis == s.basis else "none"
+        for name in list(self.root._dom_classes):
+            if name.startswith(("iso-bearing-", "iso-basis-")):
+                self.root.remove_class(name)
+        self.root.add_class(f"iso-bearing-{_slug(s.bearing_type)}")
+        self.root.add_class(f"iso-basis-{s.basis}")
 
     def _sweep_options(self) -> None:
         options = ex.TRADE_OFF_PARAMETERS[self.settings.bearing_type]
@@ -324,23 +352,23 @@ class _Explorer:
         m = self.spectrum_marks
         with m["sa5"].hold_sync():
             m["sa5"].x, m["sa5"].y = series["periods"], series["sa_5"]
-        for case in ex.CASES:
-            line, point = m[f"damped-{case}"], m[f"point-{case}"]
-            with line.hold_sync():
-                line.x, line.y = series["periods"], series["damped"][case]
-            with point.hold_sync():
-                point.x, point.y = [series["point"][case][0]], [series["point"][case][1]]
-        with m["fixed"].hold_sync():
-            m["fixed"].x, m["fixed"].y = [series["fixed"][0]], [series["fixed"][1]]
-        forces = np.concatenate([series["loop"][c][1] for c in ex.CASES])
-        top = float(np.max(np.abs(forces))) * 1.05 or 1.0
-        for case in ex.CASES:
-            line = self.loop_marks[case]
-            with line.hold_sync():
-                line.x, line.y = series["loop"][case]
-        for key, x in (("dtm", series["total_displacement"]), ("capacity", series["capacity"])):
-            with self.loop_marks[key].hold_sync():
-                self.loop_marks[key].x, self.loop_marks[key].y = [x, x], [-top, top]
+        with m["damped"].hold_sync():
+            m["damped"].x = series["periods"]
+            m["damped"].y = np.vstack([series["damped"][case] for case in ex.CASES])
+        with m["points"].hold_sync():
+            m["points"].x = [series["point"][case][0] for case in ex.CASES] + [series["fixed"][0]]
+            m["points"].y = [series["point"][case][1] for case in ex.CASES] + [series["fixed"][1]]
+        loops = [series["loop"][case] for case in ex.CASES]
+        size = max(len(x) for x, _ in loops)
+        pad = lambda a: np.concatenate([a, np.full(size - len(a), a[-1])])  # noqa: E731 - equal lengths
+        top = float(max(np.max(np.abs(f)) for _, f in loops)) * 1.05 or 1.0
+        with self.loop_marks["loops"].hold_sync():
+            self.loop_marks["loops"].x = np.vstack([pad(np.asarray(x)) for x, _ in loops])
+            self.loop_marks["loops"].y = np.vstack([pad(np.asarray(f)) for _, f in loops])
+        d_tm, capacity = series["total_displacement"], series["capacity"]
+        with self.loop_marks["limits"].hold_sync():
+            self.loop_marks["limits"].x = [[d_tm, d_tm], [capacity, capacity]]
+            self.loop_marks["limits"].y = [[-top, top], [-top, top]]
         self.loop_axes[0].label = f"Displacement [{series['length']}]"
         self.loop_axes[1].label = f"Force [{series['force']}]"
         self.trade_axes[0].label = f"D_TM [{series['length']}]"

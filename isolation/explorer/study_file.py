@@ -41,7 +41,7 @@ STUDY_FIELDS = {  # study key path -> explorer field, for messages
     "building.storeys": "storeys", "building.plan_length": "plan_length", "building.plan_width": "plan_width",
     "building.eccentricity": "eccentricity", "building.fixed_base_period": "fixed_base_period",
     "building.response_modification": "response_modification", "building.storey_heights": "storey_height",
-    "site.sms": "sms", "site.sm1": "sm1", "site.long_period": "long_period", "site.ag": "ag",
+    "site.sms": "sms", "site.sm1": "sm1", "site.s1": "s1", "site.long_period": "long_period", "site.ag": "ag",
     "alternative[0].property_factors.lower": "lower_factor",
     "alternative[0].property_factors.upper": "upper_factor",
     "alternative[0].bearings[0].count": "bearing_count",
@@ -79,7 +79,7 @@ def study_mapping(settings, *, system: str | None = None, time_step: float | Non
     site: dict[str, Any]
     if s.basis == "asce7":
         site = {"sms": float(s.sms), "sm1": float(s.sm1), "long_period": q(s.long_period, "time"),
-                "site_class": s.site_class}
+                "s1": float(s.s1), "site_class": s.site_class}
     else:
         site = {"ag": float(s.ag), "ground_type": s.ground_type}
     bearing: dict[str, Any] = {"type": STUDY_TYPES[s.bearing_type], "count": int(s.bearing_count)}
