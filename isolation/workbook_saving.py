@@ -1,0 +1,79 @@
+"""Keep the repository's workbooks free of outputs when JupyterLab saves them.
+
+A Jupyter server extension (enabled by ``etc/jupyter/jupyter_server_config.d/isolation.json``,
+which ``pip install`` puts into the environment): before JupyterLab writes a
+notebook that lies in the package's ``workbooks/`` folder, :func:`strip_outputs`
+empties its code cells' outputs and execution counts. Opening, running and
+autosaving a workbook therefore never writes results into the tracked file;
+results go where the workbook's parameters say (``records/`` by default).
+Executed copies elsewhere (calculation records, papermill output) keep their outputs.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+__all__ = ["is_workbook", "strip_outputs", "pre_save"]
+
+
+def is_workbook(path: str | Path) -> bool:
+    """Whether ``path`` is a notebook in the repository's ``workbooks/`` folder (beside ``isolation/``)."""
+    path = Path(path).resolve()
+    return (path.suffix == ".ipynb" and path.parent.name == "workbooks"
+            and (path.parent.parent / "isolation" / "__init__.py").is_file())
+
+
+def strip_outputs(notebook: dict) -> dict:
+    """Empty every code cell's outputs and execution count, in place; returns the notebook."""
+    for cell in notebook.get("cells", []):
+        if cell.get("cell_type") == "code":
+            cell["outputs"] = []
+            cell["execution_count"] = None
+    return notebook
+
+
+def pre_save(model: dict, path: str, contents_manager, **_) -> None:
+    """Jupyter pre-save hook: strip the outputs of a repository workbook before it is written."""
+    if model.get("type") != "notebook" or not isinstance(model.get("content"), dict):
+        return
+    root = Path(getattr(contents_manager, "root_dir", "") or ".")
+    if is_workbook(root / path.lstrip("/")):
+        strip_outputs(model["content"])
+
+
+def _jupyter_server_extension_points():
+    return [{"module": "isolation.workbook_saving"}]
+
+
+def _load_jupyter_server_extension(server_app) -> None:
+    server_app.contents_manager.register_pre_save_hook(pre_save)
+    server_app.log.info("isolation: outputs of workbooks/*.ipynb are not saved into the repository")
+
+
+CONFIG = {"ServerApp": {"jpserver_extensions": {"isolation.workbook_saving": True}}}
+"""The server configuration that enables this extension."""
+
+
+def install(prefix: str | Path | None = None) -> Path:
+    """Enable the extension in an environment: write ``PREFIX/etc/jupyter/jupyter_server_config.d/isolation.json``.
+
+    ``pip install .`` ships the same file; an editable install (``pip install -e``, as ``make`` does)
+    does not, so ``make`` calls this. Returns the file written.
+
+    Parameters
+    ----------
+    prefix : str or Path, optional
+        Environment prefix; default ``sys.prefix``.
+    """
+    import json
+    import sys
+
+    from isolation.files import write_text_atomic
+
+    folder = Path(prefix or sys.prefix) / "etc" / "jupyter" / "jupyter_server_config.d"
+    folder.mkdir(parents=True, exist_ok=True)
+    return write_text_atomic(folder / "isolation.json", json.dumps(CONFIG, indent=2) + "\n")
+
+
+if __name__ == "__main__":
+    print(f"enabled: {install()}")
