@@ -20,7 +20,7 @@ Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 motion suite), :mod:`~isolation.plots.history` (response histories).
 """
 
-from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
+from isolation.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned
 from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
                                     suite_figure, suite_match)
 from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
@@ -30,6 +30,7 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
 
 __all__ = [
     "COLOURS",
+    "SERIES_COLOURS",
     "WIDTH",
     "AxisUnit",
     "axis_unit",
