@@ -235,7 +235,10 @@ def test_build_explorer_shows_only_the_chosen_types_controls():
 def test_build_explorer_units_pin_export_and_bad_input():
     box = explore.build_explorer()
     box.units.value = "US"
-    assert box.controls["radius"].value == pytest.approx(3.0 / 0.0254)  # 1 in = 25.4 mm (NIST SP 811)
+    # 1 in = 25.4 mm (NIST SP 811); entries show 6 significant digits after a switch, and use them.
+    assert box.controls["radius"].value == pytest.approx(3.0 / 0.0254, rel=1e-5)
+    assert box.explorer.settings.radius == pytest.approx(box.controls["radius"].value * 0.0254, rel=1e-12)
+    assert box.controls["plan_length"].value == pytest.approx(40.0 / 0.0254, rel=1e-5)
     assert "D [in]" in box.summary.value
     box.pin.click()
     box.controls["friction"].value = 0.09

@@ -58,7 +58,7 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
     require_browser()
     from playwright.sync_api import sync_playwright
 
-    from isolation.explorer.browser import ExplorerServer, launch, open_explorer, screenshot
+    from isolation.explorer.browser import ExplorerServer, launch, open_explorer, screenshot, values
 
     shots = ARTEFACTS / "explorer"
     with ExplorerServer() as server, sync_playwright() as playwright:
@@ -131,5 +131,21 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
             assert done.returncode == 0, done.stderr
             page.set_viewport_size({"width": 1280, "height": 2600})
             screenshot(page, shots, "03-warning-and-export")
+
+            # US units: every entry converts (none clamped to a slider end), the answer stays.
+            page.get_by_role("button", name="US", exact=True).click()
+            page.wait_for_function("() => document.querySelector('.iso-summary').innerText.includes('D [in]')",
+                                   timeout=60_000)
+            page.wait_for_timeout(1500)
+            # 40 m = 1574.80 in and 4 m = 157.480 in (1 in = 25.4 mm exactly, NIST SP 811), 6 digits shown.
+            assert float(page.locator(".iso-entry-plan_length input").input_value()) == pytest.approx(1574.80, abs=0.01)
+            assert float(page.locator(".iso-entry-storey_height input").input_value()) == pytest.approx(157.480,
+                                                                                                     abs=0.001)
+            assert float(page.locator(".iso-entry-outer_diameter input").input_value()) == pytest.approx(15.748,
+                                                                                                      abs=0.001)
+            expected = explore.explore(bearing_type="lead rubber", lead_diameter=0.35, outer_diameter=0.4, layers=21)
+            shown = values(page)
+            assert shown["total_displacement"] == pytest.approx(expected.quantities["total_displacement"], rel=1e-4)
+            screenshot(page, shots, "04-us-units")
         finally:
             browser.close()

@@ -285,19 +285,25 @@ class _Explorer:
         self._refresh()
 
     def _switch_units(self, system: str) -> None:
+        """Show every control in the other unit system; values rounded to 6 digits become the settings."""
         self.suspend = True
         try:
-            self.settings = replace(self.settings, units=system)
+            values = {"units": system}
             for c in CONTROLS:
                 entry, slider = self.entries[c.field], self.sliders[c.field]
-                value = to_display(getattr(self.settings, c.field), c.kind, system)
+                shown = to_display(getattr(self.settings, c.field), c.kind, system)
+                if not c.integer:
+                    shown = float(f"{shown:.6g}")
+                    values[c.field] = from_display(shown, c.kind, system)
                 low, high, step = self._range(c, system)
-                with slider.hold_trait_notifications():
+                # One message with range and value, so that the browser never clamps a stale value.
+                with slider.hold_sync(), slider.hold_trait_notifications():
                     slider.min, slider.max = (min(low, slider.min), max(high, slider.max))
+                    slider.value = min(max(shown, low), high)
                     slider.min, slider.max, slider.step = low, high, step
-                    slider.value = min(max(value, low), high)
-                entry.value = value
+                entry.value = shown
                 self.unit_labels[c.field].value = unit_name(c.kind, system)
+            self.settings = replace(self.settings, **values)
         finally:
             self.suspend = False
         self._refresh()
