@@ -24,11 +24,25 @@ def is_workbook(path: str | Path) -> bool:
 
 
 def strip_outputs(notebook: dict) -> dict:
-    """Empty every code cell's outputs and execution count, in place; returns the notebook."""
+    """Remove what running a notebook leaves in it, in place; returns the notebook.
+
+    Code cells lose their outputs, execution counts and execution timings; the
+    notebook loses saved widget state and keeps only the name of its language
+    (JupyterLab would add the interpreter's version), so that running and
+    saving a workbook leaves the tracked file as it was.
+    """
     for cell in notebook.get("cells", []):
         if cell.get("cell_type") == "code":
             cell["outputs"] = []
             cell["execution_count"] = None
+        if isinstance(cell.get("metadata"), dict):
+            cell["metadata"].pop("execution", None)
+    metadata = notebook.get("metadata")
+    if isinstance(metadata, dict):
+        metadata.pop("widgets", None)
+        language = metadata.get("language_info")
+        if isinstance(language, dict) and "name" in language:
+            metadata["language_info"] = {"name": language["name"]}
     return notebook
 
 
@@ -37,8 +51,24 @@ def pre_save(model: dict, path: str, contents_manager, **_) -> None:
     if model.get("type") != "notebook" or not isinstance(model.get("content"), dict):
         return
     root = Path(getattr(contents_manager, "root_dir", "") or ".")
-    if is_workbook(root / path.lstrip("/")):
+    target = root / path.lstrip("/")
+    if is_workbook(target):
         strip_outputs(model["content"])
+        _keep_kernel_metadata(model["content"], target)
+
+
+def _keep_kernel_metadata(notebook: dict, target: Path) -> None:
+    """Keep the kernelspec and language_info of the file on disk (JupyterLab rewrites their names)."""
+    import json
+
+    try:
+        before = json.loads(target.read_text(encoding="utf-8")).get("metadata", {})
+    except (OSError, ValueError, AttributeError):
+        return
+    metadata = notebook.setdefault("metadata", {})
+    for key in ("kernelspec", "language_info"):
+        if key in before:
+            metadata[key] = before[key]
 
 
 def _jupyter_server_extension_points():

@@ -149,3 +149,73 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
             screenshot(page, shots, "04-us-units")
         finally:
             browser.close()
+
+
+def test_explore_workbook_in_jupyterlab_fits_and_saves_no_outputs(tmp_path):
+    """Open the workbook in JupyterLab (file browser open, 1366 px), run it, save it: the explorer's
+    entries and answers stay on screen, and the file on disk is byte for byte what it was."""
+    require_browser()
+    import shutil
+    import socket
+    import time
+    from pathlib import Path
+
+    from playwright.sync_api import sync_playwright
+
+    from isolation.explorer.app import free_port
+    from isolation.explorer.browser import launch, screenshot
+
+    source = Path(__file__).resolve().parent.parent / "workbooks" / "explore.ipynb"
+    (tmp_path / "isolation").mkdir()
+    (tmp_path / "isolation" / "__init__.py").write_text("")  # the layout of the repository
+    (tmp_path / "workbooks").mkdir()
+    workbook = tmp_path / "workbooks" / "explore.ipynb"
+    shutil.copyfile(source, workbook)
+    before = workbook.read_bytes()
+    stamp = workbook.stat().st_mtime_ns
+    port = free_port()
+    server = subprocess.Popen(
+        [sys.executable, "-m", "jupyter", "lab", "--no-browser", f"--port={port}", "--ServerApp.ip=127.0.0.1",
+         "--IdentityProvider.token=", "--ServerApp.password=", f"--ServerApp.root_dir={tmp_path}",
+         "--LabApp.expose_app_in_browser=True", "--allow-root"],
+        stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    try:
+        deadline = time.monotonic() + 120
+        while time.monotonic() < deadline:
+            try:
+                socket.create_connection(("127.0.0.1", port), timeout=1).close()
+                break
+            except OSError:
+                time.sleep(0.5)
+        with sync_playwright() as playwright:
+            browser = launch(playwright)
+            try:
+                page = browser.new_page(viewport={"width": 1366, "height": 900})
+                page.goto(f"http://127.0.0.1:{port}/lab/tree/workbooks/explore.ipynb", timeout=180_000)
+                page.wait_for_function("() => window.jupyterapp && document.querySelector('.jp-Notebook')",
+                                       timeout=180_000)
+                page.wait_for_timeout(3000)
+                page.evaluate("() => window.jupyterapp.commands.execute('notebook:run-all-cells')")
+                page.wait_for_selector(".isolation-explorer .iso-quantities td[data-key]", timeout=180_000)
+                page.wait_for_timeout(1500)
+                _assert_core(page, explore.explore())
+                panel = page.locator(".jp-NotebookPanel").bounding_box()
+                for selector in (".iso-entry-friction input", ".iso-quantities", ".iso-summary"):
+                    element = page.locator(selector)
+                    element.scroll_into_view_if_needed()
+                    box = element.bounding_box()
+                    assert box["x"] >= panel["x"] and box["x"] + box["width"] <= panel["x"] + panel["width"], selector
+                page.locator(".isolation-explorer").scroll_into_view_if_needed()
+                screenshot(page, ARTEFACTS / "explorer", "05-jupyterlab-1366")
+                page.evaluate("() => window.jupyterapp.commands.execute('docmanager:save')")
+                page.wait_for_timeout(3000)
+            finally:
+                browser.close()
+    finally:
+        server.terminate()
+        try:
+            server.wait(timeout=15)
+        except subprocess.TimeoutExpired:
+            server.kill()
+    assert workbook.stat().st_mtime_ns != stamp  # JupyterLab did write the file ...
+    assert workbook.read_bytes() == before  # ... and it is byte for byte what it was

@@ -21,7 +21,10 @@ def _notebook_with_output():
     cell = nbformat.v4.new_code_cell("1 + 1")
     cell.outputs = [nbformat.v4.new_output("execute_result", {"text/plain": "2"}, execution_count=1)]
     cell.execution_count = 1
+    cell.metadata["execution"] = {"iopub.status.busy": "2026-12-01T10:00:00Z"}
     nb.cells = [nbformat.v4.new_markdown_cell("# title"), cell]
+    nb.metadata["language_info"] = {"name": "python", "version": "3.11.2", "mimetype": "text/x-python"}
+    nb.metadata["widgets"] = {"application/vnd.jupyter.widget-state+json": {"state": {}}}
     return nb
 
 
@@ -53,6 +56,8 @@ def test_saving_a_workbook_strips_outputs(manager, tmp_path):
     code = [c for c in saved["cells"] if c["cell_type"] == "code"]
     assert code[0]["outputs"] == [] and code[0]["execution_count"] is None
     assert "".join(code[0]["source"]) == "1 + 1"  # the code itself is kept
+    assert "execution" not in code[0]["metadata"]
+    assert saved["metadata"]["language_info"] == {"name": "python"} and "widgets" not in saved["metadata"]
 
 
 def test_saving_elsewhere_keeps_outputs(manager, tmp_path):
