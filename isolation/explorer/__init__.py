@@ -10,6 +10,10 @@ The callbacks themselves (settings in, answer out) are plain functions in
   mapping / TOML text that ``python -m isolation check`` accepts;
 * :mod:`~isolation.explorer.advice` - plausibility warnings for impossible or
   absurd input;
+* :mod:`~isolation.explorer.tables` - the answer as HTML tables (re-exported
+  from :mod:`isolation.explore`);
+* :mod:`~isolation.explorer.browser` - the page in headless Chromium, for the
+  browser tests and the latency benchmark;
 * :mod:`~isolation.explorer.live` - ipywidgets and bqplot wiring (no logic);
 * :mod:`~isolation.explorer.app` - ``python -m isolation explore``: the
   explorer as a stand-alone page served by Voila on 127.0.0.1.
