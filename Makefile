@@ -11,6 +11,7 @@ $(STAMP): pyproject.toml
 	test -x $(PY) || $(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install -q --upgrade pip
 	$(PY) -m pip install -q -e ".[test]"
+	$(PY) -m isolation.workbook_saving
 	touch $(STAMP)
 
 demo: $(STAMP)

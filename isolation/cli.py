@@ -7,6 +7,7 @@ check STUDY.toml             validate a study file only
 motions STUDY.toml --out DIR generate and export the study's matched motion suite
 render RECORD_DIR            write the report of an existing record
 demo                         run the invented demo study into records/
+explore [--port N]           serve the live explorer on 127.0.0.1 and print its URL
 batch ...                    run many variants (see ``batch --help``)
 
 Exit codes: 0 done, 1 the run failed, 2 bad input. Messages are one line on
@@ -91,6 +92,13 @@ def _parser() -> argparse.ArgumentParser:
     demo.add_argument("--out", metavar="DIR", default="records", help="records folder (default: records)")
     demo.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
     _engine_option(demo)
+
+    explore = commands.add_parser("explore", help="serve the live explorer on 127.0.0.1 and print its URL",
+                                  description="Serve the live explorer (bearing, site and building settings "
+                                  "in, the code's answer out) as a stand-alone page with Voila on 127.0.0.1, "
+                                  "print its URL and run until Ctrl-C. Screening only, not design.")
+    explore.add_argument("--port", type=int, default=None, metavar="N",
+                         help="TCP port on 127.0.0.1 (default: a free one)")
 
     commands.add_parser("batch", help="run many study variants (see: batch --help)", add_help=False,
                         description="Run a batch of study variants.")
@@ -208,6 +216,12 @@ def _demo(args) -> int:
     return DONE
 
 
+def _explore(args) -> int:
+    from isolation.explorer.app import serve
+
+    return DONE if serve(args.port) in (0, None) else FAILED
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 done, 1 failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
@@ -218,7 +232,8 @@ def main(argv: list[str] | None = None) -> int:
             _say(f"isolation batch: not available ({error})")
             return FAILED
         return batch_main(argv[1:])
-    handlers = {"run": _run, "check": _check, "motions": _motions, "render": _render, "demo": _demo}
+    handlers = {"run": _run, "check": _check, "motions": _motions, "render": _render, "demo": _demo,
+                "explore": _explore}
     try:
         args = _parser().parse_args(argv)
         if args.command is None:

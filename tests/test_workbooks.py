@@ -81,10 +81,15 @@ def test_workbooks_state_scope_and_defer_to_an_engineer():
 
 @pytest.mark.slow
 def test_explore_workbook_executes(tmp_path):
+    # Interactive: the live explorer alone, no static answer that could contradict it.
     nb = _execute("explore.ipynb", tmp_path, friction=0.05, interactive=True)
     assert not [o for c in nb.cells for o in c.get("outputs", []) if o.output_type == "error"]
-    assert _outputs(nb, "text/latex") and _outputs(nb, "image/png")
     assert _outputs(nb, "application/vnd.jupyter.widget-view+json")
+    assert not _outputs(nb, "text/latex") and not _outputs(nb, "image/png")
+    # Static: the answer as a table and a figure, no widgets.
+    nb = _execute("explore.ipynb", tmp_path, friction=0.05, interactive=False)
+    assert _outputs(nb, "text/latex") and _outputs(nb, "image/png")
+    assert not _outputs(nb, "application/vnd.jupyter.widget-view+json")
     table = _outputs(nb, "text/markdown")[0].data["text/markdown"]
     assert "| lower |" in table
 

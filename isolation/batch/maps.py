@@ -45,6 +45,10 @@ __all__ = [
     "best_history_alternatives",
     "plot_history_maps",
     "best_history_table",
+    "key_label",
+    "reduction_text",
+    "variant_text",
+    "missing_summary_text",
 ]
 
 VERDICT_ORDER = ("feasible", "feasible with conditions", "not recommended")
@@ -55,7 +59,85 @@ VERDICT_COLOURS = {
 }
 OTHER_COLOUR = "#8c8c8c"
 MARKERS = ("o", "s", "^", "D", "v", "P")
+VERDICT_MARKERS = {"feasible": "o", "feasible with conditions": "s", "not recommended": "X"}
+"""Marker per verdict in the scatter (colour there is the property bound: isolation.plots.COLOURS)."""
+
+_KEY_NAMES = {  # last part of a key path -> (readable name, unit kind or unit)
+    "radius": ("curvature radius R", "length"), "friction": ("friction coefficient μ", "-"),
+    "radius_1": ("radius of dish 1 R1", "length"), "radius_2": ("radius of dish 2 R2", "length"),
+    "friction_1": ("friction of dish 1 μ1", "-"), "friction_2": ("friction of dish 2 μ2", "-"),
+    "outer_diameter": ("rubber diameter D_o", "length"), "lead_diameter": ("lead core diameter D_L", "length"),
+    "inner_diameter": ("inner hole diameter", "length"), "layer_thickness": ("rubber layer thickness t", "length"),
+    "layers": ("rubber layers N", "-"), "shear_modulus": ("rubber shear modulus G", "stress"),
+    "count": ("number of bearings", "-"), "axial_load": ("axial load per bearing", "force"),
+    "displacement_capacity": ("displacement capacity", "length"), "slider_height": ("slider height", "length"),
+    "lower": ("lower-bound property factor", "-"), "upper": ("upper-bound property factor", "-"),
+    "moat": ("moat width", "length"), "sms": ("S_MS", "g"), "sm1": ("S_M1", "g"), "s1": ("S_1", "g"),
+    "ag": ("a_g", "g"), "long_period": ("long-period transition T_L", "time"),
+    "fixed_base_period": ("fixed-base period T_fb", "time"), "plan_length": ("plan length", "length"),
+    "plan_width": ("plan width", "length"), "eccentricity": ("eccentricity", "length"),
+    "importance": ("importance factor", "-"), "response_modification": ("R of the fixed base", "-"),
+    "base_weight": ("base floor weight", "weight"), "storeys": ("storeys", "-"),
+    "base_shear": ("wind base shear", "force"),
+}
 RESULT_KEYS = {"variant", "status", *RESULT_COLUMNS, *HISTORY_COLUMNS, *TAIL_COLUMNS}
+
+
+def key_label(key: str, units: str = "SI") -> str:
+    """A varied key path as an engineer reads it, with its unit.
+
+    ``"alternative.0.bearings.0.radius"`` -> ``"curvature radius R [m] (alternative 1, bearings 1)"``.
+
+    Parameters
+    ----------
+    key : str
+        Dotted key path of a batch's ``[grid]`` or ``[[variant]]``.
+    units : str
+        "SI" or "US": the study's system, in which bare numbers are read.
+    """
+    from isolation.units import BARE_UNITS
+
+    parts = str(key).split(".")
+    name, kind = _KEY_NAMES.get(parts[-1], (parts[-1].replace("_", " "), "-"))
+    unit = BARE_UNITS.get(units, BARE_UNITS["SI"]).get(kind, kind)
+    where = []
+    if parts[0] == "alternative" and len(parts) > 2 and parts[1].isdigit():
+        where.append(f"alternative {int(parts[1]) + 1}")
+        if "bearings" in parts:
+            index = parts[parts.index("bearings") + 1]
+            if index.isdigit():
+                where.append(f"bearings {int(index) + 1}")
+    elif parts[0] in ("site", "building", "analysis", "wind") and len(parts) > 1:
+        where.append(parts[0])
+    return f"{name} [{unit}]" + (f" ({', '.join(where)})" if where else "")
+
+
+def reduction_text(share: float | None) -> str:
+    """Base-shear reduction as words that leave no doubt about its sign: "24 % below fixed base"."""
+    if share is None:
+        return "-"
+    if abs(share) < 0.005:
+        return "same as fixed base"
+    return f"{abs(share):.0%} {'below' if share > 0 else 'above'} fixed base"
+
+
+def variant_text(row: dict, total: int) -> str:
+    """Which variants a ranked row stands for (see :func:`best_alternatives`)."""
+    names = row.get("variants") or [row.get("variant")]
+    if len(names) <= 1:
+        return str(names[0])
+    if len(names) >= total:
+        return f"all {total} variants (not varied)"
+    return ", ".join(str(n) for n in names)
+
+
+def missing_summary_text(path) -> str:
+    """What to run when the batch summary a workbook reads is not there (markdown)."""
+    return (f"**No batch summary at `{path}`.** This workbook maps a batch that has run. Run one first, e.g.\n\n"
+            "    python -m isolation batch examples/demo_batch.toml --direct --out records/batches\n\n"
+            "(`--direct`: equivalent-linear sweep, seconds; without it every variant gets a full record), then set "
+            "`summary_path` to the batch's `summary.csv` (printed at the end of the batch) and run this workbook "
+            "again, e.g. with papermill: `-p summary_path records/batches/<batch>/summary.csv`.")
 
 
 def _number(value) -> float | None:
@@ -123,7 +205,8 @@ def best_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
         (feasible first), whether they lie on the Pareto front, the upper-
         bound base-shear reduction (largest first) and the lower-bound
         displacement (smallest first). Rows with the same alternative and the
-        same numbers appear once, ``same_in`` counting the variants.
+        same numbers appear once, ``same_in`` counting the variants and
+        ``variants`` naming them (see :func:`variant_text`).
     """
     rows = [r for r in completed_rows(rows) if r.get("verdict") != "not recommended"]
     rows = _distinct(rows)
@@ -146,8 +229,9 @@ def _distinct(rows: list[dict]) -> list[dict]:
                  for c in ("D_M_lower_m", "D_M_upper_m", "base_shear_ratio_lower", "base_shear_ratio_upper")))
         if key in kept:
             kept[key]["same_in"] += 1
+            kept[key]["variants"].append(row.get("variant"))
         else:
-            kept[key] = dict(row, same_in=1)
+            kept[key] = dict(row, same_in=1, variants=[row.get("variant")])
     return list(kept.values())
 
 
@@ -165,47 +249,58 @@ def grid_keys(rows: Iterable[dict]) -> list[str]:
     return [k for k in keys if len({repr(r.get(k)) for r in rows}) > 1]
 
 
-def plot_displacement_vs_reduction(rows: Iterable[dict], ax=None):
-    """Isolator displacement vs base-shear reduction, both bounds, coloured by verdict.
+def plot_displacement_vs_reduction(rows: Iterable[dict], ax=None, label_variants: bool = True):
+    """Isolator displacement vs base-shear reduction, both bounds, each variant labelled.
 
-    Each variant is a segment from its upper-bound point (open marker: the
-    force-governing case) to its lower-bound point (filled marker: the
-    displacement-governing case); the marker shape tells the alternatives
-    apart. Returns the matplotlib Axes.
+    Each variant is a grey segment from its upper-bound point (red: the
+    force-governing case) to its lower-bound point (blue: the displacement-
+    governing case), in the colours of :data:`isolation.plots.COLOURS`; the
+    marker is the verdict (circle feasible, square with conditions, cross not
+    recommended) and the label at the lower-bound point names the variant (and
+    the alternative when there are several). The vertical axis is the
+    reduction in per cent: above 0 the isolated shear is smaller than the
+    fixed-base one. Returns the matplotlib Axes.
     """
     import matplotlib.pyplot as plt
     from matplotlib.lines import Line2D
+
+    from isolation.plots import COLOURS
 
     rows = completed_rows(rows)
     if ax is None:
         _, ax = plt.subplots(figsize=(7.0, 4.8))
     names = list(dict.fromkeys(r.get("alternative") for r in rows))
-    shapes = {name: MARKERS[i % len(MARKERS)] for i, name in enumerate(names)}
     for row in rows:
-        colour = VERDICT_COLOURS.get(row.get("verdict"), OTHER_COLOUR)
-        marker = shapes[row.get("alternative")]
+        marker = VERDICT_MARKERS.get(row.get("verdict"), "D")
         lower = (row["D_M_lower_m"], reduction(row, "lower"))
         upper = (_number(row.get("D_M_upper_m")), reduction(row, "upper"))
         if None not in upper and None not in lower:
-            ax.plot([upper[0], lower[0]], [upper[1], lower[1]], color=colour, lw=1.0, alpha=0.7)
+            ax.plot([upper[0], lower[0]], [100 * upper[1], 100 * lower[1]], color="0.6", lw=1.0)
         if None not in upper:
-            ax.plot(*upper, marker=marker, mfc="white", mec=colour, ls="none")
+            ax.plot(upper[0], 100 * upper[1], marker=marker, color=COLOURS["upper"], ls="none")
         if None not in lower:
-            ax.plot(*lower, marker=marker, color=colour, ls="none")
+            ax.plot(lower[0], 100 * lower[1], marker=marker, color=COLOURS["lower"], ls="none")
+            if label_variants and len(rows) <= 40:
+                text = str(row.get("variant")) + (f" ({row.get('alternative')})" if len(names) > 1 else "")
+                ax.annotate(text, (lower[0], 100 * lower[1]), xytext=(4, 3), textcoords="offset points",
+                            fontsize=6, color="0.25")
+    shares = [100 * reduction(r, b) for r in rows for b in ("lower", "upper") if reduction(r, b) is not None]
+    if shares and min(shares) < 10.0:  # near or below zero: show where isolation stops reducing the shear
+        ax.axhline(0.0, color="0.3", lw=0.8, ls=":")
     ax.set_xlabel("isolator displacement D_M [m]")
-    ax.set_ylabel("base-shear reduction 1 - V_iso/V_fixed [-]")
-    ax.set_title("Design space: filled = lower bound, open = upper bound")
+    ax.set_ylabel("base-shear reduction 1 - V_iso/V_fixed [%]\n(above 0: isolated shear smaller)")
+    ax.set_title("Design space: blue = lower bound, red = upper bound")
     ax.grid(True, alpha=0.3)
-    handles = [Line2D([], [], color=VERDICT_COLOURS[v], marker="o", ls="none", label=v)
-               for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
-    if len(names) > 1:
-        handles += [Line2D([], [], color="black", marker=shapes[n], ls="none", label=str(n)) for n in names]
-    if handles:
-        ax.legend(handles=handles, loc="best", fontsize="small")
+    handles = [Line2D([], [], color=COLOURS["lower"], marker="o", ls="none", label="lower bound"),
+               Line2D([], [], color=COLOURS["upper"], marker="o", ls="none", label="upper bound")]
+    handles += [Line2D([], [], color="black", marker=VERDICT_MARKERS[v], ls="none", label=v)
+                for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
+    ax.legend(handles=handles, loc="best", fontsize="small")
     return ax
 
 
-def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str | None = None, ax=None):
+def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str | None = None, ax=None, *,
+                     ranking: Iterable[dict] = (), units: str = "SI"):
     """Grid map over two varied keys: cells shaded by verdict, labelled with D_M and reduction.
 
     Parameters
@@ -213,16 +308,28 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     rows : iterable of dict
         Summary rows.
     x_key, y_key : str
-        Override columns for the axes (dotted key paths).
+        Override columns for the axes (dotted key paths; shown through :func:`key_label`).
     alternative : str, optional
         Alternative to map (default: the first one found).
     ax : matplotlib Axes, optional
+    ranking : iterable of dict, optional
+        Rows of :func:`best_alternatives`: each ranked row of this alternative
+        puts "rank k" into the cell of its own variant(s).
+    units : str
+        "SI" or "US", the study's system (for the axis units).
+
+    Notes
+    -----
+    Grids larger than 2 x 2 with numeric axes also get contour lines of the
+    lower-bound displacement D_M (solid, in m) and of the base-shear reduction
+    (dashed, in %).
 
     Returns
     -------
     matplotlib Axes
     """
     import matplotlib.pyplot as plt
+    import numpy as np
     from matplotlib.patches import Patch, Rectangle
 
     rows = [r for r in rows if r.get("status") == "done"]
@@ -230,24 +337,46 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     rows = [r for r in rows if r.get("alternative") == alternative]
     xs = sorted({r[x_key] for r in rows}, key=_sort_key)
     ys = sorted({r[y_key] for r in rows}, key=_sort_key)
+    ranks: dict = {}
+    for k, ranked in enumerate(ranking, 1):
+        if ranked.get("alternative") == alternative:
+            for name in ranked.get("variants") or [ranked.get("variant")]:
+                ranks.setdefault(name, k)
     if ax is None:
         _, ax = plt.subplots(figsize=(7.0, 4.8))
+    displacement = np.full((len(ys), len(xs)), np.nan)
+    share_grid = np.full((len(ys), len(xs)), np.nan)
     for row in rows:
         i, j = xs.index(row[x_key]), ys.index(row[y_key])
         colour = VERDICT_COLOURS.get(row.get("verdict"), OTHER_COLOUR)
         ax.add_patch(Rectangle((i - 0.5, j - 0.5), 1, 1, color=colour, alpha=0.55, lw=0))
         share = reduction(row)
-        text = f"D {row['D_M_lower_m']:.2f} m" if _number(row.get("D_M_lower_m")) is not None else ""
+        d = _number(row.get("D_M_lower_m"))
+        text = f"D {d:.2f} m" if d is not None else ""
+        if d is not None:
+            displacement[j, i] = d
         if share is not None:
-            text += f"\nV -{share:.0%}"
-        ax.text(i, j, text, ha="center", va="center", fontsize="small")
+            share_grid[j, i] = 100 * share
+            text += f"\nV {reduction_text(share)}"
+        if row.get("variant") in ranks:
+            text += f"\nrank {ranks[row.get('variant')]}"
+        ax.text(i, j, text, ha="center", va="center", fontsize="x-small")
+    numeric = all(isinstance(v, (int, float)) for v in xs + ys)
+    if numeric and len(xs) > 2 and len(ys) > 2:
+        gx, gy = np.meshgrid(range(len(xs)), range(len(ys)))
+        for grid, style, fmt in ((displacement, "-", "%.2f m"), (share_grid, "--", "%.0f %%")):
+            if np.isfinite(grid).sum() >= 4 and np.nanmax(grid) > np.nanmin(grid):
+                lines = ax.contour(gx, gy, np.ma.masked_invalid(grid), levels=5, colors="0.25",
+                                   linewidths=0.7, linestyles=style, alpha=0.7)
+                ax.clabel(lines, fmt=fmt, fontsize=6)
     ax.set_xlim(-0.5, len(xs) - 0.5)
     ax.set_ylim(-0.5, len(ys) - 0.5)
     ax.set_xticks(range(len(xs)), [f"{x:g}" if isinstance(x, float) else str(x) for x in xs])
     ax.set_yticks(range(len(ys)), [f"{y:g}" if isinstance(y, float) else str(y) for y in ys])
-    ax.set_xlabel(x_key)
-    ax.set_ylabel(y_key)
-    ax.set_title(f"{alternative}: verdict by variant (D = D_M lower bound, V = base-shear reduction)")
+    ax.set_xlabel(key_label(x_key, units))
+    ax.set_ylabel(key_label(y_key, units))
+    ax.set_title(f"{alternative}: verdict by variant (D = D_M lower bound, V = upper-bound base shear "
+                 "against fixed base)", fontsize="small")
     present = [v for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
     ax.legend(handles=[Patch(color=VERDICT_COLOURS[v], alpha=0.55, label=v) for v in present],
               loc="upper left", bbox_to_anchor=(1.01, 1.0), fontsize="small")

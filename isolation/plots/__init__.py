@@ -22,7 +22,7 @@ motion suite), :mod:`~isolation.plots.history` (response histories),
 :mod:`~isolation.plots.plan` (bidirectional analysis: orbits, plan demand).
 """
 
-from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
+from isolation.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned
 from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
                                     suite_figure, suite_match)
 from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
@@ -37,6 +37,7 @@ __all__ = [
     "plan_demand",
     "pairs_figure",
     "COLOURS",
+    "SERIES_COLOURS",
     "WIDTH",
     "AxisUnit",
     "axis_unit",

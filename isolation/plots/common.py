@@ -16,13 +16,20 @@ from isolation.tables.symbols import latex_text
 from isolation.units import SYSTEMS, convert
 from isolation.validate import one_of
 
-__all__ = ["WIDTH", "COLOURS", "AxisUnit", "axis_unit", "captioned"]
+__all__ = ["WIDTH", "COLOURS", "SERIES_COLOURS", "AxisUnit", "axis_unit", "captioned"]
 
 
 WIDTH = 6.4  # figure width [in]; the report scales it to the text width
 
 
 COLOURS = {"elastic": "#8e5ba8", "lower": "#1f5fa8", "nominal": "#4a4a4a", "upper": "#b23a10", "fixed": "#7a7a7a"}
+"""The one colour code of every figure (and the live explorer): lower bound blue, nominal grey,
+upper bound red, fixed base light grey; the elastic fixed base (second view) purple."""
+
+SERIES_COLOURS = ("#2a9d8f", "#8e6cbf", "#d9930d", "#5c8a3a", "#c2569a", "#3f7f8f", "#a0522d", "#6b8e23",
+                  "#7b68ee", "#b8860b")
+"""Colours for series that are not property bounds (records, alternatives): none of them is
+blue, grey or red, so they are never read as a bound."""
 
 
 # Unit shown on a figure axis per quantity and display system: (unit name for
@@ -105,7 +112,7 @@ def _colour(label: str, index: int) -> str:
     for name, colour in COLOURS.items():
         if name in key:
             return colour
-    return f"C{index % 10}"
+    return SERIES_COLOURS[index % len(SERIES_COLOURS)]
 
 
 class _Captioned:

@@ -58,7 +58,7 @@ def site_spectrum(
         ax.plot([fixed_base_period], [sa_fixed], "o", color=COLOURS["fixed"],
                 label=f"fixed base T = {fixed_base_period:.2f} s")
     for index, (label, (period, own_damping)) in enumerate(marks.items()):
-        colour = _colour(label, index) if len(marks) <= 3 else f"C{index % 10}"
+        colour = _colour(label, index)  # bounds keep their colour however many marks there are
         damping = own_damping if own_damping is not None else (
             0.05 if isolated_damping is None else isolated_damping)
         sa_iso = float(spectrum.sa(period, damping))

@@ -12,7 +12,7 @@ from typing import Any, Mapping, Sequence
 import numpy as np
 from matplotlib.figure import Figure
 
-from isolation.plots.common import _colour, _figure, axis_unit
+from isolation.plots.common import SERIES_COLOURS, _colour, _figure, axis_unit
 
 __all__ = ["displacement_histories", "base_shear_comparison", "storey_profiles", "floor_spectra",
            "hysteresis_loops", "energy_stack", "history_profiles", "history_base_shear",
@@ -48,7 +48,7 @@ def displacement_histories(
     fig, ax = _figure(3.0)
     for index, row in enumerate(series):
         name = labels[index] if labels is not None else f"record {index + 1}"
-        ax.plot(time, length(row), lw=0.7, color=f"C{index % 10}", label=name if len(series) <= 11 else None)
+        ax.plot(time, length(row), lw=0.7, color=SERIES_COLOURS[index % len(SERIES_COLOURS)], label=name if len(series) <= 11 else None)
     for value, text, style in ((design_displacement, "equivalent-linear D", "--"), (capacity, "capacity", "-")):
         if value is not None:
             for sign in (1, -1):
