@@ -162,7 +162,6 @@ def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = N
     from isolation import study_model as model
     from isolation.errors import InputError
     from isolation.files import write_text_atomic
-    from isolation.history import run
     from isolation.motions.records_io import write_suite
     from isolation.runner import export_suite
 
@@ -193,9 +192,12 @@ def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = N
         model.check_study(dataclasses.replace(study, analysis=dataclasses.replace(study.analysis, time_step=dt)))
     except ValueError as error:
         raise InputError(f"motions time step: {' '.join(str(error).split())}") from None
-    fixed = run(structure, acc, dt).statistics()
-    write_text_atomic(folder / FIXED_FILE, json.dumps({"structure": _structure_fingerprint(structure),
-                                                       "statistics": fixed}) + "\n")
+    spectrum = model.site_spectrum(study)
+    period, _ = model.fixed_base_period(study)
+    comparison = _comparison(study, spectrum, structure, period)
+    fixed = _fixed_runs(study, comparison, structure, acc, dt)
+    write_text_atomic(folder / FIXED_FILE, json.dumps({"structure": _structure_fingerprint(comparison.building),
+                                                       **fixed}) + "\n")
     return {"motions": source["motions"], "motions_quick": source["quick"], "motions_hash": _suite_hash(acc, dt),
             "records": int(acc.shape[0]), "steps": int(acc.shape[1]), "dt": dt}
 
@@ -300,10 +302,13 @@ def _run(tasks: list) -> list:
                 spectrum = model.site_spectrum(study)
                 period, _ = model.fixed_base_period(study)
                 structure = model.superstructure(study)
-                fingerprint = _structure_fingerprint(structure)
+                comparison = _comparison(study, spectrum, structure, period)
+                fingerprint = _structure_fingerprint(comparison.building)
+                fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
                 context = {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
                            "rule": "asce7" if study.basis == "asce7" else "eurocode",
-                           "fixed": _fixed(structure, fingerprint, fixed_file, acc, dt),
+                           "comparison": comparison, "fixed": fixed_runs["statistics"],
+                           "fixed_indicators": fixed_runs["indicators"],
                            "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),
                            "base_mass": study.building.base_weight / GRAVITY,
                            "shear": fixed_base_elastic_shear(spectrum, period, study.building.total_weight)}
@@ -369,42 +374,99 @@ def _run(tasks: list) -> list:
     return out
 
 
-def _fixed(structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
-    """Fixed-base statistics: the batch's when the superstructure is the base study's, else run once here."""
-    if fingerprint == fixed_file.get("structure"):
-        return fixed_file["statistics"]
-    if fingerprint not in _FIXED:
-        from isolation.history import run
+def _comparison(study, spectrum, structure, period):
+    """The code-designed fixed-base comparison building of a study (as the study run builds it)."""
+    from isolation.comparison import fixed_base_comparison
 
-        _FIXED[fingerprint] = run(structure, acc, dt).statistics()
+    return fixed_base_comparison(study, spectrum, structure, period)
+
+
+def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dict:
+    """Statistics of the comparison fixed base and indicators of it and of the elastic fixed base."""
+    from isolation.history import run
+    from isolation.comparison import response_indicators, thresholds_of
+    from isolation.plain import plain
+
+    thresholds = thresholds_of(study)
+    fixed = run(comparison.building, acc, dt)
+    elastic = run(structure, acc, dt) if comparison.yielding else fixed
+    strengths = comparison.design.yield_shears if comparison.yielding else None
+    return {"statistics": plain(fixed.statistics()),
+            "indicators": plain({"fixed": response_indicators(fixed, strengths, thresholds),
+                                 "fixed_elastic": response_indicators(elastic, None, thresholds)})}
+
+
+def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
+    """Fixed-base runs: the batch's when the building is the base study's, else run once here."""
+    if fingerprint == fixed_file.get("structure") and "indicators" in fixed_file:
+        return fixed_file
+    if fingerprint not in _FIXED:
+        _FIXED[fingerprint] = _fixed_runs(study, comparison, structure, acc, dt)
     return _FIXED[fingerprint]
 
 
 def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
-    """Statistics {case: HistoryResult.statistics()} per designed alternative of ``part`` (one engine call)."""
+    """(statistics per case, indicators per case, isolated storey design) per designed alternative of ``part``.
+
+    Alternatives whose superstructure above the isolators is the same (elastic, or yielding at the same
+    strengths) run in one engine call.
+    """
+    from isolation.comparison import isolated_superstructure, response_indicators, thresholds_of
     from isolation.history import run_cases
 
-    isolators = {f"{i}:{case}": law for i, (_, _, _, laws) in enumerate(part) for case, law in laws.items()}
-    try:
-        results = run_cases(context["structure"], context["base_mass"], isolators, acc, dt, include_fixed=False)
-    except Exception as error:  # noqa: BLE001 - one case may be at fault: each alone
-        if len(part) == 1:
-            return [error]
-        return [found for one in part for found in _histories(context, [one], acc, dt)]
-    return [{case: results[f"{i}:{case}"].statistics() for case in CASES} for i in range(len(part))]
+    study, structure = context["study"], context["structure"]
+    thresholds = thresholds_of(study)
+    above = []
+    for _, _, design, _ in part:
+        try:
+            above.append(isolated_superstructure(study, design[0], structure))
+        except Exception as error:  # noqa: BLE001 - reported per variant
+            above.append(error)
+    out: list = [None] * len(part)
+    groups: dict = {}
+    for i, item in enumerate(above):
+        if isinstance(item, Exception):
+            out[i] = item
+        else:
+            groups.setdefault(_structure_fingerprint(item[0]), []).append(i)
+    for members in groups.values():
+        building = above[members[0]][0]
+        isolators = {f"{i}:{case}": law for i in members for case, law in part[i][3].items()}
+        try:
+            results = run_cases(building, context["base_mass"], isolators, acc, dt, include_fixed=False)
+        except Exception as error:  # noqa: BLE001 - one case may be at fault: each alone
+            if len(members) == 1:
+                out[members[0]] = error
+                continue
+            for i in members:
+                out[i] = _histories(context, [part[i]], acc, dt)[0]
+            continue
+        comparison = context["comparison"]
+        for i in members:
+            design = above[i][1]
+            strengths = design.yield_shears if comparison.yielding else None
+            out[i] = ({case: results[f"{i}:{case}"].statistics() for case in CASES},
+                      {case: response_indicators(results[f"{i}:{case}"], strengths, thresholds) for case in CASES},
+                      design)
+    return out
 
 
-def _judge(context: dict, alternative, system, sets, bounds, design, stats) -> dict:
+def _judge(context: dict, alternative, system, sets, bounds, design, histories) -> dict:
     """The study run's verdict for one alternative from its designs and history statistics."""
     from isolation import study_model as model
     from isolation import verdict
+    from isolation.comparison import comparison_summary
+    from isolation.plain import plain
 
+    stats, case_indicators, isolated_design = histories
     report, quantities, permitted, reasons = design
     study = context["study"]
     checks = system.checks(quantities["total_displacement"])
     results = bounds.results
     torsion = quantities["total_displacement"] / quantities["displacement"]
     summary = model.history_summary(stats, context["fixed"], torsion)
+    indicators = {**context["fixed_indicators"], **plain(case_indicators)}
+    summary.update(comparison_summary(indicators, context["comparison"].design, isolated_design))
     strength = getattr(sets["lower"], "characteristic_strength", None)
     if strength is None:
         strength = model.history_isolator(sets["lower"], results["lower"]).characteristic_strength
