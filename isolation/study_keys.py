@@ -24,7 +24,8 @@ __all__ = ["Key", "BEARING_KEYS", "ROOT_KEYS", "Problems", "Reader"]
 @dataclass(frozen=True)
 class Key:
     """What a key accepts: ``kind`` is a unit kind of :mod:`isolation.units`,
-    ``"number"`` (unit ``unit``) or ``"integer"``; range ``low``..``high``."""
+    ``"number"`` (unit ``unit``) or ``"integer"``; range ``low``..``high``.
+    A ``ratio`` also accepts a percent written as text (``"6 %"``)."""
 
     kind: str
     required: bool = True
@@ -32,22 +33,23 @@ class Key:
     high: float | None = None
     low_inclusive: bool = True
     unit: str = "-"
+    ratio: bool = False
 
 
 BEARING_KEYS: dict[str, dict[str, Key]] = {
     "friction_pendulum": {
         "radius": Key("length", low=0.3, high=20.0),
-        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "slider_height": Key("length", required=False, low=0.0, high=2.0),
         "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False),
+        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "rate_parameter": Key("number", required=False, low=0.0, high=500.0, unit="s/m"),
     },
     "double_concave": {
         "radius_1": Key("length", low=0.3, high=20.0),
-        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "radius_2": Key("length", low=0.3, high=20.0),
-        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "slider_height_1": Key("length", required=False, low=0.0, high=2.0),
         "slider_height_2": Key("length", required=False, low=0.0, high=2.0),
         "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
@@ -180,11 +182,21 @@ class Reader:
         return value
 
     def number(self, key: str, *, low=None, high=None, low_inclusive=True, high_inclusive=True,
-               unit: str = "-", required: bool = True, default=None):
+               unit: str = "-", required: bool = True, default=None, ratio: bool = False):
         allowed = f"a number {_range_text(low, high, low_inclusive, high_inclusive)} [{unit}]"
         value = self._get(key, required, allowed)
         if value is _MISSING:
             return default
+        if ratio and isinstance(value, str):
+            try:
+                value = _units.parse_ratio(value, field=self.path_of(key), allowed=allowed)
+            except InputError as error:
+                self.problems.add(str(error))
+                return None
+            if not _inside(value, low, high, low_inclusive, high_inclusive):
+                self._bad(key, self.mapping[key], f"{allowed} (a percent is divided by 100)")
+                return None
+            return value
         if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
             self._bad(key, value, allowed + " (without a unit)")
             return None
@@ -252,7 +264,7 @@ class Reader:
     def by_spec(self, key: str, spec: Key):
         if spec.kind == "number":
             return self.number(key, low=spec.low, high=spec.high, low_inclusive=spec.low_inclusive,
-                               unit=spec.unit, required=spec.required)
+                               unit=spec.unit, required=spec.required, ratio=spec.ratio)
         if spec.kind == "integer":
             return self.integer(key, low=spec.low, high=spec.high, required=spec.required)
         return self.quantity(key, spec.kind, low=spec.low, high=spec.high,

@@ -161,7 +161,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
         plan_width=t.quantity("plan_width", "length", low=1.0, high=500.0),
         fixed_base_period=t.quantity("fixed_base_period", "time", low=0.02, high=10.0, required=False),
         eccentricity=t.quantity("eccentricity", "length", low=0.0, required=False, default=0.0),
-        damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05),
+        damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05, ratio=True),
     )
     length, width = values["plan_length"], values["plan_width"]
     if isinstance(width, float) and isinstance(length, float) and width > length:
@@ -185,7 +185,7 @@ def _analysis(t: Reader | None) -> Analysis:
         seed=t.integer("seed", low=0, high=2**32 - 1, required=False, default=0),
         duration=t.quantity("duration", "time", low=5.0, high=120.0, required=False, default=30.0),
         time_step=t.quantity("time_step", "time", low=0.001, high=0.02, required=False, default=0.005),
-        damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05),
+        damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05, ratio=True),
     )
     t.done()
     if t.failed():
