@@ -22,6 +22,7 @@ looks complete.
 
 from __future__ import annotations
 
+import contextlib
 import datetime as _dt
 import errno
 import hashlib
@@ -460,7 +461,45 @@ def _prepare_inputs(study_file: Path, overrides: Mapping[str, Any], folder: Path
     return "study_used.toml", study
 
 
+KERNEL_LOG = ".kernel.log"
+"""Hidden file in a record that keeps what the workbook's kernel wrote to standard error."""
+
+
+@contextlib.contextmanager
+def _stderr_to(path: Path):
+    """Send this process's standard error (file descriptor 2, inherited by the kernel it
+    starts) to ``path`` meanwhile: the kernel's own tracebacks when it is interrupted or
+    shut down do not reach the terminal, whose messages stay one line."""
+    try:
+        sys.stderr.flush()
+        saved = os.dup(2)
+    except (OSError, ValueError, AttributeError):
+        yield
+        return
+    try:
+        with open(path, "ab") as log:
+            os.dup2(log.fileno(), 2)
+    except OSError:
+        os.close(saved)
+        yield
+        return
+    try:
+        yield
+    finally:
+        try:
+            sys.stderr.flush()
+        except (OSError, ValueError):
+            pass
+        os.dup2(saved, 2)
+        os.close(saved)
+
+
 def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
+    with _stderr_to(folder / KERNEL_LOG):
+        _execute_quietly(notebook, folder, study_path, quick, timeout)
+
+
+def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
     import papermill
 
     papermill.execute_notebook(

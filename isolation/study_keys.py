@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from datetime import date as _date
 from typing import Any, Mapping
 
@@ -98,6 +99,7 @@ class Problems:
         return len(self.items)
 
 
+@lru_cache(maxsize=256)
 def _range_text(low, high, low_inclusive=True, high_inclusive=True) -> str:
     if low is not None and high is not None:
         left, right = ("[" if low_inclusive else "("), ("]" if high_inclusive else ")")

@@ -82,11 +82,14 @@ def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
 
 def _read_spectrum_table(path: Path, key: str, problems: Problems):
     """Two columns: period [s], Sa [g] at 5 % damping; an optional header line."""
+    from isolation.errors import InputError
+    from isolation.files import read_input_text
+
     try:
-        lines = path.read_text(encoding="utf-8").splitlines()
-    except OSError:
-        problems.add(f"{key} = {str(path)!r} is not allowed: must name an existing CSV file "
-                     "(relative to the study file) with columns period [s], Sa [g]")
+        lines = read_input_text(path, what=key, limit=1_000_000).splitlines()
+    except InputError as error:
+        problems.add(f"{error}; must name an existing CSV file (relative to the study file) with columns "
+                     "period [s], Sa [g]")
         return None
     periods, values = [], []
     for number, row in enumerate(csv.reader(lines), 1):

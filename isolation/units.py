@@ -121,6 +121,10 @@ def parse_quantity(value: Any, kind: str, *, field: str, system: str = "SI") -> 
                          + ", ".join(repr(k) for k in KINDS))
     if system not in SYSTEMS:
         raise InputError(f"units = {system!r} is not allowed: must be one of 'SI', 'US'")
+    if isinstance(value, str):
+        known = _known_text(value, kind, system)
+        if known is not None:
+            return known
     allowed = _allowed(kind, system)
     if isinstance(value, bool):
         raise _fail(field, value, allowed)
@@ -131,10 +135,20 @@ def parse_quantity(value: Any, kind: str, *, field: str, system: str = "SI") -> 
         unit = BARE_UNITS[system][kind]
         if unit == KINDS[kind][0]:
             return number
-        return convert(number, unit, KINDS[kind][0])
+        return number * _factor(unit, KINDS[kind][0])
     if not isinstance(value, str) or not value.strip():
         raise _fail(field, value, allowed)
     return _parse_text(value, kind, field=field, system=system, allowed=allowed)
+
+
+@lru_cache(maxsize=4096)
+def _known_text(value: str, kind: str, system: str) -> float | None:
+    """The value of a quantity text read before (None when it is not valid): many variants
+    of one study repeat the same texts."""
+    try:
+        return _parse_text(value, kind, field="", system=system, allowed="")
+    except InputError:
+        return None
 
 
 # A quantity written as text: one number (optional sign, decimals, exponent) and at most one
@@ -261,6 +275,11 @@ def _parse_text(value: str, kind: str, *, field: str, system: str, allowed: str)
     if not math.isfinite(result):
         raise _fail(field, value, allowed)
     return result
+
+
+@lru_cache(maxsize=64)
+def _factor(from_unit: str, to_unit: str) -> float:
+    return convert(1.0, from_unit, to_unit)
 
 
 def _describe_dimension(quantity) -> str:

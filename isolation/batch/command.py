@@ -54,6 +54,12 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
         action="store_true",
         help="equivalent-linear sweep without notebooks or records (thousands of variants); same summary columns",
     )
+    parser.add_argument(
+        "--max-variants",
+        type=int,
+        metavar="N",
+        help="most variants allowed (default: 1000 for records, 100000 with --direct); counted before any is validated",
+    )
     parser.add_argument("--check", action="store_true", help="validate the batch and every variant, run nothing")
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
     return parser
@@ -70,6 +76,12 @@ def main(argv: list[str] | None = None) -> int:
         args = parser.parse_args(argv)
     except SystemExit as stop:  # --help (0) or a usage error (2)
         return int(stop.code or 0)
+    if args.out and Path(args.out).exists() and not Path(args.out).is_dir():
+        _say(f"error: --out = {args.out!r} is not allowed: must be a folder, not a file")
+        return 2
+    if args.max_variants is not None and args.max_variants < 1:
+        _say(f"error: --max-variants = {args.max_variants} is not allowed: must be a whole number >= 1")
+        return 2
     if args.workers is not None and args.workers < 1:
         _say(f"error: --workers = {args.workers} is not allowed: must be a whole number >= 1")
         return 2
@@ -89,9 +101,10 @@ def main(argv: list[str] | None = None) -> int:
 def _run(args: argparse.Namespace) -> int:
     from isolation.batch.check import CHUNK_FROM, validate_plan
     from isolation.batch.executors import open_executor
-    from isolation.batch.plan import load_batch
+    from isolation.batch.plan import DIRECT_LIMIT, RECORD_LIMIT, load_batch
 
-    plan = load_batch(args.batch_file)
+    limit = args.max_variants or (DIRECT_LIMIT if args.direct else RECORD_LIMIT)
+    plan = load_batch(args.batch_file, max_variants=limit)
     mode = "direct" if args.direct else "record"
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
