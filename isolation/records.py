@@ -495,8 +495,16 @@ def _stderr_to(path: Path):
 
 
 def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
-    with _stderr_to(folder / KERNEL_LOG):
-        _execute_quietly(notebook, folder, study_path, quick, timeout)
+    log = folder / KERNEL_LOG
+    try:
+        with _stderr_to(log):
+            _execute_quietly(notebook, folder, study_path, quick, timeout)
+    finally:
+        try:
+            if log.stat().st_size == 0:
+                log.unlink()
+        except OSError:
+            pass
 
 
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
