@@ -201,6 +201,15 @@ def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
 def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
     from isolation.motions import matched_suite
 
+    options, note = suite_options(study, spectrum, periods, quick, progress)
+    return matched_suite(spectrum, **options), note
+
+
+def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress: bool = False):
+    """Options of :func:`isolation.motions.matched_suite` for a study's suite, and a note.
+
+    ``periods`` is (T_M upper bound, T_M lower bound) [s] over all alternatives.
+    """
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
     options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
@@ -231,7 +240,7 @@ def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
                 f"(up to {band_end:.2f} s): the suite is checked over its whole band")
     elif longest > max(6.0, 1.5 * max(periods)):
         options["period_range"] = (max(0.05, 4.0 * a.time_step, spectrum.period_range[0]), min(longest, band_end))
-    return matched_suite(spectrum, **options), note
+    return options, note
 
 
 def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> StudyResults:

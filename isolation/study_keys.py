@@ -11,6 +11,7 @@ bearing type's keys as :class:`Key` entries (kind, required, allowed range).
 from __future__ import annotations
 
 import math
+import unicodedata
 from dataclasses import dataclass
 from functools import lru_cache
 from datetime import date as _date
@@ -77,6 +78,11 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
 }
 """Keys of each bearing type (beside ``type``, ``count``, ``axial_load``),
 with kind, whether required, and allowed range in internal units (m, kPa)."""
+
+_INVISIBLE = frozenset("\ufeff\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069")
+
+TEXT_LIMIT = 200
+"""Longest text value (project name, client, ...) accepted [characters]."""
 
 ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative")
 
@@ -148,6 +154,13 @@ class Reader:
             return str(value)
         if not isinstance(value, str) or not value.strip():
             self._bad(key, value, "non-empty " + allowed)
+            return None
+        if len(value) > TEXT_LIMIT:
+            self._bad(key, value[:40] + "...", f"{allowed} of at most {TEXT_LIMIT} characters")
+            return None
+        if any(unicodedata.category(c) in ("Cc", "Cs", "Co", "Cn") or c in _INVISIBLE for c in value):
+            self._bad(key, value, allowed + " without control, private-use or unassigned characters (no NUL, "
+                      "tab, line break, byte-order mark or direction override)")
             return None
         return value.strip()
 

@@ -151,20 +151,79 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float):
     return report, quantities, report.simplified_permitted, reasons
 
 
-def check_study(study: Study) -> None:
+def check_study(study: Study, *, design: bool = True) -> None:
     """Checks of a valid study against its own models, before anything runs.
 
     Raises :class:`isolation.errors.InputError` naming the key when the time
-    step cannot resolve the superstructure or a bearing cannot be built.
+    step cannot resolve the superstructure, a bearing cannot be built, or
+    (``design=True``) an alternative's code design cannot be done or gives
+    isolated periods the study's motion suite cannot cover: every failure a
+    run would meet because of its input is found here.
     """
     from isolation.errors import InputError
 
     _check_time_step(study, superstructure(study))
+    systems = []
     for i, alternative in enumerate(study.alternatives):
         try:
-            isolation_system(alternative)
+            systems.append(isolation_system(alternative))
         except ValueError as error:
             raise InputError(f"alternative[{i}] ({alternative.name!r}): {' '.join(str(error).split())}") from None
+    if design:
+        _check_design(study, systems)
+
+
+_WHICH_KEYS = ("check building.floor_weights, building.base_weight and the bearing keys of "
+               "alternative[{i}] (units?)")
+
+
+def _check_design(study: Study, systems: list) -> None:
+    """Each alternative's code design, and its isolated periods against the motion suite."""
+    from isolation.errors import InputError, RunError
+    from isolation.motions.matching import _band
+    from isolation.runner import suite_options
+
+    spectrum = site_spectrum(study)
+    t_fb, _ = fixed_base_period(study)
+    weight = study.building.total_weight
+    periods = []
+    for i, (alternative, system) in enumerate(zip(study.alternatives, systems)):
+        try:
+            sets = system.property_sets(weight)
+            report = design_alternative(study, sets, system, spectrum, t_fb)[0]
+            bounds = report.bounds.results
+            pair = (float(bounds["upper"].period), float(bounds["lower"].period))
+        except (ValueError, RunError, ArithmeticError) as error:
+            raise InputError(f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its code "
+                             f"design fails ({' '.join(str(error).split())}); "
+                             + _WHICH_KEYS.format(i=i)) from None
+        for quick in (False, True):
+            options, _ = suite_options(study, spectrum, pair, quick)
+            try:
+                _band(spectrum, options["dt"], options["duration"], options.get("period_range"),
+                      options["isolated_period"], options["rule"])
+            except ValueError:
+                raise InputError(
+                    f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its isolated "
+                    f"period T_M = {pair[0]:.3g}-{pair[1]:.3g} s (upper-lower bound) lies outside what the "
+                    f"study's motion suite can cover (analysis.time_step = {study.analysis.time_step:g} s, "
+                    f"analysis.duration = {study.analysis.duration:g} s{', quick runs' if quick else ''}; "
+                    f"an isolated building has T_M of about 1.5-6 s); "
+                    + _WHICH_KEYS.format(i=i)) from None
+        periods.append(pair)
+    if len(periods) > 1:
+        pair = (min(p[0] for p in periods), max(p[1] for p in periods))
+        for quick in (False, True):
+            options, _ = suite_options(study, spectrum, pair, quick)
+            try:
+                _band(spectrum, options["dt"], options["duration"], options.get("period_range"),
+                      options["isolated_period"], options["rule"])
+            except ValueError:
+                raise InputError(
+                    f"alternative = the alternatives together are not allowed: their isolated periods "
+                    f"T_M = {pair[0]:.3g}-{pair[1]:.3g} s span more than one motion suite can cover "
+                    f"(analysis.time_step = {study.analysis.time_step:g} s, analysis.duration = "
+                    f"{study.analysis.duration:g} s); study them in separate files") from None
 
 
 def _check_time_step(study: Study, structure) -> None:
@@ -174,6 +233,12 @@ def _check_time_step(study: Study, structure) -> None:
 
     shortest = float(np.min(structure.modal().periods))
     limit = shortest / DT_FRACTION
+    smallest = 0.001  # the least analysis.time_step allowed (isolation.study_sections)
+    if limit < smallest:
+        raise InputError(f"building: its shortest fixed-base period T_min = {shortest:.4g} s needs a time step "
+                         f"<= T_min/{DT_FRACTION:g} = {limit:.3g} s, below the least analysis.time_step allowed "
+                         f"({smallest:g} s); not allowed: check building.fixed_base_period, building.storeys, "
+                         "building.floor_weights and building.storey_heights")
     if study.analysis.time_step > limit:
         raise InputError(f"analysis.time_step = {study.analysis.time_step:g} s is not allowed for this "
                          f"building: must be <= T_min/{DT_FRACTION:g} = {limit:.4g} s (T_min = {shortest:.4g} s, "
