@@ -669,10 +669,11 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
                 _rename_noreplace(folder, final)
             except FileExistsError:
                 final = _keep_clashed(folder, final, manifest)
-                failure = failure or RecordClash(
+                clash = RecordClash(
                     f"run_id = {run_id!r} is not allowed: the record {str(parent / run_id)!r} appeared while "
                     f"this run was running (two runs with one run id); nothing was replaced, this run is "
                     f"kept as the failed record {str(final)!r}")
+                failure = failure if isinstance(failure, KeyboardInterrupt) else clash
         finally:
             if previous is not None:
                 signal.signal(signal.SIGTERM, previous)
