@@ -157,9 +157,9 @@ def _known_text(value: str, kind: str, system: str) -> float | None:
 _NUMBER_TEXT = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _UNIT_NAME = r"[A-Za-z_\u00b5\u03bc]+(?:(?:\*\*|\^)-?[1-4])?"
 _UNIT_TEXT = _UNIT_NAME + r"(?:\s*(?:\*|/|\u00b7|\s)\s*" + _UNIT_NAME + r")*"
-_QUANTITY = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*(" + _UNIT_TEXT + r")?\s*$")
-_PERCENT = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*%\s*$")
-_UNIT_ONLY = re.compile(r"^\s*(" + _UNIT_TEXT + r")\s*$")
+_QUANTITY = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*(" + _UNIT_TEXT + r")?\s*$", re.ASCII)
+_PERCENT = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*%\s*$", re.ASCII)
+_UNIT_ONLY = re.compile(r"^\s*(" + _UNIT_TEXT + r")\s*$", re.ASCII)
 
 GRAMMAR = ("one number (e.g. 12, 0.4, 2.5e3) followed by one unit (e.g. 'm', 'kip/in', "
            "'kip*s**2/ft'); no arithmetic")

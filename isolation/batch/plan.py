@@ -203,6 +203,11 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
             for bad in [n for n in names if not n]:
                 problems.append(f"table {path.name}: empty column name {bad!r}; allowed: dotted key paths and 'id'")
             for number, row in enumerate(reader, start=2):
+                if row.get(None):
+                    problems.append(f"table {path.name} row {number} has {len(names) + len(row[None])} fields, "
+                                    f"the header {len(names)}: not allowed (a decimal comma, or a comma in an "
+                                    "unquoted value? quote it: \"1.5 m\")")
+                    continue
                 overrides = {}
                 variant_id = None
                 for name, cell in zip(names, row.values()):

@@ -79,8 +79,8 @@ _STEP_UNITS = {"s": 1.0, "sec": 1.0, "secs": 1.0, "second": 1.0, "seconds": 1.0,
                "us": 1e-6, "\u00b5s": 1e-6, "microsecond": 1e-6, "microseconds": 1e-6}
 _OTHER_TIME_UNITS = {"min", "mins", "minute", "minutes", "h", "hr", "hrs", "hour", "hours", "hz", "khz", "ns",
                      "cs", "ds", "ks"}
-_FORTRAN = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+))[dD]([-+]?\d+)$")
-_DECIMAL_COMMA = re.compile(r"^[-+]?\d+,\d+$")
+_FORTRAN = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+))[dD]([-+]?\d+)$", re.ASCII)
+_DECIMAL_COMMA = re.compile(r"^[-+]?\d+,\d+$", re.ASCII)
 
 LIMIT_G = 10.0
 """Largest |acceleration| accepted on import [g]: recorded ground motions stay well below
@@ -163,7 +163,7 @@ def _number(token: str) -> float:
     fortran = _FORTRAN.match(token)
     if fortran:
         token = f"{fortran.group(1)}e{fortran.group(2)}"
-    elif not re.fullmatch(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?", token):
+    elif not re.fullmatch(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?", token, re.ASCII):
         raise ValueError(token)  # no 'nan', 'inf', '1_000' or hex
     return float(token)
 
@@ -178,11 +178,30 @@ def _numbers(line: str) -> list[float] | None:
         return None
 
 
+def _refuse_data_like(file: Path, number: int, line: str) -> None:
+    """A header line that is mostly numbers is a data line with a bad value: say which."""
+    tokens = [t for t in _SPLIT.split(line.strip()) if t]
+    if not tokens or line.lstrip().startswith("#"):
+        return
+    readable = []
+    for token in tokens:
+        try:
+            _number(token)
+            readable.append(True)
+        except ValueError:
+            readable.append(False)
+    looks = (2 * sum(readable) > len(tokens) if len(tokens) > 1
+             else re.match(r"^[-+]?\.?\d", tokens[0], re.ASCII) is not None)
+    if looks:
+        _decimal_comma(file, number, line)
+        position = readable.index(False)
+        raise ValueError(f"{file}: line {number}, value {position + 1} = {tokens[position]!r} is not allowed: "
+                         "must be a number (a data line before the first line of numbers?)")
+
+
 def _decimal_comma(file: Path, number: int, line: str) -> None:
     """Refuse a line whose values look like decimal commas ("0,0123"): read as separators they
     would become extra values."""
-    if "." in line:
-        return
     for token in re.split(r"[\s;]+", line.strip()):
         if _DECIMAL_COMMA.match(token):
             raise ValueError(f"{file}: line {number}, value {token!r} is not allowed: a decimal comma is "
@@ -239,6 +258,8 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
     """
     file, lines = _lines(path)
     first_data = next((i for i, line in enumerate(lines) if _numbers(line) is not None), None)
+    for number, line in enumerate(lines[:first_data], start=1):
+        _refuse_data_like(file, number, line)
     if first_data is None:
         raise ValueError(f"{file}: no line of numeric acceleration values found")
     header = lines[:first_data]
