@@ -329,3 +329,26 @@ def test_interrupting_a_run_prints_one_line(tmp_path, which):
     lines = [line for line in stderr.splitlines() if line.strip()]
     assert lines == ["interrupted"], stderr[-3000:]
     assert read_manifest(tmp_path / STUDY_FOLDER / "cut")["status"] == "failed"
+
+
+# ---------------------------------------------------------------- check finds what run would fail on
+@pytest.mark.parametrize("overrides, words", [
+    # bearings far too stiff for the weight: T_M of hundredths of a second, no suite can cover it
+    ({"building.floor_weights": 1.0, "building.base_weight": 1.0}, ["alternative[1]", "isolated period",
+                                                                    "building.floor_weights"]),
+    # far too heavy: the equivalent-linear period runs past the spectrum
+    ({"building.floor_weights": 2e6, "building.base_weight": 2e6}, ["alternative[1]", "code design fails"]),
+    # a building whose shortest period needs a step below the least allowed
+    ({"building.fixed_base_period": 0.02, "building.storeys": 40, "building.storey_heights": 3.0,
+      "building.floor_weights": 5000.0}, ["building.fixed_base_period", "0.001 s"]),
+    ({"project.name": "Venhollow\x00"}, ["project.name", "control"]),
+])
+def test_check_finds_what_run_would_fail_on(tmp_path, overrides, words, capsys):
+    args = ["check", str(DEMO)]
+    for key, value in overrides.items():
+        args += ["--set", f"{key}={json.dumps(value)}"]
+    assert cli(args) == 2
+    lines = [line for line in capsys.readouterr().err.splitlines() if line.strip()]
+    assert len(lines) == 1
+    for word in words:
+        assert word in lines[0]
