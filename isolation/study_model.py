@@ -162,7 +162,8 @@ def check_study(study: Study, *, design: bool = True) -> None:
     """
     from isolation.errors import InputError
 
-    _check_time_step(study, superstructure(study))
+    _remembered(("time step", study.basis, study.building, study.analysis),
+                lambda: _check_time_step(study, superstructure(study)))
     systems = []
     for i, alternative in enumerate(study.alternatives):
         try:
@@ -177,6 +178,36 @@ _WHICH_KEYS = ("check building.floor_weights, building.base_weight and the beari
                "alternative[{i}] (units?)")
 
 
+_REMEMBERED: dict = {}
+_REMEMBER_LIMIT = 2048
+
+
+def _remembered(key: tuple, work):
+    """``work()``'s result (or the InputError it raised) for inputs seen before: a batch's
+    variants share most of their study, so each distinct part is checked once."""
+    from isolation.errors import InputError
+
+    text = repr(key)  # frozen dataclasses of plain values: the repr is exact
+    if text in _REMEMBERED:
+        kind, value = _REMEMBERED[text]
+        if kind == "error":
+            raise InputError(value)
+        return value
+    try:
+        value = work()
+    except InputError as error:
+        _store(text, ("error", str(error)))
+        raise
+    _store(text, ("value", value))
+    return value
+
+
+def _store(text: str, entry: tuple) -> None:
+    if len(_REMEMBERED) >= _REMEMBER_LIMIT:
+        _REMEMBERED.pop(next(iter(_REMEMBERED)))
+    _REMEMBERED[text] = entry
+
+
 def _check_design(study: Study, systems: list) -> None:
     """Each alternative's code design, and its isolated periods against the motion suite."""
     from isolation.errors import InputError, RunError
@@ -188,15 +219,19 @@ def _check_design(study: Study, systems: list) -> None:
     weight = study.building.total_weight
     periods = []
     for i, (alternative, system) in enumerate(zip(study.alternatives, systems)):
-        try:
-            sets = system.property_sets(weight)
-            report = design_alternative(study, sets, system, spectrum, t_fb)[0]
-            bounds = report.bounds.results
-            pair = (float(bounds["upper"].period), float(bounds["lower"].period))
-        except (ValueError, RunError, ArithmeticError) as error:
-            raise InputError(f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its code "
-                             f"design fails ({' '.join(str(error).split())}); "
-                             + _WHICH_KEYS.format(i=i)) from None
+        def design(i=i, alternative=alternative, system=system):
+            try:
+                sets = system.property_sets(weight)
+                report = design_alternative(study, sets, system, spectrum, t_fb)[0]
+                bounds = report.bounds.results
+                return (float(bounds["upper"].period), float(bounds["lower"].period))
+            except (ValueError, RunError, ArithmeticError) as error:
+                raise InputError(f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its "
+                                 f"code design fails ({' '.join(str(error).split())}); "
+                                 + _WHICH_KEYS.format(i=i)) from None
+
+        pair = _remembered(("design", i, study.basis, study.site, study.building, study.analysis,
+                            study.wind_base_shear, alternative), design)
         for quick in (False, True):
             options, _ = suite_options(study, spectrum, pair, quick)
             try:
