@@ -352,3 +352,21 @@ def test_check_finds_what_run_would_fail_on(tmp_path, overrides, words, capsys):
     assert len(lines) == 1
     for word in words:
         assert word in lines[0]
+
+
+def test_a_spectrum_file_that_is_a_pipe_is_refused(tmp_path, capsys):
+    study = tmp_path / "study.toml"
+    text = DEMO.read_text(encoding="utf-8")
+    mapping = __import__("tomllib").loads(text)
+    for key in ("sms", "sm1", "long_period"):
+        mapping["site"].pop(key, None)
+    mapping["site"]["spectrum_file"] = "spectrum.csv"
+    from isolation.records import to_toml
+
+    study.write_text(to_toml(mapping), encoding="utf-8")
+    os.mkfifo(tmp_path / "spectrum.csv")
+    started = time.monotonic()
+    assert cli(["check", str(study)]) == 2
+    assert time.monotonic() - started < 30
+    line = capsys.readouterr().err.strip()
+    assert "site.spectrum_file" in line and "named pipe" in line
