@@ -215,7 +215,16 @@ def _check_design(study: Study, systems: list) -> None:
     from isolation.runner import suite_options
 
     spectrum = site_spectrum(study)
-    t_fb, _ = fixed_base_period(study)
+    t_fb, source = fixed_base_period(study)
+    low, high = spectrum.period_range
+    if not low <= t_fb <= high:
+        given = study.building.fixed_base_period is not None
+        raise InputError(
+            f"building.fixed_base_period = {t_fb:.4g} s ({source}) is not allowed: must lie in the site "
+            f"spectrum's period range [{low:g}, {high:g}] s; "
+            + ("give a shorter fixed_base_period" if given else
+               f"the building is {study.building.height:g} m tall: check building.storeys and "
+               "building.storey_heights, or give building.fixed_base_period"))
     weight = study.building.total_weight
     periods = []
     for i, (alternative, system) in enumerate(zip(study.alternatives, systems)):
