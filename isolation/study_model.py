@@ -235,9 +235,11 @@ def _check_design(study: Study, systems: list) -> None:
                 bounds = report.bounds.results
                 return (float(bounds["upper"].period), float(bounds["lower"].period))
             except (ValueError, RunError, ArithmeticError) as error:
+                tabulated = (f"; or site.spectrum_file, whose periods end at {high:g} s"
+                             if study.site.spectrum_periods else "")
                 raise InputError(f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its "
                                  f"code design fails ({' '.join(str(error).split())}); "
-                                 + _WHICH_KEYS.format(i=i)) from None
+                                 + _WHICH_KEYS.format(i=i) + tabulated) from None
 
         pair = _remembered(("design", i, study.basis, study.site, study.building, study.analysis,
                             study.wind_base_shear, alternative), design)
