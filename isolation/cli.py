@@ -8,6 +8,7 @@ motions STUDY.toml --out DIR generate and export the study's matched motion suit
 render RECORD_DIR            write the report of an existing record
 demo                         run the invented demo study into records/
 explore [--port N]           serve the live explorer on 127.0.0.1 and print its URL
+records [--out DIR] [--clean] list (and remove) stale partial records and leftovers
 batch ...                    run many variants (see ``batch --help``)
 
 Exit codes: 0 done, 1 the run failed, 2 bad input. Messages are one line on
@@ -17,6 +18,7 @@ standard error; user errors print no traceback.
 from __future__ import annotations
 
 import argparse
+import contextlib
 import sys
 from pathlib import Path
 
@@ -100,6 +102,15 @@ def _parser() -> argparse.ArgumentParser:
     explore.add_argument("--port", type=int, default=None, metavar="N",
                          help="TCP port on 127.0.0.1 (default: a free one)")
 
+    records = commands.add_parser(
+        "records", help="list or remove stale partial records and leftover temporary folders",
+        description="List what runs that ended without a record left behind under DIR: hidden "
+                    ".partial folders of runs killed or stopped by a full disk, temporary files of "
+                    "interrupted writes and report build folders older than an hour. Stale partial "
+                    "folders are marked failed. With --clean they are removed; records are never touched.")
+    records.add_argument("--out", metavar="DIR", default="records", help="records folder (default: records)")
+    records.add_argument("--clean", action="store_true", help="remove what is listed")
+
     commands.add_parser("batch", help="run many study variants (see: batch --help)", add_help=False,
                         description="Run a batch of study variants.")
     return parser
@@ -164,7 +175,33 @@ def _record(*args, **kwargs):
     return outcome
 
 
+def _out_folder(out: str) -> None:
+    """``--out`` must name a folder (or nothing yet), not a file."""
+    path = Path(out)
+    if path.exists() and not path.is_dir():
+        raise InputError(f"--out = {out!r} is not allowed: must be a folder, not a file")
+
+
+def _records(args) -> int:
+    from isolation.records import clean_records, mark_stale_partials
+
+    root = Path(args.out)
+    if root.exists() and not root.is_dir():
+        raise InputError(f"--out = {args.out!r} is not allowed: must be a records folder, not a file")
+    marked = [p for study in (root.iterdir() if root.is_dir() else ()) if study.is_dir()
+              for p in mark_stale_partials(study)]
+    items = clean_records(root, remove=args.clean)
+    for item in items:
+        print(("removed: " if args.clean else "stale: ") + str(item))
+    if marked:
+        _say(f"note: {len(marked)} stale partial record(s) marked failed")
+    verb = "removed" if args.clean else "found (remove with --clean)"
+    print(f"records {root}: {len(items)} stale item(s) {verb}")
+    return DONE
+
+
 def _run(args) -> int:
+    _out_folder(args.out)
     outcome = _record(args.study, args.out, pdf=not args.no_pdf, overrides=_overrides(args.set),
                       run_id=args.run_id, paper=args.paper, quick=args.quick, engine=args.engine)
     if outcome.status != "done":
@@ -182,6 +219,7 @@ def _motions(args) -> int:
     from isolation.runner import export_suite
     from isolation.study import load_study
 
+    _out_folder(args.out)
     study = load_study(args.study)
     folder = export_suite(study, args.out, quick=args.quick)
     count = len(list(folder.glob("suite_*.txt")))
@@ -206,6 +244,7 @@ def _demo(args) -> int:
     study = Path(__file__).resolve().parent.parent / "examples" / "demo_study.toml"
     if not study.is_file():
         raise InputError(f"demo study {str(study)!r} is not allowed: must exist (examples/ missing?)")
+    _out_folder(args.out)
     outcome = _record(study, args.out, pdf=True, paper=args.paper, engine=args.engine)
     if outcome.status != "done":
         _say(f"demo failed: {outcome.error} (record: {outcome.path})")
@@ -225,6 +264,31 @@ def _explore(args) -> int:
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the exit code (0 done, 1 failed, 2 bad input)."""
     argv = list(sys.argv[1:] if argv is None else argv)
+    with _sigterm_as_interrupt():
+        return _main(argv)
+
+
+@contextlib.contextmanager
+def _sigterm_as_interrupt():
+    """SIGTERM stops a command like Ctrl-C: one line, records closed as failed."""
+    import signal
+    import threading
+
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    previous = signal.signal(signal.SIGTERM, _on_sigterm)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+
+
+def _on_sigterm(signum, frame):  # noqa: ARG001 - signal handler signature
+    raise KeyboardInterrupt("SIGTERM")
+
+
+def _main(argv: list[str]) -> int:
     if argv and argv[0] == "batch":
         try:
             from isolation.batch import main as batch_main
@@ -233,7 +297,7 @@ def main(argv: list[str] | None = None) -> int:
             return FAILED
         return batch_main(argv[1:])
     handlers = {"run": _run, "check": _check, "motions": _motions, "render": _render, "demo": _demo,
-                "explore": _explore}
+                "explore": _explore, "records": _records}
     try:
         args = _parser().parse_args(argv)
         if args.command is None:

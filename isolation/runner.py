@@ -158,7 +158,7 @@ _history_summary = history_summary  # the earlier private name, kept importable
 def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
     from isolation.motions import matched_suite
 
-    options, note = _suite_options(study, spectrum, periods, quick, progress)
+    options, note = suite_options(study, spectrum, periods, quick, progress)
     return matched_suite(spectrum, **options), note
 
 
@@ -166,12 +166,15 @@ def _pair_suite(study: Study, spectrum, periods: tuple, quick: bool, progress: b
     """Matched component pairs with the settings of the single-component suite (bidirectional runs)."""
     from isolation.motions import matched_pairs
 
-    options, _ = _suite_options(study, spectrum, periods, quick, progress)
+    options, _ = suite_options(study, spectrum, periods, quick, progress)
     return matched_pairs(spectrum, **options)
 
 
-def _suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
-    """Settings of the matched suite and a note when its check range had to change."""
+def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress: bool = False):
+    """Options of :func:`isolation.motions.matched_suite` for a study's suite, and a note.
+
+    ``periods`` is (T_M upper bound, T_M lower bound) [s] over all alternatives.
+    """
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
     options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,

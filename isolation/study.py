@@ -59,6 +59,7 @@ from pathlib import Path
 from typing import Any, Mapping
 
 from isolation.errors import InputError
+from isolation.files import read_input_text
 from isolation.study_inputs import (Alternative, Analysis, BearingSpec, Building, Project, Site, Study,
                                     StudyError)
 from isolation.study_keys import BEARING_KEYS, Problems, Reader
@@ -78,6 +79,9 @@ __all__ = [
     "parse_study",
     "read_study_mapping",
     "apply_overrides",
+    "overlay",
+    "parse_variants",
+    "parse_toml",
     "BEARING_KEYS",
     "LATERAL_SYSTEMS",
 ]
@@ -92,16 +96,90 @@ def read_study_mapping(path: str | Path) -> dict:
     Raises :class:`StudyError` for a missing file or malformed TOML.
     """
     path = Path(path)
+    if not path.exists():
+        raise StudyError([f"study file {str(path)!r} does not exist"])
     try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise StudyError([f"study file {str(path)!r} does not exist"]) from None
-    except (OSError, UnicodeDecodeError) as error:
-        raise StudyError([f"study file {str(path)!r} cannot be read: {error}"]) from None
+        text = read_input_text(path, what="study file", limit=STUDY_LIMIT)
+    except InputError as error:
+        raise StudyError([str(error)]) from None
+    return parse_toml(text, str(path), StudyError)
+
+
+STUDY_LIMIT = 1_000_000
+"""Largest study file read [bytes]; a study is a few kilobytes."""
+
+NESTING_LIMIT = 12
+"""Deepest nesting of tables and lists accepted in a study or batch file [levels]; a study
+needs 4 (alternative, bearings, a table, a list)."""
+
+
+def parse_toml(text: str, source: str, error_class=InputError) -> dict:
+    """Parse TOML text, refusing malformed TOML and absurd nesting with one clear error.
+
+    Parameters
+    ----------
+    text : str
+        The file's text.
+    source : str
+        The file's name for messages.
+    error_class : type
+        :class:`StudyError` (problems list) or :class:`InputError` (a message).
+    """
+    def fail(message: str):
+        return error_class([message], source=source) if error_class is StudyError else \
+            error_class(f"{source}: {message}")
+
+    depth = _bracket_depth(text)
+    if depth > 200:  # a quick bound before parsing: the parser recurses once per level
+        raise fail(f"nesting {depth} levels deep is not allowed: tables and lists may nest at most "
+                   f"{NESTING_LIMIT} levels")
     try:
-        return tomllib.loads(text)
+        data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
-        raise StudyError([f"not valid TOML: {error}"], source=str(path)) from None
+        raise fail(f"not valid TOML: {error}") from None
+    except RecursionError:
+        raise fail(f"nesting too deep is not allowed: tables and lists may nest at most "
+                   f"{NESTING_LIMIT} levels") from None
+    depth = _nesting(data)
+    if depth > NESTING_LIMIT:
+        raise fail(f"nesting {depth} levels deep is not allowed: tables and lists may nest at most "
+                   f"{NESTING_LIMIT} levels")
+    return data
+
+
+def _bracket_depth(text: str) -> int:
+    """Deepest run of open brackets and braces outside strings (a quick bound, before parsing)."""
+    deepest = level = 0
+    quote = None
+    for char in text:
+        if quote:
+            if char == quote or char == "\n":
+                quote = None
+            continue
+        if char == "#":
+            quote = "\n"  # a comment, to the end of the line
+        elif char in "\"'":
+            quote = char
+        elif char == "\n":
+            quote = None
+        elif char in "[{":
+            level += 1
+            deepest = max(deepest, level)
+        elif char in "]}":
+            level = max(0, level - 1)
+    return deepest
+
+
+def _nesting(value: Any) -> int:
+    deepest, stack = 0, [(value, 0)]
+    while stack:
+        item, level = stack.pop()
+        deepest = max(deepest, level)
+        if isinstance(item, Mapping):
+            stack.extend((v, level + 1) for v in item.values())
+        elif isinstance(item, list):
+            stack.extend((v, level + 1) for v in item)
+    return deepest
 
 
 def load_study(path: str | Path, overrides: Mapping[str, Any] | None = None) -> Study:
@@ -152,24 +230,60 @@ def parse_study(mapping: Mapping[str, Any], source: str = "<study>", *,
         raise StudyError([f"the study must be a table of keys, not {type(mapping).__name__}"], source)
     if base_dir is None:
         base_dir = Path(source).parent if source and not source.startswith("<") else Path.cwd()
+    return _parse(mapping, source, Path(base_dir), None)
+
+
+WIND_SHEAR_MAX = 1.0e6
+"""Largest ``wind.base_shear`` accepted [kN] (common practice: a plausibility bound, far above
+any building this tool is meant for)."""
+
+
+def _parse(mapping: Mapping[str, Any], source: str, base_dir: Path, cache: dict | None) -> Study:
+    """parse_study's work. With ``cache`` (a dict kept over many variants of one study),
+    each table whose content was seen before is taken from it with its problems: a batch's
+    variants are validated against the schema once per distinct table, not once each."""
     problems = Problems()
     reader = Reader(mapping, "", problems, system="SI")
     units = reader.choice("units", ("SI", "US"), required=False, default="SI")
     system = units if units in ("SI", "US") else "SI"
     reader.system = system
-    project = _project(reader.table("project"))
-    basis = _basis(reader.table("code"))
-    site = _site(reader.table("site"), basis, Path(base_dir))
-    building = _building(reader.table("building"), basis)
-    analysis = _analysis(reader.table("analysis", required=False))
-    wind = reader.table("wind", required=False)
-    wind_shear = wind.quantity("base_shear", "force", low=0.0, required=False) if wind else None
-    if wind:
+
+    def part(key: str, context: tuple, build, *, array: bool = False, required: bool = True):
+        reader.known.add(key)
+        present = key in mapping
+        value = mapping.get(key)
+        memo = None
+        if cache is not None:
+            memo = (key, context, system, present, repr(value))
+            hit = cache.get(memo)
+            if hit is not None:
+                problems.items.extend(hit[1])
+                return hit[0]
+        local = Problems()
+        sub = Reader({key: value} if present else {}, "", local, system)
+        table = sub.array_of_tables(key) if array else sub.table(key, required=required)
+        result = build(table)
+        if memo is not None:
+            cache[memo] = (result, tuple(local.items))
+        problems.items.extend(local.items)
+        return result
+
+    def wind_part(wind):
+        if not wind:
+            return None
+        shear = wind.quantity("base_shear", "force", low=0.0, high=WIND_SHEAR_MAX, required=False)
         wind.done()
-    total_weight = None
-    if building is not None:
-        total_weight = building.total_weight
-    alternatives = _alternatives(reader.array_of_tables("alternative"), total_weight)
+        return shear
+
+    project = part("project", (), _project)
+    basis = part("code", (), _basis)
+    site = part("site", (basis, str(base_dir)), lambda t: _site(t, basis, base_dir))
+    building = part("building", (basis,), lambda t: _building(t, basis))
+    analysis = part("analysis", (), _analysis, required=False)
+    wind_shear = part("wind", (), wind_part, required=False)
+    total_weight = building.total_weight if building is not None else None
+    alternatives = part("alternative", (total_weight,),
+                        lambda t: _cached_alternatives(t, total_weight, system, cache), array=True)
     reader.done()
     if problems:
         raise StudyError(problems.items, source)
@@ -178,10 +292,82 @@ def parse_study(mapping: Mapping[str, Any], source: str = "<study>", *,
                  source=source)
 
 
+def _cached_alternatives(tables, total_weight, system: str, cache: dict | None) -> tuple:
+    """_alternatives, each alternative's table read once per distinct content (with ``cache``)."""
+    if cache is None or not tables:
+        return _alternatives(tables, total_weight)
+    found, names = [], set()
+    for t in tables:
+        memo = ("alternative", t.path, system, total_weight, repr(t.mapping))
+        hit = cache.get(memo)
+        if hit is None:
+            local = Problems()
+            hit = (_alternatives([Reader(t.mapping, t.path, local, system)], total_weight), tuple(local.items))
+            cache[memo] = hit
+        t.problems.items.extend(hit[1])
+        found.extend(hit[0])
+        name = t.mapping.get("name")
+        if isinstance(name, str) and name.strip():
+            if name.strip() in names:
+                t.problems.add(f"{t.path_of('name')} = {name.strip()!r} is not allowed: alternative names "
+                               "must be unique")
+            names.add(name.strip())
+    return tuple(found)
+
+
+def parse_variants(base: Mapping[str, Any], variants, source: str = "<study>", *,
+                   base_dir: str | Path | None = None):
+    """Validate many variants of one study, each table's content once.
+
+    Parameters
+    ----------
+    base : mapping
+        The study's parsed TOML.
+    variants : iterable of mapping
+        Each variant's overrides (``{"dotted.key": value}``, see
+        :func:`apply_overrides`).
+    source, base_dir
+        As for :func:`parse_study`.
+
+    Yields
+    ------
+    Study or InputError
+        The validated study of each variant, or the error naming its problems.
+    """
+    if base_dir is None:
+        base_dir = Path(source).parent if source and not source.startswith("<") else Path.cwd()
+    cache: dict = {}
+    for overrides in variants:
+        try:
+            mapping = overlay(base, overrides)
+            if not isinstance(mapping, Mapping):
+                raise StudyError(["the study must be a table of keys"], source)
+            yield _parse(mapping, source, Path(base_dir), cache)
+        except InputError as error:
+            yield error
+
+
+def _own(node: Any, copied: bool) -> Any:
+    """A table or list on an override's path: copied once (shallow) unless already a deep copy."""
+    if copied:
+        return node
+    if isinstance(node, dict):
+        return dict(node)
+    if isinstance(node, list):
+        return list(node)
+    return node
+
+
 # --------------------------------------------------------------------------
 # Overrides
 # --------------------------------------------------------------------------
-def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) -> dict:
+def overlay(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) -> dict:
+    """Like :func:`apply_overrides`, but tables and lists off the overridden paths are shared
+    with ``mapping``, not copied: quick for many variants; treat the result as read-only."""
+    return apply_overrides(mapping, overrides, _copy=False)
+
+
+def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any], *, _copy: bool = True) -> dict:
     """Return a copy of a study mapping with dotted-key overrides applied.
 
     Parameters
@@ -200,7 +386,7 @@ def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) ->
         When a path is malformed, indexes past an array's end or runs through
         a value that is not a table.
     """
-    result = copy.deepcopy(dict(mapping))
+    result = copy.deepcopy(dict(mapping)) if _copy else dict(mapping)
     for given, value in overrides.items():
         path = re.sub(r"\[(\d+)\]", r".\1", given) if isinstance(given, str) else given
         if not isinstance(path, str) or not path or any(not part for part in path.split(".")):
@@ -218,7 +404,8 @@ def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) ->
                 if last:
                     node[int(part)] = value
                 else:
-                    node = node[int(part)]
+                    child = node[int(part)] = _own(node[int(part)], _copy)
+                    node = child
             elif isinstance(node, dict):
                 if last:
                     node[part] = value
@@ -226,7 +413,8 @@ def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) ->
                     node[part] = {}
                     node = node[part]
                 else:
-                    node = node[part]
+                    child = node[part] = _own(node[part], _copy)
+                    node = child
             else:
                 raise InputError(f"override {path!r} is not allowed: "
                                  f"{'.'.join(parts[:depth])!r} is a value, not a table")

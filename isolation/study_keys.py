@@ -11,7 +11,9 @@ bearing type's keys as :class:`Key` entries (kind, required, allowed range).
 from __future__ import annotations
 
 import math
+import unicodedata
 from dataclasses import dataclass
+from functools import lru_cache
 from datetime import date as _date
 from typing import Any, Mapping
 
@@ -25,7 +27,8 @@ __all__ = ["Key", "BEARING_KEYS", "ROOT_KEYS", "Problems", "Reader"]
 class Key:
     """What a key accepts: ``kind`` is a unit kind of :mod:`isolation.units`,
     ``"number"`` (unit ``unit``), ``"integer"`` or ``"choice"`` (one of
-    ``options``); range ``low``..``high``."""
+    ``options``); range ``low``..``high``.
+    A ``ratio`` also accepts a percent written as text (``"6 %"``)."""
 
     kind: str
     required: bool = True
@@ -34,22 +37,23 @@ class Key:
     low_inclusive: bool = True
     unit: str = "-"
     options: tuple = ()
+    ratio: bool = False
 
 
 BEARING_KEYS: dict[str, dict[str, Key]] = {
     "friction_pendulum": {
         "radius": Key("length", low=0.3, high=20.0),
-        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "slider_height": Key("length", required=False, low=0.0, high=2.0),
         "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False),
+        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "rate_parameter": Key("number", required=False, low=0.0, high=500.0, unit="s/m"),
     },
     "double_concave": {
         "radius_1": Key("length", low=0.3, high=20.0),
-        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "radius_2": Key("length", low=0.3, high=20.0),
-        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
         "slider_height_1": Key("length", required=False, low=0.0, high=2.0),
         "slider_height_2": Key("length", required=False, low=0.0, high=2.0),
         "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
@@ -89,6 +93,11 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
 """Keys of each bearing type (beside ``type``, ``count``, ``axial_load``),
 with kind, whether required, and allowed range in internal units (m, kPa)."""
 
+_INVISIBLE = frozenset("\ufeff\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069")
+
+TEXT_LIMIT = 200
+"""Longest text value (project name, client, ...) accepted [characters]."""
+
 ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative")
 
 _MISSING = object()
@@ -110,6 +119,7 @@ class Problems:
         return len(self.items)
 
 
+@lru_cache(maxsize=256)
 def _range_text(low, high, low_inclusive=True, high_inclusive=True) -> str:
     if low is not None and high is not None:
         left, right = ("[" if low_inclusive else "("), ("]" if high_inclusive else ")")
@@ -164,6 +174,13 @@ class Reader:
         if not isinstance(value, str) or not value.strip():
             self._bad(key, value, "non-empty " + allowed)
             return None
+        if len(value) > TEXT_LIMIT:
+            self._bad(key, value[:40] + "...", f"{allowed} of at most {TEXT_LIMIT} characters")
+            return None
+        if any(unicodedata.category(c) in ("Cc", "Cs", "Co", "Cn") or c in _INVISIBLE for c in value):
+            self._bad(key, value, allowed + " without control, private-use or unassigned characters (no NUL, "
+                      "tab, line break, byte-order mark or direction override)")
+            return None
         return value.strip()
 
     def date(self, key: str):
@@ -199,11 +216,21 @@ class Reader:
         return value
 
     def number(self, key: str, *, low=None, high=None, low_inclusive=True, high_inclusive=True,
-               unit: str = "-", required: bool = True, default=None):
+               unit: str = "-", required: bool = True, default=None, ratio: bool = False):
         allowed = f"a number {_range_text(low, high, low_inclusive, high_inclusive)} [{unit}]"
         value = self._get(key, required, allowed)
         if value is _MISSING:
             return default
+        if ratio and isinstance(value, str):
+            try:
+                value = _units.parse_ratio(value, field=self.path_of(key), allowed=allowed)
+            except InputError as error:
+                self.problems.add(str(error))
+                return None
+            if not _inside(value, low, high, low_inclusive, high_inclusive):
+                self._bad(key, self.mapping[key], f"{allowed} (a percent is divided by 100)")
+                return None
+            return value
         if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
             self._bad(key, value, allowed + " (without a unit)")
             return None
@@ -273,7 +300,7 @@ class Reader:
             return self.choice(key, spec.options, required=spec.required)
         if spec.kind == "number":
             return self.number(key, low=spec.low, high=spec.high, low_inclusive=spec.low_inclusive,
-                               unit=spec.unit, required=spec.required)
+                               unit=spec.unit, required=spec.required, ratio=spec.ratio)
         if spec.kind == "integer":
             return self.integer(key, low=spec.low, high=spec.high, required=spec.required)
         return self.quantity(key, spec.kind, low=spec.low, high=spec.high,

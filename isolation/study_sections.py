@@ -16,7 +16,8 @@ from typing import Any
 from isolation.study_inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
 from isolation.study_keys import BEARING_KEYS, Problems, Reader
 
-__all__ = ["LATERAL_SYSTEMS", "IMPORTANCE_RANGES"]
+__all__ = ["LATERAL_SYSTEMS", "IMPORTANCE_RANGES", "WEIGHT_MAX", "AXIAL_LOAD_MAX", "SPECTRUM_PERIOD_MAX",
+           "SPECTRUM_SA_MAX"]
 
 
 def _project(t: Reader | None) -> Project | None:
@@ -82,11 +83,14 @@ def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
 
 def _read_spectrum_table(path: Path, key: str, problems: Problems):
     """Two columns: period [s], Sa [g] at 5 % damping; an optional header line."""
+    from isolation.errors import InputError
+    from isolation.files import read_input_text
+
     try:
-        lines = path.read_text(encoding="utf-8").splitlines()
-    except OSError:
-        problems.add(f"{key} = {str(path)!r} is not allowed: must name an existing CSV file "
-                     "(relative to the study file) with columns period [s], Sa [g]")
+        lines = read_input_text(path, what=key, limit=1_000_000).splitlines()
+    except InputError as error:
+        problems.add(f"{error}; must name an existing CSV file (relative to the study file) with columns "
+                     "period [s], Sa [g]")
         return None
     periods, values = [], []
     for number, row in enumerate(csv.reader(lines), 1):
@@ -108,14 +112,31 @@ def _read_spectrum_table(path: Path, key: str, problems: Problems):
         problems.add(f"{key} = {str(path)!r} is not allowed: must hold at least 2 rows period [s], Sa [g]")
         return None
     bad = [i for i in range(len(periods)) if not (math.isfinite(periods[i]) and math.isfinite(values[i])
-                                                  and periods[i] >= 0 and values[i] > 0)]
+                                                  and 0 <= periods[i] <= SPECTRUM_PERIOD_MAX
+                                                  and 0 < values[i] <= SPECTRUM_SA_MAX)]
     rising = all(b > a for a, b in zip(periods, periods[1:]))
     if bad or not rising:
-        problems.add(f"{key} = {str(path)!r} is not allowed: periods must be >= 0 and strictly "
-                     "increasing and Sa values > 0 [s, g]")
+        where = f" (row {bad[0] + 1} of the data: {periods[bad[0]]!r}, {values[bad[0]]!r})" if bad else ""
+        problems.add(f"{key} = {str(path)!r} is not allowed: periods must lie in [0, {SPECTRUM_PERIOD_MAX:g}] s "
+                     f"and be strictly increasing, Sa values in (0, {SPECTRUM_SA_MAX:g}] g{where}")
         return None
     return tuple(periods), tuple(values)
 
+
+WEIGHT_MAX = 2.0e6
+"""Largest floor or base weight accepted [kN] (about 200 000 t; common practice: a
+plausibility bound far above any floor this tool is meant for)."""
+
+AXIAL_LOAD_MAX = 2.0e5
+"""Largest axial load per bearing accepted [kN] (common practice: the largest bearings
+made carry a few 10^4 kN)."""
+
+SPECTRUM_PERIOD_MAX = 20.0
+"""Longest period of a tabulated site spectrum [s]."""
+
+SPECTRUM_SA_MAX = 10.0
+"""Largest spectral value of a tabulated site spectrum [g] (common practice: recorded
+5 %-damped spectra stay below about 5 g)."""
 
 LATERAL_SYSTEMS = ("steel_moment_frame", "concrete_moment_frame", "braced_frame", "other")
 """Lateral systems for the code's approximate fixed-base period (ASCE/SEI 7-16 Table 12.8-2)."""
@@ -151,8 +172,8 @@ def _building(t: Reader | None, basis: str) -> Building | None:
     values = dict(
         storeys=storeys,
         floor_weights=t.quantity_list("floor_weights", "weight", length=count, low=0.0,
-                                      low_inclusive=False),
-        base_weight=t.quantity("base_weight", "weight", low=0.0, low_inclusive=False),
+                                      high=WEIGHT_MAX, low_inclusive=False),
+        base_weight=t.quantity("base_weight", "weight", low=0.0, high=WEIGHT_MAX, low_inclusive=False),
         storey_heights=t.quantity_list("storey_heights", "length", length=count, low=1.5, high=20.0),
         lateral_system=t.choice("lateral_system", LATERAL_SYSTEMS),
         response_modification=t.number("response_modification", low=1.0, high=8.0),
@@ -161,7 +182,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
         plan_width=t.quantity("plan_width", "length", low=1.0, high=500.0),
         fixed_base_period=t.quantity("fixed_base_period", "time", low=0.02, high=10.0, required=False),
         eccentricity=t.quantity("eccentricity", "length", low=0.0, required=False, default=0.0),
-        damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05),
+        damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05, ratio=True),
     )
     values.update(_yielding_keys(t, count))
     length, width = values["plan_length"], values["plan_width"]
@@ -210,7 +231,7 @@ def _analysis(t: Reader | None) -> Analysis:
         seed=t.integer("seed", low=0, high=2**32 - 1, required=False, default=0),
         duration=t.quantity("duration", "time", low=5.0, high=120.0, required=False, default=30.0),
         time_step=t.quantity("time_step", "time", low=0.001, high=0.02, required=False, default=0.005),
-        damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05),
+        damping=t.number("damping", low=0.01, high=0.3, required=False, default=0.05, ratio=True),
         bidirectional=t.boolean("bidirectional", required=False, default=False),
     )
     t.done()
@@ -269,7 +290,7 @@ def _grid(t: Reader, specs: list) -> tuple | None:
 def _bearing_group(t: Reader) -> BearingSpec | None:
     kind = t.choice("type", tuple(BEARING_KEYS))
     count = t.integer("count", low=1, high=2000)
-    axial = t.quantity("axial_load", "force", low=0.0, low_inclusive=False, required=False)
+    axial = t.quantity("axial_load", "force", low=0.0, high=AXIAL_LOAD_MAX, low_inclusive=False, required=False)
     properties = {}
     if kind in BEARING_KEYS:
         for key, spec in BEARING_KEYS[kind].items():

@@ -15,6 +15,7 @@ registry is built on first use (about half a second).
 from __future__ import annotations
 
 import math
+import re
 from functools import lru_cache
 from typing import Any
 
@@ -30,6 +31,9 @@ __all__ = [
     "convert",
     "to_display",
     "format_quantity",
+    "split_quantity",
+    "parse_ratio",
+    "GRAMMAR",
 ]
 
 SYSTEMS = ("SI", "US")
@@ -117,6 +121,10 @@ def parse_quantity(value: Any, kind: str, *, field: str, system: str = "SI") -> 
                          + ", ".join(repr(k) for k in KINDS))
     if system not in SYSTEMS:
         raise InputError(f"units = {system!r} is not allowed: must be one of 'SI', 'US'")
+    if isinstance(value, str):
+        known = _known_text(value, kind, system)
+        if known is not None:
+            return known
     allowed = _allowed(kind, system)
     if isinstance(value, bool):
         raise _fail(field, value, allowed)
@@ -127,27 +135,151 @@ def parse_quantity(value: Any, kind: str, *, field: str, system: str = "SI") -> 
         unit = BARE_UNITS[system][kind]
         if unit == KINDS[kind][0]:
             return number
-        return convert(number, unit, KINDS[kind][0])
+        return number * _factor(unit, KINDS[kind][0])
     if not isinstance(value, str) or not value.strip():
         raise _fail(field, value, allowed)
+    return _parse_text(value, kind, field=field, system=system, allowed=allowed)
+
+
+@lru_cache(maxsize=4096)
+def _known_text(value: str, kind: str, system: str) -> float | None:
+    """The value of a quantity text read before (None when it is not valid): many variants
+    of one study repeat the same texts."""
+    try:
+        return _parse_text(value, kind, field="", system=system, allowed="")
+    except InputError:
+        return None
+
+
+# A quantity written as text: one number (optional sign, decimals, exponent) and at most one
+# unit expression: unit names joined by '*', '/' or a space, each with an optional small
+# whole-number power ('**2', '^2'). Nothing is evaluated: "9**9**9 m" or "2*3 m" are refused.
+_NUMBER_TEXT = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
+_UNIT_NAME = r"[A-Za-z_\u00b5\u03bc]+(?:(?:\*\*|\^)-?[1-4])?"
+_UNIT_TEXT = _UNIT_NAME + r"(?:\s*(?:\*|/|\u00b7|\s)\s*" + _UNIT_NAME + r")*"
+_QUANTITY = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*(" + _UNIT_TEXT + r")?\s*$", re.ASCII)
+_PERCENT = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*%\s*$", re.ASCII)
+_UNIT_ONLY = re.compile(r"^\s*(" + _UNIT_TEXT + r")\s*$", re.ASCII)
+
+GRAMMAR = ("one number (e.g. 12, 0.4, 2.5e3) followed by one unit (e.g. 'm', 'kip/in', "
+           "'kip*s**2/ft'); no arithmetic")
+"""What a quantity written as text may look like (for messages)."""
+
+
+def split_quantity(text: str) -> tuple[float, str]:
+    """Split a quantity written as text into its number and unit, by a strict grammar.
+
+    Parameters
+    ----------
+    text : str
+        E.g. ``"12 in"``, ``"2.5e3 kN"``, ``"0.4"``. Allowed: one number
+        (optional sign, decimal point and exponent) and at most one unit
+        expression (unit names joined by ``*``, ``/`` or a space, each with an
+        optional whole-number power 1-4). Nothing is evaluated.
+
+    Returns
+    -------
+    (float, str)
+        The number as written [the unit's] and the unit text ("" for none).
+
+    Raises
+    ------
+    ValueError
+        For anything else; the message says what is allowed (a percent sign,
+        a unit without a number, arithmetic, a number that is not finite).
+    """
+    if not isinstance(text, str):
+        raise ValueError(f"must be text, not {type(text).__name__}")
+    found = _QUANTITY.match(text)
+    if found is None:
+        if _PERCENT.match(text):
+            raise ValueError("a percent is allowed only for a ratio (such as a damping ratio); "
+                             "this value needs a unit")
+        if _UNIT_ONLY.match(text):
+            raise ValueError("a unit needs a number in front of it, e.g. '350 kN'")
+        raise ValueError(GRAMMAR)
+    number = float(found.group(1))
+    if not math.isfinite(number):
+        raise ValueError("the number must be finite")
+    return number, (found.group(2) or "").strip()
+
+
+def parse_ratio(value: Any, *, field: str, allowed: str) -> float:
+    """Read a ratio given as a number (0.05) or as a percent text ("5 %").
+
+    Parameters
+    ----------
+    value : float, int or str
+        The ratio: a bare number, or text of one number and ``%``. [-]
+    field : str
+        Name of the input for error messages.
+    allowed : str
+        What is allowed, for the error message.
+
+    Returns
+    -------
+    float
+        The ratio as a fraction (``"5 %"`` gives 0.05). [-]
+    """
+    if isinstance(value, str):
+        found = _PERCENT.match(value)
+        if found is None:
+            raise _fail(field, value, allowed + " (a bare number such as 0.05, or a percent such as '5 %')")
+        number = float(found.group(1)) / 100.0
+    elif isinstance(value, (int, float)) and not isinstance(value, bool):
+        number = float(value)
+    else:
+        raise _fail(field, value, allowed)
+    if not math.isfinite(number):
+        raise _fail(field, value, allowed)
+    return number
+
+
+@lru_cache(maxsize=512)
+def _unit_factor(unit: str, kind: str) -> tuple[float, str | None]:
+    """Factor from ``unit`` to the internal unit of ``kind`` and the kind found when it differs.
+
+    Returns ``(factor, None)`` when the unit is of this kind, ``(nan, found)``
+    when it is another (``found`` names the kind or dimension), and raises
+    ``LookupError`` when the unit is not recognised.
+    """
     registry = _registry()
     try:
-        quantity = registry.Quantity(value.strip())
+        parsed = registry.parse_units(unit)
     except Exception:
-        raise _fail(field, value, allowed + " (the unit was not recognised)") from None
-    magnitude = quantity.magnitude
-    if not isinstance(magnitude, (int, float)) or not math.isfinite(float(magnitude)):
-        raise _fail(field, value, allowed)
-    if quantity.dimensionless:
-        # A number written as a string ("0.4"): read as a bare number.
-        return parse_quantity(float(magnitude), kind, field=field, system=system)
-    target = registry.Unit(KINDS[kind][0])
+        raise LookupError(unit) from None
+    quantity = registry.Quantity(1.0, parsed)
     if kind == "weight" and quantity.dimensionality == registry.Unit("t").dimensionality:
-        return float(quantity.to("t").magnitude) * GRAVITY
+        return float(quantity.to("t").magnitude) * GRAVITY, None
+    target = registry.Unit(KINDS[kind][0])
     if quantity.dimensionality != target.dimensionality:
-        found = _describe_dimension(quantity)
+        return math.nan, _describe_dimension(quantity)
+    return float(quantity.to(target).magnitude), None
+
+
+def _parse_text(value: str, kind: str, *, field: str, system: str, allowed: str) -> float:
+    try:
+        number, unit = split_quantity(value)
+    except ValueError as error:
+        raise _fail(field, value, f"{allowed}; {error}") from None
+    if not unit:
+        # A number written as a string ("0.4"): read as a bare number.
+        return parse_quantity(number, kind, field=field, system=system)
+    try:
+        factor, found = _unit_factor(unit, kind)
+    except LookupError:
+        raise _fail(field, value, allowed + " (the unit was not recognised)") from None
+    if found is not None:
         raise _fail(field, value, f"{allowed}; a {found} was given")
-    return float(quantity.to(target).magnitude)
+    result = number * factor
+    if not math.isfinite(result):
+        raise _fail(field, value, allowed)
+    return result
+
+
+@lru_cache(maxsize=64)
+def _factor(from_unit: str, to_unit: str) -> float:
+    return convert(1.0, from_unit, to_unit)
 
 
 def _describe_dimension(quantity) -> str:

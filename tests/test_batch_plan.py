@@ -204,10 +204,14 @@ def test_grid_ids_stay_distinct_as_folder_names(tmp_path):
         load_batch(path)
 
 
-def test_variant_checked_against_its_own_models(tmp_path):
-    # a time step far too coarse for the superstructure's shortest period is caught before
-    # anything runs (the study's own model check), named with its key
+def test_variant_checked_against_its_own_models(tmp_path, monkeypatch):
+    # a building too stiff for the time step (more sub-steps than allowed, here at most 1) is
+    # caught before anything runs (the study's own model check), named with its keys
+    import isolation.study_model as model
+
+    monkeypatch.setattr(model, "MAX_SUBSTEPS", 1)
+    monkeypatch.setattr(model, "_REMEMBERED", {})
     path = write_batch(tmp_path, '[batch]\nstudy = "study.toml"\n[[variant]]\nid = "coarse"\n'
                                  '"analysis.time_step" = 0.02\n"building.fixed_base_period" = 0.05\n')
-    with pytest.raises(InputError, match=r"\[coarse\].*analysis.time_step"):
+    with pytest.raises(InputError, match=r"\[coarse\].*building.fixed_base_period"):
         validate_plan(load_batch(path))

@@ -41,7 +41,7 @@ class FlakyRecords:
     read_manifest = staticmethod(lambda folder: {})
     study_input_hash = staticmethod(lambda study_file, overrides: "")
 
-    def run_record(self, study_file, out_dir, *, pdf, overrides, run_id, quick):
+    def run_record(self, study_file, out_dir, *, pdf, overrides, run_id, quick, **_options):
         self.calls += 1
         if self.failures:
             message = self.failures.pop(0)

@@ -100,8 +100,13 @@ def test_failing_workbook_leaves_a_failed_record(tmp_path):
     assert manifest["report"] is None and outcome.report is None
     assert not (outcome.path / "results.json").exists()
     assert "feasibility.ipynb" in visible(outcome.path)     # kept for diagnosis
-    # A failed record may be replaced by a new run of the same id.
-    again = run_record(DEMO, tmp_path, pdf=False, quick=True, notebook=WORKBOOK, run_id="bad")
+    # A failed record is never replaced silently: the same run id is an error ...
+    with pytest.raises(InputError, match="already exists"):
+        run_record(DEMO, tmp_path, pdf=False, quick=True, notebook=WORKBOOK, run_id="bad")
+    assert read_manifest(outcome.path)["status"] == "failed"
+    # ... unless asked for (a batch re-running a failed variant).
+    again = run_record(DEMO, tmp_path, pdf=False, quick=True, notebook=WORKBOOK, run_id="bad",
+                       replace_failed=True)
     assert again.status == "done" and read_manifest(again.path)["status"] == "done"
 
 

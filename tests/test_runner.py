@@ -246,11 +246,25 @@ def test_eurocode_suite_band_reaches_twice_a_long_isolated_period():
     assert high > 6.0
 
 
-def test_time_step_too_coarse_for_the_building_is_bad_input():
-    # dt <= T_min/10 (the history engine's rule); the demo's 4th mode is near 0.1 s.
+def test_coarse_time_step_runs_sub_stepped():
+    # dt > T_min/10: the engine takes ceil(10 dt / T_min) sub-steps per sample (ground motion
+    # interpolated) instead of refusing; the demo's shortest fixed-base mode is near 0.1 s.
     mapping = apply_overrides(read_study_mapping(DEMO), {"analysis.time_step": "0.02 s"})
     study = parse_study(mapping, source=str(DEMO))
-    with pytest.raises(InputError, match=r"analysis.time_step = 0.02 s is not allowed for this building"):
+    results = run_study(study, quick=True)
+    shortest = float(np.min(results.live["superstructure"].modal().periods))
+    assert results.live["histories"]["fixed"].model["substeps"] == math.ceil(10 * 0.02 / shortest)
+
+
+def test_implausibly_stiff_building_is_bad_input(monkeypatch):
+    # More than MAX_SUBSTEPS sub-steps per sample is refused naming the building keys.
+    import isolation.study_model as model
+
+    monkeypatch.setattr(model, "MAX_SUBSTEPS", 1)
+    monkeypatch.setattr(model, "_REMEMBERED", {})  # checks of earlier tests are remembered per input
+    mapping = apply_overrides(read_study_mapping(DEMO), {"analysis.time_step": "0.02 s"})
+    study = parse_study(mapping, source=str(DEMO))
+    with pytest.raises(InputError, match=r"building: its shortest fixed-base period .* building.fixed_base_period"):
         run_study(study, quick=True)
 
 

@@ -408,3 +408,36 @@ def test_yielding_building_keys_default_and_checks():
     assert any("building.fixed_base_model" in p and "'yielding'" in p for p in problems)
     assert any("building.overstrength = 0.5" in p for p in problems)
     assert any("building.storey_strengths" in p for p in problems)
+
+
+# Issue 15: percent only for ratios; text without control characters; plausible ranges.
+def _demo_with(overrides):
+    from isolation.study import apply_overrides, parse_study, read_study_mapping
+
+    demo = Path(__file__).resolve().parent.parent / "examples" / "demo_study.toml"
+    return parse_study(apply_overrides(read_study_mapping(demo), overrides), source=str(demo))
+
+
+def test_a_percent_is_a_ratio_only():
+    study = _demo_with({"analysis.damping": "5 %", "alternative.0.bearings.0.friction": "6 %"})
+    assert study.analysis.damping == pytest.approx(0.05, rel=1e-12)       # 5 % = 5/100 (definition)
+    assert study.alternatives[0].bearings[0].properties["friction"] == pytest.approx(0.06, rel=1e-12)
+    with pytest.raises(StudyError, match=r"alternative\[0\].bearings\[0\].radius = '50 %'.*ratio"):
+        _demo_with({"alternative.0.bearings.0.radius": "50 %"})
+    with pytest.raises(StudyError, match=r"analysis.damping = '50 %'.*percent is divided by 100"):
+        _demo_with({"analysis.damping": "50 %"})
+
+
+@pytest.mark.parametrize("key, value, words", [
+    ("building.floor_weights", 1e300, ["building.floor_weights", "2e+06"]),
+    ("building.base_weight", "1e300 kN", ["building.base_weight", "2e+06"]),
+    ("wind.base_shear", 1e300, ["wind.base_shear", "1e+06"]),
+    ("alternative.0.bearings.0.axial_load", "1e300 kN", ["axial_load", "200000"]),
+    ("project.name", "a\x00b", ["project.name", "control"]),
+    ("project.client", "x" * 500, ["project.client", "200 characters"]),
+])
+def test_values_far_outside_physics_are_refused_naming_the_range(key, value, words):
+    with pytest.raises(StudyError) as caught:
+        _demo_with({key: value})
+    for word in words:
+        assert word in str(caught.value)

@@ -93,3 +93,34 @@ def test_round_trip_through_display_units(value):
     # Any length shown in inches and read back gives the same metres.
     magnitude, unit = to_display(value, "length", "US")
     assert math.isclose(parse_quantity(f"{magnitude!r} {unit}", "length", field="x"), value, rel_tol=1e-9)
+
+
+# Strict grammar (issue 15): one number and one unit; nothing evaluated.
+@pytest.mark.parametrize("text, words", [
+    ("9**9**9 m", ["no arithmetic"]),
+    ("10**10**6 m", ["no arithmetic"]),
+    ("2*3 m", ["no arithmetic"]),
+    ("1e400 m", ["finite"]),
+    ("50 %", ["percent", "ratio"]),
+    ("kN", ["needs a number"]),
+    ("m", ["needs a number"]),
+    ("1,5 m", ["no arithmetic"]),
+])
+def test_quantities_follow_a_strict_grammar(text, words):
+    import time
+
+    started = time.monotonic()
+    with pytest.raises(InputError) as caught:
+        parse_quantity(text, "length", field="site.radius")
+    assert time.monotonic() - started < 1.0       # refused at once, never evaluated
+    message = str(caught.value)
+    assert "site.radius" in message and repr(text) in message
+    for word in words:
+        assert word in message
+
+
+def test_compound_units_and_exponents_still_read():
+    # NIST SP 811: 1 kip = 4448.2216152605 N, 1 in = 0.0254 m (exact).
+    assert parse_quantity("7 kip/in", "stiffness", field="x") == pytest.approx(7 * LBF / INCH, rel=1e-12)
+    assert parse_quantity("2.5e3 mm", "length", field="x") == pytest.approx(2.5, rel=1e-12)
+    assert parse_quantity("-0.5E-1 m", "length", field="x") == pytest.approx(-0.05, rel=1e-12)

@@ -77,17 +77,50 @@ def check_variants(study_file: str, items: list, settings: Mapping | None = None
     path = Path(study_file)
     base = study_module.read_study_mapping(path)
     found = []
-    for variant_id, overrides in items:
+    pieces: dict = {}
+    studies = study_module.parse_variants(base, (overrides for _, overrides in items), source=path.name,
+                                          base_dir=path.parent)
+    for (variant_id, _), study in zip(items, studies):
         try:
-            mapping = study_module.apply_overrides(base, overrides)
-            study = study_module.parse_study(mapping, source=path.name, base_dir=path.parent)
+            if isinstance(study, Exception):
+                raise study
             if model_checks:
                 check_study(study)  # the study against its own models (time step, bearings)
         except ValueError as error:
             found.append((variant_id, None, " ".join(str(error).split())))
             continue
-        found.append((variant_id, variant_hash(study.to_dict(), settings), None))
+        found.append((variant_id, _study_hash(study, settings, pieces), None))
     return found
+
+
+def _study_hash(study, settings: Mapping | None, pieces: dict) -> str:
+    """:func:`variant_hash` of ``study.to_dict()``, the same digest, with the JSON text of each
+    part of the study made once (``pieces``: a cache over the variants of one batch)."""
+    from dataclasses import asdict, fields
+
+    from isolation.plain import plain
+
+    def text_of(value) -> str:
+        # Parts taken from the validation cache are the same objects from variant to variant.
+        known = pieces.get(id(value))
+        if known is not None and known[0] is value:
+            return known[1]
+        converted = asdict(value) if hasattr(value, "__dataclass_fields__") else value
+        text = json.dumps(_hashable(plain(converted, keep_nonfinite=True)), sort_keys=True)
+        if hasattr(value, "__dataclass_fields__"):
+            pieces[id(value)] = (value, text)  # the value is kept: its id is not reused
+        return text
+
+    parts = []
+    for item in fields(study):
+        value = getattr(study, item.name)
+        if isinstance(value, tuple):  # the alternatives: one piece each
+            parts.append((item.name, "[" + ", ".join(text_of(v) for v in value) + "]"))
+        else:
+            parts.append((item.name, text_of(value)))
+    body = ", ".join(f"{json.dumps(name)}: {text}" for name, text in sorted(parts))
+    payload = "{" + f'"settings": {json.dumps(_hashable(settings or {}), sort_keys=True)}, "study": {{{body}}}' + "}"
+    return hashlib.sha256(payload.encode("utf-8")).hexdigest()
 
 
 def validate_plan(plan: BatchPlan, settings: Mapping | None = None, *, executor: Executor | None = None,

@@ -63,6 +63,12 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     parser.add_argument("--motions", metavar="SUITE.json",
                         help="with --histories: the suite to use (metadata file written by 'python -m isolation "
                         "motions'); default: the base study's matched suite")
+    parser.add_argument(
+        "--max-variants",
+        type=int,
+        metavar="N",
+        help="most variants allowed (default: 1000 for records, 100000 with --direct); counted before any is validated",
+    )
     parser.add_argument("--check", action="store_true", help="validate the batch and every variant, run nothing")
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
     return parser
@@ -79,6 +85,12 @@ def main(argv: list[str] | None = None) -> int:
         args = parser.parse_args(argv)
     except SystemExit as stop:  # --help (0) or a usage error (2)
         return int(stop.code or 0)
+    if args.out and Path(args.out).exists() and not Path(args.out).is_dir():
+        _say(f"error: --out = {args.out!r} is not allowed: must be a folder, not a file")
+        return 2
+    if args.max_variants is not None and args.max_variants < 1:
+        _say(f"error: --max-variants = {args.max_variants} is not allowed: must be a whole number >= 1")
+        return 2
     if args.workers is not None and args.workers < 1:
         _say(f"error: --workers = {args.workers} is not allowed: must be a whole number >= 1")
         return 2
@@ -101,9 +113,10 @@ def main(argv: list[str] | None = None) -> int:
 def _run(args: argparse.Namespace) -> int:
     from isolation.batch.check import CHUNK_FROM, validate_plan
     from isolation.batch.executors import open_executor
-    from isolation.batch.plan import load_batch
+    from isolation.batch.plan import DIRECT_LIMIT, RECORD_LIMIT, load_batch
 
-    plan = load_batch(args.batch_file)
+    limit = args.max_variants or (DIRECT_LIMIT if args.direct else RECORD_LIMIT)
+    plan = load_batch(args.batch_file, max_variants=limit)
     if (args.histories or args.motions) and not args.direct:
         raise InputError("--histories and --motions are not allowed without --direct: "
                          "history sweeps run as a direct sweep (no notebooks)")

@@ -119,11 +119,9 @@ def _record_intact(out_dir: Path, entry: dict) -> bool:
     record = entry.get("record")
     if not record:
         return True  # runners without records (direct evaluation) keep their rows in the state
-    manifest = out_dir / record / "manifest.json"
-    try:
-        return json.loads(manifest.read_text(encoding="utf-8")).get("status") == "done"
-    except (OSError, json.JSONDecodeError):
-        return False
+    from isolation.records import verify_record
+
+    return verify_record(out_dir / record) is None  # every file present with the sha256 of its manifest
 
 
 def _remove_superseded(out_dir: Path, entry: dict) -> None:

@@ -32,7 +32,9 @@ Validation of the variants against the study (before anything runs) is
 from __future__ import annotations
 
 import csv
+import io
 import itertools
+import math
 import re
 import tomllib
 from dataclasses import dataclass, field
@@ -40,12 +42,15 @@ from pathlib import Path
 from typing import Any, Mapping
 
 from isolation.errors import InputError
+from isolation.files import read_input_text
 
 __all__ = [
     "Variant",
     "BatchPlan",
     "load_batch",
     "safe_name",
+    "RECORD_LIMIT",
+    "DIRECT_LIMIT",
 ]
 
 BATCH_KEYS = ("name", "study", "table", "pdf", "description")
@@ -184,7 +189,12 @@ def _csv_value(text: str) -> Any:
 def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict, str]]:
     rows: list[tuple[str | None, dict, str]] = []
     try:
-        with path.open(newline="", encoding="utf-8") as handle:
+        text = read_input_text(path, what="batch.table")
+    except InputError as error:
+        problems.append(str(error))
+        return rows
+    try:
+        with io.StringIO(text, newline="") as handle:
             reader = csv.DictReader(handle)
             if not reader.fieldnames:
                 problems.append(f"table {path.name}: no header row; allowed: dotted key paths and 'id'")
@@ -193,6 +203,11 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
             for bad in [n for n in names if not n]:
                 problems.append(f"table {path.name}: empty column name {bad!r}; allowed: dotted key paths and 'id'")
             for number, row in enumerate(reader, start=2):
+                if row.get(None):
+                    problems.append(f"table {path.name} row {number} has {len(names) + len(row[None])} fields, "
+                                    f"the header {len(names)}: not allowed (a decimal comma, or a comma in an "
+                                    "unquoted value? quote it: \"1.5 m\")")
+                    continue
                 overrides = {}
                 variant_id = None
                 for name, cell in zip(names, row.values()):
@@ -203,30 +218,36 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
                     else:
                         overrides[name] = _csv_value(str(cell))
                 rows.append((variant_id, overrides, f"{path.name} row {number}"))
-    except OSError as error:
-        problems.append(f"batch.table = {str(path)!r} cannot be read ({error.strerror}); allowed: a CSV file relative to the batch file")
+    except csv.Error as error:
+        problems.append(f"batch.table = {str(path)!r}: not a readable CSV table ({error}); allowed: a CSV file "
+                        "with a header row of dotted key paths")
     return rows
 
 
 def _read_toml(path: Path, what: str) -> dict:
-    try:
-        with path.open("rb") as handle:
-            return tomllib.load(handle)
-    except FileNotFoundError:
-        raise InputError(f"{what} = {str(path)!r} does not exist; allowed: an existing TOML file") from None
-    except OSError as error:
-        raise InputError(f"{what} = {str(path)!r} cannot be read ({error.strerror})") from None
-    except tomllib.TOMLDecodeError as error:
-        raise InputError(f"{path.name}: not valid TOML ({error})") from None
+    from isolation.study import parse_toml
+
+    return parse_toml(read_input_text(path, what=what), path.name)
 
 
-def load_batch(path: str | Path) -> BatchPlan:
+RECORD_LIMIT = 1_000
+"""Most variants a batch of records may have unless the user raises it (each is a workbook
+run of a minute or more and a record folder) [variants]."""
+
+DIRECT_LIMIT = 100_000
+"""Most variants of a direct sweep (``--direct``) unless the user raises it [variants]."""
+
+
+def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> BatchPlan:
     """Read a batch file and expand its variants.
 
     Parameters
     ----------
     path : str or Path
         The batch TOML file.
+    max_variants : int, optional
+        Most variants allowed; counted before any is built or validated
+        (default :data:`DIRECT_LIMIT`; None: no limit). [variants]
 
     Returns
     -------
@@ -267,8 +288,11 @@ def load_batch(path: str | Path) -> BatchPlan:
         problems.append(f"batch.study = {study!r} is not allowed: must be the path of a study file relative to the batch file")
     else:
         study_file = (batch_file.parent / study).resolve()
-        if not study_file.is_file():
+        if not study_file.exists():
             problems.append(f"batch.study = {study!r} is not allowed: {study_file} does not exist")
+        elif not study_file.is_file():
+            problems.append(f"batch.study = {study!r} is not allowed: {study_file} is not a plain file "
+                            "(a folder, named pipe or device)")
 
     common = data.get("common", {})
     if not isinstance(common, Mapping):
@@ -285,7 +309,19 @@ def load_batch(path: str | Path) -> BatchPlan:
     for key, values in grid.items():
         if not isinstance(values, list) or not values:
             problems.append(f"grid.{key} = {values!r} is not allowed: must be a non-empty list of values")
+    listed = data.get("variant", [])
+    table = head.get("table")
+    table_rows = None
+    if isinstance(table, str):
+        table_rows = _read_table(batch_file.parent / table, problems)
     if grid and all(isinstance(v, list) and v for v in grid.values()):
+        count = math.prod(len(v) for v in grid.values())
+        count += len(listed) if isinstance(listed, list) else 0
+        count += len(table_rows or ())
+        if max_variants is not None and count > max_variants:
+            sizes = " x ".join(str(len(v)) for v in grid.values())
+            raise InputError(f"{batch_file.name}: {count} variants (grid {sizes}) is not allowed: must be at most "
+                             f"{max_variants}; raise the limit with --max-variants N if you mean it")
         keys = list(grid)
         combinations = list(itertools.product(*(grid[k] for k in keys)))
         ids = [_grid_ids(keys, combination) for combination in combinations]
@@ -294,7 +330,6 @@ def load_batch(path: str | Path) -> BatchPlan:
         for variant_id, combination in zip(ids, combinations):
             variants.append(Variant(variant_id, dict(zip(keys, combination)), "grid"))
 
-    listed = data.get("variant", [])
     if not isinstance(listed, list):
         problems.append("variant is not allowed as a table: write [[variant]] (a list of tables)")
         listed = []
@@ -309,16 +344,18 @@ def load_batch(path: str | Path) -> BatchPlan:
             problems.append(f"variant {number} has no overrides; allowed: dotted key paths into the study")
         variants.append(Variant(given if given is not None else f"variant-{number:02d}", overrides, f"variant {number}"))
 
-    table = head.get("table")
     if table is not None:
         if not isinstance(table, str):
             problems.append(f"batch.table = {table!r} is not allowed: must be a CSV file path relative to the batch file")
         else:
-            for number, (given, overrides, origin) in enumerate(_read_table(batch_file.parent / table, problems), start=1):
+            for number, (given, overrides, origin) in enumerate(table_rows or (), start=1):
                 if not overrides:
                     problems.append(f"{origin} has no overrides; allowed: values under dotted key path columns")
                 variants.append(Variant(given if given is not None else f"row-{number:03d}", overrides, origin))
 
+    if max_variants is not None and len(variants) > max_variants:
+        raise InputError(f"{batch_file.name}: {len(variants)} variants is not allowed: must be at most {max_variants}; "
+                         "raise the limit with --max-variants N if you mean it")
     if not variants and not problems:
         problems.append("the batch has no variants; allowed: a [grid] table, [[variant]] tables or batch.table")
     checked: list[Variant] = []

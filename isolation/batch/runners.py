@@ -150,7 +150,7 @@ def record_runner(task: VariantTask) -> VariantOutcome:
         try:
             outcome = records.run_record(
                 task.study_file, out_dir, pdf=task.pdf, overrides=dict(task.overrides), run_id=task.variant_id,
-                quick=task.quick,
+                quick=task.quick, replace_failed=True,
             )
         except Exception as error:  # run_record reports failures itself; this is the fallback
             message = one_line(error)
@@ -187,9 +187,9 @@ def _existing_record(records, task: VariantTask) -> Path | None:
         return None  # none, or failed: run_record replaces a failed record itself
     same = (manifest.get("input_hash") == records.study_input_hash(study_file, task.overrides)
             and bool(manifest.get("options", {}).get("quick")) == task.quick)
-    if same and (folder / "results.json").is_file():
+    if same and records.verify_record(folder) is None:
         return folder
-    shutil.rmtree(folder)  # a complete record of other input under this variant's name
+    shutil.rmtree(folder)  # a damaged record, or a complete one of other input under this variant's name
     return None
 
 

@@ -72,7 +72,23 @@ __all__ = [
 
 FORMAT_NAME = "isolation accelerogram v1"
 _NUMBER = r"([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)"
-_STEP_PATTERN = re.compile(r"\b(?:dt|time[ _-]?step|delta[ _-]?t|sampling[ _-]?interval)\b\s*[=:]?\s*" + _NUMBER, re.I)
+_STEP_PATTERN = re.compile(r"\b(?:dt|time[ _-]?step|delta[ _-]?t|sampling[ _-]?interval)\b\s*[=:]?\s*" + _NUMBER
+                           + r"(?:[dD]([-+]?\d+))?\s*([A-Za-z\u00b5]+)?", re.I)
+_STEP_UNITS = {"s": 1.0, "sec": 1.0, "secs": 1.0, "second": 1.0, "seconds": 1.0,
+               "ms": 1e-3, "msec": 1e-3, "millisecond": 1e-3, "milliseconds": 1e-3,
+               "us": 1e-6, "\u00b5s": 1e-6, "microsecond": 1e-6, "microseconds": 1e-6}
+_OTHER_TIME_UNITS = {"min", "mins", "minute", "minutes", "h", "hr", "hrs", "hour", "hours", "hz", "khz", "ns",
+                     "cs", "ds", "ks"}
+_FORTRAN = re.compile(r"^([-+]?(?:\d+\.?\d*|\.\d+))[dD]([-+]?\d+)$", re.ASCII)
+_DECIMAL_COMMA = re.compile(r"^[-+]?\d+,\d+$", re.ASCII)
+
+LIMIT_G = 10.0
+"""Largest |acceleration| accepted on import [g]: recorded ground motions stay well below
+(common practice: a plausibility bound, not a physical law)."""
+
+DT_RANGE = (1e-4, 0.1)
+"""Time steps accepted on import [s] (common practice: digitised and instrument records
+use 0.001-0.05 s)."""
 _COUNT_PATTERN = re.compile(r"\b(?:npts|count|points|samples|steps)\b\s*[=:]?\s*(\d+)", re.I)
 _UNITS_PATTERN = re.compile(r"\bunits?\b\s*[=:]\s*(\S+)", re.I)
 _SPLIT = re.compile(r"[\s,;]+")
@@ -142,14 +158,69 @@ def _lines(path: Any) -> tuple[Path, list[str]]:
         raise ValueError(f"{file}: not a UTF-8 text file ({error.reason} at byte {error.start})") from None
 
 
+def _number(token: str) -> float:
+    """A value token: a decimal number, also with a Fortran exponent (``1.0D-02``)."""
+    fortran = _FORTRAN.match(token)
+    if fortran:
+        token = f"{fortran.group(1)}e{fortran.group(2)}"
+    elif not re.fullmatch(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?", token, re.ASCII):
+        raise ValueError(token)  # no 'nan', 'inf', '1_000' or hex
+    return float(token)
+
+
 def _numbers(line: str) -> list[float] | None:
     tokens = [t for t in _SPLIT.split(line.strip()) if t]
     if not tokens:
         return None
     try:
-        return [float(t) for t in tokens]
+        return [_number(t) for t in tokens]
     except ValueError:
         return None
+
+
+def _refuse_data_like(file: Path, number: int, line: str) -> None:
+    """A header line that is mostly numbers is a data line with a bad value: say which."""
+    tokens = [t for t in _SPLIT.split(line.strip()) if t]
+    if not tokens or line.lstrip().startswith("#"):
+        return
+    readable = []
+    for token in tokens:
+        try:
+            _number(token)
+            readable.append(True)
+        except ValueError:
+            readable.append(False)
+    looks = (2 * sum(readable) > len(tokens) if len(tokens) > 1
+             else re.match(r"^[-+]?\.?\d", tokens[0], re.ASCII) is not None)
+    if looks:
+        _decimal_comma(file, number, line)
+        position = readable.index(False)
+        raise ValueError(f"{file}: line {number}, value {position + 1} = {tokens[position]!r} is not allowed: "
+                         "must be a number (a data line before the first line of numbers?)")
+
+
+def _decimal_comma(file: Path, number: int, line: str) -> None:
+    """Refuse a line whose values look like decimal commas ("0,0123"): read as separators they
+    would become extra values."""
+    for token in re.split(r"[\s;]+", line.strip()):
+        if _DECIMAL_COMMA.match(token):
+            raise ValueError(f"{file}: line {number}, value {token!r} is not allowed: a decimal comma is "
+                             "ambiguous; must use a decimal point (0.0123) and separate values by spaces, "
+                             "tabs, commas or semicolons")
+
+
+def _plausible(file: Path, number: int, position: str, value: float, factor: float) -> None:
+    if abs(value * factor) > LIMIT_G:
+        raise ValueError(f"{file}: line {number}, {position} = {value!r} is not allowed: must be at most "
+                         f"{LIMIT_G:g} g in size (a header, date or unit mistake?)")
+
+
+def _step_checked(file: Path, where: str, step: float) -> float:
+    low, high = DT_RANGE
+    if not low <= step <= high:
+        raise ValueError(f"{file}: {where}: time step = {step:g} s is not allowed: must lie in "
+                         f"[{low:g}, {high:g}] s")
+    return step
 
 
 def _declared_units(units: Any, header: list[str], file: Path) -> str:
@@ -187,6 +258,8 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
     """
     file, lines = _lines(path)
     first_data = next((i for i, line in enumerate(lines) if _numbers(line) is not None), None)
+    for number, line in enumerate(lines[:first_data], start=1):
+        _refuse_data_like(file, number, line)
     if first_data is None:
         raise ValueError(f"{file}: no line of numeric acceleration values found")
     header = lines[:first_data]
@@ -195,7 +268,14 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
     for number, line in enumerate(header, start=1):
         step_match = _STEP_PATTERN.search(line)
         if step_match and header_step is None:
-            header_step = (number, float(step_match.group(1)))
+            value = float(step_match.group(1) + (f"e{step_match.group(2)}" if step_match.group(2) else ""))
+            unit = (step_match.group(3) or "").lower()
+            if unit and unit in _STEP_UNITS:
+                value *= _STEP_UNITS[unit]
+            elif unit in _OTHER_TIME_UNITS:
+                raise ValueError(f"{file}: line {number}: time step unit {step_match.group(3)!r} is not "
+                                 "allowed: must be s or ms (or none, read as s)")
+            header_step = (number, value)
         count_match = _COUNT_PATTERN.search(line)
         if count_match and header_count is None:
             header_count = (number, int(count_match.group(1)))
@@ -206,18 +286,21 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
         )
     if header_step is not None:
         step = positive(f"{file}: line {header_step[0]}: time step", header_step[1], "s")
+        step = _step_checked(file, f"line {header_step[0]}", step)
         if dt is not None and abs(positive("dt", dt, "s") - step) > 1e-9 * step:
             raise ValueError(f"dt = {dt!r} is not allowed: header line {header_step[0]} of {file} states dt = {step:g} [s]")
     else:
-        step = positive("dt", dt, "s")
+        step = _step_checked(file, "argument dt", positive("dt", dt, "s"))
+    factor = ACCELERATION_UNITS[declared] / ACCELERATION_UNITS["g"]
     values: list[float] = []
     for number in range(first_data, len(lines)):
         line = lines[number].strip()
         if not line or line.startswith("#"):
             continue
+        _decimal_comma(file, number + 1, line)
         for position, token in enumerate(t for t in _SPLIT.split(line) if t):
             try:
-                value = float(token)
+                value = _number(token)
             except ValueError:
                 raise ValueError(
                     f"{file}: line {number + 1}, value {position + 1} = {token!r} is not allowed: "
@@ -225,6 +308,7 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
                 ) from None
             if not np.isfinite(value):
                 raise ValueError(f"{file}: line {number + 1}, value {position + 1} = {token!r} is not allowed: must be finite")
+            _plausible(file, number + 1, f"value {position + 1}", value, factor)
             values.append(value)
     expected = header_count[1] if header_count is not None else count
     if expected is not None and len(values) != int(expected):
@@ -262,22 +346,29 @@ def read_csv_accelerogram(path: Any, units: str, *, time_column: int = 0, accele
     values: list[float] = []
     rows: list[int] = []
     needed = max(time_column, acceleration_column) + 1
+    factor = ACCELERATION_UNITS[declared] / ACCELERATION_UNITS["g"]
     for number, raw in enumerate(lines, start=1):
         line = raw.strip()
         if not line or line.startswith("#"):
             continue
         fields = [f for f in _SPLIT.split(line) if f]
         if not values and _numbers(line) is None:
+            if rows or any(_looks_numeric(f) for f in fields):
+                raise ValueError(f"{file}: line {number} = {line[:60]!r} is not allowed: must be numbers "
+                                 "(time, acceleration); only header rows of names may come before the data")
             continue  # header row before the data
+        _decimal_comma(file, number, line)
         if len(fields) < needed:
             raise ValueError(f"{file}: line {number} has {len(fields)} field(s): must have at least {needed}")
         for column, name in ((time_column, "time"), (acceleration_column, "acceleration")):
             try:
-                value = float(fields[column])
+                value = _number(fields[column])
             except ValueError:
                 raise ValueError(f"{file}: line {number}, {name} = {fields[column]!r} is not allowed: must be a number") from None
             if not np.isfinite(value):
                 raise ValueError(f"{file}: line {number}, {name} = {fields[column]!r} is not allowed: must be finite")
+            if name == "acceleration":
+                _plausible(file, number, name, value, factor)
             (times if name == "time" else values).append(value)
         rows.append(number)
     if len(values) < 2:
@@ -294,7 +385,13 @@ def read_csv_accelerogram(path: Any, units: str, *, time_column: int = 0, accele
             f"{file}: line {rows[row]}, time = {times[row]!r} is not allowed: time step must be uniform "
             f"({gaps[bad[0]]:g} s here, {step:g} s at the start)"
         )
-    return _make(values, float(gaps.mean()), file, declared, float(time[0]))
+    mean_step = _step_checked(file, f"lines {rows[0]}-{rows[-1]}", float(gaps.mean()))
+    return _make(values, mean_step, file, declared, float(time[0]))
+
+
+def _looks_numeric(field: str) -> bool:
+    """A field that starts like a number: a data row the reader could not read, not a header."""
+    return bool(re.match(r"^[-+]?\.?\d", field))
 
 
 def read_accelerogram(path: Any, units: str | None = None, *, layout: str = "auto", **options: Any) -> Accelerogram:
