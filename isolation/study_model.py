@@ -359,7 +359,7 @@ def _check_design(study: Study, systems: list) -> None:
                     f"{study.analysis.duration:g} s); study them in separate files") from None
 
 
-MAX_SUBSTEPS = 200
+MAX_SUBSTEPS = 50
 """Most sub-steps per motion sample the engine is asked to take (a stiffer building is implausible). [-]"""
 
 
@@ -375,8 +375,9 @@ def _check_time_step(study: Study, structure) -> None:
     needed = substeps(study.analysis.time_step, shortest, DT_FRACTION)
     if needed > MAX_SUBSTEPS:
         raise InputError(f"building: its shortest fixed-base period T_min = {shortest:.4g} s would need "
-                         f"{needed} sub-steps per analysis.time_step = {study.analysis.time_step:g} s (at most "
-                         f"{MAX_SUBSTEPS} allowed: T_min/{DT_FRACTION:g} per sub-step); not allowed: check "
+                         f"{needed} sub-steps of <= T_min/{DT_FRACTION:g} = {shortest / DT_FRACTION:.3g} s per "
+                         f"analysis.time_step = {study.analysis.time_step:g} s (at most {MAX_SUBSTEPS} allowed); "
+                         "not allowed: check "
                          "building.fixed_base_period, building.storeys, building.floor_weights and "
                          "building.storey_heights")
 

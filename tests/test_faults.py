@@ -338,9 +338,9 @@ def test_interrupting_a_run_prints_one_line(tmp_path, which):
                                                                     "building.floor_weights"]),
     # far too heavy: the equivalent-linear period runs past the spectrum
     ({"building.floor_weights": 2e6, "building.base_weight": 2e6}, ["alternative[1]", "code design fails"]),
-    # a building whose shortest period needs a step below the least allowed
+    # a building so stiff that its shortest period needs more sub-steps than allowed
     ({"building.fixed_base_period": 0.02, "building.storeys": 40, "building.storey_heights": 3.0,
-      "building.floor_weights": 5000.0}, ["building.fixed_base_period", "0.001 s"]),
+      "building.floor_weights": 5000.0}, ["building.fixed_base_period", "sub-steps"]),
     ({"project.name": "Venhollow\x00"}, ["project.name", "control"]),
     # 40 storeys of 20 m: the code's period estimate (ASCE/SEI 7-16 Eq. 12.8-7) passes the spectrum's end
     ({"building.storeys": 40, "building.storey_heights": 20.0, "building.floor_weights": 5000.0},

@@ -169,7 +169,7 @@ def test_read_pair_two_files_and_two_columns(tmp_path):
 
 
 def test_read_pair_refuses_different_steps(tmp_path):
-    (tmp_path / "x.csv").write_text("time,a\n0,0\n0.01,0.1\n0.02,0\n")
-    (tmp_path / "y.csv").write_text("time,a\n0,0\n0.02,0.1\n0.04,0\n")
+    (tmp_path / "x.csv").write_text("time,a\n0.0,0.0\n0.01,0.1\n0.02,0.0\n")
+    (tmp_path / "y.csv").write_text("time,a\n0.0,0.0\n0.02,0.1\n0.04,0.0\n")
     with pytest.raises(ValueError, match="dt"):
         read_pair(tmp_path / "x.csv", "g", second=tmp_path / "y.csv")
