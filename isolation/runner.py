@@ -26,6 +26,7 @@ checks every value against the governing local code.
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import time
 from dataclasses import dataclass, field
@@ -66,7 +67,10 @@ class AlternativeResults:
     lower/nominal/upper to the equivalent-linear results; ``report`` is the
     code report; ``checks`` the bearing checks at the total displacement;
     ``history`` the suite statistics per case and a summary; ``figures`` and
-    ``verdict`` the verdict's inputs and outcome.
+    ``verdict`` the verdict's inputs and outcome; ``loss`` the loss study
+    (:func:`isolation.loss.run_loss`: ``expected_annual_loss``,
+    ``expected_loss_mce``, ... in the study's currency, and ``economics``),
+    empty when the loss study did not run.
     """
 
     name: str
@@ -78,6 +82,7 @@ class AlternativeResults:
     history: dict
     figures: dict
     verdict: dict
+    loss: dict = field(default_factory=dict)
 
     @property
     def outcome(self) -> str:
@@ -97,7 +102,10 @@ class StudyResults:
     it (empty when none), ``fixed_base`` the fixed-base model
     and shear, ``suite`` the matched suite's settings and tolerance report,
     ``alternatives`` one :class:`AlternativeResults` each, ``run`` version,
-    quick flag and timings [s]. ``live`` keeps the run's objects (spectrum,
+    quick flag and timings [s]. ``loss`` holds the loss study's levels,
+    hazard, currency, inputs, settings and cautions (the per-case figures are
+    in ``fixed_base["loss"]`` and each alternative's ``loss``; empty when the
+    loss study did not run). ``live`` keeps the run's objects (spectrum,
     suite, history results, systems, reports) for figures; it is None after
     :func:`load_results`.
     """
@@ -109,6 +117,7 @@ class StudyResults:
     alternatives: tuple
     run: dict
     scope: str = SCOPE
+    loss: dict = field(default_factory=dict)
     live: Any = field(default=None, compare=False, repr=False)
 
     @property
@@ -124,7 +133,7 @@ class StudyResults:
         raise KeyError(f"alternative = {name!r} is not in the results")
 
     def to_dict(self) -> dict:
-        data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope")}
+        data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope", "loss")}
         data["alternatives"] = [a.to_dict() for a in self.alternatives]
         return plain(data)
 
@@ -133,7 +142,7 @@ class StudyResults:
         alternatives = tuple(AlternativeResults(**a) for a in mapping["alternatives"])
         return cls(study=mapping["study"], spectrum=mapping["spectrum"], fixed_base=mapping["fixed_base"],
                    suite=mapping["suite"], alternatives=alternatives, run=mapping["run"],
-                   scope=mapping.get("scope", SCOPE))
+                   scope=mapping.get("scope", SCOPE), loss=mapping.get("loss", {}))
 
     def save(self, path: str | Path) -> Path:
         """Write ``to_dict()`` as JSON (via a temporary file and a rename)."""
@@ -234,7 +243,8 @@ def _suite(study: Study, spectrum, periods: tuple, quick: bool, progress: bool):
     return matched_suite(spectrum, **options), note
 
 
-def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> StudyResults:
+def run_study(study: Study, *, quick: bool = False, progress: bool = False,
+              loss: bool | None = None) -> StudyResults:
     """Run every alternative of a study and judge it.
 
     Parameters
@@ -246,6 +256,9 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
         trials; never for a report.
     progress : bool
         Show progress bars while the suite is generated.
+    loss : bool, optional
+        Run the loss study (expected loss, downtime, economics); default:
+        the study's ``loss.enabled`` (true unless switched off).
 
     Returns
     -------
@@ -293,7 +306,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
     base_mass = b.base_weight / GRAVITY
 
     mark = time.perf_counter()
-    results, live_histories, live_reports = [], {"fixed": fixed}, {}
+    results, live_histories, live_reports, loss_cases = [], {"fixed": fixed}, {}, []
     for alternative, system, sets, report, quantities, permitted, reasons, checks in designs:
         bounds = report.bounds.results
         isolators = {case: _history_isolator(sets[case], bounds[case], system, case)
@@ -330,7 +343,21 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
             figures=plain(figures), verdict=plain(judged)))
         live_histories[alternative.name] = histories
         live_reports[alternative.name] = (system, sets, report)
+        loss_cases.append((alternative, system, _history_isolator(sets["nominal"], bounds["nominal"], system,
+                                                                   "nominal"), quantities))
     timings["histories"] = time.perf_counter() - mark
+    loss_results = {}
+    inputs = getattr(study, "loss", None)
+    if loss if loss is not None else (inputs is None or inputs.options.enabled):
+        from isolation.loss import run_loss
+
+        mark = time.perf_counter()
+        try:
+            loss_results = run_loss(study, spectrum, suite, base_mass, loss_cases, inputs)
+        except (ValueError, RunError) as error:
+            raise RunError(f"loss study failed: {' '.join(str(error).split())}") from error
+        results = [dataclasses.replace(r, loss=plain(loss_results["alternatives"][r.name])) for r in results]
+        timings["loss"] = time.perf_counter() - mark
     timings["total"] = time.perf_counter() - started
 
     curve_low, curve_high = spectrum.period_range
@@ -347,10 +374,12 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
                   "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
                   "note": spectrum_note},
         fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(structure),
-                    "statistics": plain(fixed_stats)},
+                    "statistics": plain(fixed_stats),
+                    "loss": plain(loss_results.get("fixed", {}))},
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
+        loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
         live={"spectrum": spectrum, "suite": suite, "superstructure": structure,
               "histories": live_histories, "designs": live_reports},
     )

@@ -78,7 +78,8 @@ BEARING_KEYS: dict[str, dict[str, Key]] = {
 """Keys of each bearing type (beside ``type``, ``count``, ``axial_load``),
 with kind, whether required, and allowed range in internal units (m, kPa)."""
 
-ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative")
+ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative", "cost", "hazard",
+             "loss")
 
 _MISSING = object()
 
