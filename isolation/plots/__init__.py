@@ -17,12 +17,14 @@ same in both systems.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
-motion suite), :mod:`~isolation.plots.history` (response histories).
+motion suite), :mod:`~isolation.plots.history` (response histories),
+:mod:`~isolation.plots.loss` (expected repair cost against intensity).
 """
 
 from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
 from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
                                     suite_figure, suite_match)
+from isolation.plots.loss import loss_curves
 from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
@@ -52,4 +54,5 @@ __all__ = [
     "history_loops",
     "history_energy",
     "history_floor_spectra",
+    "loss_curves",
 ]

@@ -16,9 +16,11 @@ themselves; workbook text goes through :func:`markdown_text`.
 Modules: :mod:`~isolation.tables.table` (the table object, number formatting,
 generic builders), :mod:`~isolation.tables.results` (tables of a study's results),
 :mod:`~isolation.tables.summary` (the owner's summary table and sentences),
+:mod:`~isolation.tables.loss` (the owner's page "What isolation buys"),
 :mod:`~isolation.tables.symbols` (symbols as subscripts).
 """
 
+from isolation.tables.loss import loss_table, loss_text
 from isolation.tables.results import (alternatives_table, bounds_table, code_quantities_table,
                                       comparison_table, display_quantity, history_table, inputs_table,
                                       suite_table, verdict_table)
@@ -49,4 +51,6 @@ __all__ = [
     "code_symbols",
     "latex_text",
     "markdown_text",
+    "loss_table",
+    "loss_text",
 ]
