@@ -62,3 +62,43 @@ def test_no_loss_study_is_said_plainly(data):
     assert "not run" in tables.loss_text(empty)
     with pytest.raises(ValueError, match="no loss study"):
         tables.loss_table(empty)
+
+
+def test_batch_rows_carry_the_loss_columns(data, tmp_path):
+    from isolation.batch.rows import rows_from_results
+    from isolation.batch.summary import read_summary, write_summary
+
+    rows = rows_from_results(data, 1.0e4, verdict_basis="response histories")
+    for row, alternative in zip(rows, data["alternatives"]):
+        loss = alternative["loss"]
+        assert row["expected_annual_loss"] == loss["expected_annual_loss"]
+        assert row["expected_annual_loss_fixed"] == data["fixed_base"]["loss"]["expected_annual_loss"]
+        assert row["net_present_value"] == loss["economics"]["net_present_value"]
+        assert row["currency"] == "USD"
+    for row in rows:
+        row.update(variant="v1", status="done")
+    write_summary(rows, tmp_path, [])
+    back = read_summary(tmp_path / "summary.csv")
+    assert back[0]["currency"] == "USD" and back[0]["net_present_value"] == pytest.approx(rows[0]["net_present_value"])
+
+
+def test_design_space_map_coloured_by_net_present_value():
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from isolation.batch.maps import plot_verdict_map
+
+    rows = [{"status": "done", "alternative": "A", "verdict": "feasible", "x": x, "y": y, "D_M_lower_m": 0.3,
+             "base_shear_ratio_upper": 0.5, "net_present_value": npv, "currency": "USD"}
+            for (x, y), npv in zip([(1, 1), (1, 2), (2, 1), (2, 2)], [-2e5, 0.0, 1e5, None])]
+    fig, ax = plt.subplots()
+    plot_verdict_map(rows, "x", "y", ax=ax, colour_by="net_present_value")
+    colours = [patch.get_facecolor()[:3] for patch in ax.patches]
+    # RdYlGn: negative red-ish, positive green-ish, zero the middle; no value grey
+    assert colours[0][0] > colours[0][1] and colours[2][1] > colours[2][0]
+    assert "net present value [USD]" in fig.axes[-1].get_ylabel()
+    with pytest.raises(ValueError, match="colour_by"):
+        plot_verdict_map(rows, "x", "y", ax=ax, colour_by="price")
+    plt.close(fig)

@@ -68,6 +68,15 @@ RESULT_COLUMNS = (
     "floor_acceleration_ratio",
     "displacement_capacity_m",
     "moat_m",
+    "currency",
+    "expected_annual_loss",
+    "expected_annual_loss_fixed",
+    "expected_loss_mce",
+    "expected_loss_mce_fixed",
+    "expected_annual_downtime_days",
+    "net_premium",
+    "payback_years",
+    "net_present_value",
 )
 TAIL_COLUMNS = ("error", "record")
 
@@ -85,8 +94,16 @@ COLUMN_UNITS = {
     "floor_acceleration_ratio": "-",
     "displacement_capacity_m": "m",
     "moat_m": "m",
+    "expected_annual_loss": "currency/year",
+    "expected_annual_loss_fixed": "currency/year",
+    "expected_loss_mce": "currency",
+    "expected_loss_mce_fixed": "currency",
+    "expected_annual_downtime_days": "day/year",
+    "net_premium": "currency",
+    "payback_years": "year",
+    "net_present_value": "currency",
 }
-TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "error", "record")
+TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "currency", "error", "record")
 
 
 def summary_columns(override_keys: Iterable[str]) -> list[str]:
