@@ -49,7 +49,11 @@ import numpy as np
 from isolation import validate
 from isolation.bearings.backbone import Bilinear, MultiLinear
 
-__all__ = ["BoucWen", "ElasticPlasticLaw", "SmoothLaw", "isolator_law", "describe"]
+__all__ = ["BoucWen", "ElasticPlasticLaw", "SmoothLaw", "SharpFrictionLaw", "isolator_law", "describe",
+           "FRICTION_LAWS", "friction_regularisation"]
+
+FRICTION_LAWS = ("smooth", "sharp")
+"""How a friction pendulum runs in response history: the smooth Bouc-Wen law or the sharp one."""
 
 
 @dataclass(frozen=True)
@@ -163,7 +167,66 @@ class SmoothLaw:
         return self.linear_stiffness
 
 
-def isolator_law(isolator, weight: float):
+@dataclass(frozen=True)
+class SharpFrictionLaw:
+    """Sharp friction: F = k u + q, q from an elastic-perfectly-plastic element (one column).
+
+    The element's elastic stiffness is Q_fast/D_y (the smooth law's initial
+    stiffness) and its strength Q(v) = Q_fast - (Q_fast - Q_slow)
+    exp(-a |v|), v the velocity at the end of the step: the bilinear
+    (rigid-plastic in the limit D_y -> 0) friction loop without the smooth
+    law's rounding.
+
+    Parameters
+    ----------
+    linear_stiffness : float
+        W/R_eff. [kN/m]
+    strength_fast, strength_slow : float
+        mu_fast W and mu_slow W. [kN]
+    rate_parameter : float
+        a in exp(-a |v|). [s/m]
+    yield_displacement : float
+        D_y. [m]
+    """
+
+    linear_stiffness: float
+    strength_fast: float
+    strength_slow: float
+    rate_parameter: float
+    yield_displacement: float
+
+    family = "sharp"
+
+    @property
+    def final_stiffness(self) -> float:
+        """Stiffness while sliding. [kN/m]"""
+        return self.linear_stiffness
+
+
+def friction_regularisation(isolator, friction_law: str = "smooth") -> str:
+    """One sentence stating how a sliding isolator's friction is regularised in response history.
+
+    Parameters
+    ----------
+    isolator : object
+        The isolator (only friction pendulums are regularised). [-]
+    friction_law : {"smooth", "sharp"}, optional
+        The law run. [-]
+    """
+    from isolation.bearings import FrictionPendulum
+
+    validate.one_of("friction_law", friction_law, FRICTION_LAWS)
+    if not isinstance(isolator, FrictionPendulum):
+        return "no friction regularisation (elastic-plastic elements integrated by exact return mapping)"
+    dy = 1000.0 * isolator.yield_displacement
+    if friction_law == "smooth":
+        return (f"friction regularised by a Bouc-Wen law of exponent 2 with yield displacement D_y = {dy:.2g} mm "
+                "(Constantinou, Mokha & Reinhorn 1990): the loop corners are rounded over a few D_y")
+    return (f"sharp friction: elastic-perfectly-plastic element with initial stiffness mu W/D_y, "
+            f"D_y = {dy:.2g} mm (no rounding of the loop corners)")
+
+
+def isolator_law(isolator, weight: float, friction_law: str = "smooth"):
     """Turn an isolator object into the law the engine integrates.
 
     Parameters
@@ -176,14 +239,18 @@ def isolator_law(isolator, weight: float):
         ``bearing.bilinear().times(count)`` for several). [-]
     weight : float
         Weight on the isolation plane (total mass x g), > 0. [kN]
+    friction_law : {"smooth", "sharp"}, optional
+        A FrictionPendulum runs the smooth Bouc-Wen law (default) or the
+        sharp elastic-plastic one (:class:`SharpFrictionLaw`). [-]
 
     Returns
     -------
-    ElasticPlasticLaw or SmoothLaw
+    ElasticPlasticLaw, SmoothLaw or SharpFrictionLaw
     """
     from isolation.bearings import DoubleConcave, FrictionPendulum
 
     weight = validate.positive("weight", weight, "kN")
+    validate.one_of("friction_law", friction_law, FRICTION_LAWS)
     if isinstance(isolator, (Bilinear, MultiLinear)):
         k0, ks, fs = isolator.elements()
         return ElasticPlasticLaw(float(k0), tuple(map(float, ks)), tuple(map(float, fs)))
@@ -191,6 +258,10 @@ def isolator_law(isolator, weight: float):
         b = isolator.bilinear
         q = b.characteristic_strength
         return SmoothLaw(b.post_yield_stiffness, q, q, 0.0, b.yield_displacement, isolator.beta)
+    if isinstance(isolator, FrictionPendulum) and friction_law == "sharp":
+        return SharpFrictionLaw(weight / isolator.effective_radius, isolator.friction * weight,
+                                isolator.friction_slow * weight, isolator.rate_parameter,
+                                isolator.yield_displacement)
     if isinstance(isolator, FrictionPendulum):
         return SmoothLaw(weight / isolator.effective_radius, isolator.friction * weight,
                          isolator.friction_slow * weight, isolator.rate_parameter,

@@ -37,7 +37,7 @@ import numpy as np
 from isolation.errors import RunError
 from isolation.isolators import SmoothColumns
 
-__all__ = ["integrate"]
+__all__ = ["integrate", "simulate", "kernel_module", "compiled_available", "substeps"]
 
 MAX_ITERATIONS = 40
 CONVERGENCE_DISPLACEMENT = 1e-11
@@ -300,3 +300,145 @@ class _SmoothSolver:
                 f_iso = self.k0 * (un + du) + q * z_new
                 return f_iso, self.c2 * du - vn, z_new
         _fail(step, n, dt, labels, "smooth isolator")
+
+
+# --- the compiled engine (issue 14): one column at a time ---------------------------------------
+
+ENGINE_VARIABLE = "ISOLATION_ENGINE"
+"""Environment variable: "python" forces the interpreted kernel (same results, far slower)."""
+
+_COMPILED_MODULE = None
+
+
+def compiled_available() -> bool:
+    """True when numba imports (the kernel then runs compiled)."""
+    try:
+        import numba  # noqa: F401
+    except ImportError:
+        return False
+    return True
+
+
+def kernel_module(compiled: bool | None = None):
+    """The kernel module: a numba-compiled copy of :mod:`isolation.kernel`, or the module itself.
+
+    Parameters
+    ----------
+    compiled : bool or None, optional
+        True: compiled (numba required); False: interpreted; None (default):
+        compiled when numba is installed and ``ISOLATION_ENGINE`` is not
+        "python". [-]
+    """
+    import os
+
+    from isolation import kernel
+
+    if compiled is None:
+        compiled = compiled_available() and os.environ.get(ENGINE_VARIABLE, "").lower() != "python"
+    if not compiled:
+        return kernel
+    global _COMPILED_MODULE
+    if _COMPILED_MODULE is None:
+        import importlib.util
+        import sys
+
+        import numba
+
+        spec = importlib.util.spec_from_file_location("isolation._kernel_compiled", kernel.__file__)
+        module = importlib.util.module_from_spec(spec)
+        sys.modules[spec.name] = module  # numba's cache finds the module by name when it loads
+        spec.loader.exec_module(module)
+        for name in module.JIT_FUNCTIONS:
+            setattr(module, name, numba.njit(cache=True, nogil=True)(getattr(module, name)))
+        _COMPILED_MODULE = module
+    return _COMPILED_MODULE
+
+
+def substeps(dt: float, shortest_period: float, fraction: float = 10.0) -> int:
+    """Sub-steps per record step so that dt/n <= T_min/fraction (1 when already fine enough). [-]"""
+    if not np.isfinite(shortest_period) or shortest_period <= 0.0:
+        return 1
+    return max(1, int(np.ceil(dt * fraction / shortest_period * (1.0 - 1e-12))))
+
+
+def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, compiled=None):
+    """Integrate every column with the kernel.
+
+    Parameters
+    ----------
+    mass : array (dofs,)
+        Lumped masses; degree of freedom 0 is the base when ``isolator`` is given. [t]
+    k_lin, c : arrays (dofs, dofs)
+        Linear stiffness (elastic storeys plus P-delta) [kN/m] and damping [kN s/m].
+    storeys : dict
+        "lower", "upper" (storeys,) int degrees of freedom (-1 = ground), "kind" (0 elastic,
+        1 bilinear, 2 Clough), "k", "k_geo", "fy" (storeys,) [kN/m, kN/m, kN], "alpha" [-].
+    isolator : dict or None
+        "kind" (1 elastic-plastic, 2 smooth, 3 sharp friction), "p" (cols, 6), "k", "f"
+        (cols, elements) [kN/m, kN], "damper" (cols,) [kN s/m]; None for a fixed base.
+    ground : array (cols, steps)
+        Ground acceleration per column. [m/s2]
+    dt : float
+        Sample interval. [s]
+    nsub : int
+        Sub-steps per sample (ground linearly interpolated). [-]
+    labels : list of (case, record)
+        Names of the columns for error messages.
+    compiled : bool or None, optional
+        See :func:`kernel_module`. [-]
+
+    Returns
+    -------
+    dict of arrays: "u", "v" (cols, steps, dofs) relative [m, m/s], "a" absolute [m/s2]; "drift",
+    "storey_force" (cols, steps, storeys) [m, kN]; "isolator_force", "reaction" (cols, steps) [kN];
+    "energy" (5, cols, steps) [kN m] in the order of :data:`isolation.energy.COMPONENTS`.
+    """
+    module = kernel_module(compiled)
+    ground = np.ascontiguousarray(ground, dtype=float)
+    cols, steps = ground.shape
+    nd = mass.size
+    ns = len(storeys["k"])
+    h = dt / nsub
+    a_hat = k_lin + (4.0 / h**2) * np.diag(mass) + (2.0 / h) * c
+    ainv = np.ascontiguousarray(np.linalg.inv(a_hat))
+    lower = np.asarray(storeys["lower"], dtype=np.int64)
+    upper = np.asarray(storeys["upper"], dtype=np.int64)
+    gmat = np.zeros((nd, ns))
+    for i in range(ns):
+        gmat[:, i] = ainv[:, upper[i]] - (ainv[:, lower[i]] if lower[i] >= 0 else 0.0)
+    kel = np.asarray(storeys["k"], dtype=float)
+    fy = np.asarray(storeys["fy"], dtype=float)
+    kind = int(storeys["kind"])
+    if isolator is None:
+        iso_kind, iso_p = 0, np.zeros((cols, 6))
+        iso_k = iso_f = np.zeros((cols, 1))
+        damper = np.zeros(cols)
+    else:
+        iso_kind = int(isolator["kind"])
+        iso_p = np.ascontiguousarray(isolator["p"], dtype=float)
+        iso_k = np.ascontiguousarray(isolator["k"], dtype=float)
+        iso_f = np.ascontiguousarray(isolator["f"], dtype=float)
+        damper = np.ascontiguousarray(isolator["damper"], dtype=float)
+    out = {name: np.empty((cols, steps, nd)) for name in ("u", "v", "a")}
+    out["drift"] = np.empty((cols, steps, ns))
+    out["storey_force"] = np.empty((cols, steps, ns))
+    out["isolator_force"] = np.zeros((cols, steps))
+    out["reaction"] = np.empty((cols, steps))
+    out["energy"] = np.empty((5, cols, steps))
+    status = np.zeros(3)
+    tol_storey = 1e-10 * float(fy.max()) if kind != 0 and ns else 0.0
+    module.run_columns(ground, float(dt), int(nsub), np.asarray(mass, dtype=float), np.ascontiguousarray(c),
+                       ainv, gmat, lower, upper, kind, kel, np.asarray(storeys["k_geo"], dtype=float), fy,
+                       float(storeys["alpha"]), iso_kind, iso_p, iso_k, iso_f, damper, int(MAX_ITERATIONS),
+                       float(CONVERGENCE_DISPLACEMENT) * 1e-1, tol_storey,
+                       out["u"], out["v"], out["a"], out["drift"], out["storey_force"], out["isolator_force"],
+                       out["reaction"], out["energy"], status)
+    if status[0] >= 0:
+        column = int(status[0])
+        case, record = labels[column]
+        what = "yielding storeys" if kind != 0 and abs(status[2]) > 0 and iso_kind == 0 else "isolator"
+        raise RunError(
+            f"{what}: no convergence at t = {status[1] * dt:.4f} s in case {case!r}, record {record} "
+            f"(residual {abs(status[2]):.3g} after {MAX_ITERATIONS} iterations); "
+            "try a smaller dt or check the model parameters")
+    return out

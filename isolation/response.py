@@ -20,7 +20,8 @@ __all__ = ["HistoryResult", "suite_statistics"]
 
 _ARRAYS = ("ground_acceleration", "floor_acceleration", "floor_displacement", "drift",
            "storey_shear", "base_shear", "balance_error", "heights", "isolator_displacement",
-           "isolator_force", "damper_force", "base_acceleration")
+           "isolator_force", "damper_force", "base_acceleration", "floor_velocity", "isolator_velocity",
+           "reaction", "yield_shears", "yield_drifts")
 
 
 @dataclass(frozen=True)
@@ -42,10 +43,12 @@ class HistoryResult:
     drift : ndarray (records, steps, storeys)
         Storey drift (floor minus the level below; the base for storey 1). [m]
     storey_shear : ndarray (records, steps, storeys)
-        Shear in each storey, -sum of floor inertia forces above it. [kN]
+        Force in each storey's lateral spring: its elastic or hysteretic
+        force, without damping forces and without the P-delta term (for a
+        rigid superstructure, -sum of the floor inertia forces above). [kN]
     base_shear : ndarray (records, steps)
-        Fixed base: first-storey shear. Isolated: force through the
-        isolation layer (isolator plus damper), V_b. [kN]
+        Storey-spring shear of the first storey, ``storey_shear[..., 0]``:
+        in an isolated building the storey just above the isolators. [kN]
     energy : dict of str -> ndarray (records, steps)
         "input", "kinetic", "viscous", "elastic_strain", "hysteretic". [kN m]
     balance_error : ndarray (records,)
@@ -57,6 +60,21 @@ class HistoryResult:
         [kN] and absolute base-mass acceleration [g]; None for a fixed base.
     model : dict
         Plain description of the building analysed.
+    floor_velocity : ndarray (records, steps, storeys) or None
+        Floor velocity relative to the ground. [m/s]
+    isolator_velocity : ndarray (records, steps) or None
+        Isolation-layer (base) velocity relative to the ground; None for a fixed base. [m/s]
+    reaction : ndarray (records, steps) or None
+        Total horizontal force on the foundation, damping forces included:
+        -sum of mass x absolute acceleration over every mass (isolated:
+        equal to isolator plus damper force). [kN]
+    yield_shears : ndarray (storeys,) or None
+        Storey strengths of a yielding model; None when elastic. [kN]
+    yield_drifts : ndarray (storeys,) or None
+        Storey yield drifts V_y/k; None when elastic. [m]
+    notes : tuple of str
+        P-delta notes: storeys whose tangent stiffness approaches zero or
+        whose drift passed the zero of their resistance.
     """
 
     case: str
@@ -75,6 +93,12 @@ class HistoryResult:
     damper_force: np.ndarray | None = None
     base_acceleration: np.ndarray | None = None
     model: dict = field(default_factory=dict)
+    floor_velocity: np.ndarray | None = None
+    isolator_velocity: np.ndarray | None = None
+    reaction: np.ndarray | None = None
+    yield_shears: np.ndarray | None = None
+    yield_drifts: np.ndarray | None = None
+    notes: tuple = ()
 
     # --- derived quantities ----------------------------------------------------
     @property
@@ -92,8 +116,50 @@ class HistoryResult:
         """Drift over storey height (records, steps, storeys). [-]"""
         return self.drift / self.heights
 
+    @property
+    def yielding(self) -> bool:
+        """True when the storeys carry a hysteretic law (storey strengths known)."""
+        return self.yield_shears is not None
+
+    @property
+    def roof_acceleration(self) -> np.ndarray:
+        """Absolute roof acceleration (records, steps). [g]"""
+        return self.floor_acceleration[..., -1]
+
+    @property
+    def ductility(self) -> np.ndarray:
+        """Storey ductility demand, peak |drift| over the yield drift V_y/k (records, storeys). [-]
+
+        NaN for elastic storeys (no strength given).
+        """
+        peak = np.max(np.abs(self.drift), axis=1)
+        if self.yield_drifts is None:
+            return np.full(peak.shape, np.nan)
+        return peak / np.asarray(self.yield_drifts)
+
+    @property
+    def residual_drift(self) -> np.ndarray:
+        """|Drift| at the end of each record over storey height (records, storeys). [-, ratio]
+
+        Measured at the last sample: pad records with zeros when free
+        vibration should decay first.
+        """
+        return np.abs(self.drift[:, -1, :]) / self.heights
+
+    @property
+    def shear_strength_ratio(self) -> np.ndarray:
+        """Peak |storey_shear| over the storey strength (records, storeys); NaN when elastic. [-]"""
+        peak = np.max(np.abs(self.storey_shear), axis=1)
+        if self.yield_shears is None:
+            return np.full(peak.shape, np.nan)
+        return peak / np.asarray(self.yield_shears)
+
     def peaks(self) -> dict:
-        """Peak absolute values per record: name -> array (records,) or (records, storeys)."""
+        """Peak absolute values per record: name -> array (records,) or (records, storeys).
+
+        Yielding models add "ductility", "residual_drift_ratio" and
+        "shear_strength_ratio"; every model has "reaction" when known.
+        """
         out = {
             "floor_acceleration": np.max(np.abs(self.floor_acceleration), axis=1),
             "drift": np.max(np.abs(self.drift), axis=1),
@@ -101,6 +167,12 @@ class HistoryResult:
             "storey_shear": np.max(np.abs(self.storey_shear), axis=1),
             "base_shear": np.max(np.abs(self.base_shear), axis=1),
         }
+        if self.reaction is not None:
+            out["reaction"] = np.max(np.abs(self.reaction), axis=1)
+        if self.yielding:
+            out["ductility"] = self.ductility
+            out["residual_drift_ratio"] = self.residual_drift
+            out["shear_strength_ratio"] = self.shear_strength_ratio
         if self.isolated:
             out["isolator_displacement"] = np.max(np.abs(self.isolator_displacement), axis=1)
             out["residual_displacement"] = np.abs(self.isolator_displacement[:, -1])
@@ -166,6 +238,7 @@ class HistoryResult:
             "balance_error": self.balance_error.tolist(),
             "statistics": self.statistics(),
             "final_energy": {k: v[:, -1].tolist() for k, v in self.energy.items()},
+            "notes": list(self.notes),
         }
         if histories:
             out["histories"] = {name: getattr(self, name).tolist() for name in _ARRAYS
@@ -185,7 +258,7 @@ class HistoryResult:
         path = Path(path)
         arrays = {name: getattr(self, name) for name in _ARRAYS if getattr(self, name) is not None}
         arrays.update({f"energy_{k}": v for k, v in self.energy.items()})
-        meta = {"case": self.case, "dt": self.dt, "model": self.model}
+        meta = {"case": self.case, "dt": self.dt, "model": self.model, "notes": list(self.notes)}
         buffer = io.BytesIO()
         np.savez_compressed(buffer, meta=np.array(json.dumps(meta)), **arrays)
         return write_bytes_atomic(path, buffer.getvalue())
@@ -205,6 +278,7 @@ class HistoryResult:
             kwargs = {name: (data[name] if name in data.files else None) for name in _ARRAYS}
         names = {f.name for f in fields(cls)}
         return cls(case=meta["case"], dt=float(meta["dt"]), energy=energy, model=meta["model"],
+                   notes=tuple(meta.get("notes", ())),
                    **{k: v for k, v in kwargs.items() if k in names})
 
 

@@ -195,7 +195,7 @@ def _history_summary(stats: dict, fixed: dict, torsion: float) -> dict:
         "floor_acceleration_upper": largest("upper", "floor_acceleration"),
         "superstructure_shear_fixed": fixed_shear,
         "superstructure_shear_upper": float(stats["upper"]["storey_shear"]["mean"][0]),
-        "isolation_shear_upper": largest("upper", "base_shear"),
+        "isolation_shear_upper": largest("upper", "reaction"),  # isolator + damper force
         "drift_ratio_fixed": float(np.max(fixed["drift_ratio"]["mean"])),
         "drift_ratio_isolated": max(largest("lower", "drift_ratio"), largest("upper", "drift_ratio")),
         "residual_displacement_lower": largest("lower", "residual_displacement"),

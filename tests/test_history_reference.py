@@ -253,14 +253,20 @@ def test_run_cases_columns_match_single_runs():
     assert list(together) == ["fixed", "lower", "upper"]
 
 
-def test_base_shear_equals_inertia_forces():
-    # D'Alembert (Newton's second law for the whole building): V_b = -sum m_i a_i (absolute).
+def test_reaction_equals_inertia_forces_and_base_shear_is_the_first_storey_spring():
+    # D'Alembert (Newton's second law for the whole building): the foundation reaction
+    # -sum m_i a_i (absolute) equals isolator plus damper force; base shear is the spring force of
+    # the storey above the isolators, k_1 (u_1 - u_b) for an elastic storey (issue 10 convention).
     b = five_storey()
     dt = 0.005
     acc = noise_motion(seconds=6.0, dt=dt)
     result = run_cases(b, 600.0, bounds_lead_rubber(3100.0), acc, dt, supplemental_damping=200.0)["upper"]
     inertia = -(600.0 * result.base_acceleration + np.sum(result.floor_acceleration * np.asarray(b.masses), axis=2))
-    np.testing.assert_allclose(result.base_shear, inertia * GRAVITY, atol=1e-6 * np.abs(result.base_shear).max())
+    scale = np.abs(result.reaction).max()
+    np.testing.assert_allclose(result.reaction, inertia * GRAVITY, atol=1e-6 * scale)
+    np.testing.assert_allclose(result.isolator_force + result.damper_force, result.reaction, atol=1e-6 * scale)
+    spring = b.stiffnesses[0] * (result.floor_displacement[..., 0] - result.isolator_displacement)
+    np.testing.assert_allclose(result.base_shear, spring, atol=1e-9 * np.abs(spring).max())
 
 
 def test_floor_spectra_match_lsim_reference():
