@@ -344,7 +344,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         live_histories[alternative.name] = histories
         live_reports[alternative.name] = (system, sets, report)
         loss_cases.append((alternative, system, _history_isolator(sets["nominal"], bounds["nominal"], system,
-                                                                   "nominal"), quantities))
+                                                                   "nominal"), quantities, report))
     timings["histories"] = time.perf_counter() - mark
     loss_results = {}
     inputs = getattr(study, "loss", None)

@@ -135,35 +135,72 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
     return hazard, {"basis": basis, "model": hazard.to_dict()}
 
 
-def fixed_base_building(study):
+def fixed_base_building(study, spectrum=None):
     """The fixed-base building whose losses isolation is compared with.
 
-    Today the elastic superstructure of the study (:func:`isolation.study_model.superstructure`);
-    the one place to switch to a code-designed yielding building.
+    The code-designed yielding building of :func:`isolation.comparison.fixed_base_comparison`
+    (storey strengths from the code's lateral force design times overstrength) unless the
+    study asks for ``building.fixed_base_model = "elastic"``, then the elastic superstructure
+    of :func:`isolation.study_model.superstructure`. The one place to change the comparison
+    building of the loss study.
+
+    Parameters
+    ----------
+    study : Study
+    spectrum : site spectrum, optional
+        Default: :func:`isolation.study_model.site_spectrum`. [g]
     """
+    from isolation.study_model import fixed_base_period, site_spectrum, superstructure
+
+    building = superstructure(study)
+    if getattr(study.building, "fixed_base_model", "elastic") != "yielding":
+        return building
+    from isolation.comparison import fixed_base_comparison
+
+    spectrum = spectrum if spectrum is not None else site_spectrum(study)
+    return fixed_base_comparison(study, spectrum, building, fixed_base_period(study)[0]).building
+
+
+def isolated_building(study, report):
+    """Superstructure above the isolators of one alternative for the loss study: yielding at the
+    strengths of its code design V_s (:func:`isolation.comparison.isolated_superstructure`) unless the
+    study asks for an elastic comparison. ``report`` is the alternative's code report."""
     from isolation.study_model import superstructure
 
-    return superstructure(study)
+    building = superstructure(study)
+    if report is None or getattr(study.building, "fixed_base_model", "elastic") != "yielding":
+        return building
+    from isolation.comparison import isolated_superstructure
+
+    return isolated_superstructure(study, report, building)[0]
 
 
-def _residual_drift_ratio(result) -> np.ndarray:
-    """Residual storey drift ratio (records, storeys): the result's field when it has one,
-    else |drift| at the end of each record over the storey height."""
-    field = getattr(result, "residual_drift", None)
-    if field is not None:
-        values = np.abs(np.asarray(field, dtype=float))
-        return values / np.asarray(result.heights) if np.max(values, initial=0.0) > 0.2 else values
-    return np.abs(result.drift[:, -1, :]) / np.asarray(result.heights)
+def _residual_drift_ratio(result, window: float | None = None) -> np.ndarray:
+    """Residual storey drift ratio (records, storeys).
+
+    With ``window`` [s]: |mean drift| over the last ``window`` seconds of each record (at
+    most its second half) over the storey height, so that the free vibration left at the
+    end averages out about the permanent offset (common practice; a window of two periods of
+    the governing mode). Without: |drift| at the last sample.
+    """
+    steps = result.drift.shape[1]
+    if window is None:
+        return np.abs(result.drift[:, -1, :]) / np.asarray(result.heights)
+    count = int(min(max(round(window / result.dt), 1), steps // 2 or 1))
+    return np.abs(result.drift[:, -count:, :].mean(axis=1)) / np.asarray(result.heights)
 
 
-def demands_by_level(result, levels: int) -> list:
-    """Split a history result over ``levels`` x records (level-major) into one :class:`Demands` per level."""
+def demands_by_level(result, levels: int, residual_window: float | None = None) -> list:
+    """Split a history result over ``levels`` x records (level-major) into one :class:`Demands` per level.
+
+    ``residual_window`` [s]: averaging window of the residual drift (see :func:`_residual_drift_ratio`).
+    """
     peaks = result.peaks()
     records = peaks["drift_ratio"].shape[0] // levels
     ground = result.base_acceleration if result.isolated else result.ground_acceleration
     base_peak = np.max(np.abs(ground), axis=1)
     acc = np.column_stack([base_peak, peaks["floor_acceleration"]])
-    residual = _residual_drift_ratio(result)
+    residual = _residual_drift_ratio(result, residual_window)
     out = []
     for i in range(levels):
         sl = slice(i * records, (i + 1) * records)
@@ -324,10 +361,11 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         The run's matched suite (``acceleration`` [g], ``dt`` [s]).
     base_mass : float
         Mass of the base slab above the isolators. [t]
-    alternatives : list of (Alternative, IsolationSystem, isolator, quantities)
-        Each alternative with its nominal isolator for the histories and its
+    alternatives : list of (Alternative, IsolationSystem, isolator, quantities[, report])
+        Each alternative with its nominal isolator for the histories, its
         code quantities (``shear_ratio`` [-], ``displacement_capacity`` [m],
-        ``moat`` [m]).
+        ``moat`` [m]) and optionally its code report (for the strengths of a
+        yielding superstructure, :func:`isolated_building`).
     inputs : LossInputs, optional
         Default: ``study.loss`` or all defaults.
 
@@ -345,20 +383,31 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
     levels = tuple(options.levels)
     acc = np.asarray(suite.acceleration, dtype=float)
     stacked = np.concatenate([level * acc for level in levels], axis=0)
-    fixed_building = fixed_base_building(study)
-    isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}
-    results = run_cases(fixed_building, base_mass, isolators, stacked, suite.dt, include_fixed=True)
+    fixed_building = fixed_base_building(study, spectrum)
+    results = run_cases(fixed_building, base_mass, {}, stacked, suite.dt, include_fixed=True)
+    supers = [isolated_building(study, item[4] if len(item) > 4 else None) for item in alternatives]
+    if all(b == supers[0] for b in supers):  # one vectorised run for all alternatives
+        if supers:
+            isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}
+            results.update(run_cases(supers[0], base_mass, isolators, stacked, suite.dt, include_fixed=False))
+    else:
+        for i, (item, building) in enumerate(zip(alternatives, supers)):
+            results.update(run_cases(building, base_mass, {f"alternative {i}": item[2]}, stacked, suite.dt,
+                                     include_fixed=False))
     seed = options.seed if options.seed is not None else study.analysis.seed
     streams = np.random.SeedSequence(seed).spawn(1 + len(alternatives))
     common = dict(samples=options.samples, modelling_dispersion=options.modelling_dispersion, basis=study.basis)
     fixed_model = loss_model(study, inputs)
-    fixed = case_loss(fixed_model, demands_by_level(results["fixed"], len(levels)), levels, hazard,
+    fixed_window = 2.0 * float(fixed_building.modal().periods[0])
+    fixed = case_loss(fixed_model, demands_by_level(results["fixed"], len(levels), fixed_window), levels, hazard,
                       seed=streams[0], **common)
     out_alternatives = {}
-    for i, (alternative, system, _, quantities) in enumerate(alternatives):
+    for i, (alternative, system, _, quantities, *_) in enumerate(alternatives):
         limits = [v for v in (quantities.get("displacement_capacity"), quantities.get("moat")) if v]
         model = loss_model(study, inputs, displacement_limit=min(limits) if limits else None)
-        case = case_loss(model, demands_by_level(results[f"alternative {i}"], len(levels)), levels, hazard,
+        periods = [quantities.get(k) for k in ("period_lower", "period_upper") if quantities.get(k)]
+        window = 2.0 * (float(np.mean(periods)) if periods else float(fixed_building.modal().periods[0]))
+        case = case_loss(model, demands_by_level(results[f"alternative {i}"], len(levels), window), levels, hazard,
                          seed=streams[1 + i], **common)
         premium = _premium(study, alternative, system, quantities, inputs, model)
         case["economics"] = economics(fixed, case, premium, inputs.cost)
@@ -367,5 +416,13 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
             "currency": inputs.cost.currency, "inputs": inputs.to_dict(), "cautions": list(CAUTIONS),
             "settings": {"samples": options.samples, "seed": seed, "modelling_dispersion":
                          options.modelling_dispersion, "records": int(acc.shape[0]), "percentiles": list(PERCENTILES),
-                         "isolator_properties": "nominal", "fixed_base": "elastic superstructure (code-designed "
-                         "yielding model pending)", "occupancy": options.occupancy}}
+                         "isolator_properties": "nominal", "fixed_base": _describe(fixed_building),
+                         "occupancy": options.occupancy}}
+
+
+def _describe(building) -> str:
+    if getattr(building, "yield_shears", None) is None:
+        return "elastic superstructure"
+    strengths = ", ".join(f"{v:.0f}" for v in building.yield_shears)
+    return (f"code-designed yielding building (storey strengths {strengths} kN, post-yield ratio "
+            f"{building.hardening:g}{', P-delta' if building.p_delta else ''})")
