@@ -112,3 +112,20 @@ def test_loss_can_be_switched_off():
     result = run_study(study, quick=True)
     assert result.alternatives[0].loss == {} and result.fixed_base["loss"] == {}
     assert "loss" not in result.run["timings"]
+
+
+def test_eurocode_basis_uses_the_design_action_and_k_3():
+    # EN 1998-1 §2.1: reference return period 475 years (10 % in 50 years) for the design action;
+    # §2.1(4) note: exponent k of the order of 3.
+    mapping = apply_overrides(read_study_mapping(DEMO), {"code.basis": "eurocode", "building.importance": 1.4})
+    for key in ("sms", "sm1", "long_period", "s1", "site_class"):
+        del mapping["site"][key]
+    mapping["site"].update(ag=0.3, ground_type="B", spectrum_type=1)
+    del mapping["hazard"]
+    mapping["alternative"] = mapping["alternative"][:1]
+    result = run_study(parse_study(mapping, source="eurocode"), quick=True)
+    model = result.loss["hazard"]["model"]
+    assert model["k"] == 3.0 and model["k0"] == pytest.approx(-np.log(0.9) / 50)
+    fixed = result.fixed_base["loss"]
+    assert (fixed["design_level"], fixed["mce_level"]) == (1.0, 1.5)
+    assert result.alternatives[0].loss["expected_annual_loss"] > 0
