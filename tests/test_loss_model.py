@@ -1,7 +1,8 @@
 """Fragilities, consequences, Monte Carlo losses and owner economics (isolation.loss).
 
 Outside sources (values typed here from the tables, not from the package):
-* HAZUS-MH MR5 Technical Manual (FEMA 2010), Table 5.9a (High-Code structural drift at
+* FEMA Multi-hazard Loss Estimation Methodology, Earthquake Model, Technical Manual (MR5, 2010),
+  Table 5.9a (High-Code structural drift at
   damage-state thresholds), Table 5.11 (non-structural drift), Table 5.13 (non-structural
   acceleration, High-Code), Tables 15.2-15.4 (repair cost ratios, % of replacement cost),
   Table 15.5 (contents damage ratios), Chapter 15 repair/recovery time tables. From memory.
@@ -33,7 +34,7 @@ from isolation.loss.simulation import summarise
     ("steel_moment_frame", 2, (0.006, 0.012, 0.030, 0.080)),      # S1L, Table 5.9a
     ("concrete_moment_frame", 10, (0.0025, 0.005, 0.015, 0.040)),  # C1H, Table 5.9a
 ])
-def test_structural_medians_are_hazus_high_code(system, storeys, medians):
+def test_structural_medians_are_the_manuals_high_code(system, storeys, medians):
     groups = component_fragilities(system, storeys, "high")
     assert [f.median for f in groups["structural"]] == pytest.approx(medians)
     assert [f.median for f in groups["drift_nonstructural"]] == pytest.approx([0.004, 0.008, 0.025, 0.050])
@@ -41,7 +42,7 @@ def test_structural_medians_are_hazus_high_code(system, storeys, medians):
     assert all("Table" in f.source or "Tables" in f.source for g in groups.values() for f in g)
 
 
-def test_office_and_residential_repair_ratios_are_hazus_tables():
+def test_office_and_residential_repair_ratios_are_the_manuals_tables():
     office = occupancy("office")  # COM4
     assert office.structural == (0.4, 1.9, 9.6, 19.2)               # Table 15.2
     assert office.acceleration_sensitive == (0.9, 4.8, 14.4, 47.9)  # Table 15.3
@@ -54,7 +55,7 @@ def test_office_and_residential_repair_ratios_are_hazus_tables():
 
 @pytest.mark.parametrize("name", sorted(OCCUPANCIES))
 def test_complete_damage_of_all_groups_is_the_replacement_cost(name):
-    # The three HAZUS tables split the replacement cost: complete-state ratios add to 100 %.
+    # The manual's three tables split the replacement cost: complete-state ratios add to 100 %.
     occ = OCCUPANCIES[name]
     assert occ.structural[-1] + occ.acceleration_sensitive[-1] + occ.drift_sensitive[-1] == pytest.approx(100.0)
     for ratios in (occ.structural, occ.acceleration_sensitive, occ.drift_sensitive, occ.repair_days,
@@ -121,7 +122,7 @@ def test_no_demand_no_loss_and_huge_demand_total_loss():
     quiet = simulate(model, _demands([1e-6], [1e-4, 1e-4]), 0.1, samples=100, modelling_dispersion=0.0, rng=0)
     assert np.all(quiet["loss"] == 0.0) and np.all(quiet["repair_days"] == 0.0)
     wrecked = simulate(model, _demands([5.0], [100.0, 100.0]), 0.1, samples=100, modelling_dispersion=0.0, rng=0)
-    # complete state of every group: 100 % of the building (HAZUS split) + 50 % of the contents (Table 15.5)
+    # complete state of every group: 100 % of the building (the manual's split) + 50 % of the contents (Table 15.5)
     assert np.allclose(wrecked["loss"], 1.0e7 + 0.5 * 4.0e6)
 
 

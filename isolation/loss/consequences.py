@@ -2,7 +2,8 @@
 
 Repair cost ratios are percentages of the building's replacement cost for each
 component group and damage state (slight, moderate, extensive, complete),
-from the HAZUS-MH MR5 Technical Manual (FEMA 2010): Table 15.2 (structural),
+from FEMA's Multi-hazard Loss Estimation Methodology, Earthquake Model,
+Technical Manual (MR5, 2010), hereafter the FEMA technical manual: Table 15.2 (structural),
 Table 15.3 (acceleration-sensitive non-structural), Table 15.4
 (drift-sensitive non-structural); contents damage ratios (percent of the
 contents value) from Table 15.5; building repair times (construction only)
@@ -11,7 +12,7 @@ Chapter 15 repair-time tables (Tables 15.9 and 15.10 in MR5 numbering). All
 from memory, not re-read. For each occupancy the complete-state ratios of the
 three groups add up to 100 %.
 
-Occupancies (HAZUS class): "office" (COM4, professional/technical services),
+Occupancies (the manual's occupancy class): "office" (COM4, professional/technical services),
 "residential" (RES3, multi-family dwelling).
 """
 
@@ -28,7 +29,7 @@ class Occupancy:
 
     Attributes
     ----------
-    name, hazus_class : str
+    name, occupancy_class : str
     structural, acceleration_sensitive, drift_sensitive : tuple of float
         Repair cost ratio, percent of the building replacement cost. [%]
     repair_days : tuple of float
@@ -39,7 +40,7 @@ class Occupancy:
     """
 
     name: str
-    hazus_class: str
+    occupancy_class: str
     structural: tuple
     acceleration_sensitive: tuple
     drift_sensitive: tuple
@@ -56,7 +57,7 @@ class Occupancy:
         return {k: getattr(self, k) for k in self.__dataclass_fields__}
 
 
-_SOURCE = ("HAZUS-MH MR5 Technical Manual (FEMA 2010) Tables 15.2, 15.3, 15.4 (repair cost ratios), "
+_SOURCE = ("FEMA Multi-hazard Loss Estimation Methodology, Earthquake Model, Technical Manual (MR5, 2010) Tables 15.2, 15.3, 15.4 (repair cost ratios), "
            "Chapter 15 repair and recovery time tables; from memory, not re-read")
 
 OCCUPANCIES = {
@@ -73,7 +74,7 @@ OCCUPANCIES = {
 
 CONTENTS_RATIOS = (1.0, 5.0, 25.0, 50.0)
 """Contents damage, percent of the contents value, per acceleration-sensitive damage state
-(HAZUS-MH MR5 Technical Manual Table 15.5, from memory)."""
+(FEMA technical manual MR5, Table 15.5, from memory)."""
 
 
 def occupancy(name: str) -> Occupancy:

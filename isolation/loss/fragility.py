@@ -2,7 +2,8 @@
 
 A fragility gives the probability that a component group reaches or exceeds
 damage state ds at demand d: P(DS >= ds | d) = Phi(ln(d / median_ds) / beta_ds).
-Groups follow the storey-based split of HAZUS-MH (structural, drift-sensitive
+Groups follow the storey-based split of FEMA's earthquake loss estimation
+technical manual (structural, drift-sensitive
 non-structural, acceleration-sensitive non-structural; contents follow the
 acceleration-sensitive group), with four damage states: slight, moderate,
 extensive, complete.
@@ -11,15 +12,15 @@ Medians (demand at the threshold of each damage state) are those of
 :mod:`isolation.damage` (one table for the package):
 
 * structural: inter-storey drift ratios at the threshold of damage, by model
-  building type, height class and design level, HAZUS-MH MR5 Technical
-  Manual (FEMA, 2010), Tables 5.9a/b (from memory, not re-read);
+  building type, height class and design level, FEMA Multi-hazard Loss
+  Estimation Methodology, Earthquake Model, Technical Manual (MR5, 2010), Tables 5.9a/b (from memory, not re-read);
 * drift-sensitive non-structural: 0.004, 0.008, 0.025, 0.050 drift ratio
   (same manual, Table 5.11, from memory);
 * acceleration-sensitive non-structural: 0.30, 0.60, 1.20, 2.40 g (high
   code), 0.25, 0.50, 1.00, 2.00 g (moderate code) peak floor acceleration
   (same manual, Table 5.13, from memory).
 
-Dispersions: HAZUS publishes its betas for spectral displacement and
+Dispersions: the manual publishes its betas for spectral displacement and
 acceleration of the whole building (they include the capacity-curve
 variability), not for storey demands; the storey-demand dispersions used
 here (0.4 drift, structural; 0.5 drift, non-structural; 0.6 acceleration)
@@ -49,7 +50,7 @@ __all__ = ["Fragility", "DAMAGE_STATES", "component_fragilities", "IRREPARABLE",
            "COLLAPSE_DISPERSION", "collapse_fragility", "collapse_probability_at_mce"]
 
 DAMAGE_STATES = ("slight", "moderate", "extensive", "complete")
-"""HAZUS damage states, in order."""
+"""Damage states of the FEMA technical manual, in order."""
 
 
 @dataclass(frozen=True)
@@ -101,8 +102,8 @@ ACCELERATION_DISPERSION = 0.6
 def component_fragilities(lateral_system: str, storeys: int, design_level: str = "high") -> dict:
     """Fragilities of the storey component groups of a building.
 
-    Medians from :func:`isolation.damage.damage_thresholds` (HAZUS-MH MR5
-    Technical Manual, Tables 5.9a/b, 5.11, 5.13; from memory), dispersions of
+    Medians from :func:`isolation.damage.damage_thresholds` (FEMA earthquake loss
+    estimation technical manual MR5, Tables 5.9a/b, 5.11, 5.13; from memory), dispersions of
     this module (common practice).
 
     Parameters
@@ -112,7 +113,7 @@ def component_fragilities(lateral_system: str, storeys: int, design_level: str =
     storeys : int
         Storeys above the base (height class). [-]
     design_level : {"high", "moderate"}
-        HAZUS seismic design level. [-]
+        Seismic design level of the manual. [-]
 
     Returns
     -------

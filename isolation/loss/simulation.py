@@ -21,7 +21,7 @@ value. Collapse (the collapse fragility at this intensity, or an isolator
 displacement beyond the limit) costs the replacement cost plus the contents;
 irreparability (largest residual drift ratio) the replacement cost plus the
 contents damage. Repair and recovery times follow the worst structural or
-drift-sensitive damage state in any storey (HAZUS gives times per building
+drift-sensitive damage state in any storey (the manual gives times per building
 damage state; acceleration-sensitive repairs are taken to fit inside them);
 collapse and irreparability take the complete-state times.
 """
