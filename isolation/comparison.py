@@ -16,7 +16,6 @@ Scope: feasibility, not construction design.
 
 from __future__ import annotations
 
-import dataclasses
 from dataclasses import dataclass
 from typing import Any
 
@@ -52,14 +51,18 @@ class FixedBaseComparison:
     yielding: bool
 
     def to_dict(self) -> dict:
+        notes = getattr(self.building, "p_delta_notes", None)
         return {"factors": self.factors.to_dict(), "design": self.design.to_dict(), "drift_check": self.drift.to_dict(),
-                "yielding": self.yielding, "model": plain(self.building)}
+                "yielding": self.yielding, "model": plain(self.building),
+                "p_delta_notes": list(notes()) if callable(notes) else []}
 
 
-def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: bool = True):
-    """The shear building ``building`` with storey yield shears [kN], post-yield ratio [-] and P-delta."""
-    return dataclasses.replace(building, yield_shears=tuple(float(v) for v in yield_shears),
-                               hardening=float(hardening), p_delta=bool(p_delta))
+def with_strengths(building, yield_shears, *, hardening: float = 0.03, p_delta: bool = True,
+                   hysteresis: str = "bilinear"):
+    """The shear building ``building`` with storey yield shears [kN], post-yield ratio [-], P-delta
+    and storey law ("bilinear" or "clough", see :class:`isolation.structure.ShearBuilding`)."""
+    return building.with_strengths(tuple(float(v) for v in yield_shears), hardening=float(hardening),
+                                   p_delta=bool(p_delta), hysteresis=hysteresis)
 
 
 def _factors(study) -> SystemFactors:
@@ -92,8 +95,8 @@ def fixed_base_comparison(study, spectrum, building, period: float) -> FixedBase
         design = design.with_yield_shears(b.storey_strengths)
     drift = code_drift_check(building, design, factors, basis=study.basis, importance=b.importance)
     yielding = b.fixed_base_model == "yielding"
-    model = with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta) \
-        if yielding else building
+    model = with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta,
+                           hysteresis=b.storey_hysteresis) if yielding else building
     return FixedBaseComparison(factors, design, drift, model, building, yielding)
 
 
@@ -111,13 +114,17 @@ def isolated_superstructure(study, report, building):
         design = design.with_yield_shears(b.isolated_storey_strengths)
     if b.fixed_base_model != "yielding":
         return building, design
-    return with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta), design
+    return with_strengths(building, design.yield_shears, hardening=b.hardening, p_delta=b.p_delta,
+                          hysteresis=b.storey_hysteresis), design
 
 
 def _mean_peak(values) -> list | None:
     if values is None:
         return None
-    return np.mean(np.abs(np.asarray(values, dtype=float)), axis=0).tolist()
+    values = np.abs(np.asarray(values, dtype=float))
+    if not np.any(np.isfinite(values)):
+        return None  # elastic storeys: no ductility
+    return np.mean(values, axis=0).tolist()
 
 
 def response_indicators(result, strengths, thresholds) -> dict:

@@ -1,4 +1,11 @@
-"""Newmark average-acceleration integration of isolated buildings, many columns at once.
+"""Newmark average-acceleration integration of shear buildings, fixed or isolated.
+
+:func:`simulate` is the engine :mod:`isolation.history` uses: it builds the
+step operators and runs :mod:`isolation.kernel` (compiled with numba when
+installed, else interpreted; identical results), which also handles yielding
+storeys, P-delta and sub-steps. :func:`integrate` below is the earlier
+column-vectorised numpy engine for elastic storeys, kept importable; its
+notes follow.
 
 The equation of motion, relative to the ground, is
 

@@ -295,24 +295,38 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
     lower_periods = [d[3].bounds.results["lower"].period for d in designs]
     structure = superstructure(study)
     check_study(study)
+    from isolation.comparison import (comparison_summary, fixed_base_comparison, isolated_superstructure,
+                                      response_indicators, thresholds_of)
+    try:
+        comparison = fixed_base_comparison(study, spectrum, structure, t_fb)
+    except ValueError as error:
+        raise RunError(f"fixed-base code design failed: {' '.join(str(error).split())}") from error
+    thresholds = thresholds_of(study)
     mark = time.perf_counter()
     try:
         suite, suite_note = _suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
-        fixed = run_history(structure, suite.acceleration, suite.dt)
+        fixed = run_history(comparison.building, suite.acceleration, suite.dt)
+        fixed_elastic = run_history(structure, suite.acceleration, suite.dt) if comparison.yielding else fixed
     except (ValueError, RunError) as error:
         raise RunError(f"motion suite / fixed-base history failed: {' '.join(str(error).split())}") from error
     timings["suite"] = time.perf_counter() - mark
     fixed_stats = fixed.statistics()
+    fixed_indicators = {
+        "fixed": response_indicators(fixed, comparison.design.yield_shears if comparison.yielding else None,
+                                     thresholds),
+        "fixed_elastic": response_indicators(fixed_elastic, None, thresholds)}
     base_mass = b.base_weight / GRAVITY
 
     mark = time.perf_counter()
-    results, live_histories, live_reports, loss_cases = [], {"fixed": fixed}, {}, []
+    results, live_histories, live_reports = [], {"fixed": fixed, "fixed_elastic": fixed_elastic}, {}
+    loss_cases = []
     for alternative, system, sets, report, quantities, permitted, reasons, checks in designs:
         bounds = report.bounds.results
         isolators = {case: _history_isolator(sets[case], bounds[case], system, case)
                      for case in ("lower", "upper")}
         try:
-            histories = run_cases(structure, base_mass, isolators, suite.acceleration, suite.dt,
+            above, isolated_design = isolated_superstructure(study, report, structure)
+            histories = run_cases(above, base_mass, isolators, suite.acceleration, suite.dt,
                                   include_fixed=False)
         except (ValueError, RunError) as error:
             raise RunError(f"alternative {alternative.name!r}: response history failed: "
@@ -320,6 +334,10 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         stats = {case: h.statistics() for case, h in histories.items()}
         torsion = quantities["total_displacement"] / quantities["displacement"]
         summary = _history_summary(stats, fixed_stats, torsion)
+        strengths = isolated_design.yield_shears if comparison.yielding else None
+        indicators = dict(fixed_indicators)
+        indicators.update({case: response_indicators(h, strengths, thresholds) for case, h in histories.items()})
+        summary.update(comparison_summary(indicators, comparison.design, isolated_design))
         lower_set = sets["lower"]
         strength = getattr(lower_set, "characteristic_strength", None)
         if strength is None:
@@ -336,7 +354,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         results.append(AlternativeResults(
             name=alternative.name, system=plain(system), bounds=plain(bounds), report=plain(report),
             quantities=plain(quantities), checks=plain(checks),
-            history={"statistics": plain(stats), "summary": plain(summary),
+            history={"statistics": plain(stats), "summary": plain(summary), "indicators": plain(indicators),
+                     "isolated_design": plain(isolated_design),
                      "model": "lower and upper property sets; " + (
                          "bilinear backbones" if all(isolators[c] is sets[c] for c in isolators)
                          else "equivalent bilinear at the design displacement")},
@@ -353,7 +372,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
 
         mark = time.perf_counter()
         try:
-            loss_results = run_loss(study, spectrum, suite, base_mass, loss_cases, inputs)
+            loss_results = run_loss(study, spectrum, suite, base_mass, loss_cases, inputs,
+                                    fixed_building=comparison.building)
         except (ValueError, RunError) as error:
             raise RunError(f"loss study failed: {' '.join(str(error).split())}") from error
         results = [dataclasses.replace(r, loss=plain(loss_results["alternatives"][r.name])) for r in results]
@@ -373,14 +393,15 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         spectrum={"definition": plain(spectrum), "periods": curve.tolist(),
                   "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
                   "note": spectrum_note},
-        fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(structure),
-                    "statistics": plain(fixed_stats),
+        fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(comparison.building),
+                    "statistics": plain(fixed_stats), "elastic_statistics": plain(fixed_elastic.statistics()),
+                    "comparison": plain(comparison), "damage_thresholds": plain(thresholds),
                     "loss": plain(loss_results.get("fixed", {}))},
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
         loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
-        live={"spectrum": spectrum, "suite": suite, "superstructure": structure,
+        live={"spectrum": spectrum, "suite": suite, "superstructure": structure, "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
     )
 

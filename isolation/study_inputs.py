@@ -88,7 +88,9 @@ class Building:
     ``hardening`` [-] is the post-yield storey stiffness ratio (default 0.03,
     common practice); ``p_delta`` includes gravity P-delta in yielding storeys;
     ``design_level`` ("high" or "moderate") picks the damage-state medians of
-    :mod:`isolation.damage`.
+    :mod:`isolation.damage`; ``storey_hysteresis`` is the storey law of the
+    yielding buildings, "bilinear" (kinematic hardening) or "clough"
+    (stiffness-degrading, Clough & Johnston 1966, for concrete frames).
     """
 
     storeys: int
@@ -111,6 +113,7 @@ class Building:
     hardening: float = 0.03
     p_delta: bool = True
     design_level: str = "high"
+    storey_hysteresis: str = "bilinear"
 
     @property
     def total_weight(self) -> float:

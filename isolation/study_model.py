@@ -220,4 +220,6 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
         near_fault=study.site.near_fault, spectral_ratio=ratio, wind_base_shear=study.wind_base_shear,
         characteristic_strength=q["characteristic_strength"], elf_permitted=permitted,
         elf_reasons=tuple(reasons), failed_checks=tuple(c.name for c in checks if not c.passed),
-        effective_damping=max(r.damping for r in bounds.values()), units=study.units)
+        effective_damping=max(r.damping for r in bounds.values()), units=study.units,
+        ductility_isolated=summary.get("ductility_isolated"), residual_drift_isolated=summary.get("residual_drift_isolated"),
+        ductility_fixed=summary.get("ductility_fixed"), residual_drift_fixed=summary.get("residual_drift_fixed"))

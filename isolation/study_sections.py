@@ -192,6 +192,7 @@ def _yielding_keys(t: Reader, count: int | None) -> dict:
         hardening=t.number("hardening", low=0.0, high=0.5, required=False, default=0.03),
         p_delta=t.boolean("p_delta", required=False, default=True),
         design_level=t.choice("design_level", ("high", "moderate"), required=False) or "high",
+        storey_hysteresis=t.choice("storey_hysteresis", ("bilinear", "clough"), required=False) or "bilinear",
     )
     for key in ("storey_strengths", "isolated_storey_strengths"):
         t.known.add(key)

@@ -29,6 +29,7 @@ from isolation.verdict_rules import (Reason, base_shear_reduction, bearing_check
                                      elf_applicability, floor_acceleration_reduction, isolated_period,
                                      moat_clearance, period_shift, storey_drift, uplift)
 from isolation.verdict_site import near_fault, site_suitability, slenderness, spectral_benefit, wind
+from isolation.verdict_yielding import superstructure_yielding
 
 __all__ = [
     "FEASIBLE",
@@ -59,6 +60,7 @@ __all__ = [
     "elf_applicability",
     "bearing_checks",
     "effective_damping",
+    "superstructure_yielding",
 ]
 
 FEASIBLE = "feasible"
@@ -119,8 +121,9 @@ class Figures:
         Mean over the suite of the peak isolator displacement, lower bound. [m]
     base_shear_ratio : float or None
         Peak shear above the isolators in the response histories (upper
-        bound, suite mean) over the fixed-base building's peak base shear,
-        both with an elastic superstructure. [-]
+        bound, suite mean) over the fixed-base building's peak base shear;
+        the fixed base is the code-designed yielding building unless the
+        study asks for an elastic one. [-]
     design_shear_ratio : float or None
         Code design shear above the isolators V_s over the fixed-base design
         base shear (each with its own response reduction). [-]
@@ -165,6 +168,11 @@ class Figures:
         Largest effective damping ratio over the bounds. [-]
     units : str
         "SI" or "US": units of lengths and forces in the messages.
+    ductility_isolated, residual_drift_isolated : float or None
+        Largest storey ductility demand [-] and residual drift ratio [-] of
+        the isolated superstructure (suite means, worse bound); None when elastic.
+    ductility_fixed, residual_drift_fixed : float or None
+        The same for the code-designed fixed-base building (quoted only). [-]
     """
 
     alternative: str
@@ -193,6 +201,10 @@ class Figures:
     failed_checks: tuple = ()
     effective_damping: float | None = None
     units: str = "SI"
+    ductility_isolated: float | None = None
+    residual_drift_isolated: float | None = None
+    ductility_fixed: float | None = None
+    residual_drift_fixed: float | None = None
 
     def to_dict(self) -> dict:
         data = asdict(self)
@@ -239,6 +251,8 @@ def assess(figures: Figures) -> Verdict:
         elf_applicability(f.elf_permitted, tuple(f.elf_reasons), basis=basis),
         bearing_checks(tuple(f.failed_checks)),
         effective_damping(f.effective_damping, basis=basis),
+        superstructure_yielding(f.ductility_isolated, f.residual_drift_isolated, f.ductility_fixed,
+                                f.residual_drift_fixed, basis=basis),
     ]
     reasons = tuple(r for r in found if r is not None)
     return Verdict(alternative=f.alternative, outcome=combine(reasons), reasons=reasons)

@@ -112,7 +112,8 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
                 if line.startswith("# ")]
     assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions", "# Site spectrum and period shift",
                         "# Isolation system and bearing checks", "# Equivalent-linear results for both bounds",
-                        "# Motion suite", "# Response-history comparison", "# Verdict", "# Cautions"]
+                        "# Motion suite", "# Response-history comparison",
+                        "# Against the code-designed fixed-base building", "# Verdict", "# Cautions"]
     captions = [o.metadata["image/png"].get("caption", "") for o in _outputs(nb, "image/png")]
     assert all(captions) and len(captions) >= 6 + 6 * len(names)
 

@@ -350,7 +350,8 @@ def _premium(study, alternative, system, quantities, inputs: LossInputs, model: 
             "structural_cost": structural_cost, "design_shear_ratio": ratio}
 
 
-def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, inputs: LossInputs | None = None) -> dict:
+def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, inputs: LossInputs | None = None, *,
+             fixed_building=None) -> dict:
     """Loss analysis of the fixed base and every alternative of a study.
 
     Parameters
@@ -368,6 +369,9 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         yielding superstructure, :func:`isolated_building`).
     inputs : LossInputs, optional
         Default: ``study.loss`` or all defaults.
+    fixed_building : ShearBuilding, optional
+        The fixed-base comparison building the run already built; default
+        :func:`fixed_base_building`.
 
     Returns
     -------
@@ -383,7 +387,7 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
     levels = tuple(options.levels)
     acc = np.asarray(suite.acceleration, dtype=float)
     stacked = np.concatenate([level * acc for level in levels], axis=0)
-    fixed_building = fixed_base_building(study, spectrum)
+    fixed_building = fixed_building if fixed_building is not None else fixed_base_building(study, spectrum)
     results = run_cases(fixed_building, base_mass, {}, stacked, suite.dt, include_fixed=True)
     supers = [isolated_building(study, item[4] if len(item) > 4 else None) for item in alternatives]
     if all(b == supers[0] for b in supers):  # one vectorised run for all alternatives

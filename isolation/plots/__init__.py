@@ -18,7 +18,8 @@ same in both systems.
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
 motion suite), :mod:`~isolation.plots.history` (response histories),
-:mod:`~isolation.plots.loss` (expected repair cost against intensity).
+:mod:`~isolation.plots.loss` (expected repair cost against intensity),
+:mod:`~isolation.plots.yielding` (ductility, residual drift, shear over strength).
 """
 
 from isolation.plots.common import COLOURS, WIDTH, AxisUnit, axis_unit, captioned
@@ -29,6 +30,7 @@ from isolation.plots.history import (base_shear_comparison, displacement_histori
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
                                      storey_profiles)
+from isolation.plots.yielding import yielding_profiles
 
 __all__ = [
     "COLOURS",
@@ -55,4 +57,5 @@ __all__ = [
     "history_energy",
     "history_floor_spectra",
     "loss_curves",
+    "yielding_profiles",
 ]

@@ -21,7 +21,7 @@ __all__ = ["WIDTH", "COLOURS", "AxisUnit", "axis_unit", "captioned"]
 WIDTH = 6.4  # figure width [in]; the report scales it to the text width
 
 
-COLOURS = {"lower": "#1f5fa8", "nominal": "#4a4a4a", "upper": "#b23a10", "fixed": "#7a7a7a"}
+COLOURS = {"elastic": "#8e5ba8", "lower": "#1f5fa8", "nominal": "#4a4a4a", "upper": "#b23a10", "fixed": "#7a7a7a"}
 
 
 # Unit shown on a figure axis per quantity and display system: (unit name for

@@ -211,6 +211,8 @@ def _levels(result: Any) -> np.ndarray:
 
 
 def _label(case: str) -> str:
+    if case == "fixed_elastic":
+        return "fixed base, elastic"
     return "fixed base" if case == "fixed" else f"isolated, {case}"
 
 

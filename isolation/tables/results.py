@@ -189,7 +189,9 @@ def history_table(alternative: Any, system: str = "SI") -> Table:
          show(s["superstructure_shear_upper"], "force")),
         (f"Shear through the isolation plane [{force}]", None, None, show(s["isolation_shear_upper"], "force")),
     )
-    return Table(columns=("Response (suite mean of peaks)", "Fixed base", "Isolated, lower", "Isolated, upper"),
+    fixed = "Fixed base, code design" if _part(alternative, "history")["summary"].get("ductility_fixed") is not None \
+        else "Fixed base"
+    return Table(columns=("Response (suite mean of peaks)", fixed, "Isolated, lower", "Isolated, upper"),
                  rows=rows, caption=f"Response-history results, {_part(alternative, 'name')}", align="prrr",
                  notes="Drift of the isolated building: the larger of the two bounds, shown under upper.")
 

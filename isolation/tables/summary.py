@@ -116,8 +116,13 @@ def summary_table(results: Any) -> Table:
         notes=(f"Verdicts: see the Verdict section. {symbols['total_displacement']} from the code procedure, "
                "torsion included. Shear, floor acceleration and drift: response-history suite means of the "
                "peaks; shear at the upper bound, floor acceleration and drift at the bound giving the larger "
-               "value. A feasibility screening, not a design: a licensed structural engineer must confirm "
-               "it against the local code."))
+               f"value. Fixed base: {_fixed_label(results)}. A feasibility screening, not a design: a "
+               "licensed structural engineer must confirm it against the local code."))
+
+
+def _fixed_label(results: Any) -> str:
+    from isolation.tables.yielding import fixed_base_label
+    return fixed_base_label(results)
 
 
 def _name(alternative: Any) -> str:
@@ -166,7 +171,7 @@ def summary_text(results: Any) -> str:
         f"{q['period_lower']:.2f} s, its isolators move by up to {symbols['total_displacement']} = "
         f"{display_quantity(q['total_displacement'], 'length', system)} ({room}), and it brings the peak floor "
         f"acceleration to {_percent(s.get('floor_acceleration_ratio'))} % and the base shear above the isolators "
-        f"to {_percent(s.get('superstructure_shear_ratio'))} % of the fixed-base building's.")]
+        f"to {_percent(s.get('superstructure_shear_ratio'))} % of those of {_fixed_label(results)}.")]
     deciding = _deciding(best)
     if deciding:
         more = deciding[1:]
