@@ -311,7 +311,8 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     fy (ns,); iso_p (cols, 6), iso_k/iso_f (cols, elements); damper (cols,). Outputs (cols, steps, .):
     u, v relative and a absolute (nd), drift d and storey hysteretic force s (ns); (cols, steps):
     isolator force f, reaction r = -sum m a_abs; energies (5, cols, steps: input, kinetic, viscous,
-    elastic strain, hysteretic). status[0:3] = column, step, residual of the first failure (column -1
+    elastic strain, hysteretic). status[0:4] = column, step, residual, what (1 isolator [m], 2 storeys
+    [kN]) of the first failure (column -1
     when all converged).
     """
     cols, steps = ground.shape
@@ -331,7 +332,9 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     r = np.zeros(nd)
     w = np.zeros(nd)
     y = np.zeros(nd)
-    cw = np.zeros(nd)
+    cu = np.zeros(nd)
+    cv = np.zeros(nd)
+    cdu = np.zeros(nd)
     st = np.zeros((ns, 5))
     tr = np.zeros((ns, 5))
     s_n = np.zeros(ns)
@@ -346,6 +349,8 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     for col in range(cols):
         u[:] = 0.0
         v[:] = 0.0
+        cu[:] = 0.0
+        cv[:] = 0.0
         s_n[:] = 0.0
         d_n[:] = 0.0
         st[:, :] = 0.0
@@ -385,17 +390,12 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
             for j in range(1, nsub + 1):
                 ag_before = g0 + (g1 - g0) * ((j - 1) / nsub)
                 ag = g0 + (g1 - g0) * (j / nsub)
+                # right-hand side M (a0 u + a2 v + a - 1 a_g) + C (a1 u + v), with C u and C v carried
                 for i in range(nd):
                     un[i] = u[i]
                     vn[i] = v[i]
                     an[i] = a[i]
-                    r[i] = mass[i] * (a0 * u[i] + a2 * v[i] + a[i] - ag)
-                    cw[i] = a1 * u[i] + v[i]
-                for i in range(nd):
-                    acc = r[i]
-                    for k in range(nd):
-                        acc += cmat[i, k] * cw[k]
-                    r[i] = acc
+                    r[i] = mass[i] * (a0 * u[i] + a2 * v[i] + a[i] - ag) + a1 * cu[i] + cv[i]
                 for i in range(nd):
                     acc = 0.0
                     for k in range(nd):
@@ -419,6 +419,7 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                             status[0] = col
                             status[1] = n + 1
                             status[2] = res
+                            status[3] = 1.0
                             return
                         phi = f_iso + cd * (a1 * du_b - vn[0])
                         for i in range(nd):
@@ -447,8 +448,10 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                     status[0] = col
                     status[1] = n + 1
                     status[2] = change
+                    status[3] = 2.0
                     return
                 # Newmark update, energy increments (trapezoid rule), commit
+                # (v + v_n)/2 = du/h exactly, so the viscous work is du' C du / h
                 de_in = 0.0
                 de_visc = 0.0
                 for i in range(nd):
@@ -456,13 +459,18 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                     v[i] = a1 * dui - vn[i]
                     a[i] = a0 * dui - a2 * vn[i] - an[i]
                     de_in -= mass[i] * dui * 0.5 * (ag_before + ag)
+                    r[i] = dui
                 for i in range(nd):
                     acc = 0.0
                     for k in range(nd):
-                        acc += cmat[i, k] * 0.5 * (v[k] + vn[k])
-                    de_visc += (u[i] - un[i]) * acc
+                        acc += cmat[i, k] * r[k]
+                    cdu[i] = acc
+                    de_visc += r[i] * acc
+                for i in range(nd):
+                    cu[i] += cdu[i]
+                    cv[i] = a1 * cdu[i] - cv[i]
                 e_in += de_in
-                e_visc += de_visc
+                e_visc += de_visc / h
                 if isolated:
                     dub = u[0] - un[0]
                     e_visc += cd * dub * 0.5 * (v[0] + vn[0])

@@ -356,7 +356,7 @@ def kernel_module(compiled: bool | None = None):
         sys.modules[spec.name] = module  # numba's cache finds the module by name when it loads
         spec.loader.exec_module(module)
         for name in module.JIT_FUNCTIONS:
-            setattr(module, name, numba.njit(cache=True, nogil=True)(getattr(module, name)))
+            setattr(module, name, numba.njit(cache=True, nogil=True, error_model="numpy")(getattr(module, name)))
         _COMPILED_MODULE = module
     return _COMPILED_MODULE
 
@@ -432,7 +432,7 @@ def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, com
     out["isolator_force"] = np.zeros((cols, steps))
     out["reaction"] = np.empty((cols, steps))
     out["energy"] = np.empty((5, cols, steps))
-    status = np.zeros(3)
+    status = np.zeros(4)
     tol_storey = 1e-10 * float(fy.max()) if kind != 0 and ns else 0.0
     module.run_columns(ground, float(dt), int(nsub), np.asarray(mass, dtype=float), np.ascontiguousarray(c),
                        ainv, gmat, lower, upper, kind, kel, np.asarray(storeys["k_geo"], dtype=float), fy,
@@ -443,9 +443,9 @@ def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, com
     if status[0] >= 0:
         column = int(status[0])
         case, record = labels[column]
-        what = "yielding storeys" if kind != 0 and abs(status[2]) > 0 and iso_kind == 0 else "isolator"
+        what, unit = ("yielding storeys", "kN") if status[3] == 2.0 else ("isolator", "m")
         raise RunError(
             f"{what}: no convergence at t = {status[1] * dt:.4f} s in case {case!r}, record {record} "
-            f"(residual {abs(status[2]):.3g} after {MAX_ITERATIONS} iterations); "
+            f"(residual {abs(status[2]):.3g} {unit} after {MAX_ITERATIONS} iterations); "
             "try a smaller dt or check the model parameters")
     return out

@@ -355,3 +355,29 @@ def test_yielding_fixed_base_frame_matches_opensees():
     assert ours.ductility.max() > 2.0  # the comparison covers yielding
     # agreement to 1e-5 of the peak (observed a few 1e-6: Newton and eigen-solver round-off)
     np.testing.assert_allclose(ours.floor_displacement[0], reference, atol=1e-5 * np.abs(reference).max())
+
+
+def test_yielding_result_round_trips_through_npz_and_json(tmp_path):
+    import json
+
+    from isolation.history import HistoryResult
+
+    b = ShearBuilding([400.0, 400.0], [2e5, 2e5], [3.0, 3.0], yield_shears=[500.0, 300.0], p_delta=True)
+    result = run(b, noise(records=2), 0.01)
+    back = HistoryResult.load_npz(result.save_npz(tmp_path / "fixed.npz"))
+    np.testing.assert_array_equal(back.ductility, result.ductility)
+    np.testing.assert_array_equal(back.reaction, result.reaction)
+    assert back.notes == result.notes
+    summary = json.loads(json.dumps(result.to_dict()))
+    assert summary["statistics"]["ductility"]["max"] == pytest.approx(result.ductility.max(axis=0).tolist())
+
+
+def test_storey_non_convergence_names_the_storeys(monkeypatch):
+    # One fixed-point pass cannot confirm convergence once a storey yields: must fail loudly.
+    import isolation.newmark as newmark
+    from isolation.errors import RunError
+
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    b = ShearBuilding([400.0, 400.0], [2e5, 2e5], [3.0, 3.0], yield_shears=[200.0, 100.0])
+    with pytest.raises(RunError, match=r"yielding storeys: no convergence at t = .* case 'fixed', record 0"):
+        run(b, noise(records=1), 0.01)
