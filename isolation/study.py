@@ -175,7 +175,7 @@ def parse_study(mapping: Mapping[str, Any], source: str = "<study>", *,
     alternatives = _alternatives(reader.array_of_tables("alternative"), total_weight)
     from isolation.loss.inputs import read_loss_tables
 
-    loss = read_loss_tables(reader)
+    loss = read_loss_tables(reader, basis)
     reader.done()
     if problems:
         raise StudyError(problems.items, source)

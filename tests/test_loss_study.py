@@ -129,3 +129,10 @@ def test_eurocode_basis_uses_the_design_action_and_k_3():
     fixed = result.fixed_base["loss"]
     assert (fixed["design_level"], fixed["mce_level"]) == (1.0, 1.5)
     assert result.alternatives[0].loss["expected_annual_loss"] > 0
+
+
+def test_levels_must_span_design_level_and_mce():
+    with pytest.raises(StudyError, match=r"loss.levels = \[0.8, 1.0, 1.2, 1.5\] is not allowed: must reach from"):
+        _study({"loss.levels": [0.8, 1.0, 1.2, 1.5]})
+    with pytest.raises(StudyError, match="at least 1 x the site spectrum"):
+        _study({"loss.levels": [0.2, 0.4, 0.6, 0.8]})

@@ -427,6 +427,5 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
 def _describe(building) -> str:
     if getattr(building, "yield_shears", None) is None:
         return "elastic superstructure"
-    strengths = ", ".join(f"{v:.0f}" for v in building.yield_shears)
-    return (f"code-designed yielding building (storey strengths {strengths} kN, post-yield ratio "
+    return (f"code-designed yielding building (storey strengths from the code design, post-yield ratio "
             f"{building.hardening:g}{', P-delta' if building.p_delta else ''})")

@@ -194,10 +194,10 @@ def _points(t, points):
     return tuple(pairs)
 
 
-def _options(t, analysis_seed: int | None) -> LossOptions | None:
+def _options(t, basis: str = "asce7") -> LossOptions | None:
     if t is None:
         return LossOptions()
-    values = dict(
+    values: dict = dict(
         enabled=t.boolean("enabled", required=False, default=True),
         occupancy=t.choice("occupancy", tuple(OCCUPANCIES), required=False, default="office"),
         samples=t.integer("samples", low=100, high=200000, required=False, default=2000),
@@ -210,9 +210,13 @@ def _options(t, analysis_seed: int | None) -> LossOptions | None:
         ok = isinstance(levels, list) and 4 <= len(levels) <= 6 and all(
             isinstance(v, (int, float)) and not isinstance(v, bool) and 0.05 <= v <= 3.0 for v in levels) \
             and all(b > a for a, b in zip(levels, levels[1:]))
+        design, top = (1.0, 1.5) if basis == "eurocode" else (DESIGN_FRACTION, 1.0)
         if not ok:
             t.problems.add(f"{t.path_of('levels')} = {levels!r} is not allowed: must be 4 to 6 increasing numbers "
                            "in [0.05, 3] [MCE_R fraction]")
+        elif levels[0] > design + 1e-3 or levels[-1] < top - 1e-3:
+            t.problems.add(f"{t.path_of('levels')} = {levels!r} is not allowed: must reach from at most the design "
+                           f"level ({design:.4g}) to at least {top:g} x the site spectrum (code.basis = {basis!r})")
         else:
             values["levels"] = tuple(float(v) for v in levels)
     t.done()
@@ -221,15 +225,18 @@ def _options(t, analysis_seed: int | None) -> LossOptions | None:
     return LossOptions(**values)
 
 
-def read_loss_tables(reader, analysis_seed: int | None = None) -> LossInputs | None:
+def read_loss_tables(reader, basis: str = "asce7") -> LossInputs | None:
     """Read ``[cost]``, ``[hazard]`` and ``[loss]`` from a study's root reader.
+
+    ``basis`` ("asce7" or "eurocode") fixes the design and top levels the
+    intensity levels must span (2/3 and 1 x MCE_R, or 1 and 1.5 x the design action).
 
     Problems go to the reader's shared problem list; returns None when any
     table failed.
     """
     cost = _cost(reader.table("cost", required=False))
     hazard = _hazard(reader.table("hazard", required=False))
-    options = _options(reader.table("loss", required=False), analysis_seed)
+    options = _options(reader.table("loss", required=False), basis)
     if cost is None or hazard is None or options is None:
         return None
     return LossInputs(cost=cost, hazard=hazard, options=options)
