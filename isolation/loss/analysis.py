@@ -407,8 +407,13 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
                       seed=streams[0], **common)
     out_alternatives = {}
     for i, (alternative, system, _, quantities, *_) in enumerate(alternatives):
+        # The histories give the isolator displacement at the centre of mass; the corner bearings
+        # move D_TM/D_M times more (torsion), so the limit is divided by that factor.
         limits = [v for v in (quantities.get("displacement_capacity"), quantities.get("moat")) if v]
-        model = loss_model(study, inputs, displacement_limit=min(limits) if limits else None)
+        torsion = 1.0
+        if quantities.get("total_displacement") and quantities.get("displacement"):
+            torsion = max(float(quantities["total_displacement"]) / float(quantities["displacement"]), 1.0)
+        model = loss_model(study, inputs, displacement_limit=min(limits) / torsion if limits else None)
         periods = [quantities.get(k) for k in ("period_lower", "period_upper") if quantities.get(k)]
         window = 2.0 * (float(np.mean(periods)) if periods else float(fixed_building.modal().periods[0]))
         case = case_loss(model, demands_by_level(results[f"alternative {i}"], len(levels), window), levels, hazard,
