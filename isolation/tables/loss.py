@@ -128,7 +128,7 @@ def loss_text(results: Any) -> str:
         "occupancy, storey-based damage and repair data of FEMA's earthquake loss estimation technical manual (Multi-hazard Loss Estimation Methodology, MR5, 2010); "
         "irreparability from residual drift (FEMA P-58-1, 2012); collapse from the code's target collapse "
         "probability at MCE_R (ASCE/SEI 7-16 Commentary C.1.3.1b) and, for isolated buildings, isolator "
-        "displacement (with the torsion factor D_TM/D_M) beyond the bearing capacity or the moat.",
+        "displacement (times the torsion factor of the code design) beyond the bearing capacity or the moat.",
         f"Hazard: {info.get('hazard', {}).get('basis', '')}.",
         f"Fixed base: {settings.get('fixed_base', '')}; isolated alternatives with nominal bearing properties.",
     ]
