@@ -233,3 +233,22 @@ def test_isolation_cost_items_by_hand():
 def test_bad_costs_name_the_field(field, value):
     with pytest.raises(ValueError, match=rf"{field}.* is not allowed"):
         CostInputs(**{field: value})
+
+
+from hypothesis import given, settings, strategies as st  # noqa: E402
+
+
+@settings(max_examples=30, deadline=None)
+@given(drift=st.floats(1e-4, 0.08), acc=st.floats(0.01, 3.0), factor=st.floats(1.0, 3.0),
+       seed=st.integers(0, 2**31 - 1))
+def test_more_demand_never_costs_less_with_common_random_numbers(drift, acc, factor, seed):
+    # Same seed: the same normal and uniform draws, so each realisation's damage states can only rise
+    # with the demand (fragilities are increasing functions): loss and times are monotone, no NaN.
+    model = _model(2)
+    low = Demands(np.array([[drift, 0.5 * drift], [0.7 * drift, drift]]),
+                  np.array([[0.5 * acc, acc, acc], [0.4 * acc, 0.8 * acc, acc]]), np.full((2, 2), 1e-5))
+    high = Demands(low.drift_ratio * factor, low.floor_acceleration * factor, low.residual_drift_ratio)
+    a = simulate(model, low, 0.5, samples=200, rng=seed)
+    b = simulate(model, high, 0.5, samples=200, rng=seed)
+    assert np.all(b["loss"] >= a["loss"] - 1e-6) and np.all(b["repair_days"] >= a["repair_days"])
+    assert np.all(np.isfinite(a["loss"])) and np.all(a["loss"] <= 1.0e7 + 4.0e6)
