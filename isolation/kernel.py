@@ -311,9 +311,8 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     fy (ns,); iso_p (cols, 6), iso_k/iso_f (cols, elements); damper (cols,). Outputs (cols, steps, .):
     u, v relative and a absolute (nd), drift d and storey hysteretic force s (ns); (cols, steps):
     isolator force f, reaction r = -sum m a_abs; energies (5, cols, steps: input, kinetic, viscous,
-    elastic strain, hysteretic). status[0:4] = column, step, residual, what (1 isolator [m], 2 storeys
-    [kN]) of the first failure (column -1
-    when all converged).
+    elastic strain, hysteretic). status[0:4] = column, step, residual and what failed (1 isolator
+    [m], 2 storeys [kN]) at the first failure; column -1 when all converged.
     """
     cols, steps = ground.shape
     nd = mass.size

@@ -356,7 +356,12 @@ def kernel_module(compiled: bool | None = None):
         sys.modules[spec.name] = module  # numba's cache finds the module by name when it loads
         spec.loader.exec_module(module)
         for name in module.JIT_FUNCTIONS:
-            setattr(module, name, numba.njit(cache=True, nogil=True, error_model="numpy")(getattr(module, name)))
+            function = getattr(module, name)
+            try:
+                compiled_function = numba.njit(cache=True, nogil=True, error_model="numpy")(function)
+            except RuntimeError:  # no writable cache location: compile in every process instead
+                compiled_function = numba.njit(nogil=True, error_model="numpy")(function)
+            setattr(module, name, compiled_function)
         _COMPILED_MODULE = module
     return _COMPILED_MODULE
 

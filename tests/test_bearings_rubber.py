@@ -381,3 +381,14 @@ def test_lead_core_conventions_hole_is_default_and_lower():
     assert hole.bilinear() == filled.bilinear()  # horizontal behaviour does not depend on it
     with pytest.raises(ValueError, match="lead_core"):
         LeadRubber(**LRB, lead_core="plugged")
+
+
+@settings(max_examples=50, deadline=None)
+@given(st.floats(0.3, 2.0), st.floats(0.02, 0.9), st.floats(0.02, 0.9))
+def test_hole_factor_lies_in_unit_interval_and_falls_as_the_hole_grows(do, a, b):
+    # Constantinou, Kartoum & Kelly (1992): 0 < F <= 1, smaller for larger holes (their figure of F against
+    # D_o/D_i, from memory); checked here on the closed form.
+    from isolation.bearings.checks import hole_factor
+    small, large = sorted((a, b))
+    f_small, f_large = hole_factor(do, small * do), hole_factor(do, large * do)
+    assert 0.0 < f_large <= f_small <= 1.0

@@ -134,6 +134,8 @@ def test_elastic_fixed_base_model_restores_the_elastic_comparison():
     assert s["ductility_fixed"] is None and s["shear_over_strength_fixed"] is None
     assert results.fixed_base["comparison"]["yielding"] is False
     assert "elastic" in tables.fixed_base_label(results)
+    columns = tables.yielding_response_table(results.alternatives[0]).columns
+    assert columns[1:] == ("Fixed base, elastic", "Isolated, lower", "Isolated, upper")
 
 
 def test_degrading_storey_law_is_passed_to_the_model():

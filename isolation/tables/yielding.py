@@ -66,6 +66,13 @@ def fixed_base_design_table(results: Any) -> Table:
                  caption="Code-designed fixed-base building: storey strengths and drift check")
 
 
+def _cases(indicators: Mapping) -> tuple:
+    """Columns by case; an elastic comparison building has one fixed-base column, named so."""
+    if indicators.get("fixed", {}).get("shear_over_strength") is None:
+        return (("fixed", "Fixed base, elastic"),) + _CASES[1:3]
+    return _CASES
+
+
 def _value(indicators: Mapping, case: str, name: str, scale: float = 1.0):
     value = indicators.get(case, {}).get(name)
     return None if value is None else scale * value
@@ -76,6 +83,7 @@ def yielding_response_table(alternative: Any, system: str = "SI") -> Table:
     history = _part(alternative, "history")
     ind, summary = history["indicators"], history["summary"]
     force = _display(1.0, "force", system)[1]
+    cases = _cases(ind)
 
     def forces(case):
         value = ind.get(case, {}).get("storey_shear")
@@ -84,18 +92,18 @@ def yielding_response_table(alternative: Any, system: str = "SI") -> Table:
     design = {"fixed": summary.get("design_shear_fixed"), "lower": summary.get("design_shear_isolated"),
               "upper": summary.get("design_shear_isolated"), "fixed_elastic": summary.get("design_shear_fixed")}
     rows = [
-        ("Storey drift ratio [%]",) + tuple(_value(ind, c, "drift_ratio_max", 100) for c, _ in _CASES),
-        ("Residual drift ratio [%]",) + tuple(_value(ind, c, "residual_drift_max", 100) for c, _ in _CASES),
-        ("Storey ductility demand [-]",) + tuple(_value(ind, c, "ductility_max") for c, _ in _CASES),
+        ("Storey drift ratio [%]",) + tuple(_value(ind, c, "drift_ratio_max", 100) for c, _ in cases),
+        ("Residual drift ratio [%]",) + tuple(_value(ind, c, "residual_drift_max", 100) for c, _ in cases),
+        ("Storey ductility demand [-]",) + tuple(_value(ind, c, "ductility_max") for c, _ in cases),
         ("Storey shear / yield shear [-]",) + tuple(_value(ind, c, "shear_over_strength_max")
-                                                               for c, _ in _CASES),
-        ("Peak floor acceleration [g]",) + tuple(_value(ind, c, "floor_acceleration_max") for c, _ in _CASES),
-        (f"First-storey shear, response [{force}]",) + tuple(forces(c) for c, _ in _CASES),
+                                                               for c, _ in cases),
+        ("Peak floor acceleration [g]",) + tuple(_value(ind, c, "floor_acceleration_max") for c, _ in cases),
+        (f"First-storey shear, response [{force}]",) + tuple(forces(c) for c, _ in cases),
         (f"Base shear, code design [{force}]",) + tuple(
-            None if design[c] is None else _display(design[c], "force", system)[0] for c, _ in _CASES),
+            None if design[c] is None else _display(design[c], "force", system)[0] for c, _ in cases),
     ]
-    return Table(columns=("Largest over the storeys",) + tuple(label for _, label in _CASES),
-                 rows=tuple(rows), align="lrrrr",
+    return Table(columns=("Largest over the storeys",) + tuple(label for _, label in cases),
+                 rows=tuple(rows), align="l" + "r" * len(cases),
                  caption=f"Isolated building against the code-designed fixed-base building, {_part(alternative, 'name')}",
                  notes="Suite means of the peaks, the largest storey or floor. Fixed base, code design: storeys yield at the design storey shear times the system "
                        "overstrength (bilinear, P-delta). Isolated: the superstructure yields at its own design "
@@ -109,7 +117,7 @@ def damage_table(results: Any, alternative: Any) -> Table:
     thresholds = _part(results, "fixed_base")["damage_thresholds"]
     ind = _part(alternative, "history")["indicators"]
     rows = []
-    for case, label in _CASES:
+    for case, label in _cases(ind):
         if case not in ind:
             continue
         damage = ind[case]["damage"]
