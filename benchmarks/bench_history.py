@@ -15,7 +15,8 @@
    ``libblas3``): the yielding fixed-base building (Steel01 storeys = bilinear
    kinematic hardening, modal damping) in OpenSees on the same records; prints
    the per-analysis time ratio (aim >= 50x) and the largest roof-displacement
-   difference.
+   difference. OpenSees is driven step by step from Python; one
+   ``analyze(steps)`` call with a recorder measured the same time here.
 5. Peak memory of the process (ru_maxrss) and the traced peak of one ensemble
    call (tracemalloc). Target: <= 1 GB.
 
