@@ -252,3 +252,13 @@ def test_more_demand_never_costs_less_with_common_random_numbers(drift, acc, fac
     b = simulate(model, high, 0.5, samples=200, rng=seed)
     assert np.all(b["loss"] >= a["loss"] - 1e-6) and np.all(b["repair_days"] >= a["repair_days"])
     assert np.all(np.isfinite(a["loss"])) and np.all(a["loss"] <= 1.0e7 + 4.0e6)
+
+
+def test_demand_statistics_are_geometric_mean_and_log_standard_deviation():
+    drift = np.array([[0.01], [0.04]])
+    demands = Demands(drift, np.array([[0.2, 0.4], [0.2, 0.1]]), np.full((2, 1), 1e-3))
+    stats_ = demands.statistics()
+    assert stats_["drift_ratio"]["median"] == pytest.approx([0.02])  # sqrt(0.01 x 0.04)
+    assert stats_["drift_ratio"]["dispersion"] == pytest.approx([np.std(np.log([0.01, 0.04]), ddof=1)])
+    assert stats_["floor_acceleration"]["dispersion"][0] == pytest.approx(0.0)
+    assert "isolator_displacement" not in stats_

@@ -251,7 +251,9 @@ def case_loss(model: LossModel, demands: list, levels, hazard, *, samples: int, 
     dict
         ``levels`` (per level: intensity, loss, repair_days, downtime_days
         with mean and p10/p50/p90, collapse and irreparable probability, mean
-        loss per group), ``expected_loss_design``, ``expected_loss_mce``,
+        loss per group, and ``demands``: per storey median and dispersion of
+        drift, floor acceleration, residual drift and isolator displacement
+        over the records), ``expected_loss_design``, ``expected_loss_mce``,
         ``repair_days_design``, ``repair_days_mce`` (each with bands),
         ``expected_annual_loss`` [currency/year], ``expected_annual_downtime``
         [day/year] and their bands.
@@ -266,6 +268,7 @@ def case_loss(model: LossModel, demands: list, levels, hazard, *, samples: int, 
                                 modelling_dispersion=modelling_dispersion, rng=np.random.default_rng(child))
         row = summarise(realisations)
         row["intensity"] = level
+        row["demands"] = demand.statistics()
         rows.append(row)
     design, top = reference_levels(basis)
 

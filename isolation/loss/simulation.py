@@ -88,6 +88,27 @@ class Demands:
     def storeys(self) -> int:
         return self.drift_ratio.shape[1]
 
+    def statistics(self) -> dict:
+        """Per storey (or floor) median and logarithmic standard deviation over the records.
+
+        Returns
+        -------
+        dict
+            name -> {"median": list, "dispersion": list} for ``drift_ratio`` [-],
+            ``floor_acceleration`` [g] (ground or base first), ``residual_drift_ratio``
+            [-] and, when isolated, ``isolator_displacement`` [m]; dispersion 0 for
+            a single record.
+        """
+        out = {}
+        for name in ("drift_ratio", "floor_acceleration", "residual_drift_ratio", "isolator_displacement"):
+            values = getattr(self, name)
+            if values is None:
+                continue
+            logs = np.log(np.maximum(np.asarray(values, dtype=float), _FLOOR))
+            spread = logs.std(axis=0, ddof=1) if logs.shape[0] > 1 else np.zeros(logs.shape[1:])
+            out[name] = {"median": np.exp(logs.mean(axis=0)).tolist(), "dispersion": np.asarray(spread).tolist()}
+        return out
+
 
 @dataclass(frozen=True)
 class LossModel:
