@@ -195,17 +195,17 @@ def demands_by_level(result, levels: int, residual_window: float | None = None) 
 
     ``residual_window`` [s]: averaging window of the residual drift (see :func:`_residual_drift_ratio`).
     """
-    peaks = result.peaks()
-    records = peaks["drift_ratio"].shape[0] // levels
+    # Only the peaks the loss model needs (HistoryResult.peaks() computes many more).
+    drift = np.max(np.abs(result.drift), axis=1) / np.asarray(result.heights)
+    records = drift.shape[0] // levels
     ground = result.base_acceleration if result.isolated else result.ground_acceleration
-    base_peak = np.max(np.abs(ground), axis=1)
-    acc = np.column_stack([base_peak, peaks["floor_acceleration"]])
+    acc = np.column_stack([np.max(np.abs(ground), axis=1), np.max(np.abs(result.floor_acceleration), axis=1)])
+    iso = np.max(np.abs(result.isolator_displacement), axis=1) if result.isolated else None
     residual = _residual_drift_ratio(result, residual_window)
     out = []
     for i in range(levels):
         sl = slice(i * records, (i + 1) * records)
-        iso = peaks["isolator_displacement"][sl] if result.isolated else None
-        out.append(Demands(peaks["drift_ratio"][sl], acc[sl], residual[sl], iso))
+        out.append(Demands(drift[sl], acc[sl], residual[sl], None if iso is None else iso[sl]))
     return out
 
 
