@@ -51,12 +51,23 @@ def test_poisson_rates_of_the_code_levels():
     assert rate_from_probability(0.10, 50) == pytest.approx(2.107e-3, rel=2e-3)
 
 
-def test_default_hazard_passes_through_mce_and_design_level():
+def test_default_hazard_passes_through_mce_with_slope_3():
+    # 2 % in 50 years at MCE_R; k = 3 (EN 1998-1 §2.1(4) note: "of the order of 3").
     hazard = default_hazard()
     assert float(hazard.rate(1.0)) == pytest.approx(-math.log(0.98) / 50)
-    assert float(hazard.rate(2.0 / 3.0)) == pytest.approx(-math.log(0.90) / 50)
-    # slope from the two points: ln(rate ratio)/ln(1.5), derived arithmetic
-    assert hazard.k == pytest.approx(math.log(math.log(0.90) / math.log(0.98)) / math.log(1.5))
+    assert hazard.k == 3.0
+    assert float(hazard.rate(0.5)) == pytest.approx(-math.log(0.98) / 50 * 8.0)
+
+
+def test_default_hazard_through_given_mce_and_design_rates():
+    # 10 % in 50 years at 2/3 MCE_R (the coastal-California basis of the 2/3 rule, from memory):
+    # slope from the two points, ln(rate ratio)/ln(1.5), derived arithmetic.
+    mce, design = -math.log(0.98) / 50, -math.log(0.90) / 50
+    hazard = default_hazard(mce, design)
+    assert float(hazard.rate(2.0 / 3.0)) == pytest.approx(design)
+    assert hazard.k == pytest.approx(math.log(design / mce) / math.log(1.5))
+    with pytest.raises(ValueError, match="design level"):
+        default_hazard(1e-3, 5e-4)
 
 
 def test_curve_of_power_law_points_is_that_power_law_everywhere():

@@ -45,7 +45,7 @@ def test_text_flags_invented_defaults_and_cautions(data):
     assert "Invented demo values" in text and "replacement cost per area" in text
     for caution in ("cost consultant", "Not an insurance estimate", "Order-of-magnitude screening"):
         assert caution in text
-    assert "2 % in 50 years" in text  # the default hazard basis is stated
+    assert "2 % in 50 years" in text and "k = 3" in text  # the default hazard basis is stated
 
 
 def test_figure_has_one_line_per_case(data):

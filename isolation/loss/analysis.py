@@ -129,9 +129,11 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
         return hazard, {"basis": basis, "model": hazard.to_dict()}
     hazard = default_hazard(h.mce_rate, h.design_rate)
     mce = "given" if h.mce_rate is not None else "default 2 % in 50 years"
-    design = "given" if h.design_rate is not None else "default 10 % in 50 years (basis of the 2/3 rule)"
-    basis = (f"power law through MCE_R ({mce}) and the design level 2/3 MCE_R ({design}); "
-             f"k = {hazard.k:.2f}")
+    if h.design_rate is not None:
+        basis = f"power law through MCE_R ({mce}) and the design level 2/3 MCE_R (given); k = {hazard.k:.2f}"
+    else:
+        basis = (f"power law through MCE_R ({mce}) with the default slope k = {hazard.k:g} (EN 1998-1 §2.1(4) "
+                 "note: of the order of 3); give the site's hazard curve for a site-specific answer")
     return hazard, {"basis": basis, "model": hazard.to_dict()}
 
 

@@ -30,7 +30,7 @@ from dataclasses import dataclass
 import numpy as np
 
 __all__ = ["PowerLawHazard", "HazardCurve", "annual_rate", "rate_from_probability",
-           "MCE_PROBABILITY", "DESIGN_PROBABILITY", "DESIGN_FRACTION", "default_hazard"]
+           "MCE_PROBABILITY", "DESIGN_PROBABILITY", "DESIGN_FRACTION", "DEFAULT_SLOPE", "default_hazard"]
 
 MCE_PROBABILITY = (0.02, 50.0)
 """Default exceedance of the MCE_R: 2 % in 50 years (the probabilistic MCE_R of
@@ -42,11 +42,17 @@ DESIGN_FRACTION = 2.0 / 3.0
 §11.4.5: S_DS = 2/3 S_MS)."""
 
 DESIGN_PROBABILITY = (0.10, 50.0)
-"""Default exceedance of the design level (2/3 MCE_R): 10 % in 50 years. Basis: the
-2/3 factor was chosen because 2 %-in-50-year motions in coastal California are
-about 1.5 times the 10 %-in-50-year motions (NEHRP Recommended Provisions 1997,
-FEMA 303 commentary; from memory). Elsewhere the ratio differs: give the site's
-hazard curve when known."""
+"""Exceedance of the design level (2/3 MCE_R) in coastal California, where the 2/3
+factor comes from: 2 %-in-50-year motions there are about 1.5 times the
+10 %-in-50-year motions (NEHRP Recommended Provisions 1997, FEMA 303 commentary;
+from memory). That local slope (k = 4.1) holds near the MCE_R; it overstates the
+rate of frequent, weaker shaking, which drives the expected annual loss, so it
+is not the default (give ``design_rate`` to use it)."""
+
+DEFAULT_SLOPE = 3.0
+"""Default slope k of the power-law hazard through the MCE_R: "of the order of 3"
+(EN 1998-1:2004 §2.1(4) note, for scaling motions between return periods). Give
+the site's hazard curve (or ``design_rate``) when known."""
 
 
 def rate_from_probability(probability, years) -> float:
@@ -190,7 +196,7 @@ class HazardCurve:
 
 
 def default_hazard(mce_rate: float | None = None, design_rate: float | None = None) -> PowerLawHazard:
-    """Power-law hazard in MCE_R fractions through the MCE_R and the design level.
+    """Power-law hazard in MCE_R fractions through the MCE_R.
 
     Parameters
     ----------
@@ -198,11 +204,14 @@ def default_hazard(mce_rate: float | None = None, design_rate: float | None = No
         Annual rate of exceeding the MCE_R; default 2 % in 50 years
         (:data:`MCE_PROBABILITY`). [1/year]
     design_rate : float, optional
-        Annual rate of exceeding the design level, 2/3 MCE_R; default 10 % in
-        50 years (:data:`DESIGN_PROBABILITY`). [1/year]
+        Annual rate of exceeding the design level, 2/3 MCE_R; when given the
+        power law passes through both points, otherwise its slope is
+        :data:`DEFAULT_SLOPE`. [1/year]
     """
     mce = rate_from_probability(*MCE_PROBABILITY) if mce_rate is None else float(mce_rate)
-    design = rate_from_probability(*DESIGN_PROBABILITY) if design_rate is None else float(design_rate)
+    if design_rate is None:
+        return PowerLawHazard(mce, DEFAULT_SLOPE)
+    design = float(design_rate)
     if not (0.0 < mce < design):
         raise ValueError(f"hazard rates: MCE_R {mce!r} and design level {design!r} per year are not allowed: "
                          "both must be > 0 and the design level (2/3 MCE_R) must be exceeded more often")

@@ -47,6 +47,12 @@ def _range(economics: dict) -> str:
     return f"{ends[0]} to {ends[1]}"
 
 
+def _npv_range(economics: dict) -> str:
+    """Lower to higher net present value of the 10 % and 90 % pairings."""
+    low, high = sorted(economics["bands"][p]["net_present_value"] for p in ("p10", "p90"))
+    return f"{money(low)} to {money(high)}"
+
+
 def _cases(results: Any) -> list:
     fixed = _part(results, "fixed_base").get("loss") or {}
     cases = [("Fixed base", fixed)] if fixed else []
@@ -100,9 +106,8 @@ def loss_table(results: Any) -> Table:
         row(f"Net cost of isolation [{currency}]", lambda e: money(e["net_premium"])),
         row(f"Expected yearly benefit [{currency}/year]", lambda e: money(e["annual_benefit"])),
         row("Payback [years] (range)", lambda e: f"{_years(e['payback_years'])} ({_range(e)})"),
-        row(f"Net present value over {life:g} years at {100 * rate:g} % [{currency}] (10 % to 90 %)",
-            lambda e: f"{money(e['net_present_value'])} ({money(e['bands']['p10']['net_present_value'])} to "
-                      f"{money(e['bands']['p90']['net_present_value'])})"),
+        row(f"Net present value over {life:g} years at {100 * rate:g} % [{currency}] (range)",
+            lambda e: f"{money(e['net_present_value'])} ({_npv_range(e)})"),
     ]
     notes = ("Means of the Monte Carlo with its 10 % to 90 % range in brackets; k = thousand, M = million. "
              "Yearly benefit = expected annual loss avoided + loss-of-use days avoided x the cost of a day. "
