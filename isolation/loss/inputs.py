@@ -9,8 +9,9 @@ carry the area or length unit (``"3500 / m**2"``, ``"325 / ft**2"``,
 ``"2500 / m"``). Bare numbers follow the study's unit system (SI: m2, m; US:
 ft2, ft).
 
-``[hazard]``: ``mce_rate`` and ``design_rate`` [1/year] (defaults 2 % and
-10 % in 50 years, see :mod:`isolation.loss.hazard`), or ``points = [[Sa, rate],
+``[hazard]``: ``mce_rate`` [1/year] (default 2 % in 50 years) and
+optionally ``design_rate`` [1/year] at 2/3 MCE_R (without it the power law
+has the slope k = 3; see :mod:`isolation.loss.hazard`), or ``points = [[Sa, rate],
 ...]``: the site's hazard curve as spectral acceleration [g] at ``period``
 [s] (default 1 s) with annual rates of exceedance, ``fit = "interpolate"``
 (log-log) or ``"power_law"``.
