@@ -171,7 +171,6 @@ def test_seeded_runs_repeat_and_other_seeds_differ():
 
 
 def test_record_to_record_sampling_keeps_the_suite_log_mean_and_spread():
-    model = _model()
     drift = np.array([[0.004], [0.01], [0.02], [0.008]])
     acc = np.column_stack([drift[:, 0] * 10, drift[:, 0] * 30])
     rng = np.random.default_rng(3)
@@ -181,7 +180,6 @@ def test_record_to_record_sampling_keeps_the_suite_log_mean_and_spread():
     logs = np.log(np.hstack([drift, acc]))
     assert np.allclose(np.log(draws).mean(axis=0), logs.mean(axis=0), atol=0.02)
     assert np.allclose(np.log(draws).std(axis=0), logs.std(axis=0, ddof=1), rtol=0.03)
-    del model
 
 
 def test_summary_bands_are_percentiles():
