@@ -400,9 +400,10 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
-        loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
         live={"spectrum": spectrum, "suite": suite, "superstructure": structure, "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
+
+        loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
     )
 
 

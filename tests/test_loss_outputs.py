@@ -88,17 +88,17 @@ def test_design_space_map_coloured_by_net_present_value():
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    from isolation.batch.maps import plot_verdict_map
+    from isolation.batch.npv_map import plot_npv_map
 
     rows = [{"status": "done", "alternative": "A", "verdict": "feasible", "x": x, "y": y, "D_M_lower_m": 0.3,
              "base_shear_ratio_upper": 0.5, "net_present_value": npv, "currency": "USD"}
             for (x, y), npv in zip([(1, 1), (1, 2), (2, 1), (2, 2)], [-2e5, 0.0, 1e5, None])]
     fig, ax = plt.subplots()
-    plot_verdict_map(rows, "x", "y", ax=ax, colour_by="net_present_value")
+    plot_npv_map(rows, "x", "y", ax=ax)
     colours = [patch.get_facecolor()[:3] for patch in ax.patches]
     # RdYlGn: negative red-ish, positive green-ish, zero the middle; no value grey
     assert colours[0][0] > colours[0][1] and colours[2][1] > colours[2][0]
+    assert colours[3][0] == colours[3][1] == colours[3][2]
     assert "net present value [USD]" in fig.axes[-1].get_ylabel()
-    with pytest.raises(ValueError, match="colour_by"):
-        plot_verdict_map(rows, "x", "y", ax=ax, colour_by="price")
+    assert [t.get_text() for t in ax.texts] == ["-0.20 M", "0.00 M", "0.10 M"]
     plt.close(fig)

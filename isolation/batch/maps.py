@@ -193,9 +193,8 @@ def plot_displacement_vs_reduction(rows: Iterable[dict], ax=None):
     return ax
 
 
-def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str | None = None, ax=None, *,
-                     colour_by: str = "verdict"):
-    """Grid map over two varied keys: cells shaded by verdict (or net present value), labelled with D_M and reduction.
+def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str | None = None, ax=None):
+    """Grid map over two varied keys: cells shaded by verdict, labelled with D_M and reduction.
 
     Parameters
     ----------
@@ -206,10 +205,6 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     alternative : str, optional
         Alternative to map (default: the first one found).
     ax : matplotlib Axes, optional
-    colour_by : {"verdict", "net_present_value"}, optional
-        Shade by the verdict (default) or by the loss study's net present
-        value of isolation [currency] (diverging colours, white at zero;
-        cells without a value stay grey).
 
     Returns
     -------
@@ -218,9 +213,6 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     import matplotlib.pyplot as plt
     from matplotlib.patches import Patch, Rectangle
 
-    if colour_by not in ("verdict", "net_present_value"):
-        raise ValueError(f"colour_by = {colour_by!r} is not allowed: must be 'verdict' or 'net_present_value'")
-
     rows = [r for r in rows if r.get("status") == "done"]
     alternative = alternative or (rows[0].get("alternative") if rows else None)
     rows = [r for r in rows if r.get("alternative") == alternative]
@@ -228,16 +220,9 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     ys = sorted({r[y_key] for r in rows}, key=_sort_key)
     if ax is None:
         _, ax = plt.subplots(figsize=(7.0, 4.8))
-    values = [_number(r.get("net_present_value")) for r in rows]
-    finite = [abs(v) for v in values if v is not None]
-    scale = max(finite) if finite else 1.0
-    cmap = plt.get_cmap("RdYlGn")
     for row in rows:
         i, j = xs.index(row[x_key]), ys.index(row[y_key])
         colour = VERDICT_COLOURS.get(row.get("verdict"), OTHER_COLOUR)
-        if colour_by == "net_present_value":
-            npv = _number(row.get("net_present_value"))
-            colour = OTHER_COLOUR if npv is None else cmap(0.5 + 0.5 * npv / (scale or 1.0))
         ax.add_patch(Rectangle((i - 0.5, j - 0.5), 1, 1, color=colour, alpha=0.55, lw=0))
         share = reduction(row)
         text = f"D {row['D_M_lower_m']:.2f} m" if _number(row.get("D_M_lower_m")) is not None else ""
@@ -250,16 +235,6 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     ax.set_yticks(range(len(ys)), [f"{y:g}" if isinstance(y, float) else str(y) for y in ys])
     ax.set_xlabel(x_key)
     ax.set_ylabel(y_key)
-    if colour_by == "net_present_value":
-        from matplotlib.cm import ScalarMappable
-        from matplotlib.colors import Normalize
-
-        currency = next((r.get("currency") for r in rows if r.get("currency")), "")
-        ax.set_title(f"{alternative}: net present value of isolation by variant (D = D_M lower bound, "
-                     "V = base-shear reduction)")
-        bar = ax.figure.colorbar(ScalarMappable(Normalize(-scale, scale), cmap), ax=ax, alpha=0.55)
-        bar.set_label(f"net present value [{currency}]")
-        return ax
     ax.set_title(f"{alternative}: verdict by variant (D = D_M lower bound, V = base-shear reduction)")
     present = [v for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
     ax.legend(handles=[Patch(color=VERDICT_COLOURS[v], alpha=0.55, label=v) for v in present],

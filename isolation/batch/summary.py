@@ -23,6 +23,13 @@ Columns (units in the name where there is one):
 ``design_shear_ratio``     the study's code design shears V_s / V_fb [-]
 ``floor_acceleration_ratio`` isolated / fixed-base peak floor acceleration
                            (response histories; empty in a direct sweep) [-]
+*loss study*               ``currency``, ``expected_annual_loss`` and
+                           ``expected_annual_loss_fixed`` [currency/year],
+                           ``expected_loss_mce`` and ``expected_loss_mce_fixed``
+                           [currency], ``expected_annual_downtime_days``
+                           [day/year], ``net_premium`` [currency],
+                           ``payback_years`` [year], ``net_present_value``
+                           [currency] (records that ran it; empty otherwise)
 ``displacement_capacity_m`` smallest bearing displacement capacity [m]
 ``moat_m``                 clear gap around the building [m]
 ``error``                  one-line error of a failed variant
@@ -66,8 +73,7 @@ RESULT_COLUMNS = (
     "base_shear_ratio_upper",
     "design_shear_ratio",
     "floor_acceleration_ratio",
-    "displacement_capacity_m",
-    "moat_m",
+    # loss study (empty when the records did not run it)
     "currency",
     "expected_annual_loss",
     "expected_annual_loss_fixed",
@@ -77,6 +83,8 @@ RESULT_COLUMNS = (
     "net_premium",
     "payback_years",
     "net_present_value",
+    "displacement_capacity_m",
+    "moat_m",
 )
 TAIL_COLUMNS = ("error", "record")
 
@@ -92,8 +100,6 @@ COLUMN_UNITS = {
     "base_shear_ratio_upper": "-",
     "design_shear_ratio": "-",
     "floor_acceleration_ratio": "-",
-    "displacement_capacity_m": "m",
-    "moat_m": "m",
     "expected_annual_loss": "currency/year",
     "expected_annual_loss_fixed": "currency/year",
     "expected_loss_mce": "currency",
@@ -102,6 +108,8 @@ COLUMN_UNITS = {
     "net_premium": "currency",
     "payback_years": "year",
     "net_present_value": "currency",
+    "displacement_capacity_m": "m",
+    "moat_m": "m",
 }
 TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "currency", "error", "record")
 

@@ -13,12 +13,12 @@ lengths, forces or energy take a keyword ``units="SI"`` or ``"US"`` (the
 study's display system) and convert only on the axes, through
 :mod:`isolation.units`: displacement mm or in, force kN or kip, heights m or
 ft, energy kN m or kip in. Periods, drift ratios and accelerations (g) are the
-same in both systems.
+same in both systems. The owner's page figure (expected repair cost against
+intensity) is :mod:`~isolation.plots.loss`.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
 motion suite), :mod:`~isolation.plots.history` (response histories),
-:mod:`~isolation.plots.loss` (expected repair cost against intensity),
 :mod:`~isolation.plots.yielding` (ductility, residual drift, shear over strength).
 """
 
@@ -38,6 +38,7 @@ __all__ = [
     "AxisUnit",
     "axis_unit",
     "captioned",
+    "loss_curves",
     "site_spectrum",
     "force_displacement",
     "equivalent_linear_bounds",
@@ -56,6 +57,5 @@ __all__ = [
     "history_loops",
     "history_energy",
     "history_floor_spectra",
-    "loss_curves",
     "yielding_profiles",
 ]
