@@ -223,6 +223,9 @@ def test_isolation_cost_items_by_hand():
     assert superstructure_saving(CostInputs(), 1.0e6, 1.3) == 0.0
     with pytest.raises(ValueError, match="bearing_cost has no entry for bearing type 'lead_rubber'"):
         isolation_cost([("lead_rubber", 1, 0.3)], costs, 1.0, 1.0)
+    # a type without its own entry takes the "other" entry
+    other = CostInputs(bearing_cost={"other": (1.0, 2.0, 3.0)})
+    assert isolation_cost([("some_new_type", 2, 0.9)], other, 0.0, 0.0)["bearings"] == 6.0
 
 
 @pytest.mark.parametrize("field, value", [("discount_rate", 0.5), ("design_life", 0.0), ("utilities", -1.0),

@@ -136,3 +136,11 @@ def test_levels_must_span_design_level_and_mce():
         _study({"loss.levels": [0.8, 1.0, 1.2, 1.5]})
     with pytest.raises(StudyError, match="at least 1 x the site spectrum"):
         _study({"loss.levels": [0.2, 0.4, 0.6, 0.8]})
+
+
+def test_bearing_cost_accepts_every_bearing_type_and_other():
+    study = _study({"cost.bearing_cost.high_damping_rubber": [1, 2, 3], "cost.bearing_cost.other": [4, 5, 6]})
+    assert study.loss.cost.bearing_cost["high_damping_rubber"] == (1.0, 2.0, 3.0)
+    assert study.loss.cost.bearing_cost["other"] == (4.0, 5.0, 6.0)
+    with pytest.raises(StudyError, match="cost.bearing_cost.castle is not a known key"):
+        _study({"cost.bearing_cost.castle": [1, 2, 3]})

@@ -23,8 +23,10 @@ DEMO_BEARING_COST = {
     "double_concave": (20000.0, 28000.0, 40000.0),
     "lead_rubber": (14000.0, 22000.0, 34000.0),
     "high_damping_rubber": (12000.0, 19000.0, 30000.0),
+    "other": (20000.0, 30000.0, 42000.0),
 }
-"""Cost per bearing [currency] for the small, medium and large size classes: INVENTED DEMO VALUES."""
+"""Cost per bearing [currency] for the small, medium and large size classes: INVENTED DEMO VALUES.
+``"other"`` prices any bearing type without an entry of its own."""
 
 
 @dataclass(frozen=True)
@@ -167,11 +169,12 @@ def isolation_cost(groups, costs: CostInputs, plan_area: float, perimeter: float
     """
     bearings = 0.0
     for kind, count, capacity in groups:
-        if kind not in costs.bearing_cost:
+        entry = costs.bearing_cost.get(kind, costs.bearing_cost.get("other"))
+        if entry is None:
             known = ", ".join(repr(k) for k in costs.bearing_cost)
-            raise ValueError(f"cost.bearing_cost has no entry for bearing type {kind!r}: give one "
-                             f"(known: {known})")
-        bearings += int(count) * costs.bearing_cost[kind][bearing_size_class(capacity)]
+            raise ValueError(f"cost.bearing_cost has no entry for bearing type {kind!r} and no 'other' entry: "
+                             f"give one (known: {known})")
+        bearings += int(count) * entry[bearing_size_class(capacity)]
     items = {"bearings": bearings, "isolation_plane": costs.isolation_plane_per_area * plan_area,
              "moat": costs.moat_per_length * perimeter, "utilities": costs.utilities,
              "design_and_testing": costs.design_and_testing}

@@ -122,7 +122,9 @@ def _cost(t) -> CostInputs | None:
     if table is None:
         defaults.append("bearing_cost")
     else:
-        for kind in DEMO_BEARING_COST:
+        from isolation.study_keys import BEARING_KEYS
+
+        for kind in (*BEARING_KEYS, "other"):
             if kind not in table.mapping:
                 table.known.add(kind)
                 continue
