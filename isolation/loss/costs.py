@@ -49,7 +49,8 @@ class CostInputs:
     lost_use_per_day : float
         Cost of one day without the use of the building. [currency/day]
     bearing_cost : dict of str -> (small, medium, large)
-        Cost per bearing by type and size class (:data:`SIZE_CLASS_LIMITS`). [currency]
+        Cost per bearing by type and size class (:data:`SIZE_CLASS_LIMITS`); the
+        entry ``"other"`` prices types without their own. [currency]
     isolation_plane_per_area : float
         Isolation-plane slab/diaphragm and pedestals per plan area. [currency/m2]
     moat_per_length : float
