@@ -48,22 +48,29 @@ KINDS: dict[str, tuple[str, str]] = {
     "stiffness": ("kN/m", "'1200 kN/m' or '7 kip/in'"),
     "time": ("s", "'0.005 s' or '40 s'"),
     "mass": ("t", "'660 t' or '1500 kip*s**2/ft'"),
+    "area": ("m**2", "'1200 m**2' or '13000 ft**2'"),
+    "per_area": ("1/m**2", "'3500 / m**2' or '325 / ft**2' (an amount per floor area)"),
+    "per_length": ("1/m", "'2500 / m' or '760 / ft' (an amount per length)"),
 }
 """Quantity kinds: internal unit and an example of accepted input."""
 
 BARE_UNITS: dict[str, dict[str, str]] = {
     "SI": {"length": "m", "force": "kN", "weight": "kN", "stress": "kPa",
-           "stiffness": "kN/m", "time": "s", "mass": "t"},
+           "stiffness": "kN/m", "time": "s", "mass": "t",
+           "area": "m**2", "per_area": "1/m**2", "per_length": "1/m"},
     "US": {"length": "in", "force": "kip", "weight": "kip", "stress": "psi",
-           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in"},
+           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in",
+           "area": "ft**2", "per_area": "1/ft**2", "per_length": "1/ft"},
 }
 """Unit in which a bare number (no unit written) is read, per system."""
 
 DISPLAY_UNITS: dict[str, dict[str, str]] = {
     "SI": {"length": "m", "force": "kN", "weight": "kN", "stress": "MPa",
-           "stiffness": "kN/m", "time": "s", "mass": "t"},
+           "stiffness": "kN/m", "time": "s", "mass": "t",
+           "area": "m**2", "per_area": "1/m**2", "per_length": "1/m"},
     "US": {"length": "in", "force": "kip", "weight": "kip", "stress": "ksi",
-           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in"},
+           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in",
+           "area": "ft**2", "per_area": "1/ft**2", "per_length": "1/ft"},
 }
 """Unit used to show a value of each kind, per system."""
 
