@@ -76,6 +76,10 @@ class LossInputs:
         return {"cost": self.cost.to_dict(), "hazard": asdict(self.hazard), "options": asdict(self.options)}
 
 
+MONEY_MAX = 1e13
+"""Largest amount accepted for any cost input, in the study's currency (common practice: a plausibility
+limit, far above any single building's cost in any currency unit in use)."""
+
 _COST_FIELDS = ("currency", "replacement_cost_per_area", "contents_value", "lost_use_per_day", "bearing_cost",
                 "isolation_plane_per_area", "moat_per_length", "utilities", "design_and_testing",
                 "superstructure_saving", "design_life", "discount_rate")
@@ -84,9 +88,9 @@ _COST_FIELDS = ("currency", "replacement_cost_per_area", "contents_value", "lost
 def _money(t, key, default, *, kind=None):
     """A non-negative amount; with ``kind`` ("per_area", "per_length") a unit may follow."""
     if kind is None:
-        value = t.number(key, low=0.0, unit="currency", required=False, default=None)
+        value = t.number(key, low=0.0, high=MONEY_MAX, unit="currency", required=False, default=None)
     else:
-        value = t.quantity(key, kind, low=0.0, required=False, default=None)
+        value = t.quantity(key, kind, low=0.0, high=MONEY_MAX, required=False, default=None)
     return (default, True) if value is None and key not in t.mapping else (value, False)
 
 
@@ -100,7 +104,7 @@ def _cost(t) -> CostInputs | None:
     if currency is None:
         defaults.append("currency")
     if "storey_areas" in t.mapping:
-        values["storey_areas"] = t.quantity_list("storey_areas", "area", low=0.0, low_inclusive=False)
+        values["storey_areas"] = t.quantity_list("storey_areas", "area", low=0.0, high=1e6, low_inclusive=False)
     else:
         t.known.add("storey_areas")
     for key, kind in (("replacement_cost_per_area", "per_area"), ("contents_value", None),
@@ -131,9 +135,10 @@ def _cost(t) -> CostInputs | None:
             value = table.mapping[kind]
             table.known.add(kind)
             ok = isinstance(value, list) and len(value) == 3 and all(
-                isinstance(v, (int, float)) and not isinstance(v, bool) and v >= 0 for v in value)
+                isinstance(v, (int, float)) and not isinstance(v, bool) and 0 <= v <= MONEY_MAX for v in value)
             if not ok:
-                table.problems.add(f"{table.path_of(kind)} = {value!r} is not allowed: must be 3 numbers >= 0, the "
+                table.problems.add(f"{table.path_of(kind)} = {value!r} is not allowed: must be 3 numbers from 0 to "
+                                   f"{MONEY_MAX:g}, the "
                                    "cost per bearing [currency] for the small (capacity <= 0.4 m), medium "
                                    "(<= 0.7 m) and large size class")
             else:
