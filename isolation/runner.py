@@ -26,6 +26,7 @@ checks every value against the governing local code.
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import time
 from dataclasses import dataclass, field
@@ -69,7 +70,10 @@ class AlternativeResults:
     lower/nominal/upper to the equivalent-linear results; ``report`` is the
     code report; ``checks`` the bearing checks at the total displacement;
     ``history`` the suite statistics per case and a summary; ``figures`` and
-    ``verdict`` the verdict's inputs and outcome.
+    ``verdict`` the verdict's inputs and outcome; ``loss`` the loss study
+    (:func:`isolation.loss.run_loss`: ``expected_annual_loss``,
+    ``expected_loss_mce``, ... in the study's currency, and ``economics``),
+    empty when the loss study did not run.
     """
 
     name: str
@@ -81,6 +85,7 @@ class AlternativeResults:
     history: dict
     figures: dict
     verdict: dict
+    loss: dict = field(default_factory=dict)
 
     @property
     def outcome(self) -> str:
@@ -100,7 +105,10 @@ class StudyResults:
     it (empty when none), ``fixed_base`` the fixed-base model
     and shear, ``suite`` the matched suite's settings and tolerance report,
     ``alternatives`` one :class:`AlternativeResults` each, ``run`` version,
-    quick flag and timings [s]. ``live`` keeps the run's objects (spectrum,
+    quick flag and timings [s]. ``loss`` holds the loss study's levels,
+    hazard, currency, inputs, settings and cautions (the per-case figures are
+    in ``fixed_base["loss"]`` and each alternative's ``loss``; empty when the
+    loss study did not run). ``live`` keeps the run's objects (spectrum,
     suite, history results, systems, reports) for figures; it is None after
     :func:`load_results`.
     """
@@ -112,6 +120,7 @@ class StudyResults:
     alternatives: tuple
     run: dict
     scope: str = SCOPE
+    loss: dict = field(default_factory=dict)
     live: Any = field(default=None, compare=False, repr=False)
 
     @property
@@ -127,7 +136,7 @@ class StudyResults:
         raise KeyError(f"alternative = {name!r} is not in the results")
 
     def to_dict(self) -> dict:
-        data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope")}
+        data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope", "loss")}
         data["alternatives"] = [a.to_dict() for a in self.alternatives]
         return plain(data)
 
@@ -136,7 +145,7 @@ class StudyResults:
         alternatives = tuple(AlternativeResults(**a) for a in mapping["alternatives"])
         return cls(study=mapping["study"], spectrum=mapping["spectrum"], fixed_base=mapping["fixed_base"],
                    suite=mapping["suite"], alternatives=alternatives, run=mapping["run"],
-                   scope=mapping.get("scope", SCOPE))
+                   scope=mapping.get("scope", SCOPE), loss=mapping.get("loss", {}))
 
     def save(self, path: str | Path) -> Path:
         """Write ``to_dict()`` as JSON (via a temporary file and a rename)."""
@@ -208,7 +217,8 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     return options, note
 
 
-def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> StudyResults:
+def run_study(study: Study, *, quick: bool = False, progress: bool = False,
+              loss: bool | None = None) -> StudyResults:
     """Run every alternative of a study and judge it.
 
     Parameters
@@ -220,6 +230,9 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
         trials; never for a report.
     progress : bool
         Show progress bars while the suite is generated.
+    loss : bool, optional
+        Run the loss study (expected loss, downtime, economics); default:
+        the study's ``loss.enabled`` (true unless switched off).
 
     Returns
     -------
@@ -282,6 +295,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
 
     mark = time.perf_counter()
     results, live_histories, live_reports = [], {"fixed": fixed, "fixed_elastic": fixed_elastic}, {}
+    loss_cases = []
     for alternative, system, sets, report, quantities, permitted, reasons, checks in designs:
         bounds = report.bounds.results
         isolators = {case: _history_isolator(sets[case], bounds[case], system, case)
@@ -334,7 +348,22 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
             figures=plain(figures), verdict=plain(judged)))
         live_histories[alternative.name] = histories
         live_reports[alternative.name] = (system, sets, report)
+        loss_cases.append((alternative, system, _history_isolator(sets["nominal"], bounds["nominal"], system,
+                                                                   "nominal"), quantities, report))
     timings["histories"] = time.perf_counter() - mark
+    loss_results = {}
+    inputs = getattr(study, "loss", None)
+    if loss if loss is not None else (inputs is None or inputs.options.enabled):
+        from isolation.loss import run_loss
+
+        mark = time.perf_counter()
+        try:
+            loss_results = run_loss(study, spectrum, suite, base_mass, loss_cases, inputs,
+                                    fixed_building=comparison.building)
+        except (ValueError, RunError) as error:
+            raise RunError(f"loss study failed: {' '.join(str(error).split())}") from error
+        results = [dataclasses.replace(r, loss=plain(loss_results["alternatives"][r.name])) for r in results]
+        timings["loss"] = time.perf_counter() - mark
     timings["total"] = time.perf_counter() - started
 
     curve_low, curve_high = spectrum.period_range
@@ -354,12 +383,15 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False) -> S
                   "note": spectrum_note},
         fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(comparison.building),
                     "statistics": plain(fixed_stats), "elastic_statistics": plain(fixed_elastic.statistics()),
-                    "comparison": plain(comparison), "damage_thresholds": plain(thresholds)},
+                    "comparison": plain(comparison), "damage_thresholds": plain(thresholds),
+                    "loss": plain(loss_results.get("fixed", {}))},
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
         live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure, "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
+
+        loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
     )
 
 

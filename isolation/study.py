@@ -37,6 +37,9 @@ internal units: kN, m, s, kPa, spectral values in g.
 * ``[analysis]`` suite_size 7 or 11, seed (0), duration (30 s), time_step
   (0.005 s), damping (0.05).
 * ``[wind]`` base_shear (no wind check without it).
+* ``[cost]``, ``[hazard]``, ``[loss]`` (all optional): the loss study's costs
+  (defaults are invented demo values), hazard and options; keys in
+  :mod:`isolation.loss.inputs`.
 * ``[[alternative]]`` (one or more) name*, moat, ``[alternative.property_factors]``
   lower (0.85), upper (1.2), and ``[[alternative.bearings]]`` (one or more
   groups) type*, count*, axial_load per bearing (equal share of the weight
@@ -284,12 +287,15 @@ def _parse(mapping: Mapping[str, Any], source: str, base_dir: Path, cache: dict 
     total_weight = building.total_weight if building is not None else None
     alternatives = part("alternative", (total_weight,),
                         lambda t: _cached_alternatives(t, total_weight, system, cache), array=True)
+    from isolation.loss.inputs import read_loss_tables
+
+    loss = read_loss_tables(reader, basis)
     reader.done()
     if problems:
         raise StudyError(problems.items, source)
     return Study(project=project, basis=basis, units=units, site=site, building=building,
                  alternatives=alternatives, analysis=analysis, wind_base_shear=wind_shear,
-                 source=source)
+                 source=source, loss=loss)
 
 
 def _cached_alternatives(tables, total_weight, system: str, cache: dict | None) -> tuple:

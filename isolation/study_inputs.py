@@ -8,6 +8,7 @@ All names here are re-exported from :mod:`isolation.study`.
 from __future__ import annotations
 
 from dataclasses import asdict, dataclass, field
+from typing import Any
 
 from isolation.errors import InputError
 from isolation.plain import plain
@@ -183,7 +184,10 @@ class Study:
     """A validated study in internal units (kN, m, s, kPa, g).
 
     ``units`` is the system used for input and display; ``wind_base_shear``
-    [kN] is None when the study gives no wind load; ``source`` names the file.
+    [kN] is None when the study gives no wind load; ``source`` names the file;
+    ``loss`` holds the loss-study inputs (:class:`isolation.loss.LossInputs`,
+    from the optional ``[cost]``, ``[hazard]`` and ``[loss]`` tables; None
+    when the study was built without them).
     """
 
     project: Project
@@ -195,6 +199,7 @@ class Study:
     analysis: Analysis
     wind_base_shear: float | None = None
     source: str = ""
+    loss: Any = None
 
     def alternative(self, name: str) -> Alternative:
         """The alternative called ``name``."""

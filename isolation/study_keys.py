@@ -98,7 +98,8 @@ _INVISIBLE = frozenset("\ufeff\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u
 TEXT_LIMIT = 200
 """Longest text value (project name, client, ...) accepted [characters]."""
 
-ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative")
+ROOT_KEYS = ("units", "project", "code", "site", "building", "analysis", "wind", "alternative", "cost", "hazard",
+             "loss")
 
 _MISSING = object()
 

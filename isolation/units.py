@@ -48,22 +48,29 @@ KINDS: dict[str, tuple[str, str]] = {
     "stiffness": ("kN/m", "'1200 kN/m' or '7 kip/in'"),
     "time": ("s", "'0.005 s' or '40 s'"),
     "mass": ("t", "'660 t' or '1500 kip*s**2/ft'"),
+    "area": ("m**2", "'1200 m**2' or '13000 ft**2'"),
+    "per_area": ("1/m**2", "'3500 / m**2' or '325 / ft**2' (an amount per floor area)"),
+    "per_length": ("1/m", "'2500 / m' or '760 / ft' (an amount per length)"),
 }
 """Quantity kinds: internal unit and an example of accepted input."""
 
 BARE_UNITS: dict[str, dict[str, str]] = {
     "SI": {"length": "m", "force": "kN", "weight": "kN", "stress": "kPa",
-           "stiffness": "kN/m", "time": "s", "mass": "t"},
+           "stiffness": "kN/m", "time": "s", "mass": "t",
+           "area": "m**2", "per_area": "1/m**2", "per_length": "1/m"},
     "US": {"length": "in", "force": "kip", "weight": "kip", "stress": "psi",
-           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in"},
+           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in",
+           "area": "ft**2", "per_area": "1/ft**2", "per_length": "1/ft"},
 }
 """Unit in which a bare number (no unit written) is read, per system."""
 
 DISPLAY_UNITS: dict[str, dict[str, str]] = {
     "SI": {"length": "m", "force": "kN", "weight": "kN", "stress": "MPa",
-           "stiffness": "kN/m", "time": "s", "mass": "t"},
+           "stiffness": "kN/m", "time": "s", "mass": "t",
+           "area": "m**2", "per_area": "1/m**2", "per_length": "1/m"},
     "US": {"length": "in", "force": "kip", "weight": "kip", "stress": "ksi",
-           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in"},
+           "stiffness": "kip/in", "time": "s", "mass": "kip*s**2/in",
+           "area": "ft**2", "per_area": "1/ft**2", "per_length": "1/ft"},
 }
 """Unit used to show a value of each kind, per system."""
 
@@ -156,12 +163,12 @@ def _known_text(value: str, kind: str, system: str) -> float | None:
 # whole-number power ('**2', '^2'). Nothing is evaluated: "9**9**9 m" or "2*3 m" are refused.
 _NUMBER_TEXT = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _UNIT_NAME = r"[A-Za-z_\u00b5\u03bc]+(?:(?:\*\*|\^)-?[1-4])?"
-_UNIT_TEXT = _UNIT_NAME + r"(?:\s*(?:\*|/|\u00b7|\s)\s*" + _UNIT_NAME + r")*"
+_UNIT_TEXT = r"(?:/\s*)?" + _UNIT_NAME + r"(?:\s*(?:\*|/|\u00b7|\s)\s*" + _UNIT_NAME + r")*"
 _QUANTITY = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*(" + _UNIT_TEXT + r")?\s*$", re.ASCII)
 _PERCENT = re.compile(r"^\s*(" + _NUMBER_TEXT + r")\s*%\s*$", re.ASCII)
 _UNIT_ONLY = re.compile(r"^\s*(" + _UNIT_TEXT + r")\s*$", re.ASCII)
 
-GRAMMAR = ("one number (e.g. 12, 0.4, 2.5e3) followed by one unit (e.g. 'm', 'kip/in', "
+GRAMMAR = ("one number (e.g. 12, 0.4, 2.5e3) followed by one unit (e.g. 'm', 'kip/in', '/ m**2', "
            "'kip*s**2/ft'); no arithmetic")
 """What a quantity written as text may look like (for messages)."""
 
@@ -175,7 +182,8 @@ def split_quantity(text: str) -> tuple[float, str]:
         E.g. ``"12 in"``, ``"2.5e3 kN"``, ``"0.4"``. Allowed: one number
         (optional sign, decimal point and exponent) and at most one unit
         expression (unit names joined by ``*``, ``/`` or a space, each with an
-        optional whole-number power 1-4). Nothing is evaluated.
+        optional whole-number power 1-4; it may start with ``/`` for an amount
+        per unit, ``"3500 / m**2"``). Nothing is evaluated.
 
     Returns
     -------
@@ -201,7 +209,8 @@ def split_quantity(text: str) -> tuple[float, str]:
     number = float(found.group(1))
     if not math.isfinite(number):
         raise ValueError("the number must be finite")
-    return number, (found.group(2) or "").strip()
+    unit = (found.group(2) or "").strip()
+    return number, "1" + unit if unit.startswith("/") else unit
 
 
 def parse_ratio(value: Any, *, field: str, allowed: str) -> float:

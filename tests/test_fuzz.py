@@ -139,7 +139,7 @@ def study_cases():
             for bad in ALWAYS_BAD:
                 if isinstance(value, str) and name in ("name", "client", "prepared_by", "revision",
                                                        "basis", "lateral_system", "site_class", "ground_type",
-                                                       "type", "units") and isinstance(bad, str) \
+                                                       "type", "units", "currency") and isinstance(bad, str) \
                         and bad.strip() and "\x00" not in bad:
                     continue  # free text (and choices) accept many strings; choices are covered below
                 if isinstance(value, bool) and isinstance(bad, bool):

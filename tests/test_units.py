@@ -124,3 +124,13 @@ def test_compound_units_and_exponents_still_read():
     assert parse_quantity("7 kip/in", "stiffness", field="x") == pytest.approx(7 * LBF / INCH, rel=1e-12)
     assert parse_quantity("2.5e3 mm", "length", field="x") == pytest.approx(2.5, rel=1e-12)
     assert parse_quantity("-0.5E-1 m", "length", field="x") == pytest.approx(-0.05, rel=1e-12)
+
+
+def test_an_amount_per_unit_reads_with_a_leading_slash():
+    # "3500 / m**2" is 3500 per square metre; 1 ft = 0.3048 m exactly (NIST SP 811, Appendix B).
+    from isolation.units import parse_quantity, split_quantity
+
+    assert split_quantity("3500 / m**2") == (3500.0, "1/ m**2")
+    assert parse_quantity("325 / ft**2", "per_area", field="cost") == pytest.approx(325 / 0.3048**2, rel=1e-12)
+    with pytest.raises(ValueError, match="cost"):
+        parse_quantity("/ m**2", "per_area", field="cost")

@@ -279,3 +279,20 @@ def test_eurocode_report_states_the_spectrum_assumption(eurocode_report):
         assert (f"Total design displacement {_typeset('d_d')} [m] "
                 f"{_three_figures(q['total_displacement'])}") in text
         assert f"Isolated period {_typeset('T_eff')}, upper to lower bound [s]" in text
+
+
+@pytest.mark.slow
+def test_pdf_has_the_owner_page_on_what_isolation_buys(feasibility_pdf):
+    _, text, data = feasibility_pdf
+    start = text.index("What isolation buys")
+    page = text[start:text.index("Scope and cautions", start)]
+    for caution in ("order-of-magnitude screening", "cost consultant", "not an insurance estimate"):
+        assert caution in page.lower(), caution
+    # Expected annual loss of the fixed base from results.json, written as thousands or millions
+    # to 3 significant figures (the table's stated convention: k = thousand, M = million).
+    value = data["fixed_base"]["loss"]["expected_annual_loss"]
+    shown = f"{value / 1e6:.3g} M" if value >= 1e6 else f"{value / 1e3:.3g} k"
+    # pdftotext may wrap the row label around the values: look for the value right after the label.
+    assert re.search(rf"Expected annual loss .{{0,30}}?{re.escape(shown)}", page), shown
+    assert f"[{data['loss']['currency']}/year]" in page
+    assert "Expected repair cost against shaking intensity" in page

@@ -66,7 +66,10 @@ def rows_from_results(results: Mapping[str, Any], fixed_shear: float, *, verdict
         ``displacement`` [m], ``period`` [s], ``damping`` [-], ``base_shear``
         [kN]), ``quantities`` (``total_displacement`` [m], ``shear_ratio`` [-],
         ``displacement_capacity`` [m], ``moat`` [m]), ``figures``
-        (``floor_acceleration_ratio`` [-]) and ``verdict`` (``outcome``).
+        (``floor_acceleration_ratio`` [-]), ``verdict`` (``outcome``) and, when
+        the loss study ran, ``loss`` (expected annual loss, loss at MCE_R,
+        economics) with ``fixed_base.loss`` and the study-level ``loss.currency``;
+        the loss columns stay empty otherwise.
     fixed_shear : float
         Elastic fixed-base base shear W Sa(T_fb, 5 %). [kN]
     verdict_basis : str
@@ -91,6 +94,7 @@ def rows_from_results(results: Mapping[str, Any], fixed_shear: float, *, verdict
             "displacement_capacity_m": _float(quantities.get("displacement_capacity")),
             "moat_m": _float(quantities.get("moat")),
         }
+        row.update(_loss_columns(alternative.get("loss") or {}, results))
         for bound in ("lower", "upper"):
             result = bounds.get(bound, {})
             base_shear = _float(result.get("base_shear"))
@@ -102,6 +106,25 @@ def rows_from_results(results: Mapping[str, Any], fixed_shear: float, *, verdict
             )
         rows.append(row)
     return rows
+
+
+def _loss_columns(loss: Mapping[str, Any], results: Mapping[str, Any]) -> dict:
+    """Loss-study columns of one alternative (all None when the study has no loss results)."""
+    if not loss:
+        return {}
+    fixed = (results.get("fixed_base") or {}).get("loss") or {}
+    economics = loss.get("economics") or {}
+    return {
+        "currency": (results.get("loss") or {}).get("currency"),
+        "expected_annual_loss": _float(loss.get("expected_annual_loss")),
+        "expected_annual_loss_fixed": _float(fixed.get("expected_annual_loss")),
+        "expected_loss_mce": _float(loss.get("expected_loss_mce")),
+        "expected_loss_mce_fixed": _float(fixed.get("expected_loss_mce")),
+        "expected_annual_downtime_days": _float(loss.get("expected_annual_downtime")),
+        "net_premium": _float(economics.get("net_premium")),
+        "payback_years": _float(economics.get("payback_years")),
+        "net_present_value": _float(economics.get("net_present_value")),
+    }
 
 
 def rows_from_record(record_dir: str | Path) -> list[dict]:

@@ -23,6 +23,13 @@ Columns (units in the name where there is one):
 ``design_shear_ratio``     the study's code design shears V_s / V_fb [-]
 ``floor_acceleration_ratio`` isolated / fixed-base peak floor acceleration
                            (response histories; empty in a direct sweep) [-]
+*loss study*               ``currency``, ``expected_annual_loss`` and
+                           ``expected_annual_loss_fixed`` [currency/year],
+                           ``expected_loss_mce`` and ``expected_loss_mce_fixed``
+                           [currency], ``expected_annual_downtime_days``
+                           [day/year], ``net_premium`` [currency],
+                           ``payback_years`` [year], ``net_present_value``
+                           [currency] (records that ran it; empty otherwise)
 ``displacement_capacity_m`` smallest bearing displacement capacity [m]
 ``moat_m``                 clear gap around the building [m]
 ``error``                  one-line error of a failed variant
@@ -74,6 +81,16 @@ RESULT_COLUMNS = (
     "base_shear_ratio_upper",
     "design_shear_ratio",
     "floor_acceleration_ratio",
+    # loss study (empty when the records did not run it)
+    "currency",
+    "expected_annual_loss",
+    "expected_annual_loss_fixed",
+    "expected_loss_mce",
+    "expected_loss_mce_fixed",
+    "expected_annual_downtime_days",
+    "net_premium",
+    "payback_years",
+    "net_present_value",
     "displacement_capacity_m",
     "moat_m",
 )
@@ -102,6 +119,14 @@ COLUMN_UNITS = {
     "base_shear_ratio_upper": "-",
     "design_shear_ratio": "-",
     "floor_acceleration_ratio": "-",
+    "expected_annual_loss": "currency/year",
+    "expected_annual_loss_fixed": "currency/year",
+    "expected_loss_mce": "currency",
+    "expected_loss_mce_fixed": "currency",
+    "expected_annual_downtime_days": "day/year",
+    "net_premium": "currency",
+    "payback_years": "year",
+    "net_present_value": "currency",
     "displacement_capacity_m": "m",
     "moat_m": "m",
     "history_displacement_lower_m": "m",
@@ -114,7 +139,7 @@ COLUMN_UNITS = {
     "floor_acceleration_reduction_upper": "-",
     "drift_ratio_isolated": "-",
 }
-TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "error", "record")
+TEXT_COLUMNS = ("variant", "status", "alternative", "verdict", "verdict_basis", "currency", "error", "record")
 
 
 def summary_columns(override_keys: Iterable[str], histories: bool = False) -> list[str]:

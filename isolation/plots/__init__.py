@@ -13,7 +13,8 @@ lengths, forces or energy take a keyword ``units="SI"`` or ``"US"`` (the
 study's display system) and convert only on the axes, through
 :mod:`isolation.units`: displacement mm or in, force kN or kip, heights m or
 ft, energy kN m or kip in. Periods, drift ratios and accelerations (g) are the
-same in both systems.
+same in both systems. The owner's page figure (expected repair cost against
+intensity) is :mod:`~isolation.plots.loss`.
 
 Modules: :mod:`~isolation.plots.common` (canvas, colours, captions),
 :mod:`~isolation.plots.design` (site, bearings, equivalent-linear answer,
@@ -25,6 +26,7 @@ motion suite), :mod:`~isolation.plots.history` (response histories),
 from isolation.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned
 from isolation.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
                                     suite_figure, suite_match)
+from isolation.plots.loss import loss_curves
 from isolation.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
                                      floor_spectra, history_base_shear, history_displacements, history_energy,
                                      history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
@@ -42,6 +44,7 @@ __all__ = [
     "AxisUnit",
     "axis_unit",
     "captioned",
+    "loss_curves",
     "site_spectrum",
     "force_displacement",
     "equivalent_linear_bounds",

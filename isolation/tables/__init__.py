@@ -15,6 +15,7 @@ themselves; workbook text goes through :func:`markdown_text`.
 
 Modules: :mod:`~isolation.tables.table` (the table object, number formatting,
 generic builders), :mod:`~isolation.tables.results` (tables of a study's results),
+:mod:`~isolation.tables.loss` (the owner's page "What isolation buys"),
 :mod:`~isolation.tables.summary` (the owner's summary table and sentences),
 :mod:`~isolation.tables.symbols` (symbols as subscripts),
 :mod:`~isolation.tables.yielding` (comparison with the code-designed yielding fixed base).
@@ -24,6 +25,7 @@ from isolation.tables.results import (alternatives_table, bidirectional_table, b
                                       comparison_table, display_quantity, history_table, inputs_table,
                                       pairs_table, suite_table, verdict_table)
 from isolation.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
+from isolation.tables.loss import loss_table, loss_text
 from isolation.tables.symbols import latex_text, markdown_text
 from isolation.tables.yielding import damage_table, fixed_base_design_table, fixed_base_label, yielding_response_table
 from isolation.tables.table import (TYPST_MIME, Table, checks_table, escape_latex, format_number, in_study_units,
@@ -50,6 +52,8 @@ __all__ = [
     "display_quantity",
     "summary_table",
     "summary_text",
+    "loss_table",
+    "loss_text",
     "preferred_alternative",
     "code_symbols",
     "latex_text",
