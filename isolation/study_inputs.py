@@ -63,6 +63,7 @@ class Site:
     spectrum_file: str | None = None
     spectrum_periods: tuple = ()
     spectrum_values: tuple = ()
+    fault_distance: float | None = None  # [km] to the nearest active fault, None when not given
 
 
 @dataclass(frozen=True)
@@ -91,6 +92,7 @@ class Building:
     fixed_base_period: float | None = None
     eccentricity: float = 0.0
     damping: float = 0.05
+    nonstructural: str = "brittle"  # EN 1998-1 §4.4.3.2: "brittle", "ductile" or "none"
 
     @property
     def total_weight(self) -> float:
