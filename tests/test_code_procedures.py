@@ -1,0 +1,310 @@
+"""Code-procedure details an engineer checks by hand (issue: numbers an engineer can check).
+
+Each check names its source beside it. "from memory" marks clauses that were not
+re-read (the clause text was not found through the search tool this session);
+"[derived]" means hand arithmetic from the published formula; "common practice"
+has no single source.
+"""
+
+import math
+from pathlib import Path
+
+import pytest
+
+from isolation.bearings import Bilinear
+from isolation.design_asce7 import ElfBuilding, activation_force, asce7_elf
+from isolation.design_eurocode import EurocodeBuilding, eurocode_approximate_period, eurocode_simplified
+from isolation.fixed_base import approximate_period
+from isolation.overturning import (asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction,
+                                   grid_rows)
+from isolation.spectra import CodeSpectrum, EurocodeSpectrum
+from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
+from isolation.study_model import fixed_base_period
+from isolation.verdict_sources import drift_limit, eurocode_reduction_factor
+
+G = 9.80665
+DEMO = Path(__file__).resolve().parents[1] / "examples" / "demo_study.toml"
+
+
+class LinearSystem:
+    """Test double: constant effective stiffness [kN/m] and damping [-]."""
+
+    def __init__(self, stiffness, damping):
+        self.stiffness, self.damping = stiffness, damping
+
+    def effective_stiffness(self, d):
+        return self.stiffness
+
+    def effective_damping(self, d):
+        return self.damping
+
+    def force(self, d):
+        return self.stiffness * d
+
+
+def stiffness_for_period(weight, period):
+    # T = 2 pi sqrt(W/(k g)) (ASCE/SEI 7-16 Eq. 17.5-2) solved for k.
+    return 4 * math.pi**2 * weight / (G * period**2)
+
+
+def building(**changes):
+    # W_s = 8000 kN above a 2000 kN base level: W = 10000 kN.
+    data = dict(base_weight=2000.0, floor_weights=(3000.0, 3000.0, 2000.0), floor_elevations=(4.0, 8.0, 12.0),
+                plan_length=40.0, plan_width=20.0, response_modification=8.0, fixed_base_period=0.5,
+                wind_base_shear=500.0, s1=0.5, site_class="D")
+    data.update(changes)
+    return ElfBuilding(**data)
+
+
+def sets(lower=(3.0, 0.20), upper=(3.0, 0.20), weight=10000.0):
+    return {"lower": LinearSystem(stiffness_for_period(weight, lower[0]), lower[1]),
+            "upper": LinearSystem(stiffness_for_period(weight, upper[0]), upper[1])}
+
+
+SPECTRUM = CodeSpectrum(1.5, 0.9)   # S_DS 1.0, S_D1 0.6, T_S 0.6 s, T_L 8 s (ASCE/SEI 7-16 §11.4.5)
+
+
+# --- importance factor of an isolated structure ----------------------------------------------------
+
+def test_isolated_design_takes_importance_one():
+    # ASCE/SEI 7-16 §17.2.1 (from memory): I_e = 1.0 for the isolated structure. V_s lower limit of
+    # §17.5.4.3 item 1 [derived]: §12.8 with R_I = 2 at T_M = 3 s: C_s = S_D1/(T R_I/I_e) = 0.6/(3*2)
+    # = 0.1 -> 0.1 W_s = 800 kN, whatever the building's own I_e (1.5 would give 1200 kN and govern).
+    essential = asce7_elf(sets(), building(importance=1.5), SPECTRUM)
+    assert essential.value("V_s,min,fixed") == pytest.approx(800.0, rel=1e-9)
+    # V_s = V_st/R_I = 2000 (0.8)^0.5/2 = 894.43 kN governs (ASCE/SEI 7-16 §17.5.4.2).
+    assert essential.value("V_s") == pytest.approx(1000.0 * 0.8**0.5, rel=1e-9)
+    # The fixed-base comparison keeps the building's I_e (§12.8.1.1 Eq. 12.8-2) [derived]:
+    # C_s = S_DS/(R/I_e) = 1.0/(8/1.5) = 0.1875 (Eq. 12.8-3 cap 0.6/(0.5*8/1.5) = 0.225 not reached).
+    assert essential.value("V_fb") == pytest.approx(0.1875 * 8000.0, rel=1e-9)
+
+
+def test_drift_estimate_does_not_divide_by_the_building_importance():
+    # ASCE/SEI 7-16 §17.5.6 with C_d = R_I and I_e = 1.0 (§17.2.1), from memory; generalised SDOF
+    # (Chopra, Dynamics of Structures, generalised single-degree-of-freedom systems) [derived]:
+    # one level, phi = 1: u = V_s/(omega^2 W_s/g), drift = R_I u = 2 u.
+    one = building(floor_weights=(8000.0,), floor_elevations=(4.0,), importance=1.5)
+    report = asce7_elf(sets(), one, SPECTRUM)
+    u = report.value("V_s") / ((2 * math.pi / 0.5) ** 2 * 8000.0 / G)
+    assert report.storey_forces[0].drift == pytest.approx(2.0 * u, rel=1e-9)
+
+
+# --- activation force, ASCE/SEI 7-16 §17.5.4.3 item 3 ---------------------------------------------
+
+def bilinear_set(qd, kd=2000.0, ratio=50.0):
+    return Bilinear(ratio * kd, kd, qd)
+
+
+@pytest.mark.parametrize("q_nominal, q_upper, expected", [
+    # Bilinear yield force F_y = K_u Q_d/(K_u - K_d) (Naeim & Kelly 1999, bilinear model) = Q_d 50/49 here.
+    (400.0, 520.0, 1.5 * 400.0 * 50 / 49),   # 1.5 x nominal (600) > upper (520)
+    (400.0, 700.0, 700.0 * 50 / 49),         # upper (700) > 1.5 x nominal (600)
+])
+def test_activation_force_is_the_greater_of_upper_and_one_and_a_half_nominal(q_nominal, q_upper, expected):
+    # ASCE/SEI 7-16 §17.5.4.3 item 3 (from memory; 7-22 same, from memory): V_b set to the force that
+    # fully activates the system with the greater of the upper-bound and 1.5 x nominal properties.
+    property_sets = {"lower": bilinear_set(0.8 * q_nominal), "nominal": bilinear_set(q_nominal),
+                     "upper": bilinear_set(q_upper)}
+    force, note = activation_force(property_sets)
+    assert force == pytest.approx(expected, rel=1e-12)
+    assert ("1.5 x nominal" in note) is (1.5 * q_nominal >= q_upper)
+
+
+def test_activation_limit_passes_through_the_vst_form():
+    # §17.5.4.3 item 3 [derived]: V_s,min = F_act (W_s/W)^(1 - 2.5 beta_M) with beta_M of the
+    # force-governing set, not divided by R_I and not multiplied by a further 1.5.
+    property_sets = {"lower": bilinear_set(300.0), "nominal": bilinear_set(400.0), "upper": bilinear_set(480.0)}
+    report = asce7_elf(property_sets, building(wind_base_shear=0.0), SPECTRUM)
+    beta = report.bounds.force.damping
+    f_act = 600.0 * 50 / 49
+    assert report.value("V_s,min,activation") == pytest.approx(f_act * 0.8 ** (1 - 2.5 * beta), rel=1e-9)
+    assert report.value("V_s,min,activation") < 1.5 * 480.0 * 50 / 49   # the earlier reading, well above
+
+
+# --- lower and upper bound kept apart -------------------------------------------------------------
+
+def test_displacement_from_lower_and_forces_from_upper_bound():
+    # Two different sets [derived], ASCE/SEI 7-16 §17.2.8.5 (bounds, from memory): lower T 3.0 s,
+    # beta 20 % (B_M 1.5), upper T 2.5 s, beta 15 % (B_M 1.35, Table 17.5-1 by interpolation).
+    # D_M = g S_M1 T/(4 pi^2 B_M) from the lower set = 0.4471 m; V_b = W S_M1/(T B_M) from the upper
+    # set = 10000*0.36/1.35 = 2666.67 kN; V_st with the upper beta: 2666.67 (0.8)^(1 - 2.5*0.15).
+    report = asce7_elf(sets(lower=(3.0, 0.20), upper=(2.5, 0.15)), building(), SPECTRUM)
+    assert report.value("D_M") == pytest.approx(G * 0.9 * 3.0 / (4 * math.pi**2 * 1.5), rel=1e-6)
+    assert report.value("T_M") == pytest.approx(3.0, rel=1e-9)
+    assert report.value("V_b") == pytest.approx(10000.0 * 0.36 / 1.35, rel=1e-6)
+    assert report.value("V_st") == pytest.approx(10000.0 * 0.36 / 1.35 * 0.8 ** (1 - 2.5 * 0.15), rel=1e-6)
+    assert report.bounds.displacement_governs == "lower" and report.bounds.force_governs == "upper"
+
+
+def test_sliding_exponent_uses_three_and_a_half_beta():
+    # ASCE/SEI 7-16 §17.5.4.2 (from memory): 1 - 3.5 beta_M for an abruptly initiated transition to
+    # sliding [derived]: 2000 (0.8)^(1 - 0.7) and the source says so.
+    report = asce7_elf(sets(), building(isolator_kind="sliding"), SPECTRUM)
+    assert report.value("V_st") == pytest.approx(2000.0 * 0.8**0.3, rel=1e-9)
+    source = [i.source for i in report.quantities if i.symbol == "V_st"][0]
+    assert "1 - 3.5 beta_M" in source and "abruptly" in source
+
+
+def test_s1_no_longer_bars_the_elf_procedure():
+    # ASCE/SEI 7-16 §17.4.1 (from memory): the S_1 >= 0.6 g limit of 7-10 is not in the 7-16 list.
+    report = asce7_elf(sets(), building(s1=0.75), SPECTRUM)
+    assert report.elf_permitted and not any("S_1" in c.name for c in report.applicability)
+
+
+# --- Eurocode shears on the weight above the isolation plane ---------------------------------------
+
+def test_eurocode_shears_use_the_weight_above_the_isolation_plane():
+    # EN 1998-1 §3.2.2.2 [derived], ground C type 1 (S 1.15, T_C 0.6 s, T_D 2.0 s), a_g 0.3 g, T_eff 2.0 s,
+    # xi 20 % (eta = sqrt(10/25)): Se = 2.5*0.3*1.15*sqrt(0.4)*0.6/2.0 = 0.163654 g.
+    # V = K_eff d_dc = W Se = 1636.54 kN for W = 10000 kN (§10.9.2, from memory).
+    se = 2.5 * 0.3 * 1.15 * math.sqrt(0.4) * 0.6 / 2.0
+    ec = EurocodeBuilding(10000.0, 0.4, 30.0, 20.0, storeys=3, behaviour_factor=3.9, superstructure_weight=7000.0)
+    report = eurocode_simplified(sets(lower=(2.0, 0.2), upper=(2.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
+    assert report.value("V") == pytest.approx(10000.0 * se, rel=1e-5)
+    # V_s = V W_s/W / q = 1636.54*0.7/1.0 (§10.10(5), from memory; the base level's inertia goes to the bearings).
+    assert report.value("V_s") == pytest.approx(7000.0 * se, rel=1e-5)
+    # F_b = S_d(T_1) W_s lambda = 0.3*1.15*2.5/3.9 * 7000 * 0.85 (Eq. 4.5, §3.2.2.5; T_1 0.4 s <= 2 T_C, 3 storeys).
+    assert report.value("F_b") == pytest.approx(0.3 * 1.15 * 2.5 / 3.9 * 7000.0 * 0.85, rel=1e-9)
+    assert report.value("V_s/F_b") == pytest.approx(7000.0 * se / (0.3 * 1.15 * 2.5 / 3.9 * 7000.0 * 0.85), rel=1e-5)
+
+
+def test_eurocode_superstructure_weight_range():
+    with pytest.raises(ValueError, match="superstructure_weight"):
+        EurocodeBuilding(10000.0, 0.4, 30.0, 20.0, superstructure_weight=12000.0)
+
+
+def test_eurocode_equivalent_linear_failures_say_response_history():
+    # EN 1998-1 §10.9.1(5) (from memory): xi_eff > 30 % excludes the equivalent-linear model altogether.
+    ec = EurocodeBuilding(10000.0, 0.4, 30.0, 20.0)
+    report = eurocode_simplified(sets(lower=(2.0, 0.35), upper=(2.0, 0.35)), ec, EurocodeSpectrum(0.3, "C"))
+    damping = [w for w in report.warnings if "xi_eff" in w]
+    assert len(damping) == 1 and "response-history analysis is required" in damping[0]
+    assert "multimodal" not in damping[0]
+
+
+# --- per-bearing uplift ---------------------------------------------------------------------------
+
+def test_grid_rows():
+    # Nearly square bays: round(sqrt(n a/b)) within [2, n] (common practice layout).
+    assert grid_rows(16, 20.0, 20.0) == 4
+    assert grid_rows(18, 20.0, 40.0) == 3
+    assert grid_rows(2, 20.0, 40.0) == 2
+    with pytest.raises(ValueError, match="count"):
+        grid_rows(1, 20.0, 20.0)
+
+
+def test_bearing_uplift_by_hand():
+    # Rigid-body statics [derived]: 16 bearings on a 4 x 4 grid over 20 m x 20 m, rows at -10, -10/3,
+    # 10/3, 10 m: sum x^2 = 4 (2*100 + 2*100/9) = 888.9 m^2; M = 1000 kN x 10 m; dP = M 10/888.9 = 112.5 kN.
+    # Lightest group 600 kN; ASCE 7: (0.9 - 0.2 S_MS) D with S_MS 1.5 -> 0.6*600 = 360 kN (from memory).
+    factor, vertical, _ = asce7_vertical_fraction(1.5)
+    assert (factor, vertical) == (0.9, pytest.approx(0.3))
+    result = bearing_uplift(1000.0, 10.0, [(12, 1000.0), (4, 600.0)], 20.0, 20.0,
+                            gravity_factor=factor, vertical_fraction=vertical)
+    assert result.overturning_load == pytest.approx(112.5, rel=1e-12)
+    assert result.net_gravity == pytest.approx(360.0, rel=1e-12)
+    assert result.ratio == pytest.approx(112.5 / 360.0, rel=1e-12)
+    assert not result.in_tension and result.minimum_axial_load == pytest.approx(247.5)
+
+
+def test_bearing_uplift_takes_the_worse_direction_and_finds_tension():
+    # 18 bearings on 40 m x 20 m [derived]: across the width 3 rows of 6 at -10, 0, 10 m: sum x^2 = 1200,
+    # dP = M 10/1200 = M/120; along the length 6 rows of 3 at +-4, +-12, +-20 m: sum = 3360, dP = M 20/3360
+    # = M/168. The width governs: M = 36000 kN m -> 300 kN against 250 kN of gravity -> tension.
+    result = bearing_uplift(3600.0, 10.0, [(18, 250.0)], 40.0, 20.0)
+    assert result.overturning_load == pytest.approx(300.0, rel=1e-12)
+    assert result.rows == 3 and result.edge_distance == 10.0
+    assert result.in_tension and result.ratio == pytest.approx(1.2)
+
+
+def test_eurocode_vertical_component_only_above_a_quarter_g():
+    # EN 1998-1 Table 3.4 (a_vg/a_g 0.90 type 1, 0.45 type 2) and §4.3.3.5.2 (a_vg > 0.25 g; 0.3 of the
+    # vertical plateau 3.0 a_vg), from memory [derived]: a_g 0.25 g type 1 -> a_vg 0.225 g: none;
+    # a_g 0.4 g type 1 -> a_vg 0.36 g: 0.3*3.0*0.36 = 0.324.
+    assert eurocode_vertical_fraction(0.25, 1)[:2] == (1.0, 0.0)
+    assert eurocode_vertical_fraction(0.4, 1)[1] == pytest.approx(0.324)
+    assert eurocode_vertical_fraction(0.4, 2)[1] == 0.0   # a_vg = 0.18 g
+
+
+# --- fixed-base period coefficients by the tables' rows -------------------------------------------
+
+@pytest.mark.parametrize("system, asce_ct, asce_x, ec8_ct", [
+    # ASCE/SEI 7-16 Table 12.8-2 in SI (C_t in ft units 0.028, 0.016, 0.03, 0.03, 0.02; from memory) and
+    # EN 1998-1:2004 §4.3.3.2.2(3) Eq. 4.6 (from memory).
+    ("steel_moment_frame", 0.0724, 0.8, 0.085),
+    ("concrete_moment_frame", 0.0466, 0.9, 0.075),
+    ("steel_eccentrically_braced_frame", 0.0731, 0.75, 0.075),
+    ("steel_buckling_restrained_braced_frame", 0.0731, 0.75, 0.050),   # EN 1998-1: "all other structures"
+    ("concentrically_braced_frame", 0.0488, 0.75, 0.050),              # both: all other systems
+    ("shear_wall", 0.0488, 0.75, 0.050),
+    ("other", 0.0488, 0.75, 0.050),
+])
+def test_fixed_base_period_follows_the_table_row(system, asce_ct, asce_x, ec8_ct):
+    mapping = apply_overrides(read_study_mapping(DEMO), {"building.lateral_system": system})
+    study = parse_study(mapping, source=str(DEMO))
+    height = 16.5   # demo storeys 4.5 + 3 x 4.0 m
+    period, source = fixed_base_period(study)
+    assert period == pytest.approx(asce_ct * height**asce_x, rel=1e-12)
+    assert "Table 12.8-2" in source
+    ec = apply_overrides(mapping, {"code.basis": "eurocode", "building.importance": 1.0})
+    site = ec["site"]
+    for key in ("sms", "sm1", "long_period", "s1", "site_class"):
+        del site[key]
+    site.update(ag=0.3, ground_type="B", spectrum_type=1)
+    period, source = fixed_base_period(parse_study(ec, source=str(DEMO)))
+    assert period == pytest.approx(ec8_ct * height**0.75, rel=1e-12)
+    assert "§4.3.3.2.2(3)" in source
+
+
+def test_retired_braced_frame_choice_is_a_clear_error():
+    mapping = apply_overrides(read_study_mapping(DEMO), {"building.lateral_system": "braced_frame"})
+    with pytest.raises(StudyError, match=r"building\.lateral_system = 'braced_frame' is no longer accepted: "
+                                         r".*concentrically_braced_frame"):
+        parse_study(mapping, source=str(DEMO))
+
+
+def test_frame_type_keys_keep_their_meaning():
+    # Public names keep their meaning: "braced" stays the eccentric/buckling-restrained row.
+    assert approximate_period(20.0, "braced") == pytest.approx(0.0731 * 20.0**0.75)
+    assert approximate_period(20.0, "eccentric_braced") == approximate_period(20.0, "braced")
+    assert eurocode_approximate_period(20.0, "braced") == pytest.approx(0.075 * 20.0**0.75)
+    assert eurocode_approximate_period(20.0, "buckling_restrained_braced") == pytest.approx(0.050 * 20.0**0.75)
+
+
+# --- Eurocode drift limit by non-structural type and nu -------------------------------------------
+
+@pytest.mark.parametrize("kind, importance, expected", [
+    # EN 1998-1 §4.4.3.2 (from memory): d_r nu <= alpha h, alpha 0.005/0.0075/0.010; nu 0.5 (classes I-II),
+    # 0.4 (III-IV) -> limit alpha/nu.
+    ("brittle", 1.0, 0.010), ("ductile", 1.0, 0.015), ("none", 1.0, 0.020),
+    ("brittle", 1.4, 0.0125), ("none", 1.2, 0.025), ("ductile", 0.8, 0.015),
+])
+def test_eurocode_drift_limit(kind, importance, expected):
+    limit, source = drift_limit("eurocode", kind, importance)
+    assert limit == pytest.approx(expected, rel=1e-12)
+    assert "§4.4.3.2" in source and kind in source
+
+
+def test_drift_limit_defaults_and_errors():
+    assert drift_limit("asce7", "brittle", 1.4)[0] == 0.020   # ASCE 7: §17.6.4.4 whatever the kind
+    assert drift_limit("eurocode")[0] == 0.020                # earlier default kept without a kind
+    assert eurocode_reduction_factor(1.0) == 0.5 and eurocode_reduction_factor(1.2) == 0.4
+    with pytest.raises(ValueError, match="nonstructural"):
+        drift_limit("eurocode", "glass", 1.0)
+
+
+def test_study_nonstructural_key():
+    mapping = apply_overrides(read_study_mapping(DEMO), {"building.nonstructural": "ductile"})
+    assert parse_study(mapping, source=str(DEMO)).building.nonstructural == "ductile"
+    assert parse_study(read_study_mapping(DEMO), source=str(DEMO)).building.nonstructural == "brittle"
+    bad = apply_overrides(read_study_mapping(DEMO), {"building.nonstructural": "glass"})
+    with pytest.raises(StudyError, match=r"building\.nonstructural = 'glass' is not allowed"):
+        parse_study(bad, source=str(DEMO))
+
+
+def test_study_fault_distance_key():
+    mapping = apply_overrides(read_study_mapping(DEMO), {"site.fault_distance": 8.0})
+    assert parse_study(mapping, source=str(DEMO)).site.fault_distance == 8.0
+    bad = apply_overrides(read_study_mapping(DEMO), {"site.fault_distance": -1.0})
+    with pytest.raises(StudyError, match=r"site\.fault_distance = -1\.0 is not allowed"):
+        parse_study(bad, source=str(DEMO))
