@@ -43,7 +43,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "stress": ("kPa", "'0.9 MPa' or '60 psi'"),
     "stiffness": ("kN/m", "'1200 kN/m' or '7 kip/in'"),
     "time": ("s", "'0.005 s' or '40 s'"),
-    "mass": ("t", "'660 t' or '1500 kip*s**2/ft'"),
+    "mass": ("t", "'660 t' or '3.8 kip*s**2/in'"),
 }
 """Quantity kinds: internal unit and an example of accepted input."""
 

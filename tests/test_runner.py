@@ -286,7 +286,7 @@ def test_double_concave_and_high_damping_rubber_alternatives():
     assert hdr.outcome in OUTCOMES and dc.outcome in OUTCOMES
 
 
-def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law():
+def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law(demo):
     # A friction pendulum with friction_slow given keeps mu(v) = mu_fast - (mu_fast - mu_slow)
     # exp(-a|v|) (Constantinou, Mokha & Reinhorn 1990) in the response histories, its friction
     # scaled by the lower/upper factors of the study (0.85 / 1.25 in the demo; derived arithmetic).
@@ -309,4 +309,9 @@ def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law():
 
     results = run_study(study, quick=True)
     rate = results.alternatives[0].history["summary"]["isolator_displacement_lower"]
-    assert math.isfinite(rate) and rate > 0.0
+    # Same seeded records as the rate-independent demo: the velocity law changes the histories
+    # (the slow friction acts near velocity reversals), while the peak, reached at high velocity
+    # where mu(v) -> mu_fast (Constantinou et al. 1990 model), stays within a few per cent.
+    constant = demo.alternatives[0].history["summary"]["isolator_displacement_lower"]
+    assert rate != constant
+    assert rate == pytest.approx(constant, rel=0.05)
