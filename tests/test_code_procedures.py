@@ -308,3 +308,58 @@ def test_study_fault_distance_key():
     bad = apply_overrides(read_study_mapping(DEMO), {"site.fault_distance": -1.0})
     with pytest.raises(StudyError, match=r"site\.fault_distance = -1\.0 is not allowed"):
         parse_study(bad, source=str(DEMO))
+
+
+def test_bearing_uplift_edges():
+    # Statics [derived]: net gravity exactly equal to the overturning change is zero load, not tension.
+    exact = bearing_uplift(1000.0, 10.0, [(16, 112.5)], 20.0, 20.0)
+    assert exact.ratio == pytest.approx(1.0) and not exact.in_tension
+    assert exact.moment == 10000.0 and exact.tributary_load == 112.5 and exact.rows == 4
+    # Half a kN of compression left is still compression.
+    near = bearing_uplift(1000.0, 10.0, [(16, 113.0)], 20.0, 20.0)
+    assert near.minimum_axial_load == pytest.approx(0.5) and not near.in_tension
+    # Vertical earthquake taking all the gravity: no net gravity, any overturning is tension.
+    none_left = bearing_uplift(1000.0, 10.0, [(16, 500.0)], 20.0, 20.0, gravity_factor=0.9, vertical_fraction=0.9)
+    assert none_left.ratio == math.inf and none_left.in_tension
+    small = bearing_uplift(1000.0, 10.0, [(16, 500.0)], 20.0, 20.0, gravity_factor=1.0, vertical_fraction=0.999)
+    assert small.ratio == pytest.approx(112.5 / 0.5, rel=1e-9)
+    # Two bearings are the least that can carry a moment; the default source is the derivation.
+    two = bearing_uplift(100.0, 5.0, [(2, 400.0)], 10.0, 10.0)
+    assert two.rows == 2 and two.overturning_load == pytest.approx(500.0 * 5.0 / (2 * 25.0))
+    assert "derived" in two.source
+    assert bearing_uplift(100.0, 5.0, [(2, 400.0)], 10.0, 10.0, source="given").source == "given"
+    data = two.to_dict()
+    assert data["overturning_load"] == two.overturning_load and data["in_tension"] is False
+    with pytest.raises(ValueError, match=r"bearings = .* must hold at least 2 bearings"):
+        bearing_uplift(100.0, 5.0, [(1, 400.0)], 10.0, 10.0)
+    with pytest.raises(ValueError, match=r"bearings = \[\] is not allowed"):
+        bearing_uplift(100.0, 5.0, [], 10.0, 10.0)
+
+
+def test_vertical_fraction_sources():
+    factor, vertical, source = eurocode_vertical_fraction(0.4, 1)
+    assert factor == 1.0 and "§4.3.3.5.2" in source and "0.36 g" in source
+    assert "§4.3.3.5.2(1)" in eurocode_vertical_fraction(0.1, 1)[2]
+    assert "§17.2.4.6" in asce7_vertical_fraction(1.0)[2] and "0.2 S_MS" in asce7_vertical_fraction(1.0)[2]
+
+
+@pytest.mark.parametrize("call, words", [
+    # Brief rule: bad input names the field, the value and what is allowed, with its unit.
+    (lambda: bearing_uplift(-1.0, 5.0, [(4, 1.0)], 10.0, 10.0), r"shear = -1\.0 is not allowed: .* \[kN\]"),
+    (lambda: bearing_uplift(1.0, -5.0, [(4, 1.0)], 10.0, 10.0), r"height = -5\.0 is not allowed: .* \[m\]"),
+    (lambda: bearing_uplift(1.0, 5.0, [(4, 0.0)], 10.0, 10.0), r"axial_load = 0\.0 is not allowed: .* \[kN\]"),
+    (lambda: bearing_uplift(1.0, 5.0, [(4, 1.0)], 0.0, 10.0), r"plan_length = 0\.0 is not allowed: .* \[m\]"),
+    (lambda: bearing_uplift(1.0, 5.0, [(4, 1.0)], 10.0, -1.0), r"plan_width = -1\.0 is not allowed: .* \[m\]"),
+    (lambda: bearing_uplift(1.0, 5.0, [(4, 1.0)], 10.0, 10.0, gravity_factor=0.0),
+     r"gravity_factor = 0\.0 is not allowed: .* \[-\]"),
+    (lambda: bearing_uplift(1.0, 5.0, [(4, 1.0)], 10.0, 10.0, vertical_fraction=-0.1),
+     r"vertical_fraction = -0\.1 is not allowed: .* \[-\]"),
+    (lambda: grid_rows(4, 0.0, 10.0), r"across = 0\.0 is not allowed: .* \[m\]"),
+    (lambda: grid_rows(4, 10.0, -2.0), r"along = -2\.0 is not allowed: .* \[m\]"),
+    (lambda: asce7_vertical_fraction(-0.5), r"sms = -0\.5 is not allowed: .* \[g\]"),
+    (lambda: eurocode_vertical_fraction(-0.5), r"ag = -0\.5 is not allowed: .* \[g\]"),
+    (lambda: eurocode_vertical_fraction(0.3, 3), r"spectrum_type = 3 is not allowed"),
+])
+def test_overturning_bad_input_names_field_value_and_unit(call, words):
+    with pytest.raises(ValueError, match=words):
+        call()

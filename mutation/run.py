@@ -1,0 +1,128 @@
+"""Mutation testing of the numeric core, one module at a time (``make mutation``).
+
+Each run copies the package, its tests and the examples into a scratch folder
+``.mutation/<module>/`` (git-ignored), writes a mutmut configuration there that
+mutates that one module and runs only the test files that check it, and runs
+``mutmut run`` in it. One module at a time keeps each run to one core's worth of
+work (the machine is shared); results stay in the scratch folder:
+``cd .mutation/<module> && mutmut results`` / ``mutmut show <mutant>``.
+
+Not part of CI: a full pass over the core takes hours. Usage::
+
+    python -m mutation                    # every module in MODULES, in order
+    python -m mutation design_asce7 spectra
+    python -m mutation --list             # the module -> tests map
+
+mutmut (PyPI, ``pip install -e .[mutation]``) generates the mutants and runs pytest.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import shutil
+import subprocess
+import sys
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+SCRATCH = ROOT / ".mutation"
+
+MODULES: dict[str, tuple[str, ...]] = {
+    "design_asce7": ("tests/test_design.py", "tests/test_code_procedures.py"),
+    "design_eurocode": ("tests/test_design.py", "tests/test_code_procedures.py"),
+    "fixed_base": ("tests/test_design.py", "tests/test_code_procedures.py"),
+    "verdict_rules": ("tests/test_verdict.py",),
+    "verdict_site": ("tests/test_verdict.py",),
+    "verdict_sources": ("tests/test_verdict.py", "tests/test_code_procedures.py"),
+    "overturning": ("tests/test_code_procedures.py",),
+    "spectra": ("tests/test_spectra.py", "tests/test_design.py"),
+    "damping": ("tests/test_spectra.py", "tests/test_design.py"),
+    "design": ("tests/test_design.py", "tests/test_code_procedures.py"),
+    "bearings/backbone": ("tests/test_backbone.py", "tests/test_bearings_system.py"),
+    "bearings/friction": ("tests/test_bearings_friction.py",),
+    "bearings/rubber": ("tests/test_bearings_rubber.py",),
+    "bearings/system": ("tests/test_bearings_system.py",),
+    "newmark": ("tests/test_history.py", "tests/test_history_reference.py", "tests/test_history_isolators.py"),
+    "isolators": ("tests/test_history_isolators.py", "tests/test_history_reference.py"),
+}
+"""Module of ``isolation/`` (without .py) -> the test files that check it."""
+
+_COPY = ("isolation", "tests", "examples", "workbooks", "templates", "records")
+
+
+def _config(module: str, tests: tuple[str, ...]) -> str:
+    listed = "\n    ".join(tests)
+    return (f"[mutmut]\nsource_paths = isolation\nonly_mutate = isolation/{module}.py\n"
+            f"pytest_add_cli_args_test_selection =\n    {listed}\n"
+            "pytest_add_cli_args =\n    -q\n    -x\n    -p\n    no:cacheprovider\n    -m\n    not slow\n"
+            "do_not_mutate =\n    *__init__.py\n"
+            "also_copy =\n    examples\n    workbooks\n    templates\n")
+
+
+def prepare(module: str) -> Path:
+    """Fresh scratch copy for one module; returns its folder."""
+    if module not in MODULES:
+        raise SystemExit(f"module = {module!r} is not allowed: must be one of {', '.join(MODULES)}")
+    folder = SCRATCH / module.replace("/", "_")
+    if folder.exists():
+        shutil.rmtree(folder)
+    folder.mkdir(parents=True)
+    for name in _COPY:
+        source = ROOT / name
+        if source.is_dir():
+            shutil.copytree(source, folder / name, ignore=shutil.ignore_patterns("__pycache__", "*.pyc"))
+    (folder / "setup.cfg").write_text(_config(module, MODULES[module]), encoding="utf-8")
+    return folder
+
+
+def run(module: str, max_children: int = 1) -> int:
+    """Run mutmut on one module in its scratch folder; returns mutmut's exit code."""
+    folder = prepare(module)
+    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1")
+    mutmut = [sys.executable, "-m", "mutmut"]
+    print(f"== {module}: mutmut in {folder}", flush=True)
+    code = subprocess.call(mutmut + ["run", "--max-children", str(max_children)], cwd=folder, env=env,
+                           stdout=subprocess.DEVNULL)
+    summarise(module, folder)
+    return code
+
+
+def summarise(module: str, folder: Path) -> dict:
+    """Count mutants by status and write ``survivors.txt`` (each survivor's diff) in ``folder``."""
+    mutmut = [sys.executable, "-m", "mutmut"]
+    listed = subprocess.run(mutmut + ["results", "--all", "true"], cwd=folder, capture_output=True, text=True).stdout
+    status: dict[str, list[str]] = {}
+    for line in listed.splitlines():
+        if ":" in line:
+            name, _, state = line.strip().rpartition(": ")
+            status.setdefault(state.strip(), []).append(name)
+    counts = {k: len(v) for k, v in status.items()}
+    decided = counts.get("killed", 0) + counts.get("survived", 0) + counts.get("timeout", 0)
+    score = (counts.get("killed", 0) + counts.get("timeout", 0)) / decided if decided else float("nan")
+    lines = [f"{module}: {counts} -> killed {score:.1%} of decided mutants"]
+    for name in status.get("survived", []) + status.get("no tests", []):
+        shown = subprocess.run(mutmut + ["show", name], cwd=folder, capture_output=True, text=True).stdout
+        diff = [x for x in shown.splitlines() if x[:1] in "+-" and x[:3] not in ("+++", "---")]
+        lines.append(f"{name}\n    " + "\n    ".join(diff))
+    (folder / "survivors.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    print(lines[0], flush=True)
+    return counts
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(prog="python -m mutation", description=__doc__.split("\n\n")[0])
+    parser.add_argument("modules", nargs="*", help="modules of isolation/ (default: all of MODULES)")
+    parser.add_argument("--list", action="store_true", help="show the module -> tests map and stop")
+    parser.add_argument("--max-children", type=int, default=1, help="parallel mutant runs (default 1)")
+    args = parser.parse_args(argv)
+    if args.list:
+        for module, tests in MODULES.items():
+            print(f"{module}: {' '.join(tests)}")
+        return 0
+    codes = [run(m, args.max_children) for m in (args.modules or list(MODULES))]
+    return max(codes, default=0)
+
+
+if __name__ == "__main__":
+    sys.exit(main())
