@@ -363,3 +363,61 @@ def test_vertical_fraction_sources():
 def test_overturning_bad_input_names_field_value_and_unit(call, words):
     with pytest.raises(ValueError, match=words):
         call()
+
+
+# --- the demo's verdicts follow from their own numbers ----------------------------------------------
+
+# Level a finding must have given its value and limit, from the cited sources (not the code's
+# constants): D_TM within the bearing capacity (ASCE/SEI 7-16 §17.2.4.5, from memory); moat >= D_TM
+# (§17.2.6, from memory); drift within 2 % at MCE_R (§17.6.4.4, from memory); tension in a bearing is
+# a condition (statics); beta_M above 30 % a note (§17.4.1, from memory); V_s above V_fb a condition,
+# base shear and floor acceleration reductions 0.7 / 0.6 (common practice).
+EXPECTED_LEVEL = {
+    "displacement capacity": lambda r: "against" if r.value > r.limit else "ok",
+    "moat": lambda r: "condition" if r.value < r.limit else "ok",
+    "drift": lambda r: "condition" if r.value > 0.020 else "ok",
+    "uplift": lambda r: "condition" if r.value > 1.0 else "ok",
+    "effective damping": lambda r: "note" if r.value > 0.30 else "ok",
+    "design shear": lambda r: "condition" if r.value > 1.0 else "ok",
+    "base shear": lambda r: "against" if r.value >= 1.0 else "condition" if r.value >= 0.7 else "ok",
+    "floor acceleration": lambda r: "against" if r.value >= 1.0 else "condition" if r.value >= 0.6 else "ok",
+    "period shift": lambda r: "note",
+}
+
+
+@pytest.fixture(scope="module")
+def demo_results():
+    from isolation.runner import run_study
+    from isolation.study import load_study
+
+    return run_study(load_study(DEMO), quick=True)
+
+
+def test_demo_verdicts_follow_from_their_numbers(demo_results):
+    from isolation.verdict import CONDITIONAL, FEASIBLE, NOT_RECOMMENDED, Reason
+
+    for result in demo_results.alternatives:
+        reasons = [Reason(**r) for r in result.verdict["reasons"]]
+        topics = {r.topic for r in reasons}
+        assert set(EXPECTED_LEVEL) - {"moat"} <= topics, result.name
+        for reason in reasons:
+            if reason.topic in EXPECTED_LEVEL:
+                assert reason.level == EXPECTED_LEVEL[reason.topic](reason), (result.name, reason)
+        levels = {r.level for r in reasons}
+        expected = (NOT_RECOMMENDED if "against" in levels else CONDITIONAL if "condition" in levels else FEASIBLE)
+        assert result.outcome == expected
+        # The isolated-period finding states its bound; the period ratio states where T_fb comes from.
+        period = [r for r in reasons if r.topic == "isolated period"][0]
+        assert "nominal properties" in period.message
+        ratio = [r for r in reasons if r.topic == "period shift"][0]
+        assert "Eq. 12.8-7" in ratio.message and "C_u T_a" in ratio.message
+
+
+def test_demo_uplift_is_checked_per_bearing(demo_results):
+    # The figure behind the uplift finding is the outermost bearing's ratio (overturning change over
+    # tributary net gravity), from V_st of the force-governing set (ASCE/SEI 7-16 §17.5.4.2).
+    for result in demo_results.alternatives:
+        figures = result.figures
+        assert 0.0 < figures["uplift_ratio"] < 10.0
+        uplift = [r for r in result.verdict["reasons"] if r["topic"] == "uplift"][0]
+        assert uplift["value"] == figures["uplift_ratio"] and "outermost bearing" in uplift["message"]
