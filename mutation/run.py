@@ -19,10 +19,13 @@ mutmut (PyPI, ``pip install -e .[mutation]``) generates the mutants and runs pyt
 from __future__ import annotations
 
 import argparse
+import io
 import os
+import re
 import shutil
 import subprocess
 import sys
+import tokenize
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -88,6 +91,39 @@ def run(module: str, max_children: int = 1) -> int:
     return code
 
 
+_LOGIC_CONTEXT = re.compile(r"==|!=|\bin\b|\[\s*f?[\"']|\.get\(|startswith|endswith|one_of|choice|replace\(|split\(")
+
+
+def _tokens(line: str) -> list[str] | None:
+    """Tokens of one source line with every string literal (and a bare None) removed."""
+    found = []
+    try:
+        for token in tokenize.generate_tokens(io.StringIO(line.strip() + "\n").readline):
+            found.append(token)
+    except (tokenize.TokenError, IndentationError, SyntaxError):
+        if not found:
+            return None
+    return [t.string for t in found if t.type != tokenize.STRING and t.string != "None"
+            and t.type not in (tokenize.NEWLINE, tokenize.NL, tokenize.ENDMARKER, tokenize.COMMENT)]
+
+
+def text_only(diff: list[str]) -> bool:
+    """Whether a mutant changes only the wording of a message, a source citation or a unit label:
+    the removed and added lines are equal once string literals are left out, and no string there
+    takes part in a comparison, a lookup or a choice (where its value is logic)."""
+    old = [x[1:] for x in diff if x.startswith("-")]
+    new = [x[1:] for x in diff if x.startswith("+")]
+    if len(old) != len(new) or not old:
+        return False
+    for a, b in zip(old, new):
+        if _LOGIC_CONTEXT.search(a):
+            return False
+        ta, tb = _tokens(a), _tokens(b)
+        if ta is None or tb is None or [t for t in ta if t != ","] != [t for t in tb if t != ","]:
+            return False
+    return True
+
+
 def summarise(module: str, folder: Path) -> dict:
     """Count mutants by status and write ``survivors.txt`` (each survivor's diff) in ``folder``."""
     mutmut = [sys.executable, "-m", "mutmut"]
@@ -98,15 +134,22 @@ def summarise(module: str, folder: Path) -> dict:
             name, _, state = line.strip().rpartition(": ")
             status.setdefault(state.strip(), []).append(name)
     counts = {k: len(v) for k, v in status.items()}
-    decided = counts.get("killed", 0) + counts.get("survived", 0) + counts.get("timeout", 0)
-    score = (counts.get("killed", 0) + counts.get("timeout", 0)) / decided if decided else float("nan")
-    lines = [f"{module}: {counts} -> killed {score:.1%} of decided mutants"]
+    killed = counts.get("killed", 0) + counts.get("timeout", 0)
+    decided = killed + counts.get("survived", 0)
+    entries, text = [], 0
     for name in status.get("survived", []) + status.get("no tests", []):
         shown = subprocess.run(mutmut + ["show", name], cwd=folder, capture_output=True, text=True).stdout
         diff = [x for x in shown.splitlines() if x[:1] in "+-" and x[:3] not in ("+++", "---")]
-        lines.append(f"{name}\n    " + "\n    ".join(diff))
+        wording = text_only(diff)
+        text += wording and name in status.get("survived", [])
+        entries.append((wording, f"{name} [{'text' if wording else 'logic'}]\n    " + "\n    ".join(diff)))
+    score = killed / decided if decided else float("nan")
+    logic = killed / (decided - text) if decided - text else float("nan")
+    head = (f"{module}: {counts}; killed {score:.1%} of all decided mutants, {logic:.1%} of those that change "
+            f"logic ({text} surviving mutants change only message, citation or unit text)")
+    lines = [head] + [e for w, e in entries if not w] + [e for w, e in entries if w]
     (folder / "survivors.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
-    print(lines[0], flush=True)
+    print(head, flush=True)
     return counts
 
 

@@ -189,6 +189,8 @@ def test_grid_rows():
     assert grid_rows(16, 20.0, 20.0) == 4
     assert grid_rows(18, 20.0, 40.0) == 3
     assert grid_rows(2, 20.0, 40.0) == 2
+    assert grid_rows(4, 1.0, 100.0) == 2     # a long thin plan still has two rows across
+    assert grid_rows(3, 100.0, 1.0) == 3     # never more rows than bearings
     with pytest.raises(ValueError, match="count"):
         grid_rows(1, 20.0, 20.0)
 
@@ -224,6 +226,10 @@ def test_eurocode_vertical_component_only_above_a_quarter_g():
     assert eurocode_vertical_fraction(0.25, 1)[:2] == (1.0, 0.0)
     assert eurocode_vertical_fraction(0.4, 1)[1] == pytest.approx(0.324)
     assert eurocode_vertical_fraction(0.4, 2)[1] == 0.0   # a_vg = 0.18 g
+    assert eurocode_vertical_fraction(0.4)[1] == pytest.approx(0.324)   # Type 1 unless told
+    # a_g 0.625 g, type 2: a_vg = 0.45*0.625 = 0.28125 g > 0.25 g -> 0.3*3.0*0.28125 = 0.253125.
+    factor, vertical, _ = eurocode_vertical_fraction(0.625, 2)
+    assert factor == 1.0 and vertical == pytest.approx(0.253125, rel=1e-12)
 
 
 # --- fixed-base period coefficients by the tables' rows -------------------------------------------
