@@ -19,6 +19,8 @@ mutmut (PyPI, ``pip install -e .[mutation]``) generates the mutants and runs pyt
 from __future__ import annotations
 
 import argparse
+import ast
+import difflib
 import io
 import os
 import re
@@ -124,6 +126,27 @@ def text_only(diff: list[str]) -> bool:
     return True
 
 
+def _mutant_sources(path: Path) -> dict[str, str]:
+    """Source of every function in mutmut's mutated copy of a module, by name."""
+    if not path.exists():
+        return {}
+    text = path.read_text(encoding="utf-8")
+    found = {}
+    for node in ast.walk(ast.parse(text)):
+        if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef)) and "__mutmut_" in node.name:
+            found[node.name] = ast.get_source_segment(text, node) or ""
+    return found
+
+
+def _diff(sources: dict[str, str], mutant: str) -> list[str]:
+    """Changed lines of one mutant against its original function (what ``mutmut show`` prints)."""
+    base = mutant.rpartition("__mutmut_")[0]
+    original = sources.get(base + "__mutmut_orig", "").replace(base + "__mutmut_orig", base, 1)
+    changed = sources.get(mutant, "").replace(mutant, base, 1)
+    lines = difflib.unified_diff(original.splitlines(), changed.splitlines(), lineterm="", n=0)
+    return [x for x in lines if x[:1] in "+-" and x[:3] not in ("+++", "---")]
+
+
 def summarise(module: str, folder: Path) -> dict:
     """Count mutants by status and write ``survivors.txt`` (each survivor's diff) in ``folder``."""
     mutmut = [sys.executable, "-m", "mutmut"]
@@ -137,9 +160,9 @@ def summarise(module: str, folder: Path) -> dict:
     killed = counts.get("killed", 0) + counts.get("timeout", 0)
     decided = killed + counts.get("survived", 0)
     entries, text = [], 0
+    sources = _mutant_sources(folder / "mutants" / "isolation" / f"{module}.py")
     for name in status.get("survived", []) + status.get("no tests", []):
-        shown = subprocess.run(mutmut + ["show", name], cwd=folder, capture_output=True, text=True).stdout
-        diff = [x for x in shown.splitlines() if x[:1] in "+-" and x[:3] not in ("+++", "---")]
+        diff = _diff(sources, name.rpartition(".")[2])
         wording = text_only(diff)
         text += wording and name in status.get("survived", [])
         entries.append((wording, f"{name} [{'text' if wording else 'logic'}]\n    " + "\n    ".join(diff)))

@@ -330,3 +330,90 @@ def test_verdict_round_trips_through_json():
     data = json.loads(json.dumps(result.to_dict()))
     assert v.Verdict.from_dict(data) == result
     assert json.loads(json.dumps(good_figures().to_dict()))["alternative"] == "A"
+
+
+# --- every rule at every level: the finding quotes its number, limit, unit and source -------------
+# Limits from the sources named in the module text above: 2-5 s band, displacement size 0.8/1.2 m,
+# base shear 0.7, floor acceleration 0.6 (common practice); D_TM against the capacity (ASCE/SEI 7-16
+# §17.2.4.5, from memory), moat >= D_TM (§17.2.6, from memory), V_s/V_fb 1.0, drift 0.015 (§17.5.6,
+# from memory), net tension at 1.0 (statics), beta_M 0.30 (§17.4.1, from memory).
+ASCE = "ASCE/SEI 7-16"
+EC8 = "EN 1998-1"
+RULE_TABLE = [
+    # call, topic, level, value, limit, unit, source contains, message contains
+    (lambda: v.isolated_period(1.8, bound="upper"), "isolated period", "condition", 1.8, 2.0, "s", "common practice", "softer"),
+    (lambda: v.isolated_period(5.5), "isolated period", "note", 5.5, 5.0, "s", ASCE, "ELF procedure is not permitted"),
+    (lambda: v.isolated_period(5.5, basis="eurocode"), "isolated period", "note", 5.5, 5.0, "s", "common practice",
+     "exceeds 5 s: wind"),
+    (lambda: v.isolated_period(3.0), "isolated period", "ok", 3.0, 5.0, "s", "common practice", "2-5 s band"),
+    (lambda: v.period_shift(2.4, 1.2), "period shift", "note", 2.0, 3.0, "-", ASCE, "ELF procedure"),
+    (lambda: v.period_shift(2.4, 1.2, basis="eurocode"), "period shift", "note", 2.0, 3.0, "-", EC8,
+     "simplified analysis"),
+    (lambda: v.displacement_capacity(0.5, None), "displacement capacity", "condition", 0.5, None, "m", ASCE,
+     "no bearing displacement capacity given"),
+    (lambda: v.displacement_capacity(0.5, 0.4), "displacement capacity", "against", 0.5, 0.4, "m", ASCE, "(D_TM)"),
+    (lambda: v.displacement_capacity(0.4, 0.4), "displacement capacity", "ok", 0.4, 0.4, "m", ASCE, "100% used"),
+    (lambda: v.displacement_capacity(0.3, 0.4, 0.35, basis="eurocode"), "displacement capacity", "ok", 0.35, 0.4,
+     "m", EC8, "response-history mean peak"),
+    (lambda: v.moat_clearance(0.5, None), "moat", "condition", 0.5, None, "m", ASCE, "no moat given"),
+    (lambda: v.moat_clearance(0.5, 0.4), "moat", "condition", 0.4, 0.5, "m", ASCE, "widen"),
+    (lambda: v.moat_clearance(0.5, 0.6, basis="eurocode"), "moat", "ok", 0.6, 0.5, "m", EC8, "covers"),
+    (lambda: v.displacement_size(1.3), "displacement size", "against", 1.3, 1.2, "m", "common practice", "beyond"),
+    (lambda: v.displacement_size(1.0), "displacement size", "condition", 1.0, 0.8, "m", "common practice", "special"),
+    (lambda: v.displacement_size(0.5), "displacement size", "ok", 0.5, 0.8, "m", "common practice", "D_TM"),
+    (lambda: v.base_shear_reduction(1.1), "base shear", "against", 1.1, 1.0, "-", "common practice", "no reduction"),
+    (lambda: v.base_shear_reduction(0.8), "base shear", "condition", 0.8, 0.7, "-", "common practice", "modest"),
+    (lambda: v.base_shear_reduction(0.5), "base shear", "ok", 0.5, 0.7, "-", "common practice", "50%"),
+    (lambda: v.design_shear(1.2), "design shear", "condition", 1.2, 1.0, "-", ASCE, "more force"),
+    (lambda: v.design_shear(0.8, basis="eurocode"), "design shear", "ok", 0.8, 1.0, "-", EC8, "80%"),
+    (lambda: v.floor_acceleration_reduction(1.1), "floor acceleration", "against", 1.1, 1.0, "-", "common practice",
+     "no protection"),
+    (lambda: v.floor_acceleration_reduction(0.7), "floor acceleration", "condition", 0.7, 0.6, "-",
+     "common practice", "limited"),
+    (lambda: v.floor_acceleration_reduction(0.4), "floor acceleration", "ok", 0.4, 0.6, "-", "common practice", "40%"),
+    (lambda: v.storey_drift(0.02), "drift", "condition", 0.02, 0.015, "-", "§17.5.6", "stiffen"),
+    (lambda: v.storey_drift(0.01), "drift", "ok", 0.01, 0.015, "-", "§17.5.6", "1.00%"),
+    (lambda: v.storey_drift(0.012, basis="eurocode"), "drift", "ok", 0.012, 0.020, "-", "§4.4.3.2", "2.00%"),
+    (lambda: v.storey_drift(0.012, 0.010, "given limit"), "drift", "condition", 0.012, 0.010, "-", "given limit",
+     "1.00%"),
+    (lambda: v.uplift(1.5), "uplift", "condition", 1.5, 1.0, "-", ASCE, "net tension"),
+    (lambda: v.uplift(0.5, basis="eurocode"), "uplift", "ok", 0.5, 1.0, "-", EC8, "no net tension"),
+    (lambda: v.effective_damping(0.4), "effective damping", "note", 0.4, 0.30, "-", ASCE, "response histories"),
+    (lambda: v.effective_damping(0.2, basis="eurocode"), "effective damping", "ok", 0.2, 0.30, "-", EC8, "20%"),
+    (lambda: v.bearing_checks(("a", "b")), "bearing checks", "condition", 2.0, 0.0, "-", "bearing checks table",
+     "a, b; resize"),
+    (lambda: v.bearing_checks(()), "bearing checks", "ok", 0.0, 0.0, "-", "bearing checks table", "all"),
+    (lambda: v.elf_applicability(True), "analysis procedure", "ok", None, None, "-", ASCE,
+     "equivalent lateral force procedure is permitted"),
+    (lambda: v.elf_applicability(True, basis="eurocode"), "analysis procedure", "ok", None, None, "-", EC8,
+     "simplified linear analysis is permitted"),
+    (lambda: v.elf_applicability(False), "analysis procedure", "note", None, None, "-", ASCE, "limits exceeded"),
+]
+
+
+@pytest.mark.parametrize("call, topic, level, value, limit, unit, source, words", RULE_TABLE)
+def test_every_rule_quotes_number_limit_unit_and_source(call, topic, level, value, limit, unit, source, words):
+    reason = call()
+    assert (reason.topic, reason.level, reason.unit) == (topic, level, unit)
+    assert reason.value == (pytest.approx(value) if value is not None else None)
+    assert reason.limit == (pytest.approx(limit) if limit is not None else None)
+    assert source in reason.source
+    assert words in reason.message
+    if basis_of(reason.source) == "eurocode":
+        assert "ASCE" not in reason.source
+
+
+def basis_of(text):
+    return "eurocode" if "EN 1998" in text else "asce7"
+
+
+def test_missing_inputs_give_no_finding():
+    assert v.elf_applicability(None) is None and v.effective_damping(None) is None
+
+
+def test_lengths_and_forces_in_messages_follow_the_unit_system():
+    # 1 in = 0.0254 m and 1 kip = 4.4482216 kN (NIST SP 811): 0.5 m = 19.7 in, 0.500 m in SI.
+    assert "19.7 in" in v.moat_clearance(0.5, None, system="US").message
+    assert "0.500 m" in v.moat_clearance(0.5, None).message
+    assert "2200 kN" in v.wind(650.0, 2200.0).message
+    assert "495 kip" in v.wind(650.0, 2200.0, system="US").message   # 2200/4.4482 = 494.6
