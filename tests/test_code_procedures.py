@@ -427,3 +427,75 @@ def test_demo_uplift_is_checked_per_bearing(demo_results):
         assert 0.0 < figures["uplift_ratio"] < 10.0
         uplift = [r for r in result.verdict["reasons"] if r["topic"] == "uplift"][0]
         assert uplift["value"] == figures["uplift_ratio"] and "outermost bearing" in uplift["message"]
+
+
+# --- ASCE 7 ELF details: torsion with P_T, applicability boundaries -------------------------------
+
+@pytest.mark.parametrize("p_t, factor", [
+    # ASCE/SEI 7-16 Eq. 17.5-3 [derived]: e = 2.0 m, y = 20 m, b = 40, d = 20 m:
+    # 1 + (y/P_T^2) 12 e/(b^2 + d^2) = 1 + 20*24/(2000 P_T^2); P_T taken <= 1.0 (from memory).
+    (0.8, 1 + 20 * 24 / (2000 * 0.64)), (1.0, 1.24), (1.3, 1.24),
+])
+def test_total_displacement_with_the_torsion_period_ratio(p_t, factor):
+    report = asce7_elf(sets(), building(torsion_period_ratio=p_t), SPECTRUM)
+    assert report.value("D_TM") == pytest.approx(factor * report.value("D_M"), rel=1e-12)
+
+
+def test_total_displacement_with_given_eccentricity_and_corner():
+    # e = 1.0 + 0.05*40 = 3.0 m, y = 15 m [derived]: 1 + 15*12*3/2000 = 1.27 (Eq. 17.5-3).
+    report = asce7_elf(sets(), building(eccentricity=1.0, corner_distance=15.0), SPECTRUM)
+    assert report.value("e") == pytest.approx(3.0)
+    assert report.value("D_TM") == pytest.approx(1.27 * report.value("D_M"), rel=1e-12)
+    # Default corner: y = b/2 + e_actual = 21 m -> 1 + 21*12*3/2000 = 1.378.
+    default = asce7_elf(sets(), building(eccentricity=1.0), SPECTRUM)
+    assert default.value("D_TM") == pytest.approx(1.378 * default.value("D_M"), rel=1e-12)
+    assert default.value("moat") == pytest.approx(1.378 * default.value("D_M") + 0.05, rel=1e-12)
+
+
+def test_response_modification_bounds_of_r_i():
+    # ASCE/SEI 7-16 §17.5.4.2: R_I = 3/8 R within [1.0, 2.0] [derived]: R 4 -> 1.5.
+    assert asce7_elf(sets(), building(response_modification=4.0), SPECTRUM).value("R_I") == pytest.approx(1.5)
+
+
+@pytest.mark.parametrize("changes, name, passed", [
+    # ASCE/SEI 7-16 §17.4.1 (from memory): at most 4 storeys and 19.8 m (65 ft); T_M <= 5 s;
+    # beta_M <= 30 %; T_M > 3 T.
+    (dict(floor_weights=(2000.0,) * 4, floor_elevations=(4.0, 8.0, 12.0, 16.0)), "storeys", True),
+    (dict(height=19.8), "height", True),
+    (dict(height=19.9), "height", False),
+    (dict(fixed_base_period=1.0), "3 T_fb", False),      # T_M 3.0 s is not more than 3 x 1.0 s
+    (dict(fixed_base_period=0.99), "3 T_fb", True),
+])
+def test_elf_applicability_boundaries(changes, name, passed):
+    report = asce7_elf(sets(), building(**changes), SPECTRUM)
+    check = [c for c in report.applicability if name in c.name][0]
+    assert check.passed is passed
+    assert report.elf_permitted is passed
+
+
+@pytest.mark.parametrize("damping, period, passed", [(0.30, 3.0, True), (0.31, 3.0, False),
+                                                     (0.2, 5.0, True), (0.2, 5.05, False)])
+def test_elf_damping_and_period_boundaries(damping, period, passed):
+    # ASCE/SEI 7-16 §17.4.1 (from memory): beta_M <= 30 %, T_M <= 5.0 s.
+    spectrum = CodeSpectrum(1.5, 0.9, max_period=10.0)
+    report = asce7_elf(sets(lower=(period, damping), upper=(period, damping)), building(), spectrum)
+    assert report.elf_permitted is passed
+    failed = [c.name for c in report.applicability if not c.passed]
+    assert (failed == []) is passed
+
+
+def test_stiffness_ratio_and_drift_limits():
+    # ASCE/SEI 7-16 §17.4.1 item 7a (from memory): k_eff(D_M) > k_eff(0.2 D_M)/3; a linear system
+    # has ratio 1. §17.5.6 (from memory): drift 0.015 h_sx: a flexible superstructure (T_fb 3 s on
+    # one 4 m storey) exceeds it and the report warns.
+    report = asce7_elf(sets(), building(), SPECTRUM)
+    ratio = [c for c in report.applicability if "0.2 D_M" in c.name]
+    assert ratio and all(c.value == pytest.approx(1.0) and c.limit == pytest.approx(1 / 3) for c in ratio)
+    soft = asce7_elf(sets(), building(floor_weights=(8000.0,), floor_elevations=(4.0,), fixed_base_period=0.9),
+                     SPECTRUM)
+    drift = soft.checks[0]
+    # [derived] generalised SDOF: u = V_s/(omega^2 W_s/g), drift = R_I u, ratio = drift/4 m.
+    u = soft.value("V_s") / ((2 * math.pi / 0.9) ** 2 * 8000.0 / G)
+    assert drift.value == pytest.approx(2.0 * u / 4.0, rel=1e-9) and drift.limit == 0.015
+    assert drift.passed is (2.0 * u / 4.0 <= 0.015)
+    assert any("drift" in w for w in soft.warnings) is (not drift.passed)
