@@ -499,3 +499,92 @@ def test_stiffness_ratio_and_drift_limits():
     assert drift.value == pytest.approx(2.0 * u / 4.0, rel=1e-9) and drift.limit == 0.015
     assert drift.passed is (2.0 * u / 4.0 <= 0.015)
     assert any("drift" in w for w in soft.warnings) is (not drift.passed)
+
+
+# --- EN 1998-1 details: design spectrum branches, lambda, applicability limits ---------------------
+
+@pytest.mark.parametrize("period, expected", [
+    # EN 1998-1:2004 §3.2.2.5 Eqs. 3.13-3.16 [derived], ground C type 1 (S 1.15, T_B 0.2, T_C 0.6,
+    # T_D 2.0 s, Table 3.2), a_g 0.3 g, q 3.0, beta 0.2.
+    (0.0, 0.3 * 1.15 * 2 / 3),
+    (0.1, 0.3 * 1.15 * (2 / 3 + 0.1 / 0.2 * (2.5 / 3.0 - 2 / 3))),
+    (0.2, 0.3 * 1.15 * 2.5 / 3.0),
+    (1.0, 0.3 * 1.15 * 2.5 / 3.0 * 0.6 / 1.0),
+    (4.0, 0.2 * 0.3),                              # lower bound beta a_g governs
+])
+def test_eurocode_design_spectrum_branches(period, expected):
+    from isolation.design_eurocode import eurocode_design_spectrum
+    assert eurocode_design_spectrum(EurocodeSpectrum(0.3, "C"), period, 3.0) == pytest.approx(expected, rel=1e-12)
+
+
+def test_eurocode_design_spectrum_beyond_t_d():
+    # Eq. 3.16 [derived] with q 1.5 so that the 1/T^2 branch stays above beta a_g = 0.06 g:
+    # 0.3*1.15*2.5/1.5 * 0.6*2.0/3^2 = 0.076667 g.
+    from isolation.design_eurocode import eurocode_design_spectrum
+    value = eurocode_design_spectrum(EurocodeSpectrum(0.3, "C"), 3.0, 1.5)
+    assert value == pytest.approx(0.3 * 1.15 * 2.5 / 1.5 * 0.6 * 2.0 / 9.0, rel=1e-12)
+
+
+def test_eurocode_lambda_cases():
+    # EN 1998-1 §4.3.3.2.2(1) Eq. 4.5 (from memory): lambda 0.85 only when T_1 <= 2 T_C and more than
+    # two storeys, else 1.0 [derived]: ground C, T_C 0.6 s.
+    from isolation.design_eurocode import eurocode_fixed_base_shear
+    spectrum = EurocodeSpectrum(0.3, "C")
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 1.2, 3)[1] == 0.85
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 1.21, 3)[1] == 1.0
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 0.5, 2)[1] == 1.0
+    f_b = eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 1.5, 5)[0]
+    assert f_b == pytest.approx(1000.0 * 0.3 * 1.15 * 2.5 / 3.0 * 0.6 / 1.5, rel=1e-12)
+
+
+def ec_report(period=2.0, damping=0.2, **changes):
+    data = dict(weight=10000.0, superstructure_period=0.4, plan_length=30.0, plan_width=20.0, storeys=3)
+    data.update(changes)
+    return eurocode_simplified(sets(lower=(period, damping), upper=(period, damping)), EurocodeBuilding(**data),
+                               EurocodeSpectrum(0.3, "C", max_period=10.0))
+
+
+@pytest.mark.parametrize("changes, period, words, passed", [
+    # EN 1998-1 §10.9.2 (from memory): T_eff <= 3 s, >= 3 T_f; plan <= 50 m; regular; > 15 km from an
+    # active fault; K_v/K_eff >= 150.
+    (dict(), 3.0, "longest effective period", True),
+    (dict(), 3.05, "longest effective period", False),
+    (dict(superstructure_period=2.0 / 3.0), 2.0, "T_f", True),
+    (dict(superstructure_period=0.67), 2.0, "T_f", False),
+    (dict(plan_length=50.0), 2.0, "plan dimension", True),
+    (dict(plan_length=50.5), 2.0, "plan dimension", False),
+    (dict(regular=False), 2.0, "regular", False),
+    (dict(fault_distance=15.0), 2.0, "fault", False),
+    (dict(fault_distance=15.5), 2.0, "fault", True),
+    (dict(vertical_stiffness_ratio=150.0), 2.0, "vertical", True),
+    (dict(vertical_stiffness_ratio=149.0), 2.0, "vertical", False),
+])
+def test_eurocode_applicability_boundaries(changes, period, words, passed):
+    report = ec_report(period, **changes)
+    check = [c for c in report.applicability if words in c.name][0]
+    assert check.passed is passed
+    assert report.simplified_permitted is passed
+    if not passed:
+        assert any(words in w and "multimodal or response-history" in w for w in report.warnings)
+
+
+def test_eurocode_corner_distance_and_amplification():
+    # EN 1998-1 §10.9.3 (from memory) [derived]: e_tot = 0.5 + 0.05*30 = 2.0 m, y = 12 m,
+    # r^2 = (900 + 400)/12 = 108.33 m^2, delta = 1 + 2*12/108.33 = 1.22154; gamma_x 1.3 given.
+    report = ec_report(eccentricity=0.5, corner_distance=12.0, displacement_amplification=1.3)
+    delta = 1 + 2.0 * 12.0 / (1300.0 / 12.0)
+    assert report.value("e_tot") == pytest.approx(2.0)
+    assert report.value("delta") == pytest.approx(delta, rel=1e-12)
+    assert report.value("d_d") == pytest.approx(1.3 * delta * report.value("d_dc"), rel=1e-12)
+    # Default y = L/2 + e = 15.5 m.
+    default = ec_report(eccentricity=0.5)
+    assert default.value("delta") == pytest.approx(1 + 2.0 * 15.5 / (1300.0 / 12.0), rel=1e-12)
+
+
+def test_eurocode_isolated_behaviour_factor_divides_the_shear():
+    # EN 1998-1 §10.10(5) (from memory): V_s = V (W_s/W)/q with q <= 1.5 [derived].
+    base = ec_report()
+    reduced = ec_report(isolated_behaviour_factor=1.5)
+    assert reduced.value("V_s") == pytest.approx(base.value("V_s") / 1.5, rel=1e-12)
+    # No fixed-base comparison when T_f exceeds the 4 s of the design spectrum.
+    assert all(i.symbol != "F_b" for i in ec_report(superstructure_period=4.5, period=3.0).quantities)
