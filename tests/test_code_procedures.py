@@ -588,3 +588,64 @@ def test_eurocode_isolated_behaviour_factor_divides_the_shear():
     assert reduced.value("V_s") == pytest.approx(base.value("V_s") / 1.5, rel=1e-12)
     # No fixed-base comparison when T_f exceeds the 4 s of the design spectrum.
     assert all(i.symbol != "F_b" for i in ec_report(superstructure_period=4.5, period=3.0).quantities)
+
+
+# --- ASCE 7 §12.8 fixed-base details ---------------------------------------------------------------
+
+@pytest.mark.parametrize("sd1, cu", [
+    # ASCE/SEI 7-16 Table 12.8-1 (from memory): S_D1 >= 0.4 -> 1.4, 0.3 -> 1.4, 0.2 -> 1.5, 0.15 -> 1.6,
+    # <= 0.1 -> 1.7; linear interpolation between rows.
+    (0.05, 1.7), (0.1, 1.7), (0.125, 1.65), (0.15, 1.6), (0.2, 1.5), (0.25, 1.45), (0.3, 1.4), (0.6, 1.4),
+])
+def test_period_upper_limit_factor_table(sd1, cu):
+    from isolation.fixed_base import period_upper_limit_factor
+    assert period_upper_limit_factor(sd1) == pytest.approx(cu, rel=1e-12)
+
+
+def test_design_values_from_a_tabulated_spectrum():
+    # ASCE/SEI 7-16 §21.4 (from memory): S_DS = 0.9 max Sa over 0.2-5 s and S_D1 = max T Sa over
+    # 1-5 s, at 2/3 of MCE_R. A table of the two-period spectrum S_MS 1.5, S_M1 0.9 (T_S 0.6 s) gives
+    # S_DS = 0.9*2/3*1.5 = 0.9 g and S_D1 = 2/3*0.9 = 0.6 g (T Sa constant on the 1/T branch) [derived].
+    from isolation.fixed_base import design_values
+    from isolation.spectra import TabulatedSpectrum
+    periods = (0.01, 0.12, 0.6, 1.0, 2.0, 5.0, 6.0)
+    values = (0.6, 1.5, 1.5, 0.9, 0.45, 0.18, 0.15)
+    sds, sd1, tl, note = design_values(TabulatedSpectrum(periods, values))
+    assert sds == pytest.approx(0.9, rel=1e-9) and sd1 == pytest.approx(0.6, rel=1e-9)
+    assert tl == 6.0 and "§21.4" in note
+    code = design_values(SPECTRUM)
+    assert code[:3] == (pytest.approx(1.0), pytest.approx(0.6), 8.0) and "§11.4.5" in code[3]
+
+
+def test_response_coefficient_importance_and_floors():
+    from isolation.fixed_base import response_coefficient
+    # ASCE/SEI 7-16 Eqs. 12.8-2, -5, -6 [derived] with S_DS 1.0, S_D1 0.6, I_e 1.5:
+    # T 0.5 s, R 8: C_s = 1.0/(8/1.5) = 0.1875 (Eq. 12.8-3 cap 0.6/(0.5*8/1.5) = 0.225).
+    assert response_coefficient(1.0, 0.6, 0.5, 8.0, 1.5)[0] == pytest.approx(0.1875)
+    # Floor 0.044 S_DS I_e = 0.066 at T 4 s, R 8 (12.8-3 gives 0.6/(4*8/1.5) = 0.028125).
+    cs, governs = response_coefficient(1.0, 0.6, 4.0, 8.0, 1.5)
+    assert cs == pytest.approx(0.066) and "12.8-5" in governs
+    # Absolute floor 0.01 when 0.044 S_DS I_e is smaller: S_DS 0.2 -> 0.0088 < 0.01.
+    assert response_coefficient(0.2, 0.1, 4.0, 8.0, 1.0)[0] == pytest.approx(0.01)
+    # Eq. 12.8-6 only from S_1 = 0.6 g: 0.5*0.6/(8/1.5) = 0.05625 < 0.066 floor here; with R 4:
+    # 0.5*0.6/(4/1.5) = 0.1125 over 12.8-3 0.6/(4*4/1.5) = 0.05625 and the floor 0.066.
+    cs, governs = response_coefficient(1.0, 0.6, 4.0, 4.0, 1.5, s1=0.6)
+    assert cs == pytest.approx(0.1125) and "12.8-6" in governs
+    assert response_coefficient(1.0, 0.6, 4.0, 4.0, 1.5, s1=0.59)[0] == pytest.approx(0.066)
+    # Beyond T_L (Eq. 12.8-4): T 10 s, T_L 8 s, R 1, I_e 1: 0.6*8/100 = 0.048.
+    cs, governs = response_coefficient(1.0, 0.6, 10.0, 1.0, 1.0, 8.0)
+    assert cs == pytest.approx(0.048) and "12.8-4" in governs
+
+
+def test_fixed_base_shear_period_sources():
+    from isolation.fixed_base import fixed_base_shear
+    given = fixed_base_shear(SPECTRUM, 1000.0, 8.0, period=0.3, height=12.0, frame="concrete_moment")
+    assert given.period == 0.3 and given.period_source == "given"
+    assert given.approximate_period == pytest.approx(0.0466 * 12.0**0.9)   # Table 12.8-2
+    estimate = fixed_base_shear(SPECTRUM, 1000.0, 8.0, height=12.0, frame="steel_moment")
+    assert estimate.period == pytest.approx(0.0724 * 12.0**0.8) and "Eq. 12.8-7" in estimate.period_source
+    bare = fixed_base_shear(SPECTRUM, 1000.0, 8.0, period=0.3)
+    assert bare.approximate_period is None and bare.period == 0.3
+    # V = C_s W with C_s = S_DS/(R/I_e) = 1/8 at 0.3 s (plateau).
+    assert bare.base_shear == pytest.approx(125.0) and bare.weight == 1000.0
+    assert (bare.sds, bare.sd1) == (pytest.approx(1.0), pytest.approx(0.6))
