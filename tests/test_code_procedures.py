@@ -649,3 +649,77 @@ def test_fixed_base_shear_period_sources():
     # V = C_s W with C_s = S_DS/(R/I_e) = 1/8 at 0.3 s (plateau).
     assert bare.base_shear == pytest.approx(125.0) and bare.weight == 1000.0
     assert (bare.sds, bare.sd1) == (pytest.approx(1.0), pytest.approx(0.6))
+
+
+def test_every_elf_item_by_hand():
+    # The linear test case [derived]: W 10000 kN, T 3 s, beta 20 % (B_M 1.5, ASCE/SEI 7-16 Table
+    # 17.5-1), S_M1 0.9: k_M = 4 pi^2 W/(g T^2); D_M = g 0.9*3/(4 pi^2 1.5); torsion factor 1.24.
+    report = asce7_elf(sets(), building(), SPECTRUM)
+    k = stiffness_for_period(10000.0, 3.0)
+    d_m = G * 0.9 * 3.0 / (4 * math.pi**2 * 1.5)
+    expected = {
+        "D_M": d_m, "T_M": 3.0, "beta_M": 0.2, "B_M": 1.5, "k_M": k, "e": 2.0, "D_TM": 1.24 * d_m,
+        "moat": 1.24 * d_m + 0.05, "V_b": 2000.0, "V_st": 2000.0 * 0.8**0.5, "R_I": 2.0,
+        "V_s,min,fixed": 800.0, "V_s,min,wind": 500.0, "V_s": 1000.0 * 0.8**0.5, "T_fb": 0.5, "k": 1.4,
+        "F_1": (2000.0 - 2000.0 * 0.8**0.5) / 2.0,
+        # §12.8 fixed base [derived]: C_s = S_DS/(R/I_e) = 1/8 at T 0.5 s (12.8-3: 0.6/(0.5*8) = 0.15).
+        "V_fb": 8000.0 / 8.0, "V_s/V_fb": 1000.0 * 0.8**0.5 / 1000.0,
+    }
+    for symbol, value in expected.items():
+        assert report.value(symbol) == pytest.approx(value, rel=1e-6), symbol
+    units = {i.symbol: i.unit for i in report.quantities}
+    assert units["D_M"] == "m" and units["V_s"] == "kN" and units["k_M"] == "kN/m" and units["T_M"] == "s"
+    sources = {i.symbol: i.source for i in report.quantities}
+    assert "Table 17.5-1" in sources["B_M"] and "Eq. 17.5-1" in sources["D_M"] and "§17.5.4.3" in sources["V_s,min,wind"]
+    assert sources["T_fb"] == "given"
+    names = {i.symbol: i.name for i in report.quantities}
+    assert names["B_M"] == "damping coefficient" and names["V_s"] == "superstructure design shear"
+    with pytest.raises(KeyError, match="'nothing' is not in the report"):
+        report.value("nothing")
+
+
+def test_activation_force_of_a_multilinear_plane():
+    # A linear spring plus an elastic-plastic element (k 20000 kN/m, strength 300 kN): the plane is fully
+    # activated at the element's yield displacement 300/20000 = 0.015 m, where F = (2000 + 20000) 0.015
+    # = 330 kN [derived, parallel springs]. Nominal only: 1.5 x 330 = 495 kN (§17.5.4.3 item 3).
+    from isolation.bearings import MultiLinear
+    plane = MultiLinear(2000.0, (20000.0,), (300.0,))
+    assert activation_force({"nominal": plane})[0] == pytest.approx(1.5 * 330.0, rel=1e-9)
+    # Upper only (no nominal set): the upper-bound force.
+    assert activation_force({"upper": plane})[0] == pytest.approx(330.0, rel=1e-9)
+    # Neither named: the largest over the sets; none with a yield force: None.
+    force, note = activation_force({"a": plane, "b": MultiLinear(2000.0, (20000.0,), (600.0,))})
+    assert force == pytest.approx((2000.0 + 20000.0) * 0.03, rel=1e-9) and "largest" in note
+    assert activation_force({"a": LinearSystem(1000.0, 0.1)}) == (None, "")
+    # Equal forces: 1.5 x nominal counts (the greater-or-equal of the clause).
+    assert "1.5 x nominal" in activation_force({"nominal": bilinear_set(400.0), "upper": bilinear_set(600.0)})[1]
+
+
+@pytest.mark.parametrize("changes, words", [
+    # Brief rule: bad input names the field, the value and what is allowed, with its unit.
+    (dict(floor_elevations=(4.0, 4.0, 12.0)), r"floor_elevations = \[4\.0, 4\.0, 12\.0\] is not allowed: must increase"),
+    (dict(plan_length=-1.0), r"plan_length = -1\.0 is not allowed: .* \[m\]"),
+    (dict(plan_width=0.0), r"plan_width = 0\.0 is not allowed: .* \[m\]"),
+    (dict(response_modification=0.0), r"response_modification = 0\.0 is not allowed: .* \[-\]"),
+    (dict(torsion_period_ratio=0.0), r"torsion_period_ratio = 0\.0 is not allowed: .* \[-\]"),
+    (dict(importance=0.0), r"importance = 0\.0 is not allowed: .* \[-\]"),
+    (dict(eccentricity=-1.0), r"eccentricity = -1\.0 is not allowed: .* \[m\]"),
+    (dict(wind_base_shear=-1.0), r"wind_base_shear = -1\.0 is not allowed: .* \[kN\]"),
+    (dict(s1=-0.1), r"s1 = -0\.1 is not allowed: .* \[g\]"),
+    (dict(corner_distance=-1.0), r"corner_distance = -1\.0 is not allowed: .* \[m\]"),
+    (dict(activation_force=0.0), r"activation_force = 0\.0 is not allowed: .* \[kN\]"),
+    (dict(height=0.0), r"height = 0\.0 is not allowed: .* \[m\]"),
+    (dict(fixed_base_period=0.0), r"fixed_base_period = 0\.0 is not allowed: .* \[s\]"),
+    (dict(frame="timber"), r"frame = 'timber' is not allowed"),
+    (dict(irregular="yes"), r"irregular = 'yes' is not allowed"),
+])
+def test_elf_building_bad_input(changes, words):
+    with pytest.raises(ValueError, match=words):
+        building(**changes)
+
+
+def test_elf_building_keeps_its_values():
+    b = building(floor_weights=(3000, 3000, 2000), floor_elevations=(4, 8, 12), plan_length=40)
+    assert b.floor_weights == (3000.0, 3000.0, 2000.0) and b.floor_elevations == (4.0, 8.0, 12.0)
+    assert b.plan_length == 40.0 and b.weight_above == 8000.0 and b.total_weight == 10000.0
+    assert b.structural_height == 12.0 and building(height=14.0).structural_height == 14.0
