@@ -723,3 +723,53 @@ def test_elf_building_keeps_its_values():
     assert b.floor_weights == (3000.0, 3000.0, 2000.0) and b.floor_elevations == (4.0, 8.0, 12.0)
     assert b.plan_length == 40.0 and b.weight_above == 8000.0 and b.total_weight == 10000.0
     assert b.structural_height == 12.0 and building(height=14.0).structural_height == 14.0
+
+
+def test_three_storey_drift_and_storey_shears_by_hand():
+    # Linear mode shape phi = h/h_top and the generalised SDOF of Chopra (Dynamics of Structures,
+    # generalised single-degree-of-freedom systems) [derived]: k* = omega^2 sum m phi^2,
+    # u_top = sum F phi / k*, storey drift (phi_i - phi_i-1) u_top C_d with C_d = R_I = 2, I_e = 1.0
+    # (ASCE/SEI 7-16 §17.5.6 and §17.2.1, from memory). Forces F_x = C_vx V_s (§17.5.5, from memory).
+    report = asce7_elf(sets(), building(importance=1.25), SPECTRUM)
+    w = [3000.0, 3000.0, 2000.0]
+    h = [4.0, 8.0, 12.0]
+    k_exp = 14 * 0.2 * 0.5
+    v_s = 1000.0 * 0.8**0.5
+    share = [wi * hi**k_exp for wi, hi in zip(w, h)]
+    forces = [v_s * s / sum(share) for s in share]
+    phi = [hi / 12.0 for hi in h]
+    k_star = (2 * math.pi / 0.5) ** 2 * sum(wi / G * p**2 for wi, p in zip(w, phi))
+    u_top = sum(f * p for f, p in zip(forces, phi)) / k_star
+    drifts = [(phi[0] - 0.0) * u_top * 2.0, (phi[1] - phi[0]) * u_top * 2.0, (phi[2] - phi[1]) * u_top * 2.0]
+    shears = [sum(forces), forces[1] + forces[2], forces[2]]
+    for i, storey in enumerate(report.storey_forces):
+        assert storey.level == i + 2 and storey.elevation == h[i] and storey.weight == w[i]
+        assert storey.force == pytest.approx(forces[i], rel=1e-9)
+        assert storey.storey_shear == pytest.approx(shears[i], rel=1e-9)
+        assert storey.drift == pytest.approx(drifts[i], rel=1e-9)
+        assert storey.drift_ratio == pytest.approx(drifts[i] / 4.0, rel=1e-9)
+    worst = max(drifts) / 4.0
+    assert report.checks[0].value == pytest.approx(worst, rel=1e-9) and report.checks[0].passed
+
+
+def test_approximate_fixed_base_period_and_comparison():
+    # T_fb = T_a = C_t h^x for steel moment frames, 0.0724 x 12^0.8 (ASCE/SEI 7-16 Table 12.8-2, SI).
+    report = asce7_elf(sets(), building(fixed_base_period=None, frame="steel_moment"), SPECTRUM)
+    t_a = 0.0724 * 12.0**0.8
+    assert report.value("T_fb") == pytest.approx(t_a, rel=1e-12)
+    assert "Eq. 12.8-7" in [i.source for i in report.quantities if i.symbol == "T_fb"][0]
+    assert report.fixed_base.period == pytest.approx(t_a, rel=1e-12)
+    # A given T_fb above C_u T_a is capped for the comparison (§12.8.2; C_u 1.4 at S_D1 0.6, from memory).
+    capped = asce7_elf(sets(), building(fixed_base_period=1.0, frame="steel_moment"), SPECTRUM)
+    assert capped.fixed_base.period == pytest.approx(1.4 * t_a, rel=1e-12)
+    assert capped.value("T_fb") == 1.0   # the report's own T_fb stays the given one
+
+
+def test_damping_rule_reaches_the_design():
+    # rule="eurocode": eta = sqrt(10/(5 + 20)) (EN 1998-1 Eq. 3.6) in place of B_M 1.5: D_M scales by
+    # 1.5 * sqrt(0.4) = 0.9487 [derived].
+    asce = asce7_elf(sets(), building(), SPECTRUM)
+    ec = asce7_elf(sets(), building(), SPECTRUM, rule="eurocode")
+    assert ec.value("D_M") == pytest.approx(asce.value("D_M") * 1.5 * math.sqrt(0.4), rel=1e-6)
+    assert "Table 17.5-1" in [i.source for i in asce.quantities if i.symbol == "B_M"][0]
+    assert [i.source for i in ec.quantities if i.symbol == "B_M"][0] == "eurocode"
