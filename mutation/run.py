@@ -12,6 +12,7 @@ Not part of CI: a full pass over the core takes hours. Usage::
     python -m mutation                    # every module in MODULES, in order
     python -m mutation design_asce7 spectra
     python -m mutation --list             # the module -> tests map
+    python -m mutation --survivors design_asce7   # survivors again, after new tests
 
 mutmut (PyPI, ``pip install -e .[mutation]``) generates the mutants and runs pytest.
 """
@@ -187,17 +188,43 @@ def summarise(module: str, folder: Path) -> dict:
     return counts
 
 
+def recheck(module: str, max_children: int = 1) -> int:
+    """Run the surviving mutants of an earlier run again against the current tests."""
+    folder = SCRATCH / module.replace("/", "_")
+    meta = folder / "mutants" / "isolation" / f"{module}.py.meta"
+    if not meta.exists():
+        return run(module, max_children)
+    codes = json.loads(meta.read_text(encoding="utf-8")).get("exit_code_by_key", {})
+    names = [name for name, code in codes.items() if code in (0, None)]
+    for target in (folder / "tests", folder / "mutants" / "tests"):
+        if target.exists():
+            shutil.rmtree(target)
+        shutil.copytree(ROOT / "tests", target, ignore=shutil.ignore_patterns("__pycache__", "*.pyc"))
+    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1")
+    print(f"== {module}: {len(names)} surviving or unchecked mutants again in {folder}", flush=True)
+    code = 0
+    for start in range(0, len(names), 200):
+        code = max(code, subprocess.call([sys.executable, "-m", "mutmut", "run", "--max-children", str(max_children)]
+                                         + names[start:start + 200], cwd=folder, env=env,
+                                         stdout=subprocess.DEVNULL))
+    summarise(module, folder)
+    return code
+
+
 def main(argv=None) -> int:
     parser = argparse.ArgumentParser(prog="python -m mutation", description=__doc__.split("\n\n")[0])
     parser.add_argument("modules", nargs="*", help="modules of isolation/ (default: all of MODULES)")
     parser.add_argument("--list", action="store_true", help="show the module -> tests map and stop")
     parser.add_argument("--max-children", type=int, default=1, help="parallel mutant runs (default 1)")
+    parser.add_argument("--survivors", action="store_true",
+                        help="only run the survivors of the last run again, against the current tests")
     args = parser.parse_args(argv)
     if args.list:
         for module, tests in MODULES.items():
             print(f"{module}: {' '.join(tests)}")
         return 0
-    codes = [run(m, args.max_children) for m in (args.modules or list(MODULES))]
+    step = recheck if args.survivors else run
+    codes = [step(m, args.max_children) for m in (args.modules or list(MODULES))]
     return max(codes, default=0)
 
 
