@@ -773,3 +773,40 @@ def test_damping_rule_reaches_the_design():
     assert ec.value("D_M") == pytest.approx(asce.value("D_M") * 1.5 * math.sqrt(0.4), rel=1e-6)
     assert "Table 17.5-1" in [i.source for i in asce.quantities if i.symbol == "B_M"][0]
     assert [i.source for i in ec.quantities if i.symbol == "B_M"][0] == "eurocode"
+
+
+def test_applicability_checks_quote_value_limit_and_source():
+    # ASCE/SEI 7-16 §17.4.1 (from memory) limits: site class A-D, 4 storeys, 19.8 m, T_M 5 s,
+    # T_M > 3 T, beta_M 30 %, no barred irregularity; §17.2.4.4 restoring force 0.025 W.
+    report = asce7_elf(sets(), building(), SPECTRUM)
+    by_name = {c.name.split(",")[0].split(" (")[0]: c for c in report.applicability}
+    site = [c for c in report.applicability if c.name.startswith("site class")][0]
+    assert (site.value, site.limit, site.passed) == (3.0, 3.0, True)   # D is the fourth class
+    expected = {"storeys above the isolation interface": (3.0, 4.0), "height above the isolation interface": (12.0, 19.8),
+                "longest effective period T_M": (3.0, 5.0), "shortest T_M over 3 T_fb": (6.0, 3.0),
+                "largest effective damping beta_M": (0.2, 0.30)}
+    for name, (value, limit) in expected.items():
+        check = by_name[name]
+        assert check.value == pytest.approx(value) and check.limit == pytest.approx(limit), name
+        assert "§17.4.1" in check.source
+    irregular = asce7_elf(sets(), building(irregular=True), SPECTRUM)
+    barred = [c for c in irregular.applicability if "irregularity" in c.name][0]
+    assert (barred.value, barred.limit, barred.passed) == (1.0, 0.0, False)
+
+
+def test_stiffness_ratio_and_restoring_force_of_a_bilinear_plane():
+    # Bilinear plane [derived]: k_eff(D) = K_d + Q_d/D beyond yield; the ratio k_eff(D)/k_eff(0.2 D) and
+    # the restoring force (F(D) - F(D/2))/W = K_d (D/2)/W (ASCE/SEI 7-16 §17.4.1 item 7, §17.2.4.4,
+    # from memory). K_d = W/(g T_d^2/(4 pi^2)) for T_d 4 s, Q_d = 0.05 W, K_u = 50 K_d.
+    w = 10000.0
+    kd = stiffness_for_period(w, 4.0)
+    plane = Bilinear(50 * kd, kd, 0.05 * w)
+    report = asce7_elf({"lower": plane, "upper": plane}, building(), CodeSpectrum(1.5, 0.9, max_period=10.0))
+    d = report.value("D_M")
+    ratio = [c for c in report.applicability if c.name.startswith("k_eff(D_M)/k_eff(0.2 D_M), lower")][0]
+    assert ratio.value == pytest.approx((kd + 0.05 * w / d) / (kd + 0.05 * w / (0.2 * d)), rel=1e-9)
+    assert ratio.limit == pytest.approx(1 / 3) and ratio.passed is (ratio.value > 1 / 3)
+    restoring = [c for c in report.applicability if c.name.startswith("restoring force") and "lower" in c.name][0]
+    assert restoring.value == pytest.approx(kd * d / 2 / w, rel=1e-9)
+    assert restoring.limit == 0.025 and "§17.2.4.4" in restoring.source
+    assert restoring.passed is (kd * d / 2 / w >= 0.025)
