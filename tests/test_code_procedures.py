@@ -810,3 +810,59 @@ def test_stiffness_ratio_and_restoring_force_of_a_bilinear_plane():
     assert restoring.value == pytest.approx(kd * d / 2 / w, rel=1e-9)
     assert restoring.limit == 0.025 and "§17.2.4.4" in restoring.source
     assert restoring.passed is (kd * d / 2 / w >= 0.025)
+
+
+def test_response_coefficient_defaults_and_long_period_branch():
+    from isolation.fixed_base import response_coefficient
+    # Defaults I_e = 1.0 and T_L = 8 s (ASCE/SEI 7-16 §12.8.1.1) [derived]: T 10 s, R 1:
+    # Eq. 12.8-4 0.6*8/10^2 = 0.048 (floor 0.044).
+    assert response_coefficient(1.0, 0.6, 10.0, 1.0)[0] == pytest.approx(0.048)
+    # Eq. 12.8-4 with R/I_e = 2: 0.6*8/(100*2) = 0.024 above the 0.01 floor (S_DS 0.2 -> 0.0088).
+    assert response_coefficient(0.2, 0.6, 10.0, 2.0)[0] == pytest.approx(0.024)
+    # At T = T_L Eq. 12.8-3 still applies (12.8-4 from T > T_L): 0.6/(8*1) = 0.075.
+    cs, governs = response_coefficient(1.0, 0.6, 8.0, 1.0)
+    assert cs == pytest.approx(0.075) and "12.8-3" in governs
+
+
+def test_fixed_base_shear_passes_s1_and_reports_its_coefficient():
+    from isolation.fixed_base import fixed_base_shear
+    # S_1 0.7 g, R 4, I_e 1, T 3 s [derived]: 12.8-3 0.6/(3*4) = 0.05; 12.8-6 0.5*0.7/4 = 0.0875 governs.
+    shear = fixed_base_shear(SPECTRUM, 1000.0, 4.0, period=3.0, s1=0.7)
+    assert shear.response_coefficient == pytest.approx(0.0875) and "12.8-6" in shear.governs
+    assert shear.base_shear == pytest.approx(87.5) and "§11.4.5" in shear.source
+    # Without S_1 the default 0 keeps Eq. 12.8-6 out.
+    assert fixed_base_shear(SPECTRUM, 1000.0, 4.0, period=3.0).response_coefficient == pytest.approx(0.05)
+
+
+class ShortSpectrum:
+    """Test double: Sa = 1.2 g flat up to 0.8 s, with a long_period attribute but no S_DS/S_D1."""
+
+    long_period = 8.0
+    period_range = (0.0, 0.8)
+
+    def sa(self, periods, damping=0.05):
+        import numpy as np
+        return np.full_like(np.asarray(periods, dtype=float), 1.2)
+
+
+class RisingSpectrum(ShortSpectrum):
+    """Test double: Sa = 0.1 T g up to 6 s (T Sa = 0.1 T^2 grows to the end of the range)."""
+
+    period_range = (0.0, 6.0)
+
+    def sa(self, periods, damping=0.05):
+        import numpy as np
+        return 0.1 * np.asarray(periods, dtype=float)
+
+
+def test_design_values_ranges():
+    from isolation.fixed_base import design_values
+    # ASCE/SEI 7-16 §21.4 style (from memory): windows 0.2-5 s for S_DS and 1-5 s for S_D1, within the
+    # spectrum's range [derived]. Rising Sa = 0.1 T: max Sa over 0.2-5 s is 0.5 g -> S_DS = 0.9*2/3*0.5
+    # = 0.3 g; max T Sa over 1-5 s is 2.5 -> S_D1 = 2/3*2.5 = 1.6667 g; T_L = end of range 6 s.
+    sds, sd1, tl, _ = design_values(RisingSpectrum())
+    assert sds == pytest.approx(0.3, rel=1e-9) and sd1 == pytest.approx(2.5 * 2 / 3, rel=1e-9) and tl == 6.0
+    # A range ending at 0.8 s: the 1 s window collapses to 0.8 s: S_D1 = 2/3*0.8*1.2 = 0.64 g; S_DS =
+    # 0.9*2/3*1.2 = 0.72 g (an object with long_period alone is not a code spectrum).
+    sds, sd1, tl, _ = design_values(ShortSpectrum())
+    assert sds == pytest.approx(0.72, rel=1e-9) and sd1 == pytest.approx(0.64, rel=1e-9) and tl == 0.8
