@@ -866,3 +866,59 @@ def test_design_values_ranges():
     # 0.9*2/3*1.2 = 0.72 g (an object with long_period alone is not a code spectrum).
     sds, sd1, tl, _ = design_values(ShortSpectrum())
     assert sds == pytest.approx(0.72, rel=1e-9) and sd1 == pytest.approx(0.64, rel=1e-9) and tl == 0.8
+
+
+def test_every_eurocode_item_by_hand():
+    # EN 1998-1 §10.9 (from memory) on the linear case [derived]: W 10000 kN, W_s 7000 kN, T_eff 2.0 s,
+    # xi 20 %, ground C type 1, a_g 0.3 g: Se = 0.163654 g, d_dc = g Se T^2/(4 pi^2), K = 4 pi^2 W/(g T^2).
+    se = 2.5 * 0.3 * 1.15 * math.sqrt(0.4) * 0.6 / 2.0
+    report = ec_report(superstructure_weight=7000.0, behaviour_factor=3.9)
+    d_dc = G * se * 4.0 / (4 * math.pi**2)
+    delta = 1 + 1.5 * 15.0 / (1300.0 / 12.0)
+    expected = {"d_dc": d_dc, "T_eff": 2.0, "xi_eff": 0.2, "eta": math.sqrt(0.4),
+                "K_eff,min": stiffness_for_period(10000.0, 2.0), "e_tot": 1.5, "delta": delta, "gamma_x": 1.2,
+                "d_d": 1.2 * delta * d_dc, "V": 10000.0 * se, "V_s": 7000.0 * se,
+                "F_b": 0.3 * 1.15 * 2.5 / 3.9 * 7000.0 * 0.85}
+    for symbol, value in expected.items():
+        assert report.value(symbol) == pytest.approx(value, rel=1e-5), symbol
+    units = {i.symbol: i.unit for i in report.quantities}
+    assert (units["d_dc"], units["V"], units["K_eff,min"], units["T_eff"]) == ("m", "kN", "kN/m", "s")
+    sources = {i.symbol: i.source for i in report.quantities}
+    assert "§10.9.2" in sources["d_dc"] and "Eq. 3.6" in sources["eta"] and "§10.10(5)" in sources["V_s"]
+    assert "Eq. 4.5" in sources["F_b"] and "§4.3.2" in sources["e_tot"]
+    with pytest.raises(KeyError, match="'nothing' is not in the report"):
+        report.value("nothing")
+    data = report.to_dict()
+    assert data["building"]["superstructure_weight"] == 7000.0 and data["simplified_permitted"] is True
+
+
+@pytest.mark.parametrize("changes, words", [
+    (dict(weight=0.0), r"weight = 0\.0 is not allowed: .* \[kN\]"),
+    (dict(superstructure_period=0.0), r"superstructure_period = 0\.0 is not allowed: .* \[s\]"),
+    (dict(plan_length=-1.0), r"plan_length = -1\.0 is not allowed: .* \[m\]"),
+    (dict(plan_width=0.0), r"plan_width = 0\.0 is not allowed: .* \[m\]"),
+    (dict(eccentricity=-1.0), r"eccentricity = -1\.0 is not allowed: .* \[m\]"),
+    (dict(corner_distance=-1.0), r"corner_distance = -1\.0 is not allowed: .* \[m\]"),
+    (dict(fault_distance=-1.0), r"fault_distance = -1\.0 is not allowed: .* \[km\]"),
+    (dict(vertical_stiffness_ratio=-1.0), r"vertical_stiffness_ratio = -1\.0 is not allowed: .* \[-\]"),
+    (dict(behaviour_factor=0.5), r"behaviour_factor = 0\.5 is not allowed: .* \[-\]"),
+    (dict(displacement_amplification=0.9), r"displacement_amplification = 0\.9 is not allowed: .* \[-\]"),
+    (dict(storeys=True), r"storeys = True is not allowed: must be an integer >= 1"),
+    (dict(regular="yes"), r"regular = 'yes' is not allowed"),
+    (dict(superstructure_weight=0.0), r"superstructure_weight = 0\.0 is not allowed: .* \[kN\]"),
+])
+def test_eurocode_building_bad_input(changes, words):
+    data = dict(weight=10000.0, superstructure_period=0.4, plan_length=30.0, plan_width=20.0)
+    data.update(changes)
+    with pytest.raises(ValueError, match=words):
+        EurocodeBuilding(**data)
+
+
+def test_eurocode_building_keeps_its_values():
+    b = EurocodeBuilding(10000, 0.4, 30, 20, eccentricity=1, corner_distance=12, fault_distance=20,
+                         vertical_stiffness_ratio=300, superstructure_weight=8000)
+    assert (b.weight, b.superstructure_period, b.plan_length, b.plan_width) == (10000.0, 0.4, 30.0, 20.0)
+    assert (b.eccentricity, b.corner_distance, b.fault_distance, b.vertical_stiffness_ratio) == (1.0, 12.0, 20.0, 300.0)
+    assert b.weight_above == 8000.0 and EurocodeBuilding(10000, 0.4, 30, 20).weight_above == 10000.0
+    with pytest.raises(ValueError, match="must be a EurocodeBuilding"):
+        eurocode_simplified(sets(), "building", EurocodeSpectrum(0.3, "C"))
