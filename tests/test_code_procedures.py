@@ -922,3 +922,24 @@ def test_eurocode_building_keeps_its_values():
     assert b.weight_above == 8000.0 and EurocodeBuilding(10000, 0.4, 30, 20).weight_above == 10000.0
     with pytest.raises(ValueError, match="must be a EurocodeBuilding"):
         eurocode_simplified(sets(), "building", EurocodeSpectrum(0.3, "C"))
+
+
+def test_eurocode_design_spectrum_ranges():
+    # EN 1998-1 §3.2.2.5 covers 0-4 s (the elastic spectrum's range, §3.2.2.2); q >= 1 here up to 10.
+    from isolation.design_eurocode import eurocode_approximate_period, eurocode_design_spectrum, eurocode_fixed_base_shear
+    spectrum = EurocodeSpectrum(0.3, "C")
+    assert eurocode_design_spectrum(spectrum, 4.0, 10.0) == pytest.approx(0.06)
+    with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed: .* \[s\]"):
+        eurocode_design_spectrum(spectrum, 4.5, 3.0)
+    with pytest.raises(ValueError, match=r"behaviour_factor = 10\.5 is not allowed: .* \[-\]"):
+        eurocode_design_spectrum(spectrum, 1.0, 10.5)
+    with pytest.raises(ValueError, match=r"spectrum = CodeSpectrum is not allowed"):
+        eurocode_design_spectrum(SPECTRUM, 1.0, 3.0)
+    with pytest.raises(ValueError, match=r"period = 0\.0 is not allowed: .* \[s\]"):
+        eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 0.0, 3)
+    with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed"):
+        eurocode_fixed_base_shear(spectrum, 1000.0, 3.0, 4.5, 3)
+    with pytest.raises(ValueError, match=r"frame = 'timber' is not allowed"):
+        eurocode_approximate_period(10.0, "timber")
+    # T_f = 4.0 s still gets the fixed-base comparison (the design spectrum reaches 4 s).
+    assert any(i.symbol == "F_b" for i in ec_report(superstructure_period=4.0, period=3.0).quantities)
