@@ -43,7 +43,7 @@ MODULES: dict[str, tuple[str, ...]] = {
     "verdict_site": ("tests/test_verdict.py",),
     "verdict_sources": ("tests/test_verdict.py", "tests/test_code_procedures.py"),
     "overturning": ("tests/test_code_procedures.py",),
-    "spectra": ("tests/test_spectra.py", "tests/test_design.py"),
+    "spectra": ("tests/test_spectra.py", "tests/test_design.py", "tests/test_code_procedures.py"),
     "damping": ("tests/test_spectra.py", "tests/test_design.py"),
     "design": ("tests/test_design.py", "tests/test_code_procedures.py"),
     "bearings/backbone": ("tests/test_backbone.py", "tests/test_bearings_system.py"),

@@ -7,6 +7,8 @@ has no single source.
 """
 
 import math
+
+import numpy as np
 from pathlib import Path
 
 import pytest
@@ -943,3 +945,37 @@ def test_eurocode_design_spectrum_ranges():
         eurocode_approximate_period(10.0, "timber")
     # T_f = 4.0 s still gets the fixed-base comparison (the design spectrum reaches 4 s).
     assert any(i.symbol == "F_b" for i in ec_report(superstructure_period=4.0, period=3.0).quantities)
+
+
+# --- site spectra: damping rule, design level, construction ------------------------------------------
+
+def test_spectrum_damping_rule_per_call():
+    # ASCE/SEI 7-16 Table 17.5-1: B 1.5 at 20 %; EN 1998-1 Eq. 3.6: eta = sqrt(10/(5 + 20)) [derived].
+    # S_M1 0.9 at 3 s: Sa(5 %) = 0.3 g.
+    spectrum = CodeSpectrum(1.5, 0.9)
+    assert spectrum.sa(3.0, 0.2) == pytest.approx(0.2, rel=1e-12)
+    assert spectrum.sa(3.0, 0.2, rule="eurocode") == pytest.approx(0.3 * math.sqrt(0.4), rel=1e-12)
+    assert CodeSpectrum(1.5, 0.9, rule="eurocode").sa(3.0, 0.2) == pytest.approx(0.3 * math.sqrt(0.4), rel=1e-12)
+    # S_d = g Sa T^2/(4 pi^2) with the same rule.
+    assert spectrum.sd(3.0, 0.2, rule="eurocode") == pytest.approx(G * 0.3 * math.sqrt(0.4) * 9 / (4 * math.pi**2),
+                                                                rel=1e-12)
+    with pytest.raises(ValueError, match=r"rule = 'nzs' is not allowed"):
+        spectrum.sa(3.0, 0.2, rule="nzs")
+    assert isinstance(spectrum.sa([1, 2]), np.ndarray) and spectrum.sa([1, 2]).dtype == float
+
+
+def test_spectrum_from_design_values_and_design_level():
+    # ASCE/SEI 7-16 §11.4.5: S_DS = 2/3 S_MS, S_D1 = 2/3 S_M1, so S_MS = 1.5 S_DS [derived].
+    spectrum = CodeSpectrum.from_design_values(1.0, 0.6)
+    assert (spectrum.sms, spectrum.sm1, spectrum.long_period) == (pytest.approx(1.5), pytest.approx(0.9), 8.0)
+    other = CodeSpectrum.from_design_values(0.8, 0.4, 6.0, rule="eurocode")
+    assert (other.sms, other.long_period, other.rule) == (pytest.approx(1.2), 6.0, "eurocode")
+    design = CodeSpectrum(1.5, 0.9, rule="eurocode").design()
+    assert design.rule == "eurocode" and design.sa(3.0) == pytest.approx(0.2, rel=1e-12)   # 2/3 of 0.3 g
+    # T_L must exceed T_S = S_M1/S_MS (the two-period spectrum needs a 1/T branch).
+    with pytest.raises(ValueError, match="long_period"):
+        CodeSpectrum(1.0, 0.6, long_period=0.6)
+    with pytest.raises(ValueError, match=r"level = 'service' is not allowed"):
+        CodeSpectrum(1.0, 0.6, level="service")
+    with pytest.raises(ValueError, match=r"rule = 'nzs' is not allowed"):
+        CodeSpectrum(1.0, 0.6, rule="nzs")
