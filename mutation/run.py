@@ -200,6 +200,7 @@ def recheck(module: str, max_children: int = 1) -> int:
         if target.exists():
             shutil.rmtree(target)
         shutil.copytree(ROOT / "tests", target, ignore=shutil.ignore_patterns("__pycache__", "*.pyc"))
+    (folder / "setup.cfg").write_text(_config(module, MODULES[module]), encoding="utf-8")
     env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1")
     print(f"== {module}: {len(names)} surviving or unchecked mutants again in {folder}", flush=True)
     code = 0
