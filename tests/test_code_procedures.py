@@ -979,3 +979,19 @@ def test_spectrum_from_design_values_and_design_level():
         CodeSpectrum(1.0, 0.6, level="service")
     with pytest.raises(ValueError, match=r"rule = 'nzs' is not allowed"):
         CodeSpectrum(1.0, 0.6, rule="nzs")
+
+
+def test_elf_item_notes_say_what_governs():
+    # D_TM note: the 1.15 D_M floor (ASCE/SEI 7-16 §17.5.3.3) or the corner distance and P_T used.
+    floor = asce7_elf(sets(), building(plan_length=10.0, plan_width=10.0, corner_distance=1.0), SPECTRUM)
+    notes = {i.symbol: i.note for i in floor.quantities}
+    sources = {i.symbol: i.source for i in floor.quantities}
+    assert notes["D_TM"] == "1.15 D_M floor governs"
+    assert "§17.2" in sources["moat"] and "0.05 m clearance" in notes["moat"]
+    torsion = asce7_elf(sets(), building(), SPECTRUM)
+    assert "y = 20 m, P_T = 1" in {i.symbol: i.note for i in torsion.quantities}["D_TM"]
+    # The V_st exponent note appears only for sliding systems.
+    other = {i.symbol: i.source for i in torsion.quantities}["V_st"]
+    assert "1 - 2.5 beta_M" in other and "3.5" not in other
+    governs = {i.symbol: i.note for i in torsion.quantities}["V_s"]
+    assert governs == "governed by V_st/R_I"
