@@ -211,6 +211,7 @@ def test_eurocode_equivalent_linear_exclusion_says_response_history():
     # and modal analyses are both excluded; the other §10.9.2 limits leave the modal analysis open.
     excluded = v.elf_applicability(False, ("largest effective damping xi_eff (§10.9.1(5))",), basis="eurocode")
     assert "excluded altogether" in excluded.message and "response-history analysis is required" in excluded.message
+    assert "EN 1998-1" in excluded.source and excluded.level == "note"
     other = v.elf_applicability(False, ("largest plan dimension",), basis="eurocode")
     assert "excluded" not in other.message
 
