@@ -995,3 +995,34 @@ def test_elf_item_notes_say_what_governs():
     assert "1 - 2.5 beta_M" in other and "3.5" not in other
     governs = {i.symbol: i.note for i in torsion.quantities}["V_s"]
     assert governs == "governed by V_st/R_I"
+
+
+@pytest.mark.parametrize("period, expected", [
+    # ASCE/SEI 7-16 Eq. 12.8-6 applies only where it exceeds the other C_s [derived], S_DS 1.0, S_D1 0.6,
+    # S_1 0.6 g, R 4, I_e 1.5 (R/I_e = 2.667): 0.5 S_1/(R/I_e) = 0.1125.
+    (0.5, 1.0 / (4.0 / 1.5)),             # plateau 0.375 stays
+    (1.5, 0.6 / (1.5 * 4.0 / 1.5)),       # Eq. 12.8-3 0.15 stays
+    (4.0, 0.5 * 0.6 / (4.0 / 1.5)),       # 12.8-3 0.05625 and floor 0.066 are raised to 0.1125
+])
+def test_eq_12_8_6_only_raises(period, expected):
+    from isolation.fixed_base import response_coefficient
+    assert response_coefficient(1.0, 0.6, period, 4.0, 1.5, s1=0.6)[0] == pytest.approx(expected, rel=1e-12)
+
+
+class HalfCodeSpectrum(ShortSpectrum):
+    """Test double: has S_D1 and T_L but no S_DS, so it is read from its curve; Sa = 1/T^2 g."""
+
+    sd1 = 0.5
+    period_range = (0.0, 6.0)
+
+    def sa(self, periods, damping=0.05):
+        import numpy as np
+        return 1.0 / np.asarray(periods, dtype=float) ** 2
+
+
+def test_design_values_of_a_partial_spectrum():
+    # Only an object with S_DS, S_D1 and T_L is taken as a code spectrum. Sa = 1/T^2: T Sa = 1/T peaks at
+    # the start of the 1-5 s window: S_D1 = 2/3*1 = 0.6667 g; S_DS = 0.9*2/3*Sa(0.2) = 0.6*25 = 15 g [derived].
+    from isolation.fixed_base import design_values
+    sds, sd1, tl, _ = design_values(HalfCodeSpectrum())
+    assert sd1 == pytest.approx(2 / 3, rel=1e-9) and sds == pytest.approx(15.0, rel=1e-9) and tl == 6.0
