@@ -1026,3 +1026,35 @@ def test_design_values_of_a_partial_spectrum():
     from isolation.fixed_base import design_values
     sds, sd1, tl, _ = design_values(HalfCodeSpectrum())
     assert sd1 == pytest.approx(2 / 3, rel=1e-9) and sds == pytest.approx(15.0, rel=1e-9) and tl == 6.0
+
+
+def test_eurocode_checks_quote_value_limit_and_source():
+    # EN 1998-1 §10.9.2 / §10.9.1(5) limits (from memory): T_eff >= 3 T_f, T_eff <= 3 s, xi <= 30 %,
+    # L <= 50 m, regular, > 15 km from a fault, K_v/K_eff >= 150, K ratio >= 0.5, restoring 0.025 W.
+    report = ec_report(fault_distance=20.0, vertical_stiffness_ratio=200.0)
+    checks = {c.name.split(" (")[0].split(",")[0]: c for c in report.applicability}
+    expected = {"shortest T_eff over the superstructure period T_f": (5.0, 3.0, "§10.9.2"),
+                "longest effective period T_eff": (2.0, 3.0, "§10.9.2"),
+                "largest effective damping xi_eff": (0.2, 0.30, "§10.9.1(5)"),
+                "largest plan dimension": (30.0, 50.0, "§10.9.2"),
+                "superstructure regular and symmetric": (1.0, 1.0, "§10.9.2"),
+                "distance to an active fault": (20.0, 15.0, "§10.9.2"),
+                "vertical over effective horizontal stiffness": (200.0, 150.0, "§10.9.2")}
+    for name, (value, limit, clause) in expected.items():
+        check = checks[name]
+        assert check.value == pytest.approx(value) and check.limit == pytest.approx(limit), name
+        assert clause in check.source and check.passed, name
+    # Bilinear plane [derived]: K ratio (K_d + Q_d/d)/(K_d + Q_d/(0.2 d)); restoring K_d (d/2)/W.
+    w = 10000.0
+    kd = stiffness_for_period(w, 4.0)
+    plane = Bilinear(50 * kd, kd, 0.05 * w)
+    bilinear = eurocode_simplified({"lower": plane, "upper": plane}, EurocodeBuilding(w, 0.4, 30.0, 20.0),
+                                   EurocodeSpectrum(0.3, "C", max_period=10.0))
+    d = bilinear.value("d_dc")
+    ratio = [c for c in bilinear.applicability if c.name.startswith("K_eff(d_dc)/K_eff(0.2 d_dc), lower")][0]
+    assert ratio.value == pytest.approx((kd + 0.05 * w / d) / (kd + 0.05 * w / (0.2 * d)), rel=1e-9)
+    assert ratio.limit == 0.5 and ratio.passed is (ratio.value >= 0.5) and "§10.9.1(5)" in ratio.source
+    restoring = [c for c in bilinear.applicability if c.name.startswith("restoring") and "lower" in c.name][0]
+    assert restoring.value == pytest.approx(kd * d / 2 / w, rel=1e-9) and restoring.limit == 0.025
+    assert restoring.passed is (restoring.value >= 0.025)
+    assert bilinear.bounds is not None and bilinear.building.weight == w
