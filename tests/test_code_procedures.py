@@ -1058,3 +1058,19 @@ def test_eurocode_checks_quote_value_limit_and_source():
     assert restoring.value == pytest.approx(kd * d / 2 / w, rel=1e-9) and restoring.limit == 0.025
     assert restoring.passed is (restoring.value >= 0.025)
     assert bilinear.bounds is not None and bilinear.building.weight == w
+
+
+def test_eurocode_spectrum_with_another_damping_rule():
+    # EN 1998-1 §3.2.2.2 Type 1 ground C at 1.0 s (T_C 0.6 <= T <= T_D 2.0): Sa(5 %) = 2.5 a_g S T_C/T
+    # = 2.5*0.3*1.15*0.6 = 0.5175 g; with the ASCE 7 rule at 20 % divided by B 1.5 (Table 17.5-1),
+    # with its own rule multiplied by eta = sqrt(10/25) (Eq. 3.6) [derived].
+    spectrum = EurocodeSpectrum(0.3, "C")
+    assert spectrum.sa(1.0, 0.2, rule="asce7") == pytest.approx(0.5175 / 1.5, rel=1e-12)
+    assert spectrum.sa(1.0, 0.2) == pytest.approx(0.5175 * math.sqrt(0.4), rel=1e-12)
+    assert EurocodeSpectrum(0.3, "C", rule="asce7").sa(1.0, 0.2) == pytest.approx(0.5175 / 1.5, rel=1e-12)
+    with pytest.raises(ValueError, match=r"rule = 'nzs' is not allowed"):
+        spectrum.sa(1.0, 0.2, rule="nzs")
+    for kwargs, field in ((dict(ground="F"), "ground = 'F'"), (dict(spectrum_type=3), "spectrum_type = 3"),
+                          (dict(rule="nzs"), "rule = 'nzs'")):
+        with pytest.raises(ValueError, match=field):
+            EurocodeSpectrum(0.3, **kwargs)
