@@ -1074,3 +1074,18 @@ def test_eurocode_spectrum_with_another_damping_rule():
                           (dict(rule="nzs"), "rule = 'nzs'")):
         with pytest.raises(ValueError, match=field):
             EurocodeSpectrum(0.3, **kwargs)
+
+
+def test_drift_estimate_beyond_the_limit_warns():
+    # A flexible superstructure [derived]: one 4 m storey with T_fb 3.0 s: u = V_s/(omega^2 W_s/g),
+    # drift ratio 2 u/4 m far above 0.015 (ASCE/SEI 7-16 §17.5.6, from memory).
+    soft = asce7_elf(sets(), building(floor_weights=(8000.0,), floor_elevations=(4.0,), fixed_base_period=3.0),
+                     SPECTRUM)
+    u = soft.value("V_s") / ((2 * math.pi / 3.0) ** 2 * 8000.0 / G)
+    assert 2 * u / 4.0 > 0.015
+    assert not soft.checks[0].passed
+    assert any("drift" in w and "stiffen the superstructure" in w and "0.015" in w for w in soft.warnings)
+    # The sources of the applicability checks name their clause.
+    report = asce7_elf(sets(), building(irregular=True), SPECTRUM)
+    for check in report.applicability:
+        assert "ASCE/SEI 7-16" in check.source and ("§17.4.1" in check.source or "§17.2.4.4" in check.source)
