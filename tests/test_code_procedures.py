@@ -1089,3 +1089,35 @@ def test_drift_estimate_beyond_the_limit_warns():
     report = asce7_elf(sets(), building(irregular=True), SPECTRUM)
     for check in report.applicability:
         assert "ASCE/SEI 7-16" in check.source and ("§17.4.1" in check.source or "§17.2.4.4" in check.source)
+
+
+@pytest.mark.parametrize("periods, words", [
+    # A spectrum table needs increasing periods from T >= 0 (only the first may be 0), two or more rows.
+    ((1.0,), r"periods = \(1\.0,\) is not allowed: must be a list of at least 2 periods"),
+    ((-0.1, 1.0), r"periods = \[-0\.1, 1\.0\] is not allowed: must be >= 0"),
+    ((0.0, 0.0, 1.0), r"periods = \[0\.0, 0\.0, 1\.0\] is not allowed: must be >= 0 \(only the first may be 0\)"),
+    ((0.5, 0.5, 1.0), r"periods\[1\] = 0\.5 is not allowed: must be strictly increasing \(previous 0\.5\)"),
+    ((0.5, 1.0, 0.9), r"periods\[2\] = 0\.9 is not allowed: must be strictly increasing \(previous 1\.0\)"),
+])
+def test_tabulated_spectrum_table_checks(periods, words):
+    from isolation.spectra import TabulatedSpectrum
+    with pytest.raises(ValueError, match=words):
+        TabulatedSpectrum(periods, tuple(1.0 for _ in periods))
+
+
+def test_tabulated_spectrum_damping_and_interpolation():
+    from isolation.spectra import TabulatedSpectrum
+    # A table from T = 0: linear between the first two rows below the first positive period, log-log
+    # above (the module's documented interpolation) [derived]: Sa(0.05) = 0.4 + (1.0 - 0.4)*0.05/0.1 = 0.7;
+    # at a table row the value itself.
+    table = TabulatedSpectrum((0.0, 0.1, 1.0), (0.4, 1.0, 0.5))
+    assert table.sa(0.05) == pytest.approx(0.7, rel=1e-12) and table.sa(0.1) == pytest.approx(1.0, rel=1e-12)
+    # A table given at 10 % damping (B 1.2, ASCE/SEI 7-16 Table 17.5-1) is brought to 5 % first:
+    # Sa(5 %) = 1.2 * 0.5 = 0.6 g at 1 s; at 20 % (B 1.5): 0.6/1.5 = 0.4 g.
+    damped = TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=0.10)
+    assert damped.sa(1.0) == pytest.approx(0.6, rel=1e-12) and damped.sa(1.0, 0.2) == pytest.approx(0.4, rel=1e-12)
+    with pytest.raises(ValueError, match=r"damping = 0\.0 is not allowed"):
+        TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=0.0)
+    with pytest.raises(ValueError, match=r"damping = 1\.5 is not allowed"):
+        TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=1.5)
+    assert TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=1.0).damping == 1.0
