@@ -5,7 +5,7 @@ VENV := .venv
 PY := $(VENV)/bin/python
 STAMP := $(VENV)/.installed-stamp
 
-.PHONY: demo test bench tex clean-venv
+.PHONY: demo test bench mutation tex clean-venv
 
 $(STAMP): pyproject.toml
 	test -x $(PY) || $(PYTHON) -m venv $(VENV)
@@ -22,6 +22,12 @@ test: $(STAMP)
 
 bench: $(STAMP)
 	$(PY) -m benchmarks
+
+# Mutation testing (mutmut) of the numeric core, one module at a time in .mutation/<module>/;
+# hours for all of them, so not in CI. Choose modules: make mutation MODULES="design_asce7 spectra"
+mutation: $(STAMP)
+	$(PY) -m pip install -q -e ".[mutation]"
+	$(PY) -m mutation $(MODULES)
 
 # The LaTeX report engine (--engine latex) needs XeLaTeX and pandoc (Debian packages, about 0.7 GB);
 # the default engine, Typst, comes from PyPI with the package.

@@ -29,8 +29,11 @@ from isolation.strength import (DriftCheck, StoreyDesign, SystemFactors, code_dr
 __all__ = ["FixedBaseComparison", "fixed_base_comparison", "isolated_superstructure", "with_strengths",
            "response_indicators", "comparison_summary", "thresholds_of"]
 
-_FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
-           "braced_frame": "braced", "other": "other"}
+def _frame(lateral_system: str) -> str:
+    """Frame type of :data:`isolation.fixed_base.FRAME_TYPES` for a study's lateral system."""
+    from isolation.study_model import _FRAMES
+
+    return _FRAMES.get(lateral_system, "other")
 
 
 @dataclass(frozen=True)
@@ -90,7 +93,7 @@ def fixed_base_comparison(study, spectrum, building, period: float) -> FixedBase
     s1 = study.site.s1 or 0.0
     design = fixed_base_design(spectrum, b.floor_weights, b.storey_heights, b.response_modification, factors,
                                basis=study.basis, period=period, importance=b.importance,
-                               frame=_FRAMES[b.lateral_system], s1=s1)
+                               frame=_frame(b.lateral_system), s1=s1)
     if b.storey_strengths:
         design = design.with_yield_shears(b.storey_strengths)
     drift = code_drift_check(building, design, factors, basis=study.basis, importance=b.importance)

@@ -36,7 +36,9 @@ STATES = ("none", "slight", "moderate", "extensive", "complete")
 
 _MANUAL = ("FEMA multi-hazard loss estimation methodology, earthquake model technical manual (MR5), Ch. 5")
 
-_TYPES = {"steel_moment_frame": "S1", "concrete_moment_frame": "C1", "braced_frame": "S2", "other": "C2"}
+_TYPES = {"steel_moment_frame": "S1", "concrete_moment_frame": "C1", "braced_frame": "S2",
+          "steel_eccentrically_braced_frame": "S2", "steel_buckling_restrained_braced_frame": "S2",
+          "concentrically_braced_frame": "S2", "shear_wall": "C2", "other": "C2"}
 
 # Average inter-storey drift ratio at the damage-state thresholds (slight, moderate, extensive, complete),
 # by model building type, height class and design level (from memory of the manual's Tables 5.9a/b).

@@ -27,7 +27,7 @@ import numpy as np
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
 from isolation.design import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
-from isolation.fixed_base import FixedBaseShear, approximate_period, fixed_base_shear
+from isolation.fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
 
 __all__ = [
     "Item",
@@ -35,6 +35,8 @@ __all__ = [
     "StoreyForce",
     "ElfReport",
     "asce7_elf",
+    "activation_force",
+    "ISOLATED_IMPORTANCE",
 ]
 
 ASCE = "ASCE/SEI 7-16"
@@ -73,14 +75,17 @@ class ElfBuilding(_ToDict):
     fixed_base_period : float, optional
         T_fb of the superstructure on a fixed base; default T_a = C_t h^x. [s]
     frame : str
-        Lateral system for T_a ("steel_moment", "concrete_moment", "braced", "other"). [-]
+        Lateral system for T_a, a key of :data:`isolation.fixed_base.FRAME_TYPES`. [-]
     importance : float
-        Importance factor I_e, > 0. [-]
+        Importance factor I_e of the building's risk category, > 0; used only for
+        the fixed-base comparison shear V_fb. The isolated design (V_s lower limit
+        at T_M, drift estimate) takes I_e = 1.0 (ASCE/SEI 7-16 §17.2.1, from memory). [-]
     wind_base_shear : float
         Base shear from factored design wind, >= 0. [kN]
     activation_force : float, optional
-        Force that fully activates the isolation system (yield, breakaway,
-        wind-restraint capacity); default the upper-bound yield force. [kN]
+        Force that fully activates the isolation system (yield level, breakaway
+        friction, wind-restraint capacity); default the greater of the upper-bound
+        and 1.5 x the nominal yield force of the property sets (§17.5.4.3 item 3). [kN]
     s1 : float
         Mapped MCE_R spectral acceleration at 1 s, S_1, >= 0. [g]
     site_class : str
@@ -135,7 +140,7 @@ class ElfBuilding(_ToDict):
             if getattr(self, name) is not None:
                 set_(name, check(name, getattr(self, name), unit))
         validate.one_of("isolator_kind", self.isolator_kind, ("sliding", "other"))
-        validate.one_of("frame", self.frame, ("steel_moment", "concrete_moment", "braced", "other"))
+        validate.one_of("frame", self.frame, tuple(FRAME_TYPES))
         validate.one_of("site_class", self.site_class, tuple("ABCDEF"))
         validate.one_of("irregular", self.irregular, (True, False))
 
@@ -192,7 +197,14 @@ class ElfReport(_ToDict):
         raise KeyError(f"symbol = {symbol!r} is not in the report: known {[i.symbol for i in self.quantities]}")
 
 
+ISOLATED_IMPORTANCE = 1.0
+"""I_e of a seismically isolated structure: ASCE/SEI 7-16 §17.2.1 (same in 7-22; from memory,
+the clause text was not found through this session's search) takes I_e = 1.0 whatever the risk
+category; the building's own I_e applies only to the fixed-base comparison."""
+
+
 def _activation_force(system) -> float | None:
+    """Force that fully activates one property set: its yield (or breakaway friction) force. [kN]"""
     if hasattr(system, "yield_force"):
         return float(system.yield_force)
     if callable(getattr(system, "elements", None)):
@@ -200,6 +212,31 @@ def _activation_force(system) -> float | None:
         if ks:
             return _force(system, max(f / k for k, f in zip(ks, fs)))
     return None
+
+
+def activation_force(property_sets: Mapping[str, Any]) -> tuple[float | None, str]:
+    """Activation force of ASCE/SEI 7-16 §17.5.4.3 item 3: the greater of the upper-bound
+    yield force and 1.5 x the nominal yield force. [kN]
+
+    Parameters
+    ----------
+    property_sets : mapping
+        Name -> whole-plane system; "upper" and "nominal" are used when present,
+        otherwise the largest yield force of all sets.
+
+    Returns
+    -------
+    (float or None, str)
+        The force [kN] (None when no set has a yield force) and which one governs.
+    """
+    upper = _activation_force(property_sets["upper"]) if "upper" in property_sets else None
+    nominal = _activation_force(property_sets["nominal"]) if "nominal" in property_sets else None
+    if upper is None and nominal is None:
+        forces = [f for f in (_activation_force(s) for s in property_sets.values()) if f is not None]
+        return (max(forces), "largest yield force of the property sets") if forces else (None, "")
+    if nominal is not None and (upper is None or 1.5 * nominal >= upper):
+        return 1.5 * nominal, "1.5 x nominal yield force"
+    return upper, "upper-bound yield force"
 
 
 def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum, *, rule: str | None = "asce7",
@@ -266,21 +303,29 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
         Item("isolation-system shear", "V_b", v_b, "kN", f"{ASCE} §17.5.4.1 (k_M D_M)", f"property set '{bounds.force_governs}'"),
         Item("unreduced superstructure shear", "V_st", v_st, "kN",
              f"{ASCE} §17.5.4.2, V_b (W_s/W)^(1 - {factor} beta_M), exponent {exponent:.3f}"
-             + (" (1 - 3.5 beta_M for abrupt transition: from memory)" if factor == 3.5 else "")),
+             + (" (1 - 3.5 beta_M replaces 1 - 2.5 beta_M for a system with an abruptly initiated "
+                "transition from pre-sliding to sliding, e.g. a friction pendulum: ASCE/SEI 7-16 "
+                "§17.5.4.2, Eq. 17.5-7, from memory, not re-read)" if factor == 3.5 else "")),
         Item("reduction factor", "R_I", r_i, "-", f"{ASCE} §17.5.4.2: 3/8 R within [1.0, 2.0]"),
     ]
     t_fb = building.fixed_base_period or approximate_period(building.structural_height, building.frame)
-    at_tm = fixed_base_shear(spectrum, w_s, r_i, period=up.period, importance=building.importance, s1=building.s1)
-    activation = building.activation_force or _activation_force(property_sets[bounds.force_governs])
+    at_tm = fixed_base_shear(spectrum, w_s, r_i, period=up.period, importance=ISOLATED_IMPORTANCE, s1=building.s1)
+    if building.activation_force is not None:
+        activation, activation_note = building.activation_force, "given"
+    else:
+        activation, activation_note = activation_force(property_sets)
     candidates = [
         ("V_st/R_I", "V_st/R_I", v_st / r_i, f"{ASCE} §17.5.4.2"),
         ("fixed-base shear at T_M", "V_s,min,fixed", at_tm.base_shear,
-         f"{ASCE} §17.5.4.3 item 1 (§12.8 with R_I, from memory); {at_tm.governs}"),
+         f"{ASCE} §17.5.4.3 item 1 (§12.8 with R_I and I_e = 1.0 of §17.2.1, from memory); {at_tm.governs}"),
         ("factored wind shear", "V_s,min,wind", building.wind_base_shear, f"{ASCE} §17.5.4.3 item 2"),
     ]
     if activation is not None:
-        candidates.append(("1.5 x activation force", "V_s,min,activation", 1.5 * activation,
-                           f"{ASCE} §17.5.4.3 item 3 (from memory)"))
+        v_act = activation * (w_s / w) ** exponent
+        candidates.append(("activation force", "V_s,min,activation", v_act,
+                           f"{ASCE} §17.5.4.3 item 3: V_st form of §17.5.4.2 with V_b = the activation force "
+                           f"{activation:.4g} kN ({activation_note}: greater of upper bound and 1.5 x nominal), "
+                           "not divided by R_I (from memory; ASCE/SEI 7-22 same, from memory)"))
     name, _, v_s, source = max(candidates, key=lambda c: c[2])
     items += [Item(f"lower limit on V_s: {n}", sym, v, "kN", s) for n, sym, v, s in candidates[1:]]
     items.append(Item("superstructure design shear", "V_s", v_s, "kN", source, f"governed by {name}"))
@@ -295,12 +340,13 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
         Item("distribution exponent", "k", k_exp, "-", f"{ASCE} §17.5.5 (14 beta_M T_fb, from memory)"),
         Item("force at base level", "F_1", f_1, "kN", f"{ASCE} §17.5.5 ((V_b - V_st)/R_I, from memory)"),
     ]
-    # Drift estimate: linear shape, generalised stiffness from T_fb; C_d = R_I (from memory).
+    # Drift estimate: linear shape, generalised stiffness from T_fb; C_d = R_I and I_e = 1.0
+    # (ASCE/SEI 7-16 §17.5.6 and §17.2.1, from memory): delta = C_d delta_e / I_e.
     shape = hx / hx[-1]
     k_star = (2.0 * math.pi / t_fb) ** 2 * np.sum(wx / GRAVITY * shape**2)
     u_top = float(np.sum(forces * shape) / k_star)
     heights = np.diff(np.concatenate(([0.0], hx)))
-    drifts = np.diff(np.concatenate(([0.0], shape))) * u_top * r_i / building.importance
+    drifts = np.diff(np.concatenate(([0.0], shape))) * u_top * r_i / ISOLATED_IMPORTANCE
     shears = np.cumsum(forces[::-1])[::-1]
     storeys = tuple(StoreyForce(i + 2, float(hx[i]), float(wx[i]), float(forces[i]), float(shears[i]),
                                 float(drifts[i]), float(drifts[i] / heights[i])) for i in range(len(wx)))
@@ -327,7 +373,12 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
 
 
 def _elf_applicability(bounds, property_sets, building, t_fb) -> list[Check]:
-    """Conditions under which ASCE/SEI 7-16 §17.4.1 permits the ELF procedure (from memory)."""
+    """Conditions under which ASCE/SEI 7-16 §17.4.1 permits the ELF procedure (from memory).
+
+    The "S_1 < 0.6 g" condition of ASCE/SEI 7-10 §17.4.1 is not in the 7-16 (nor 7-22) list as
+    remembered (the clause text was not found through this session's search): it is not
+    checked; near-fault sites are judged from the study's fault distance in the verdict.
+    """
     results = bounds.results
     t_long = max(r.period for r in results.values())
     t_short = min(r.period for r in results.values())
@@ -337,7 +388,6 @@ def _elf_applicability(bounds, property_sets, building, t_fb) -> list[Check]:
     storeys, height = len(building.floor_weights), building.structural_height
     checks = [
         Check(f"site class {building.site_class} within A-D (A=0 ... F=5)", float(site), 3.0, site <= 3, "-", src),
-        Check("mapped S_1 below 0.6 g", building.s1, 0.6, building.s1 < 0.6, "g", src),
         Check("storeys above the isolation interface", float(storeys), 4.0, storeys <= 4, "-", src),
         Check("height above the isolation interface", height, 19.8, height <= 19.8, "m", src),
         Check("longest effective period T_M", t_long, 5.0, t_long <= 5.0, "s", src),

@@ -44,9 +44,16 @@ __all__ = [
 
 EC8 = "EN 1998-1:2004"
 _FULLER = "simplified analysis not applicable: use multimodal or response-history analysis (EN 1998-1 §10.9.3/§10.9.4)"
+_LINEAR = "§10.9.1(5)"
+_NO_LINEAR = ("equivalent-linear model not permitted (EN 1998-1 §10.9.1(5), from memory): the simplified and "
+              "modal analyses are both excluded, response-history analysis is required")
 
-# EN 1998-1 §4.3.3.2.2(3) (from memory): C_t for T_1 = C_t H^(3/4), H in m.
-_EC8_CT = {"steel_moment": 0.085, "concrete_moment": 0.075, "braced": 0.075, "other": 0.050}
+# EN 1998-1:2004 §4.3.3.2.2(3), Eq. 4.6 (from memory): C_t for T_1 = C_t H^(3/4), H in m.
+# 0.085 moment resistant space steel frames; 0.075 moment resistant space concrete frames and
+# eccentrically braced steel frames; 0.050 all other structures ("braced": eccentrically braced,
+# its earlier name; buckling-restrained braced frames are not listed, so "all other structures").
+_EC8_CT = {"steel_moment": 0.085, "concrete_moment": 0.075, "braced": 0.075, "eccentric_braced": 0.075,
+           "buckling_restrained_braced": 0.050, "other": 0.050}
 
 
 def _to_dict(obj) -> dict:
@@ -61,8 +68,9 @@ def eurocode_approximate_period(height: float, frame: str = "other") -> float:
     height : float
         Height of the building above the foundation or rigid basement, > 0. [m]
     frame : str
-        "steel_moment" (C_t 0.085), "concrete_moment" or "braced" (eccentrically
-        braced steel, 0.075), "other" (0.050). [-]
+        "steel_moment" (C_t 0.085), "concrete_moment", "eccentric_braced" or "braced"
+        (eccentrically braced steel, 0.075), "buckling_restrained_braced" or "other"
+        (all other structures, 0.050). [-]
 
     Returns
     -------
@@ -147,7 +155,7 @@ class EurocodeBuilding:
     Parameters
     ----------
     weight : float
-        Seismic weight above the isolation interface, W = M g, > 0. [kN]
+        Seismic weight carried by the isolators (base level included), W = M g, > 0. [kN]
     superstructure_period : float
         Fixed-base period T_f of the superstructure, > 0. [s]
     plan_length, plan_width : float
@@ -172,6 +180,10 @@ class EurocodeBuilding:
         K_v/K_eff of the isolation system. [-]
     regular : bool
         True when the superstructure is regular and symmetric about two axes. [-]
+    superstructure_weight : float, optional
+        Weight above the isolation plane (the levels over the base level), 0 < W_s <= W;
+        the isolated superstructure's shear V_s and the fixed-base F_b use it. Default
+        ``weight``. [kN]
     """
 
     weight: float
@@ -187,6 +199,7 @@ class EurocodeBuilding:
     fault_distance: float | None = None
     vertical_stiffness_ratio: float | None = None
     regular: bool = True
+    superstructure_weight: float | None = None
 
     def __post_init__(self) -> None:
         set_ = lambda name, value: object.__setattr__(self, name, value)  # noqa: E731
@@ -204,6 +217,14 @@ class EurocodeBuilding:
         set_("displacement_amplification",
              validate.in_range("displacement_amplification", self.displacement_amplification, 1.0, 3.0, "-"))
         validate.one_of("regular", self.regular, (True, False))
+        if self.superstructure_weight is not None:
+            set_("superstructure_weight", validate.in_range("superstructure_weight", self.superstructure_weight,
+                                                            0.0, self.weight, "kN", low_inclusive=False))
+
+    @property
+    def weight_above(self) -> float:
+        """W_s, weight above the isolation plane. [kN]"""
+        return self.weight if self.superstructure_weight is None else self.superstructure_weight
 
     def to_dict(self) -> dict:
         return _to_dict(self)
@@ -275,6 +296,11 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     d_dc = low.displacement
     d_design = building.displacement_amplification * delta * d_dc
     shear = up.base_shear
+    # The isolated superstructure moves almost as a rigid body on the isolators: its share of the
+    # base shear is V W_s/W (the base level's inertia goes straight into the isolators); the
+    # fixed-base comparison carries the same W_s (EN 1998-1 §10.10(5) and §4.3.3.2.2, from memory).
+    w_s = building.weight_above
+    v_s = shear * w_s / building.weight / building.isolated_behaviour_factor
     items = [
         Item("design displacement of the stiffness centre", "d_dc", d_dc, "m",
              f"{EC8} §10.9.2: M Se(T_eff, xi_eff)/K_eff,min (from memory)", f"property set '{bounds.displacement_governs}'"),
@@ -289,18 +315,19 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
              f"{EC8} §10.3(2), recommended 1.2 (from memory)"),
         Item("isolator design displacement", "d_d", d_design, "m", "gamma_x delta d_dc"),
         Item("elastic base shear (maximum)", "V", shear, "kN", f"{EC8} §10.9.2: K_eff,max d_dc", f"property set '{bounds.force_governs}'"),
-        Item("isolated superstructure design shear", "V_s", shear / building.isolated_behaviour_factor, "kN",
-             f"{EC8} §10.10(5): q <= 1.5 (from memory)"),
+        Item("isolated superstructure design shear", "V_s", v_s, "kN",
+             f"{EC8} §10.10(5): V (W_s/W)/q, q <= 1.5 (from memory)",
+             f"W_s = {w_s:.6g} kN above the isolation plane, q = {building.isolated_behaviour_factor:g}"),
     ]
     if building.superstructure_period <= 4.0 and isinstance(spectrum, EurocodeSpectrum):
-        f_b, lam, src = eurocode_fixed_base_shear(spectrum, building.weight, building.behaviour_factor,
+        f_b, lam, src = eurocode_fixed_base_shear(spectrum, w_s, building.behaviour_factor,
                                                   building.superstructure_period, building.storeys)
-        items += [Item("fixed-base design shear", "F_b", f_b, "kN", src, f"lambda = {lam:g}, q = {building.behaviour_factor:g}"),
-                  Item("ratio isolated/fixed-base design shear", "V_s/F_b",
-                       shear / building.isolated_behaviour_factor / f_b, "-", "V_s over F_b")]
+        items += [Item("fixed-base design shear", "F_b", f_b, "kN", src,
+                       f"lambda = {lam:g}, q = {building.behaviour_factor:g}, W_s = {w_s:.6g} kN"),
+                  Item("ratio isolated/fixed-base design shear", "V_s/F_b", v_s / f_b, "-", "V_s over F_b")]
     checks = _applicability(bounds, property_sets, building)
-    warnings = tuple(f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - {_FULLER}"
-                     for c in checks if not c.passed)
+    warnings = tuple(f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - "
+                     f"{_NO_LINEAR if _LINEAR in c.name else _FULLER}" for c in checks if not c.passed)
     return EurocodeReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(checks),
                           warnings=warnings, simplified_permitted=not warnings)
 
@@ -313,7 +340,8 @@ def _applicability(bounds, property_sets, building) -> list[Check]:
     checks = [
         Check("shortest T_eff over the superstructure period T_f", min(periods) / t_f, 3.0, min(periods) >= 3.0 * t_f, "-", src),
         Check("longest effective period T_eff", max(periods), 3.0, max(periods) <= 3.0, "s", src),
-        Check("largest effective damping xi_eff", beta_max, 0.30, beta_max <= 0.30, "-", f"{EC8} §10.9.1 (from memory)"),
+        Check(f"largest effective damping xi_eff ({_LINEAR})", beta_max, 0.30, beta_max <= 0.30, "-",
+              f"{EC8} §10.9.1(5) (from memory)"),
         Check("largest plan dimension", building.plan_length, 50.0, building.plan_length <= 50.0, "m", src),
         Check("superstructure regular and symmetric (0 = no)", float(building.regular), 1.0, building.regular, "-", src),
     ]
@@ -326,9 +354,9 @@ def _applicability(bounds, property_sets, building) -> list[Check]:
     for name, r in bounds.results.items():
         system, d = property_sets[name], r.displacement
         ratio = float(system.effective_stiffness(d)) / float(system.effective_stiffness(0.2 * d))
-        checks.append(Check(f"K_eff(d_dc)/K_eff(0.2 d_dc), {name}", ratio, 0.5, ratio >= 0.5, "-",
-                            f"{EC8} §10.9.1 (from memory)"))
+        checks.append(Check(f"K_eff(d_dc)/K_eff(0.2 d_dc), {name} ({_LINEAR})", ratio, 0.5, ratio >= 0.5, "-",
+                            f"{EC8} §10.9.1(5) (from memory)"))
         restoring = (_force(system, d) - _force(system, 0.5 * d)) / r.weight
-        checks.append(Check(f"restoring force increase from d_dc/2 to d_dc over W, {name}", restoring, 0.025,
-                            restoring >= 0.025, "-", f"{EC8} §10.9.1 (from memory)"))
+        checks.append(Check(f"restoring force increase from d_dc/2 to d_dc over W, {name} ({_LINEAR})",
+                            restoring, 0.025, restoring >= 0.025, "-", f"{EC8} §10.9.1(5) (from memory)"))
     return checks

@@ -29,11 +29,17 @@ __all__ = [
     "fixed_base_shear",
 ]
 
-# ASCE/SEI 7-16 Table 12.8-2 in SI units (h in m): frame type -> (C_t, x).
+# ASCE/SEI 7-16 Table 12.8-2 (same rows in ASCE/SEI 7-22 Table 12.8-2; from memory) in SI
+# units (h in m): frame type -> (C_t, x). Rows: steel moment-resisting frames; concrete
+# moment-resisting frames; steel eccentrically braced frames; steel buckling-restrained braced
+# frames; all other structural systems (which includes concentrically braced frames and walls).
+# "braced" is the eccentrically/buckling-restrained row, kept under its earlier name.
 FRAME_TYPES = {
     "steel_moment": (0.0724, 0.8),
     "concrete_moment": (0.0466, 0.9),
     "braced": (0.0731, 0.75),
+    "eccentric_braced": (0.0731, 0.75),
+    "buckling_restrained_braced": (0.0731, 0.75),
     "other": (0.0488, 0.75),
 }
 
@@ -50,8 +56,10 @@ def approximate_period(height: float, frame: str = "other") -> float:
     height : float
         Structural height above the base, > 0. [m]
     frame : str
-        Lateral system: ``"steel_moment"``, ``"concrete_moment"``,
-        ``"braced"`` (eccentrically/buckling-restrained braced steel) or ``"other"``. [-]
+        Lateral system (row of ASCE/SEI 7-16 Table 12.8-2): ``"steel_moment"``,
+        ``"concrete_moment"``, ``"eccentric_braced"``, ``"buckling_restrained_braced"``,
+        ``"braced"`` (either of the last two, earlier name) or ``"other"`` (all other
+        structural systems, including concentrically braced frames). [-]
 
     Returns
     -------

@@ -443,7 +443,8 @@ class TabulatedSpectrum(_Spectrum):
         if np.any(np.diff(t) <= 0.0):
             i = int(np.argmax(np.diff(t) <= 0.0)) + 1
             raise ValueError(
-                f"periods[{i}] = {t[i]!r} is not allowed: must be strictly increasing (previous {t[i - 1]!r}) [s]"
+                f"periods[{i}] = {float(t[i])!r} is not allowed: must be strictly increasing "
+                f"(previous {float(t[i - 1])!r}) [s]"
             )
         beta = validate.in_range("damping", self.damping, 0.0, 1.0, "-", low_inclusive=False)
         validate.one_of("rule", self.rule, RULES)

@@ -49,6 +49,13 @@ _ASCE_ROWS = {
     "braced_frame": ((8.0, 2.0, 4.0, "steel eccentrically braced frame"),
                      (6.0, 2.0, 5.0, "special steel concentrically braced frame"),
                      (3.25, 2.0, 3.25, "ordinary steel concentrically braced frame")),
+    "steel_eccentrically_braced_frame": ((8.0, 2.0, 4.0, "steel eccentrically braced frame"),),
+    "steel_buckling_restrained_braced_frame": ((8.0, 2.5, 5.0, "steel buckling-restrained braced frame"),),
+    "concentrically_braced_frame": ((6.0, 2.0, 5.0, "special steel concentrically braced frame"),
+                                    (3.25, 2.0, 3.25, "ordinary steel concentrically braced frame")),
+    "shear_wall": ((6.0, 2.5, 5.0, "special reinforced concrete shear walls, building frame system"),
+                   (5.0, 2.5, 5.0, "special reinforced concrete shear walls, bearing wall system"),
+                   (4.0, 2.5, 4.0, "ordinary reinforced concrete shear walls, bearing wall system")),
     "other": ((6.0, 2.5, 5.0, "special reinforced concrete shear walls, building frame system"),
               (5.0, 2.5, 5.0, "special reinforced concrete shear walls, bearing wall system"),
               (4.0, 2.5, 4.0, "ordinary reinforced concrete shear walls, bearing wall system")),
@@ -59,6 +66,11 @@ _EC8_OVERSTRENGTH = {
     "steel_moment_frame": (1.3, "§6.3.2(3): multi-storey, multi-bay moment frame"),
     "concrete_moment_frame": (1.3, "§5.2.2.2(5): multi-storey, multi-bay frame"),
     "braced_frame": (1.2, "§6.3.2(3): eccentrically braced frame"),
+    "steel_eccentrically_braced_frame": (1.2, "§6.3.2(3): eccentrically braced frame"),
+    "steel_buckling_restrained_braced_frame": (1.0, "no EN 1998-1 row; taken as 1.0 (common practice)"),
+    "concentrically_braced_frame": (1.0, "§6.3.2(3): concentrically braced frames take no alpha_u/alpha_1 "
+                                         "multiplier (from memory)"),
+    "shear_wall": (1.1, "§5.2.2.2(5): uncoupled wall system"),
     "other": (1.1, "§5.2.2.2(5): uncoupled wall system"),
 }
 
@@ -88,8 +100,11 @@ def system_factors(lateral_system: str, response_modification: float, basis: str
     Parameters
     ----------
     lateral_system : str
-        ``"steel_moment_frame"``, ``"concrete_moment_frame"``, ``"braced_frame"``
-        or ``"other"`` (taken as concrete shear walls). [-]
+        A study choice of ``building.lateral_system`` (``"steel_moment_frame"``,
+        ``"concrete_moment_frame"``, ``"steel_eccentrically_braced_frame"``,
+        ``"steel_buckling_restrained_braced_frame"``, ``"concentrically_braced_frame"``,
+        ``"shear_wall"``; ``"other"`` is taken as concrete shear walls; ``"braced_frame"``
+        of older studies as the braced-frame rows). [-]
     response_modification : float
         R (ASCE 7) or q (EN 1998-1) of the fixed-base design, >= 1; for ASCE 7 it
         picks the Table 12.2-1 row of the system with the nearest R. [-]

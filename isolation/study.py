@@ -19,21 +19,28 @@ internal units: kN, m, s, kPa, spectral values in g.
 * ``units`` "SI" (default) or "US".
 * ``[project]`` name*, client*, prepared_by*, revision*, date* (2026-12-01).
 * ``[code]`` basis* "asce7" or "eurocode".
-* ``[site]`` near_fault (false). ASCE 7: sms*, sm1* [g], long_period (8 s),
+* ``[site]`` near_fault (false), fault_distance (km to the nearest active fault,
+  a bare number; the verdict's near-fault rule uses it when given). ASCE 7: sms*, sm1* [g], long_period (8 s),
   s1 [g] (default: sm1, for the ELF limits), site_class* A-F. Eurocode: ag*
   [g], spectrum_type 1 or 2, ground_type* A-E. Either basis: spectrum_file, a
   CSV of period [s], Sa [g] at 5 % relative to the study file, in place of
   sms/sm1/long_period or ag/spectrum_type.
 * ``[building]`` storeys*, floor_weights* (level 1 to roof; one value for
   all), base_weight*, storey_heights*, lateral_system* (steel_moment_frame,
-  concrete_moment_frame, braced_frame, other), response_modification* (R, or
+  concrete_moment_frame, steel_eccentrically_braced_frame,
+  steel_buckling_restrained_braced_frame, concentrically_braced_frame,
+  shear_wall, other: the row of ASCE/SEI 7-16 Table 12.8-2 or EN 1998-1
+  §4.3.3.2.2(3), see ``study_sections.LATERAL_SYSTEM_ROWS``; the earlier
+  braced_frame is refused with the choices), response_modification* (R, or
   q for Eurocode), importance (1.0; ASCE 7: the seismic importance factor I_e,
   0.8-1.5, of the fixed-base design shear; Eurocode: the importance factor
   gamma_I of EN 1998-1 §4.2.5, 0.8-1.4, recommended 0.8/1.0/1.2/1.4 for
   importance classes I-IV (from memory), which scales the site spectrum as
   a_g = gamma_I a_gR with ``site.ag`` = a_gR; a ``spectrum_file`` is used as
   given, gamma_I included), plan_length*, plan_width* (length is the longer
-  side), fixed_base_period (code estimate), eccentricity (0 m), damping (0.05).
+  side), fixed_base_period (code estimate), eccentricity (0 m), damping (0.05),
+  nonstructural ("brittle", "ductile" or "none": Eurocode drift limit of
+  EN 1998-1 §4.4.3.2, default "brittle").
 * ``[analysis]`` suite_size 7 or 11, seed (0), duration (30 s), time_step
   (0.005 s), damping (0.05).
 * ``[wind]`` base_shear (no wind check without it).

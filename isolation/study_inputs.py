@@ -64,6 +64,7 @@ class Site:
     spectrum_file: str | None = None
     spectrum_periods: tuple = ()
     spectrum_values: tuple = ()
+    fault_distance: float | None = None  # [km] to the nearest active fault, None when not given
 
 
 @dataclass(frozen=True)
@@ -114,6 +115,7 @@ class Building:
     p_delta: bool = True
     design_level: str = "high"
     storey_hysteresis: str = "bilinear"
+    nonstructural: str = "brittle"  # EN 1998-1 §4.4.3.2: "brittle", "ductile" or "none"
 
     @property
     def total_weight(self) -> float:

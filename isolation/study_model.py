@@ -28,11 +28,13 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
+           "bearing_uplift_check",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
-_FRAMES = {"steel_moment_frame": "steel_moment", "concrete_moment_frame": "concrete_moment",
-           "braced_frame": "braced", "other": "other"}
+from isolation.study_sections import LATERAL_SYSTEM_ROWS as _SYSTEM_ROWS
+
+_FRAMES = {name: row[0] for name, row in _SYSTEM_ROWS.items()}
 
 EUROCODE_MAX_PERIOD = 10.0
 """Longest period of a study's Eurocode site spectrum [s]: EN 1998-1 §3.2.2.2 ends at 4 s,
@@ -91,9 +93,11 @@ def fixed_base_period(study: Study) -> tuple[float, str]:
     frame = _FRAMES[building.lateral_system]
     if study.basis == "eurocode":
         from isolation.design_eurocode import eurocode_approximate_period
-        return eurocode_approximate_period(building.height, frame), "EN 1998-1 §4.3.3.2.2 estimate"
+        return (eurocode_approximate_period(building.height, frame),
+                f"EN 1998-1:2004 Eq. 4.6 estimate T_1 = C_t H^(3/4), {_SYSTEM_ROWS[building.lateral_system][2]}")
     from isolation.fixed_base import approximate_period
-    return approximate_period(building.height, frame), "ASCE/SEI 7-16 Eq. 12.8-7 (T_a = C_t h^x)"
+    return (approximate_period(building.height, frame),
+            f"ASCE/SEI 7-16 Eq. 12.8-7 (T_a = C_t h^x), {_SYSTEM_ROWS[building.lateral_system][1]}")
 
 
 def superstructure(study: Study):
@@ -141,7 +145,8 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, 
         return report, {k: report.value(v) for k, v in names.items()}, report.elf_permitted, reasons
     from isolation.design_eurocode import EurocodeBuilding, eurocode_simplified
 
-    ec = EurocodeBuilding(weight=b.total_weight, superstructure_period=t_fb, plan_length=b.plan_length,
+    ec = EurocodeBuilding(weight=b.total_weight, superstructure_weight=sum(b.floor_weights),
+                          superstructure_period=t_fb, plan_length=b.plan_length,
                           plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
                           behaviour_factor=b.response_modification)
     report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
@@ -404,27 +409,54 @@ def _plateau_of(spectrum) -> float:
     return float(np.max(spectrum.sa(periods))) if periods.size else float(spectrum.sa(max(low, 0.2)))
 
 
+def bearing_uplift_check(study, spectrum, alternative, report):
+    """Per-bearing uplift of one alternative (:func:`isolation.overturning.bearing_uplift`).
+
+    ASCE 7: V_st of the force-governing set at the height of the resultant of the code's
+    storey forces (§17.5.5); Eurocode: the superstructure's share V W_s/W at the height of
+    its mass centre (rigid-body translation above the isolators, derived).
+    """
+    from isolation.overturning import asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction
+
+    b = study.building
+    heights = np.cumsum(b.storey_heights)
+    weights = np.asarray(b.floor_weights, dtype=float)
+    if study.basis == "asce7":
+        forces = np.array([s.force for s in report.storey_forces])
+        shear = report.value("V_st")
+        height = float(np.dot(forces, heights) / forces.sum()) if forces.sum() > 0 else 2.0 / 3.0 * b.height
+        sms = study.site.sms if study.site.sms is not None else _plateau(spectrum)
+        factor, vertical, source = asce7_vertical_fraction(sms)
+    else:
+        shear = report.value("V") * weights.sum() / b.total_weight
+        height = float(np.dot(weights, heights) / weights.sum())
+        if study.site.ag is not None:
+            ag, kind = study.site.ag * b.importance, study.site.spectrum_type or 1
+        else:
+            ag, kind = _plateau(spectrum) / 2.5, 1
+        factor, vertical, source = eurocode_vertical_fraction(ag, kind)
+    groups = [(spec.count, spec.axial_load) for spec in alternative.bearings]
+    return bearing_uplift(shear, height, groups, b.plan_length, b.plan_width, gravity_factor=factor,
+                          vertical_fraction=vertical, source=source)
+
+
 def verdict_figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
     """The verdict's numbers for one alternative (see :class:`isolation.verdict.Figures`)."""
     b = study.building
     upper = bounds["upper"]
-    # Overturning: V_b at the effective height of the code's force distribution, rigid body on
-    # a uniform bearing field across the width B: dP/P = 6 M/(W B) (derived); net gravity
-    # (1 - 0.2 S_MS), vertical earthquake after ASCE/SEI 7-16 §12.4.2.2 (from memory), with the
-    # spectrum plateau standing for S_MS (for a Eurocode basis the same 0.2 is common practice).
-    heights = np.cumsum(b.storey_heights)
-    forces = [s.force for s in getattr(report, "storey_forces", ())]
-    if forces and sum(forces) > 0:
-        effective_height = float(np.dot(forces, heights) / sum(forces))
-    else:
-        effective_height = 2.0 / 3.0 * b.height
-    moment = upper.base_shear * effective_height
-    net = max(1.0 - 0.2 * _plateau(spectrum), 1e-6)
-    uplift = 6.0 * moment / (b.total_weight * b.plan_width) / net
+    uplift = bearing_uplift_check(study, spectrum, alternative, report)
     ratio = float(spectrum.sa(upper.period, upper.damping)) / float(spectrum.sa(t_fb, 0.05))
     # Drift of the response histories: 2 % at MCE_R (ASCE/SEI 7-16 §17.6.4.4) or under the design
-    # action (EN 1998-1 §4.4.3.2 with nu = 0.5), both from memory; the clause follows study.basis.
-    drift_limit, drift_source = _drift_limit(study.basis)
+    # action (EN 1998-1 §4.4.3.2 by non-structural type and nu), both from memory.
+    drift_limit, drift_source = _drift_limit(study.basis, b.nonstructural, b.importance)
+    period_source = _period_note(study, spectrum, t_fb, upper.period)
+    wind_margin, wind_note, strength = 1.0, "Q_d, lower bound", q["characteristic_strength"]
+    slow = _slow_friction_ratio(alternative)
+    if slow is not None and strength is not None:
+        from isolation.verdict_site import SLIDER_WIND_MARGIN
+        wind_margin, strength = SLIDER_WIND_MARGIN, strength * slow
+        wind_note = (f"slow-velocity friction, lower bound: {slow:.2f} x the fast-friction Q_d; margin "
+                     f"{SLIDER_WIND_MARGIN:g} is common practice")
     return _verdict.Figures(
         alternative=alternative.name, fixed_base_period=t_fb, isolated_period=upper.period,
         total_displacement=q["total_displacement"], displacement_capacity=q["displacement_capacity"],
@@ -432,11 +464,40 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
         base_shear_ratio=summary["superstructure_shear_ratio"], design_shear_ratio=q["shear_ratio"],
         floor_acceleration_ratio=summary["floor_acceleration_ratio"],
         drift_ratio=summary["drift_ratio_isolated"], drift_limit=drift_limit, drift_source=drift_source,
-        uplift_ratio=uplift, slenderness=b.height / b.plan_width,
+        uplift_ratio=uplift.ratio, slenderness=b.height / b.plan_width,
         site_class=study.site.site_class or study.site.ground_type, basis=study.basis,
         near_fault=study.site.near_fault, spectral_ratio=ratio, wind_base_shear=study.wind_base_shear,
-        characteristic_strength=q["characteristic_strength"], elf_permitted=permitted,
+        characteristic_strength=strength, elf_permitted=permitted,
         elf_reasons=tuple(reasons), failed_checks=tuple(c.name for c in checks if not c.passed),
         effective_damping=max(r.damping for r in bounds.values()), units=study.units,
         ductility_isolated=summary.get("ductility_isolated"), residual_drift_isolated=summary.get("residual_drift_isolated"),
-        ductility_fixed=summary.get("ductility_fixed"), residual_drift_fixed=summary.get("residual_drift_fixed"))
+        ductility_fixed=summary.get("ductility_fixed"), residual_drift_fixed=summary.get("residual_drift_fixed"),
+        fixed_base_period_source=period_source,
+        nominal_period=bounds["nominal"].period if "nominal" in bounds else None,
+        fault_distance=study.site.fault_distance, wind_margin=wind_margin, wind_strength_note=wind_note)
+
+
+def _slow_friction_ratio(alternative) -> float | None:
+    """Smallest friction_slow/friction over the sliding bearing groups; None without sliders."""
+    ratios = []
+    for spec in alternative.bearings:
+        props = spec.properties
+        if "friction" in props:
+            slow = props.get("friction_slow")
+            ratios.append(1.0 if slow is None else float(slow) / float(props["friction"]))
+        elif "friction_1" in props:
+            ratios.append(1.0)
+    return min(ratios) if ratios else None
+
+
+def _period_note(study, spectrum, t_fb: float, t_m: float) -> str:
+    """Where T_fb comes from, and for the ASCE 7 estimate the ratio with C_u T_a as well."""
+    b = study.building
+    if b.fixed_base_period is not None:
+        return "T_fb given in the study"
+    if study.basis != "asce7":
+        return "T_fb = C_t H^(3/4), EN 1998-1 Eq. 4.6"
+    from isolation.fixed_base import design_values, period_upper_limit_factor
+    cu = period_upper_limit_factor(design_values(spectrum)[1])
+    return (f"T_fb = T_a = C_t h^x, ASCE/SEI 7-16 Eq. 12.8-7; with the upper limit C_u T_a = {cu * t_fb:.2f} s "
+            f"(C_u = {cu:.2f}, Table 12.8-1) the ratio is {t_m / (cu * t_fb):.2f}")

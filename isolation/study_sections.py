@@ -42,7 +42,9 @@ def _basis(t: Reader | None) -> str:
 def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
     if t is None:
         return None
-    values: dict[str, Any] = {"near_fault": t.boolean("near_fault", required=False, default=False)}
+    values: dict[str, Any] = {"near_fault": t.boolean("near_fault", required=False, default=False),
+                              "fault_distance": t.number("fault_distance", low=0.0, high=1000.0, unit="km",
+                                                         required=False)}
     tabulated = "spectrum_file" in t.mapping
     t.known.add("spectrum_file")
     if tabulated:
@@ -138,8 +140,50 @@ SPECTRUM_SA_MAX = 10.0
 """Largest spectral value of a tabulated site spectrum [g] (common practice: recorded
 5 %-damped spectra stay below about 5 g)."""
 
-LATERAL_SYSTEMS = ("steel_moment_frame", "concrete_moment_frame", "braced_frame", "other")
-"""Lateral systems for the code's approximate fixed-base period (ASCE/SEI 7-16 Table 12.8-2)."""
+LATERAL_SYSTEM_ROWS = {
+    "steel_moment_frame": ("steel_moment", "Table 12.8-2 row 'steel moment-resisting frames' (C_t 0.0724, x 0.8)",
+                           "§4.3.3.2.2(3) 'moment resistant space steel frames' (C_t 0.085)"),
+    "concrete_moment_frame": ("concrete_moment",
+                              "Table 12.8-2 row 'concrete moment-resisting frames' (C_t 0.0466, x 0.9)",
+                              "§4.3.3.2.2(3) 'moment resistant space concrete frames' (C_t 0.075)"),
+    "steel_eccentrically_braced_frame": ("eccentric_braced",
+                                         "Table 12.8-2 row 'steel eccentrically braced frames' (C_t 0.0731, x 0.75)",
+                                         "§4.3.3.2.2(3) 'eccentrically braced steel frames' (C_t 0.075)"),
+    "steel_buckling_restrained_braced_frame": ("buckling_restrained_braced",
+                                               "Table 12.8-2 row 'steel buckling-restrained braced frames' "
+                                               "(C_t 0.0731, x 0.75)",
+                                               "§4.3.3.2.2(3) 'all other structures' (C_t 0.050)"),
+    "concentrically_braced_frame": ("other", "Table 12.8-2 row 'all other structural systems' (C_t 0.0488, x 0.75)",
+                                    "§4.3.3.2.2(3) 'all other structures' (C_t 0.050)"),
+    "shear_wall": ("other", "Table 12.8-2 row 'all other structural systems' (C_t 0.0488, x 0.75)",
+                   "§4.3.3.2.2(3) 'all other structures' (C_t 0.050; the wall-area form of (4) is not used)"),
+    "other": ("other", "Table 12.8-2 row 'all other structural systems' (C_t 0.0488, x 0.75)",
+              "§4.3.3.2.2(3) 'all other structures' (C_t 0.050)"),
+}
+"""Study choice of ``building.lateral_system`` -> (frame type of :data:`isolation.fixed_base.FRAME_TYPES`,
+row of ASCE/SEI 7-16 Table 12.8-2, row of EN 1998-1:2004 §4.3.3.2.2(3)) for the approximate
+fixed-base period. Rows as in both tables, from memory (not re-read this session)."""
+
+LATERAL_SYSTEMS = tuple(LATERAL_SYSTEM_ROWS)
+"""Lateral systems for the code's approximate fixed-base period (ASCE/SEI 7-16 Table 12.8-2,
+EN 1998-1 §4.3.3.2.2(3))."""
+
+_RETIRED_LATERAL_SYSTEMS = {
+    "braced_frame": ("it did not say which braced frame; choose 'concentrically_braced_frame' (the 'all other "
+                     "structural systems' row), 'steel_eccentrically_braced_frame' or "
+                     "'steel_buckling_restrained_braced_frame'"),
+}
+
+
+def _lateral_system(t: Reader) -> str | None:
+    """building.lateral_system, with a clear message for a retired choice."""
+    value = t.mapping.get("lateral_system")
+    if isinstance(value, str) and value in _RETIRED_LATERAL_SYSTEMS:
+        t.known.add("lateral_system")
+        t.problems.add(f"{t.path_of('lateral_system')} = {value!r} is no longer accepted: "
+                       f"{_RETIRED_LATERAL_SYSTEMS[value]}")
+        return None
+    return t.choice("lateral_system", LATERAL_SYSTEMS)
 
 
 IMPORTANCE_RANGES = {"asce7": (1.0, 1.5), "eurocode": (0.8, 1.4)}
@@ -175,7 +219,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
                                       high=WEIGHT_MAX, low_inclusive=False),
         base_weight=t.quantity("base_weight", "weight", low=0.0, high=WEIGHT_MAX, low_inclusive=False),
         storey_heights=t.quantity_list("storey_heights", "length", length=count, low=1.5, high=20.0),
-        lateral_system=t.choice("lateral_system", LATERAL_SYSTEMS),
+        lateral_system=_lateral_system(t),
         response_modification=t.number("response_modification", low=1.0, high=8.0),
         importance=_importance(t, basis),
         plan_length=t.quantity("plan_length", "length", low=1.0, high=500.0),
@@ -183,6 +227,7 @@ def _building(t: Reader | None, basis: str) -> Building | None:
         fixed_base_period=t.quantity("fixed_base_period", "time", low=0.02, high=10.0, required=False),
         eccentricity=t.quantity("eccentricity", "length", low=0.0, required=False, default=0.0),
         damping=t.number("damping", low=0.0, high=0.3, low_inclusive=False, required=False, default=0.05, ratio=True),
+        nonstructural=t.choice("nonstructural", ("brittle", "ductile", "none"), required=False, default="brittle"),
     )
     values.update(_yielding_keys(t, count))
     length, width = values["plan_length"], values["plan_width"]

@@ -47,7 +47,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "stress": ("kPa", "'0.9 MPa' or '60 psi'"),
     "stiffness": ("kN/m", "'1200 kN/m' or '7 kip/in'"),
     "time": ("s", "'0.005 s' or '40 s'"),
-    "mass": ("t", "'660 t' or '1500 kip*s**2/ft'"),
+    "mass": ("t", "'660 t' or '3.8 kip*s**2/in'"),
     "area": ("m**2", "'1200 m**2' or '13000 ft**2'"),
     "per_area": ("1/m**2", "'3500 / m**2' or '325 / ft**2' (an amount per floor area)"),
     "per_length": ("1/m", "'2500 / m' or '760 / ft' (an amount per length)"),

@@ -173,6 +173,17 @@ class Figures:
         the isolated superstructure (suite means, worse bound); None when elastic.
     ductility_fixed, residual_drift_fixed : float or None
         The same for the code-designed fixed-base building (quoted only). [-]
+    fixed_base_period_source : str
+        Where ``fixed_base_period`` comes from (stated by the period-ratio note).
+    nominal_period : float or None
+        Effective isolated period with nominal properties, the period practice quotes;
+        the 2-5 s band is judged on it when given (else on ``isolated_period``). [s]
+    fault_distance : float or None
+        Distance to the nearest active fault; decides the near-fault rule when given. [km]
+    wind_margin : float
+        Factor on the wind shear in the wind rule (1.5 for sliders in a study run). [-]
+    wind_strength_note : str
+        What ``characteristic_strength`` stands for in the wind rule.
     """
 
     alternative: str
@@ -205,6 +216,11 @@ class Figures:
     residual_drift_isolated: float | None = None
     ductility_fixed: float | None = None
     residual_drift_fixed: float | None = None
+    fixed_base_period_source: str = ""
+    nominal_period: float | None = None
+    fault_distance: float | None = None
+    wind_margin: float = 1.0
+    wind_strength_note: str = "lower bound"
 
     def to_dict(self) -> dict:
         data = asdict(self)
@@ -230,8 +246,10 @@ def assess(figures: Figures) -> Verdict:
     f = figures
     basis = f.basis
     found = [
-        period_shift(f.isolated_period, f.fixed_base_period, basis=basis),
-        isolated_period(f.isolated_period, basis=basis),
+        period_shift(f.isolated_period, f.fixed_base_period, basis=basis,
+                     period_source=f.fixed_base_period_source),
+        (isolated_period(f.nominal_period, basis=basis, bound="nominal") if f.nominal_period is not None
+         else isolated_period(f.isolated_period, basis=basis, bound="upper")),
         displacement_capacity(f.total_displacement, f.displacement_capacity, f.history_displacement,
                               system=f.units, basis=basis),
         moat_clearance(f.total_displacement, f.moat, system=f.units, basis=basis),
@@ -246,8 +264,9 @@ def assess(figures: Figures) -> Verdict:
         slenderness(f.slenderness) if f.slenderness is not None else None,
         site_suitability(f.site_class, basis),
         spectral_benefit(f.spectral_ratio) if f.spectral_ratio is not None else None,
-        near_fault(f.near_fault, basis=basis),
-        wind(f.wind_base_shear, f.characteristic_strength, system=f.units, basis=basis),
+        near_fault(f.near_fault, basis=basis, distance=f.fault_distance),
+        wind(f.wind_base_shear, f.characteristic_strength, system=f.units, basis=basis,
+             margin=f.wind_margin, strength_note=f.wind_strength_note),
         elf_applicability(f.elf_permitted, tuple(f.elf_reasons), basis=basis),
         bearing_checks(tuple(f.failed_checks)),
         effective_damping(f.effective_damping, basis=basis),

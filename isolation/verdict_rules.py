@@ -25,6 +25,9 @@ from isolation.verdict_sources import PRACTICE as _PRACTICE
 from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.verdict_sources import source as _source
 
+_EQUIVALENT_LINEAR_LIMIT = "§10.9.1(5)"
+"""Marker in the names of the EN 1998-1 checks whose failure excludes the equivalent-linear model."""
+
 __all__ = [
     "Reason", "period_shift", "isolated_period", "displacement_capacity", "moat_clearance",
     "displacement_size", "base_shear_reduction", "design_shear", "floor_acceleration_reduction",
@@ -63,50 +66,61 @@ class Reason:
 # --------------------------------------------------------------------------
 # Rules: each returns one Reason (or None when its input is not available)
 # --------------------------------------------------------------------------
-def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str = "asce7") -> Reason:
-    """T_M / T_fb: >= 3 ok, 2-3 condition, < 2 against.
+def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str = "asce7",
+                 period_source: str = "") -> Reason:
+    """T_M / T_fb against the single-mode procedure's limit (3): always a note.
+
+    The ratio is an applicability limit of the code's single-mode procedure
+    (ASCE/SEI 7-16 §17.4.1 ELF; EN 1998-1 §10.9.2 simplified analysis), not a
+    measure of benefit (that is :func:`isolation.verdict_site.spectral_benefit`).
 
     Parameters
     ----------
     isolated_period : float
-        Shortest effective isolated period (upper bound) T_M. [s]
+        Effective isolated period T_M of the set the limit uses. [s]
     fixed_base_period : float
         Fixed-base period T_fb. [s]
     basis : str
         Code basis, ``"asce7"`` or ``"eurocode"``: which clause the source cites.
+    period_source : str
+        Where T_fb comes from (stated in the message).
     """
     ratio = isolated_period / fixed_base_period
+    how = f" ({period_source})" if period_source else ""
+    procedure = "the ELF procedure" if basis == "asce7" else "the simplified analysis"
     text = (f"isolated period T_M = {isolated_period:.2f} s is {ratio:.2f} times the fixed-base "
-            f"period T_fb = {fixed_base_period:.2f} s")
+            f"period T_fb = {fixed_base_period:.2f} s{how}")
     source = _source("period shift", basis)
     if ratio >= 3.0:
-        return Reason("period shift", "ok", text + " (at least 3)", ratio, 3.0, "-", source)
-    if ratio >= 2.0:
-        return Reason("period shift", "condition", text + ": below 3, so the separation of the "
-                      "isolation mode is modest and the benefit smaller", ratio, 3.0, "-", source)
-    return Reason("period shift", "against", text + ": below 2, too little period shift for "
-                  "isolation to pay", ratio, 2.0, "-", source)
+        return Reason("period shift", "note", text + f": {procedure} needs at least 3, met",
+                      ratio, 3.0, "-", source)
+    return Reason("period shift", "note", text + f": below 3, so {procedure} is not permitted on this "
+                  "count (the response histories govern)", ratio, 3.0, "-", source)
 
 
-def isolated_period(period: float, *, basis: str = "asce7") -> Reason:
+def isolated_period(period: float, *, basis: str = "asce7", bound: str = "upper") -> Reason:
     """Isolated period in the usual 2-5 s band (common practice); above 5 s a note
     (ASCE 7: no ELF procedure; Eurocode: common practice, see :mod:`isolation.verdict_sources`).
 
     Parameters
     ----------
     period : float
-        Shortest effective isolated period (upper bound) T_M. [s]
+        Effective isolated period T_M of the property set named by ``bound``. [s]
     basis : str
         Code basis, ``"asce7"`` or ``"eurocode"``.
+    bound : str
+        Which property set ``period`` belongs to ("nominal", "lower", "upper"): stated
+        in the message. The study runner passes the nominal set, the period practice quotes.
     """
+    which = f"T_M ({bound} properties) = {period:.2f} s"
     if period < 2.0:
-        return Reason("isolated period", "condition", f"T_M = {period:.2f} s is below the usual "
+        return Reason("isolated period", "condition", f"{which} is below the usual "
                       "2 s lower end: softer bearings would help", period, 2.0, "s", _PRACTICE)
     if period > 5.0:
         why = ("the ELF procedure is not permitted and wind" if basis == "asce7" else "wind")
-        return Reason("isolated period", "note", f"T_M = {period:.2f} s exceeds 5 s: {why} and "
+        return Reason("isolated period", "note", f"{which} exceeds 5 s: {why} and "
                       "restoring force need care", period, 5.0, "s", _source("isolated period limit", basis))
-    return Reason("isolated period", "ok", f"T_M = {period:.2f} s lies in the usual 2-5 s band",
+    return Reason("isolated period", "ok", f"{which} lies in the usual 2-5 s band",
                   period, 5.0, "s", _PRACTICE)
 
 
@@ -282,19 +296,21 @@ def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "
 
 
 def uplift(uplift_ratio: float, *, basis: str = "asce7") -> Reason:
-    """Net tension at edge bearings when overturning exceeds gravity (ratio >= 1).
+    """Net tension in the outermost bearing when overturning exceeds its gravity load (ratio > 1);
+    a condition only then (see :func:`isolation.overturning.bearing_uplift`).
 
     Parameters
     ----------
     uplift_ratio : float
-        Axial change from overturning / (gravity load less vertical earthquake). [-]
+        Axial change of the outermost bearing from overturning / its tributary gravity
+        load as factored and reduced by the vertical earthquake. [-]
     basis : str
         Code basis, ``"asce7"`` or ``"eurocode"``: which clause the source cites.
     """
-    text = (f"overturning changes the edge bearings' axial load by {uplift_ratio:.0%} of their "
-            "net gravity load")
+    text = (f"overturning changes the outermost bearing's axial load by {uplift_ratio:.0%} of its "
+            "tributary net gravity load")
     source = _source("uplift", basis)
-    if uplift_ratio >= 1.0:
+    if uplift_ratio > 1.0:
         return Reason("uplift", "condition", text + ": net tension, so tension-capable bearings "
                       "or uplift restraint are needed", uplift_ratio, 1.0, "-", source)
     return Reason("uplift", "ok", text + ": no net tension", uplift_ratio, 1.0, "-", source)
@@ -321,6 +337,10 @@ def elf_applicability(permitted: bool | None, reasons: tuple = (), *, basis: str
     if permitted:
         return Reason("analysis procedure", "ok", f"{procedure} is permitted", None, None, "-", source)
     listed = "; ".join(reasons) if reasons else "limits exceeded"
+    if basis == "eurocode" and any(_EQUIVALENT_LINEAR_LIMIT in r for r in reasons):
+        return Reason("analysis procedure", "note", "the equivalent-linear methods (simplified and "
+                      f"modal) are excluded altogether ({listed}): response-history analysis is "
+                      "required; this study includes it", None, None, "-", source)
     return Reason("analysis procedure", "note", "response-history analysis is required "
                   f"({listed}); this study includes it", None, None, "-", source)
 

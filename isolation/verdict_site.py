@@ -78,46 +78,79 @@ def spectral_benefit(ratio: float) -> Reason:
     return Reason("long-period site", "ok", text, ratio, 0.5, "-", source)
 
 
-def near_fault(flag: bool, *, basis: str = "asce7") -> Reason | None:
+NEAR_FAULT_DISTANCE = {"asce7": 15.0, "eurocode": 15.0}
+"""Distance [km] within which a site counts as near-fault: ASCE/SEI 7-16 §11.2 'near-fault site'
+(15 km from a fault able to produce M_w >= 7; 10 km for M_w >= 6: the larger distance is taken
+since the magnitude is not a study input), EN 1998-1 §10.9.2 (15 km from a fault of Ms >= 6.5);
+both from memory."""
+
+
+def near_fault(flag: bool, *, basis: str = "asce7", distance: float | None = None) -> Reason | None:
     """Near-fault sites need pulse-like motions in the suite (condition).
 
     Parameters
     ----------
     flag : bool
-        True when the site is near an active fault.
+        True when the study flags the site as near an active fault (used when
+        ``distance`` is not given).
     basis : str
         ``"asce7"`` or ``"eurocode"``: the clause cited.
+    distance : float or None
+        Distance to the nearest active fault; decides when given. [km]
     """
+    source = _source("near fault", basis)
+    limit = NEAR_FAULT_DISTANCE[basis if basis in NEAR_FAULT_DISTANCE else "asce7"]
+    if distance is not None:
+        if distance <= limit:
+            return Reason("near fault", "condition", f"the site is {distance:g} km from an active fault, "
+                          f"within {limit:g} km: include pulse-like records and check displacement with them",
+                          distance, limit, "km", source)
+        return Reason("near fault", "ok", f"the site is {distance:g} km from an active fault, beyond "
+                      f"{limit:g} km", distance, limit, "km", source)
     if not flag:
         return None
-    return Reason("near fault", "condition", "the site is near an active fault: include "
-                  "pulse-like records and check displacement with them", None, None, "-",
-                  _source("near fault", basis))
+    return Reason("near fault", "condition", "the site is flagged as near an active fault (no distance "
+                  "given): include pulse-like records and check displacement with them", None, None, "-",
+                  source)
 
 
 def wind(wind_base_shear: float | None, characteristic_strength: float | None, *,
-         system: str = "SI", basis: str = "asce7") -> Reason:
-    """Wind base shear against the isolation plane's characteristic strength Q_d.
+         system: str = "SI", basis: str = "asce7", margin: float = 1.0,
+         strength_note: str = "lower bound") -> Reason:
+    """Wind base shear, times a margin, against the isolation plane's resistance before it moves.
 
     Parameters
     ----------
     wind_base_shear : float or None
         Design wind base shear. [kN]
     characteristic_strength : float or None
-        Q_d of the whole isolation plane, lower bound. [kN]
+        Resistance of the whole isolation plane before it yields or slides: Q_d at the
+        lower bound, or for sliders the slow (breakaway-rate) friction force. [kN]
     system : str
         "SI" or "US": units of the forces in the message.
     basis : str
         ``"asce7"`` or ``"eurocode"``: the clause cited.
+    margin : float
+        Factor on the wind shear, >= 1 (the study runner uses 1.5 for sliders,
+        :data:`SLIDER_WIND_MARGIN`). [-]
+    strength_note : str
+        What ``characteristic_strength`` is (stated in the message).
     """
     source = _source("wind", basis)
     if wind_base_shear is None or characteristic_strength is None:
         return Reason("wind", "note", "wind was not checked (no wind base shear given)",
                       None, None, "kN", source)
-    text = (f"wind base shear {_force(wind_base_shear, system)} against the characteristic strength "
-            f"Q_d = {_force(characteristic_strength, system)} (lower bound)")
-    if wind_base_shear >= characteristic_strength:
+    demand = wind_base_shear * margin
+    shown = (f"wind base shear {_force(wind_base_shear, system)}"
+             + (f" x {margin:g} margin" if margin != 1.0 else ""))
+    text = f"{shown} against the resistance {_force(characteristic_strength, system)} ({strength_note})"
+    if demand >= characteristic_strength:
         return Reason("wind", "condition", text + ": the isolators would slide or yield in wind, "
-                      "so a wind restraint is needed", wind_base_shear, characteristic_strength,
+                      "so a wind restraint is needed", demand, characteristic_strength,
                       "kN", source)
-    return Reason("wind", "ok", text, wind_base_shear, characteristic_strength, "kN", source)
+    return Reason("wind", "ok", text, demand, characteristic_strength, "kN", source)
+
+
+SLIDER_WIND_MARGIN = 1.5
+"""Margin on the wind shear against a sliding isolation plane's slow friction (common practice:
+quasi-static wind meets the low-velocity friction, which scatters; no code value)."""

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from isolation import validate
 
-__all__ = ["BASES", "PRACTICE", "source", "drift_limit"]
+__all__ = ["BASES", "PRACTICE", "source", "drift_limit", "NONSTRUCTURAL", "eurocode_reduction_factor"]
 
 BASES = ("asce7", "eurocode")
 """Code bases the verdict knows: ASCE/SEI 7-16 and EN 1998-1:2004."""
@@ -25,9 +25,8 @@ _EC8 = "EN 1998-1:2004"
 
 _SOURCES = {
     "period shift": {
-        "asce7": f"{_ASCE} §17.4.1 (from memory): T_M > 3 T_fb; 2 T_fb floor is {PRACTICE}",
-        "eurocode": f"{_EC8} §10.9.2 (from memory): T_eff >= 3 T_f for the simplified analysis; "
-                    f"2 T_f floor is {PRACTICE}",
+        "asce7": f"{_ASCE} §17.4.1 item 5 (from memory): ELF needs T_M > 3 T, T from Eq. 12.8-7 or 12.8-8",
+        "eurocode": f"{_EC8} §10.9.2 (from memory): T_eff >= 3 T_f for the simplified analysis",
     },
     "isolated period limit": {
         "asce7": f"{_ASCE} §17.4.1 (from memory)",
@@ -51,18 +50,21 @@ _SOURCES = {
                     "fixed-base lateral force method (from memory)",
     },
     "uplift": {
-        "asce7": "rigid-body overturning on a uniform bearing field (derived); vertical 0.2 S_MS per "
-                 f"{_ASCE} §12.4.2.2 (from memory)",
-        "eurocode": "rigid-body overturning on a uniform bearing field (derived); vertical earthquake as "
-                    f"0.2 times the spectrum plateau is {PRACTICE} (the {_EC8} §3.2.2.3 vertical "
-                    "spectrum is not used, from memory)",
+        "asce7": "outermost bearing of a regular grid, rigid-body overturning from V_st at its height "
+                 f"(derived), tributary gravity of the lightest bearing group ({PRACTICE}); "
+                 f"0.9 D - E_v, E_v = 0.2 S_MS D ({_ASCE} §17.2.4.6, §12.4.2.2, from memory)",
+        "eurocode": "outermost bearing of a regular grid, rigid-body overturning from the superstructure's "
+                    f"share of V at its mass centre (derived), tributary gravity of the lightest group "
+                    f"({PRACTICE}); G with 0.3 of the vertical action where a_vg > 0.25 g "
+                    f"(EN 1990 Eq. 6.12b, {_EC8} §4.3.3.5.2, from memory)",
     },
     "soft soil class F": {
         "asce7": f"{_ASCE} §11.4.8, §17.4.1 (from memory)",
         "eurocode": PRACTICE,
     },
     "near fault": {
-        "asce7": f"{_ASCE} §17.3.2 (from memory)",
+        "asce7": f"{_ASCE} §11.2 'near-fault site' (within 15 km of a fault of M_w >= 7, 10 km of M_w >= 6) "
+                 "and §17.3.2 (from memory)",
         "eurocode": f"{PRACTICE}; {_EC8} §10.9.2 (from memory) allows the simplified analysis only "
                     "beyond 15 km from an active fault of Ms >= 6.5",
     },
@@ -89,6 +91,24 @@ _DRIFT = {
                         "ductile non-structural elements interfere"),
 }
 
+NONSTRUCTURAL = {"brittle": 0.005, "ductile": 0.0075, "none": 0.010}
+"""EN 1998-1:2004 §4.4.3.2(1) (from memory): d_r nu <= alpha h with alpha 0.005 (brittle
+non-structural elements attached to the structure), 0.0075 (ductile ones), 0.010 (none, or
+fixed so as not to interfere with structural deformations)."""
+
+
+def eurocode_reduction_factor(importance: float = 1.0) -> float:
+    """nu of EN 1998-1 §4.4.3.2(2) (recommended 0.5 for importance classes I-II, 0.4 for III-IV;
+    from memory), from gamma_I (0.8/1.0 classes I-II, 1.2/1.4 classes III-IV). [-]
+
+    Parameters
+    ----------
+    importance : float
+        gamma_I, > 0. [-]
+    """
+    gamma = validate.positive("importance", importance, "-")
+    return 0.5 if gamma <= 1.1 else 0.4
+
 
 def source(topic: str, basis: str = "asce7") -> str:
     """The source of one verdict limit for the code basis.
@@ -104,14 +124,26 @@ def source(topic: str, basis: str = "asce7") -> str:
     return _SOURCES[topic][basis]
 
 
-def drift_limit(basis: str = "asce7") -> tuple[float, str]:
+def drift_limit(basis: str = "asce7", nonstructural: str | None = None,
+                importance: float = 1.0) -> tuple[float, str]:
     """Storey drift ratio limit [-] for the response histories and its source.
 
     Parameters
     ----------
     basis : str
-        ``"asce7"`` (MCE_R histories, 2 %) or ``"eurocode"`` (design-action
-        histories, 2 % from the damage limitation rule with nu = 0.5).
+        ``"asce7"`` (MCE_R histories, 2 %) or ``"eurocode"`` (design-action histories,
+        EN 1998-1 §4.4.3.2 damage limitation).
+    nonstructural : str or None
+        Eurocode only: "brittle", "ductile" or "none" (see :data:`NONSTRUCTURAL`);
+        the limit is alpha/nu. None keeps the earlier 2 % (alpha 0.010, nu 0.5).
+    importance : float
+        Eurocode only: gamma_I, which sets nu (:func:`eurocode_reduction_factor`). [-]
     """
     basis = validate.one_of("basis", basis, BASES)
-    return _DRIFT[basis]
+    if basis != "eurocode" or nonstructural is None:
+        return _DRIFT[basis]
+    validate.one_of("nonstructural", nonstructural, tuple(NONSTRUCTURAL))
+    alpha, nu = NONSTRUCTURAL[nonstructural], eurocode_reduction_factor(importance)
+    return alpha / nu, (f"{_EC8} §4.4.3.2 damage limitation (from memory): d_r nu <= {alpha:g} h for "
+                        f"non-structural elements '{nonstructural}', nu = {nu:g} (gamma_I = {importance:g}), "
+                        f"so {alpha / nu:.2%} under the design seismic action")

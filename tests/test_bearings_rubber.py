@@ -165,8 +165,13 @@ def test_restoring_force_of_lead_rubber():
 
 def test_check_to_dict_is_plain_json():
     import json
-    for c in LeadRubber(**LRB).checks(2000.0, 0.3):
-        json.dumps(c.to_dict(), allow_nan=False)
+    checks = LeadRubber(**LRB).checks(2000.0, 0.3)
+    assert checks
+    for c in checks:
+        back = json.loads(json.dumps(c.to_dict(), allow_nan=False))
+        # Every field survives the round trip with its value (the dict is the check, not a summary).
+        assert back["name"] == c.name and back["passed"] == c.passed
+        assert back["value"] == pytest.approx(c.value) and back["limit"] == pytest.approx(c.limit)
 
 
 # --- high-damping rubber -----------------------------------------------------------------

@@ -266,6 +266,20 @@ def test_shapes_of_a_suite_result():
     assert set(iso.energy) == {"input", "kinetic", "viscous", "elastic_strain", "hysteretic"}
     assert iso.balance_error.shape == (3,)
     assert iso.peaks()["residual_displacement"].shape == (3,)
+    # Three identical records give three identical rows (records are independent columns).
+    np.testing.assert_array_equal(iso.isolator_displacement[0], iso.isolator_displacement[2])
+    np.testing.assert_array_equal(iso.storey_shear[1], iso.storey_shear[2])
+    # Storey shear = -sum of the inertia forces m a_abs of the floors above it (Newton's second law;
+    # floor masses 400 t, accelerations in g -> kN with g = 9.80665 m/s2).
+    inertia = 400.0 * 9.80665 * iso.floor_acceleration
+    np.testing.assert_allclose(iso.storey_shear[..., 1], -inertia[..., 1], rtol=1e-9, atol=1e-9)
+    np.testing.assert_allclose(iso.storey_shear[..., 0], -inertia.sum(axis=-1), rtol=1e-9, atol=1e-9)
+    # Drift: floor minus the level below, the base level (isolator displacement) for storey 1.
+    np.testing.assert_allclose(iso.drift[..., 1], iso.floor_displacement[..., 1] - iso.floor_displacement[..., 0],
+                               rtol=1e-9, atol=1e-12)
+    np.testing.assert_allclose(iso.drift[..., 0], iso.floor_displacement[..., 0] - iso.isolator_displacement,
+                               rtol=1e-9, atol=1e-12)
+    assert np.max(np.abs(iso.isolator_displacement)) > 0.0
 
 
 def test_exact_oscillator_step_response_including_a_nonzero_first_sample():

@@ -65,8 +65,9 @@ def test_demo_alternatives_and_outcomes(demo):
 
 
 def test_fixed_base_period_is_the_code_estimate(demo):
-    # ASCE/SEI 7-16 Table 12.8-2, braced frame: 0.0731 x 16.5^0.75.
-    expected = 0.0731 * 16.5**0.75
+    # ASCE/SEI 7-16 Table 12.8-2 (from memory), the demo's concentrically braced frame falls under
+    # "all other structural systems": C_t = 0.0488 (0.02 in ft units), x = 0.75 -> 0.0488 x 16.5^0.75.
+    expected = 0.0488 * 16.5**0.75
     assert demo.fixed_base["period"] == pytest.approx(expected, rel=1e-6)
     model = superstructure(load_study(DEMO))
     assert model.modal().periods[0] == pytest.approx(expected, rel=1e-6)
@@ -299,7 +300,7 @@ def test_double_concave_and_high_damping_rubber_alternatives():
     assert hdr.outcome in OUTCOMES and dc.outcome in OUTCOMES
 
 
-def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law():
+def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law(demo):
     # A friction pendulum with friction_slow given keeps mu(v) = mu_fast - (mu_fast - mu_slow)
     # exp(-a|v|) (Constantinou, Mokha & Reinhorn 1990) in the response histories, its friction
     # scaled by the lower/upper factors of the study (0.85 / 1.25 in the demo; derived arithmetic).
@@ -322,4 +323,9 @@ def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law():
 
     results = run_study(study, quick=True)
     rate = results.alternatives[0].history["summary"]["isolator_displacement_lower"]
-    assert math.isfinite(rate) and rate > 0.0
+    # Same seeded records as the rate-independent demo: the velocity law changes the histories
+    # (the slow friction acts near velocity reversals), while the peak, reached at high velocity
+    # where mu(v) -> mu_fast (Constantinou et al. 1990 model), stays within a few per cent.
+    constant = demo.alternatives[0].history["summary"]["isolator_displacement_lower"]
+    assert rate != constant
+    assert rate == pytest.approx(constant, rel=0.05)

@@ -191,7 +191,7 @@ def test_eurocode_extended_refuses_beyond_max_period():
 
 def test_eurocode_max_period_is_keyword_only():
     # Keyword-only so that a sixth positional value cannot be read as a period by mistake.
-    with pytest.raises(TypeError):
+    with pytest.raises(TypeError, match="positional argument"):
         EurocodeSpectrum(0.2, "C", 1, 1.0, "eurocode", 6.0)
 
 

@@ -36,6 +36,8 @@ G = 9.80665            # m/s2, standard gravity (CGPM 1901)
     ("30 s", "time", 30.0),
     ("7 kip/in", "stiffness", 7 * LBF / INCH),       # kN/m: 7000 lbf/in
     ("660 t", "weight", 660 * G),                    # weight of a mass: m g, CGPM 1901
+    ("1500 kip*s**2/ft", "mass", 1500 * LBF / FOOT),  # t: 1000 lbf s2/0.3048 m = 14.594 t per kip s2/ft
+    ("3.8 kip*s**2/in", "mass", 3.8 * LBF / INCH),   # t, NIST SP 811
 ])
 def test_strings_with_units_convert_to_internal_units(text, kind, expected):
     assert parse_quantity(text, kind, field="x") == pytest.approx(expected, rel=1e-6)
@@ -47,6 +49,10 @@ def test_strings_with_units_convert_to_internal_units(text, kind, expected):
     (100, "force", "US", 100 * LBF),       # bare US force is kip: 100 kip = 100 000 lbf = 444.8 kN
     (60, "stress", "US", 60 * PSI),        # bare US stress is psi
     (350, "force", "SI", 350.0),
+    (100, "weight", "US", 100 * LBF),      # bare US weight is kip, not lbf (NIST SP 811: kip = 1000 lbf)
+    (660, "weight", "SI", 660.0),          # bare SI weight is kN
+    (660, "mass", "SI", 660.0),            # bare SI mass is t
+    (1, "mass", "US", LBF / INCH),         # kip s2/in = 1000 lbf s2/0.0254 m = 175.13 t (NIST SP 811)
 ])
 def test_bare_numbers_take_the_systems_unit(number, kind, system, expected):
     assert parse_quantity(number, kind, field="x", system=system) == pytest.approx(expected, rel=1e-6)
@@ -134,3 +140,10 @@ def test_an_amount_per_unit_reads_with_a_leading_slash():
     assert parse_quantity("325 / ft**2", "per_area", field="cost") == pytest.approx(325 / 0.3048**2, rel=1e-12)
     with pytest.raises(ValueError, match="cost"):
         parse_quantity("/ m**2", "per_area", field="cost")
+
+
+def test_mass_message_example_uses_the_us_mass_unit():
+    # The allowed-input example names the bare US mass unit (kip s2/in), not another one.
+    with pytest.raises(InputError) as caught:
+        parse_quantity("3 m", "mass", field="building.mass")
+    assert "kip*s**2/in" in str(caught.value) and "kip*s**2/ft" not in str(caught.value)

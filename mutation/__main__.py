@@ -1,0 +1,5 @@
+import sys
+
+from mutation.run import main
+
+sys.exit(main())
