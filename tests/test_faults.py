@@ -343,7 +343,8 @@ def test_interrupting_a_run_prints_one_line(tmp_path, which):
       "building.floor_weights": 5000.0}, ["building.fixed_base_period", "sub-steps"]),
     ({"project.name": "Venhollow\x00"}, ["project.name", "control"]),
     # 40 storeys of 20 m: the code's period estimate (ASCE/SEI 7-16 Eq. 12.8-7) passes the spectrum's end
-    ({"building.storeys": 40, "building.storey_heights": 20.0, "building.floor_weights": 5000.0},
+    ({"building.storeys": 40, "building.storey_heights": 20.0, "building.floor_weights": 5000.0,
+      "building.lateral_system": "concrete_moment_frame"},
      ["building.fixed_base_period", "building.storey_heights", "[0, 10] s"]),
 ])
 def test_check_finds_what_run_would_fail_on(tmp_path, overrides, words, capsys):
