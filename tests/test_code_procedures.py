@@ -1121,3 +1121,16 @@ def test_tabulated_spectrum_damping_and_interpolation():
     with pytest.raises(ValueError, match=r"damping = 1\.5 is not allowed"):
         TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=1.5)
     assert TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=1.0).damping == 1.0
+
+
+def test_spectrum_construction_edges():
+    from isolation.spectra import TabulatedSpectrum
+    # T_L must exceed T_S = S_M1/S_MS = 0.5 s (S_MS 2.0, S_M1 1.0): 1.0 s is allowed.
+    assert CodeSpectrum(2.0, 1.0, long_period=1.0).long_period == 1.0
+    # The first period that fails to increase is named (index 3 here, after a repeated 1.0 s).
+    with pytest.raises(ValueError, match=r"periods\[2\] = 1\.0 is not allowed"):
+        TabulatedSpectrum((0.5, 1.0, 1.0, 0.9), (1.0, 1.0, 1.0, 1.0))
+    # A table at 10 % damping with the Eurocode rule is brought to 5 % with eta = sqrt(10/15)
+    # (EN 1998-1 Eq. 3.6) [derived]: 0.5/sqrt(2/3) = 0.61237 g at 1 s.
+    table = TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=0.10, rule="eurocode")
+    assert table.sa(1.0) == pytest.approx(0.5 / math.sqrt(10 / 15), rel=1e-12)
