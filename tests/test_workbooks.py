@@ -218,6 +218,8 @@ def test_pdf_shows_no_code_and_keeps_the_cautions(feasibility_pdf):
     assert "licensed structural engineer" in text
     assert "Quick run." in text  # a quick run says so in the report
     assert "Figure 1:" in text and "Table 1:" in text
+    # issue 10: the report states how friction is regularised in the response histories
+    assert re.search(r"Friction law, Friction pendulum: (Friction regularised|No friction regularisation|Sharp friction)", text)
 
 
 @pytest.mark.slow
