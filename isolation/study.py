@@ -294,15 +294,35 @@ def _parse(mapping: Mapping[str, Any], source: str, base_dir: Path, cache: dict 
     total_weight = building.total_weight if building is not None else None
     alternatives = part("alternative", (total_weight,),
                         lambda t: _cached_alternatives(t, total_weight, system, cache), array=True)
-    from isolation.loss.inputs import read_loss_tables
-
-    loss = read_loss_tables(reader, basis)
+    loss = _loss_tables(mapping, reader, problems, basis, system, cache)
     reader.done()
     if problems:
         raise StudyError(problems.items, source)
     return Study(project=project, basis=basis, units=units, site=site, building=building,
                  alternatives=alternatives, analysis=analysis, wind_base_shear=wind_shear,
                  source=source, loss=loss)
+
+
+_LOSS_KEYS = ("cost", "hazard", "loss")
+
+
+def _loss_tables(mapping, reader, problems, basis: str, system: str, cache: dict | None):
+    """[cost], [hazard] and [loss] of a study, read once per distinct content when ``cache`` is given."""
+    from isolation.loss.inputs import read_loss_tables
+
+    reader.known.update(_LOSS_KEYS)
+    part = {key: mapping[key] for key in _LOSS_KEYS if key in mapping}
+    memo = ("loss tables", basis, system, repr(part)) if cache is not None else None
+    if memo is not None and memo in cache:
+        result, found = cache[memo]
+        problems.items.extend(found)
+        return result
+    local = Problems()
+    result = read_loss_tables(Reader(part, "", local, system), basis)
+    if memo is not None:
+        cache[memo] = (result, tuple(local.items))
+    problems.items.extend(local.items)
+    return result
 
 
 def _cached_alternatives(tables, total_weight, system: str, cache: dict | None) -> tuple:
