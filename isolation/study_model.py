@@ -303,8 +303,6 @@ def _store(text: str, entry: tuple) -> None:
 def _check_design(study: Study, systems: list) -> None:
     """Each alternative's code design, and its isolated periods against the motion suite."""
     from isolation.errors import InputError, RunError
-    from isolation.motions.matching import _band
-    from isolation.runner import suite_options
 
     spectrum = site_spectrum(study)
     t_fb, source = fixed_base_period(study)
@@ -335,33 +333,40 @@ def _check_design(study: Study, systems: list) -> None:
 
         pair = _remembered(("design", i, study.basis, study.site, study.building, study.analysis,
                             study.wind_base_shear, alternative), design)
-        for quick in (False, True):
-            options, _ = suite_options(study, spectrum, pair, quick)
-            try:
-                _band(spectrum, options["dt"], options["duration"], options.get("period_range"),
-                      options["isolated_period"], options["rule"])
-            except ValueError:
-                raise InputError(
-                    f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its isolated "
-                    f"period T_M = {pair[0]:.3g}-{pair[1]:.3g} s (upper-lower bound) lies outside what the "
-                    f"study's motion suite can cover (analysis.time_step = {study.analysis.time_step:g} s, "
-                    f"analysis.duration = {study.analysis.duration:g} s{', quick runs' if quick else ''}; "
-                    f"an isolated building has T_M of about 1.5-6 s); "
-                    + _WHICH_KEYS.format(i=i)) from None
+        quick = _uncovered(study, spectrum, pair)
+        if quick is not None:
+            raise InputError(
+                f"alternative[{i}] ({alternative.name!r}) is not allowed with these inputs: its isolated "
+                f"period T_M = {pair[0]:.3g}-{pair[1]:.3g} s (upper-lower bound) lies outside what the "
+                f"study's motion suite can cover (analysis.time_step = {study.analysis.time_step:g} s, "
+                f"analysis.duration = {study.analysis.duration:g} s{', quick runs' if quick else ''}; "
+                f"an isolated building has T_M of about 1.5-6 s); "
+                + _WHICH_KEYS.format(i=i)) from None
         periods.append(pair)
     if len(periods) > 1:
         pair = (min(p[0] for p in periods), max(p[1] for p in periods))
-        for quick in (False, True):
-            options, _ = suite_options(study, spectrum, pair, quick)
-            try:
-                _band(spectrum, options["dt"], options["duration"], options.get("period_range"),
-                      options["isolated_period"], options["rule"])
-            except ValueError:
-                raise InputError(
-                    f"alternative = the alternatives together are not allowed: their isolated periods "
-                    f"T_M = {pair[0]:.3g}-{pair[1]:.3g} s span more than one motion suite can cover "
-                    f"(analysis.time_step = {study.analysis.time_step:g} s, analysis.duration = "
-                    f"{study.analysis.duration:g} s); study them in separate files") from None
+        if _uncovered(study, spectrum, pair) is not None:
+            raise InputError(
+                f"alternative = the alternatives together are not allowed: their isolated periods "
+                f"T_M = {pair[0]:.3g}-{pair[1]:.3g} s span more than one motion suite can cover "
+                f"(analysis.time_step = {study.analysis.time_step:g} s, analysis.duration = "
+                f"{study.analysis.duration:g} s); study them in separate files") from None
+
+
+def _uncovered(study: Study, spectrum, pair: tuple) -> bool | None:
+    """The first suite setting (quick False, then True) whose matched band cannot hold the check range
+    around the isolated periods ``pair`` (T_M upper, T_M lower) [s]; None when both can."""
+    from isolation.motions.matching import _band
+    from isolation.runner import suite_options
+
+    for quick in (False, True):
+        options, _ = suite_options(study, spectrum, pair, quick)
+        try:
+            _band(spectrum, options["dt"], options["duration"], options.get("period_range"),
+                  options["isolated_period"], options["rule"])
+        except ValueError:
+            return quick
+    return None
 
 
 MAX_SUBSTEPS = 50
