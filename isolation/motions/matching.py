@@ -212,6 +212,15 @@ def _starting_records(shaping: _Shaping, aim: np.ndarray, seeds) -> np.ndarray:
     return shaping.baseline(records * shaping.envelope * shaping.taper)
 
 
+def progress_bar(progress: bool | None, total: int, description: str):
+    """A tqdm bar of ``total`` iterations, disabled (a no-op) unless ``progress`` is true or, when
+    ``progress`` is None, standard error is a terminal."""
+    from tqdm.auto import tqdm
+
+    show = sys.stderr.isatty() if progress is None else bool(progress)
+    return tqdm(total=total, desc=description, unit="iteration", leave=False, disable=not show)
+
+
 def _shaping(length: float, step: float, strong: float, periods: np.ndarray, high: float, magnitude) -> _Shaping:
     """Envelope, tapers, baseline shapes and frequency grids of one matching run."""
     steps = int(round(length / step))
@@ -361,13 +370,7 @@ def matched_suite(
         best_score[rows[better]] = score[better]
         best_iteration[rows[better]] = iteration
 
-    show = sys.stderr.isatty() if progress is None else bool(progress)
-    bar = None
-    if show:
-        from tqdm.auto import tqdm
-
-        bar = tqdm(total=limit + refinements, desc="matching suite", unit="iteration", leave=False)
-    try:
+    with progress_bar(progress, limit + refinements, "matching suite") as bar:
         # Stage 1: frequency-domain iteration (Gasparini & Vanmarcke).
         active = np.arange(number)
         for iteration in range(limit + 1):
@@ -378,8 +381,7 @@ def matched_suite(
                 break
             records, ratio, active = records[keep], ratio[keep], active[keep]
             records = shaping.correct(records, ratio)
-            if bar is not None:
-                bar.update(1)
+            bar.update(1)
         # Stage 2: wavelet refinement of the records still outside the tolerance.
         active = np.flatnonzero(best_score > goal_reached)
         records = best[active].copy()
@@ -397,11 +399,7 @@ def matched_suite(
             if active.size == 0:
                 break
             records = shaping.baseline(adjusted[keep] * shaping.taper)
-            if bar is not None:
-                bar.update(1)
-    finally:
-        if bar is not None:
-            bar.close()
+            bar.update(1)
 
     spectra = response_spectrum(best, step, periods, zeta)
     inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))

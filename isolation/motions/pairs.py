@@ -31,12 +31,11 @@ Rules for pairs (:data:`PAIR_RULES`):
 from __future__ import annotations
 
 import math
-import sys
 from typing import Any
 
 import numpy as np
 
-from isolation.motions.matching import _band, _record_factors, _shaping, _whole, matched_suite
+from isolation.motions.matching import _band, _record_factors, _shaping, _whole, matched_suite, progress_bar
 from isolation.motions.pair_spectra import rotd100_spectrum, srss_spectrum
 from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs
 from isolation.validate import in_range, one_of, positive
@@ -173,13 +172,7 @@ def matched_pairs(
     best_iteration = np.zeros(number, dtype=int)
     goal_reached = math.log1p(_TOLERANCE)
     active = np.arange(number)
-    show = sys.stderr.isatty() if progress is None else bool(progress)
-    bar = None
-    if show:
-        from tqdm.auto import tqdm
-
-        bar = tqdm(total=limit, desc="matching pairs", unit="iteration", leave=False)
-    try:
+    with progress_bar(progress, limit, "matching pairs") as bar:
         for iteration in range(limit + 1):
             ratio = _pair_spectrum(rule, pairs, step, periods, zeta) / aim
             score = np.abs(np.log(ratio)).max(axis=-1)
@@ -192,11 +185,7 @@ def matched_pairs(
                 break
             pairs, ratio, active = pairs[keep], ratio[keep], active[keep]
             pairs = shaping.correct(pairs, ratio[:, None, :])
-            if bar is not None:
-                bar.update(1)
-    finally:
-        if bar is not None:
-            bar.close()
+            bar.update(1)
 
     spectra = _pair_spectrum(rule, best, step, periods, zeta)
     inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
