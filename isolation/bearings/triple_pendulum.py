@@ -41,7 +41,7 @@ doi:10.1193/1.2982531
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -257,12 +257,8 @@ class TripleFrictionPendulum:
             Multiplier, > 0. [-]
         """
         f = validate.positive("friction factor", factor)
-        return TripleFrictionPendulum(
-            self.radius_outer, self.radius_inner, self.friction_inner * f, self.friction_1 * f, self.friction_4 * f,
-            slider_height_outer=self.slider_height_outer, slider_height_inner=self.slider_height_inner,
-            displacement_capacity_outer=self.displacement_capacity_outer,
-            displacement_capacity_inner=self.displacement_capacity_inner,
-            yield_displacement=self.yield_displacement)
+        return replace(self, friction_inner=self.friction_inner * f, friction_1=self.friction_1 * f,
+                       friction_4=self.friction_4 * f)
 
     def checks(self, axial_load, displacement, *, axial_load_max=None, axial_load_min=None,
                rotation=0.0, weight_share=None):
