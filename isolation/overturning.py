@@ -26,6 +26,7 @@ from the design drawings in a real check.
 from __future__ import annotations
 
 import math
+import numbers
 from dataclasses import asdict, dataclass
 from typing import Iterable
 
@@ -52,11 +53,11 @@ def grid_rows(count: int, across: float, along: float) -> int:
     int
         round(sqrt(count across/along)) within [2, count]: a grid of nearly square bays.
     """
-    n = int(count)
-    if n < 2:
+    if isinstance(count, bool) or not isinstance(count, numbers.Integral) or count < 2:
         raise ValueError(f"count = {count!r} is not allowed: must be an integer >= 2 (bearings)")
     a = validate.positive("across", across, "m")
     b = validate.positive("along", along, "m")
+    n = int(count)
     return int(min(max(round(math.sqrt(n * a / b)), 2), n))
 
 

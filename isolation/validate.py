@@ -107,7 +107,7 @@ def finite_array(field: str, values: Any, unit: str = "") -> np.ndarray:
         index = tuple(int(i) for i in np.argwhere(bad)[0])
         where = index[0] if len(index) == 1 else index
         raise ValueError(
-            f"{field}[{where}] = {array[index]!r} is not allowed: must be a finite number"
+            f"{field}[{where}] = {float(array[index])!r} is not allowed: must be a finite number"
             + (f" [{unit}]" if unit else "")
         )
     return array
@@ -121,7 +121,7 @@ def positive_array(field: str, values: Any, unit: str = "") -> np.ndarray:
         index = tuple(int(i) for i in np.argwhere(bad)[0])
         where = index[0] if len(index) == 1 else index
         raise ValueError(
-            f"{field}[{where}] = {array[index]!r} is not allowed: must be a finite number > 0"
+            f"{field}[{where}] = {float(array[index])!r} is not allowed: must be a finite number > 0"
             + (f" [{unit}]" if unit else "")
         )
     return array

@@ -55,6 +55,9 @@ MODULES: dict[str, tuple[str, ...]] = {
 }
 """Module of ``isolation/`` (without .py) -> the test files that check it."""
 
+_COMMON = ("tests/test_core_messages.py",)
+"""Test files run for every module (bad-input messages of the whole numeric core)."""
+
 _SKIP = "not demo and not without_a_cycle and not no_nan_for_valid_input"
 """Tests left out of mutant runs: whole-study runs and subprocess imports (seconds each, and
 they check wiring rather than one module's arithmetic)."""
@@ -63,7 +66,7 @@ _COPY = ("isolation", "tests", "examples", "workbooks", "templates", "records")
 
 
 def _config(module: str, tests: tuple[str, ...]) -> str:
-    listed = "\n    ".join(tests)
+    listed = "\n    ".join(tuple(tests) + _COMMON)
     return (f"[mutmut]\nsource_paths = isolation\nonly_mutate = isolation/{module}.py\n"
             f"pytest_add_cli_args_test_selection =\n    {listed}\n"
             "pytest_add_cli_args =\n    -q\n    -x\n    -p\n    no:cacheprovider\n    -m\n    not slow\n"

@@ -1134,3 +1134,64 @@ def test_spectrum_construction_edges():
     # (EN 1998-1 Eq. 3.6) [derived]: 0.5/sqrt(2/3) = 0.61237 g at 1 s.
     table = TabulatedSpectrum((0.1, 1.0), (1.0, 0.5), damping=0.10, rule="eurocode")
     assert table.sa(1.0) == pytest.approx(0.5 / math.sqrt(10 / 15), rel=1e-12)
+
+
+def _cites(text, clause):
+    """``text`` starts with the standard's designation and the clause (a citation a reader can look up)."""
+    return text.startswith(f"ASCE/SEI 7-16 {clause}")
+
+
+def test_response_coefficient_names_the_governing_equation():
+    from isolation.fixed_base import response_coefficient
+    # ASCE/SEI 7-16 §12.8.1.1 (from memory) with the standard's symbols S_DS, S_D1, T_L, R, I_e:
+    # Eq. 12.8-2 C_s = S_DS/(R/I_e); need not exceed 12.8-3 S_D1/(T R/I_e) for T <= T_L,
+    # 12.8-4 S_D1 T_L/(T^2 R/I_e) beyond; not less than 12.8-5 0.044 S_DS I_e >= 0.01;
+    # 12.8-6 0.5 S_1/(R/I_e) where S_1 >= 0.6 g. [derived] values below.
+    cs, governs = response_coefficient(1.0, 0.6, 0.3, 8.0)             # plateau: 1/8
+    assert cs == pytest.approx(0.125) and _cites(governs, "Eq. 12.8-2 (") and "S_DS" in governs and "I_e" in governs
+    cs, governs = response_coefficient(1.0, 0.6, 1.0, 8.0)             # 0.6/8 = 0.075 > 0.044 floor
+    assert cs == pytest.approx(0.075) and _cites(governs, "Eq. 12.8-3 (")
+    assert "S_D1" in governs and "I_e" in governs and "T_L" not in governs
+    cs, governs = response_coefficient(1.0, 0.6, 10.0, 1.0, 1.0, 8.0)  # 0.6*8/100 = 0.048
+    assert cs == pytest.approx(0.048) and _cites(governs, "Eq. 12.8-4 (")
+    assert "S_D1" in governs and "T_L" in governs and "I_e" in governs
+    cs, governs = response_coefficient(1.0, 0.6, 4.0, 8.0, 1.5)        # 0.044*1.0*1.5 = 0.066
+    assert cs == pytest.approx(0.066) and _cites(governs, "Eq. 12.8-5 (") and "S_DS" in governs and "I_e" in governs
+    cs, governs = response_coefficient(1.0, 0.6, 3.0, 4.0, s1=0.7)     # 0.5*0.7/4 = 0.0875
+    assert cs == pytest.approx(0.0875) and _cites(governs, "Eq. 12.8-6 (") and "S_1" in governs and "I_e" in governs
+
+
+def test_response_coefficient_limits_bind_only_when_crossed():
+    from isolation.fixed_base import response_coefficient
+    # ASCE/SEI 7-16 §12.8.1.1 (from memory): 12.8-3 applies where C_s "need not exceed" it, the
+    # floors where C_s "shall not be less than" them, so at exact equality the earlier equation
+    # stands. [derived] S_DS 1.0, S_D1 0.5, T 0.5 s (= T_S), R 2: 12.8-2 1/2 = 12.8-3 0.5/(0.5*2).
+    cs, governs = response_coefficient(1.0, 0.5, 0.5, 2.0)
+    assert cs == 0.5 and _cites(governs, "Eq. 12.8-2 (")
+    # 12.8-3 0.08/(1*8) = 0.01 equals the 0.01 floor of Eq. 12.8-5 (S_DS 0.1: 0.044*0.1 < 0.01).
+    cs, governs = response_coefficient(0.1, 0.08, 1.0, 8.0)
+    assert cs == 0.01 and _cites(governs, "Eq. 12.8-3 (")
+    # 12.8-6 0.5*0.8/4 = 0.1 equals 12.8-3 0.4/(1*4) = 0.1 with S_1 0.8 g.
+    cs, governs = response_coefficient(1.0, 0.4, 1.0, 4.0, s1=0.8)
+    assert cs == pytest.approx(0.1) and _cites(governs, "Eq. 12.8-3 (")
+
+
+def test_fixed_base_defaults_and_notes():
+    from isolation.fixed_base import fixed_base_shear
+    # ASCE/SEI 7-16 Table 12.8-2 (SI, from memory): "all other structural systems" C_t 0.0488,
+    # x 0.75, the documented default row.
+    assert approximate_period(20.0) == pytest.approx(0.0488 * 20.0**0.75)
+    shear = fixed_base_shear(SPECTRUM, 1000.0, 8.0, height=20.0)
+    assert shear.period == pytest.approx(0.0488 * 20.0**0.75) and shear.approximate_period == shear.period
+    assert shear.period_source.startswith("approximate T_a") and "Eq. 12.8-7" in shear.period_source
+    # A code spectrum carries its design values (2/3 of S_MS, S_M1: ASCE/SEI 7-16 §11.4.5).
+    assert _cites(shear.source, "§11.4.5 (") and "2/3" in shear.source
+    # A given period above C_u T_a is capped (§12.8.2): C_u 1.4 at S_D1 0.6 g (Table 12.8-1).
+    capped = fixed_base_shear(SPECTRUM, 1000.0, 8.0, period=5.0, height=20.0)
+    assert capped.period == pytest.approx(1.4 * 0.0488 * 20.0**0.75)
+    assert capped.period_source.startswith("given, capped at C_u T_a (ASCE/SEI 7-16 §12.8.2")
+    # Any other spectrum: the §21.4-style reading (90 % of the peak over 0.2-5 s, 2/3 of MCE_R).
+    from isolation.spectra import TabulatedSpectrum
+    flat = TabulatedSpectrum(periods=(0.01, 0.5, 1.0, 6.0), values=(0.6, 0.6, 0.6, 0.1))
+    other = fixed_base_shear(flat, 1000.0, 8.0, period=0.3)
+    assert _cites(other.source, "§21.4 style") and other.sds == pytest.approx(0.9 * 2.0 / 3.0 * 0.6)

@@ -1,0 +1,219 @@
+"""Bad input to the numeric core: every ValueError names the parameter and its unit.
+
+The package rule (DEVELOPERS.md, "Bad input"): a clear ValueError naming the field, the
+value and what is allowed, with the unit in brackets; and every public parameter's
+docstring states its unit in brackets (numpydoc). These tests hold the two together
+without restating either: the expected field is the parameter's name in the signature
+(or the dataclass field), the expected unit is the one in the numpydoc "Parameters"
+section of the same object's docstring. Each parameter is made invalid in turn (NaN for
+numbers, an unknown word for choices) with every other argument valid.
+"""
+
+from __future__ import annotations
+
+import inspect
+import math
+import re
+
+import pytest
+
+from isolation import damping, design_eurocode, fixed_base, overturning, verdict_sources
+from isolation.design_asce7 import ElfBuilding
+from isolation.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+
+_SECTION = re.compile(r"^([A-Z][A-Za-z ]+)\n-{3,}$", re.M)
+
+
+def documented_units(obj) -> dict[str, str]:
+    """Parameter name -> the unit in the last [...] of its numpydoc description."""
+    doc = inspect.getdoc(obj) or ""
+    heads = list(_SECTION.finditer(doc))
+    units: dict[str, str] = {}
+    for i, head in enumerate(heads):
+        if head.group(1) not in ("Parameters", "Other Parameters"):
+            continue
+        end = heads[i + 1].start() if i + 1 < len(heads) else len(doc)
+        names: list[str] = []
+        text: list[str] = []
+        for line in doc[head.end():end].splitlines() + ["x : end"]:
+            if line and not line[0].isspace() and " : " in line:
+                found = re.findall(r"\[([^\]]+)\]", " ".join(text))
+                for name in names:
+                    if found:
+                        units[name] = found[-1]
+                names = [n.strip().lstrip("*") for n in line.split(" : ")[0].split(",")]
+                text = []
+            else:
+                text.append(line)
+    return units
+
+
+def refuses(call, valid: dict, name: str, bad, unit: str | None) -> str:
+    """Call with ``name`` set to ``bad``: the ValueError names the field, the value and the unit."""
+    kwargs = dict(valid, **{name: bad})
+    with pytest.raises(ValueError) as caught:
+        call(**kwargs)
+    message = str(caught.value)
+    assert re.match(rf"{re.escape(name)}(\[\d+\])? = ", message), message
+    assert "is not allowed: must be" in message, message
+    if unit is not None:
+        assert message.endswith(f" [{unit}]"), (message, unit)
+    return message
+
+
+def probe_all(call, valid: dict, *, choices: tuple[str, ...] = (), skip: tuple[str, ...] = (),
+              unitless: tuple[str, ...] = ()):
+    """Every documented numeric parameter in ``valid`` refused as NaN (message with its documented
+    unit; for a sequence, NaN in its second entry and the index in the message), every parameter
+    in ``choices`` refused as an unknown word (message listing the choices). ``unitless``: integer
+    counts whose message says "an integer" instead of a unit."""
+    units = documented_units(call)
+    probed = 0
+    for name, value in valid.items():
+        if name in skip or name in choices:
+            continue
+        if isinstance(value, tuple) and len(value) > 1 and all(isinstance(v, float) for v in value):
+            bad = value[:1] + (math.nan,) + value[2:]
+            message = refuses(call, valid, name, bad, units[name])
+            assert message.startswith(f"{name}[1] = nan"), message
+            probed += 1
+            continue
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            continue
+        assert name in units, f"{getattr(call, '__name__', call)}: no unit documented for {name}"
+        refuses(call, valid, name, math.nan, None if name in unitless else units[name])
+        probed += 1
+    for name in choices:
+        message = refuses(call, valid, name, "no-such-choice", None)
+        assert repr(valid[name]) in message, message      # the allowed values are listed
+        probed += 1
+    assert probed, "nothing probed"
+
+
+SPECTRUM = CodeSpectrum(sms=1.5, sm1=0.9, long_period=8.0)
+
+
+def test_documented_units_reads_numpydoc():
+    def sample(a, b, c):
+        """Doc.
+
+        Parameters
+        ----------
+        a, b : float
+            Two values,
+            over two lines. [kN]
+        c : str
+            No unit here.
+
+        Returns
+        -------
+        float
+            Something. [m]
+        """
+    assert documented_units(sample) == {"a": "kN", "b": "kN"}
+
+
+# --- fixed_base (ASCE/SEI 7-16 §12.8) ------------------------------------------------------
+
+def test_fixed_base_messages():
+    probe_all(fixed_base.approximate_period, {"height": 12.0, "frame": "steel_moment"}, choices=("frame",))
+    probe_all(fixed_base.period_upper_limit_factor, {"sd1": 0.3})
+    probe_all(fixed_base.response_coefficient,
+              {"sds": 1.0, "sd1": 0.6, "period": 1.0, "response_modification": 8.0, "importance": 1.0,
+               "long_period": 8.0, "s1": 0.7})
+    units = documented_units(fixed_base.fixed_base_shear)
+    valid = {"spectrum": SPECTRUM, "weight": 1000.0, "response_modification": 8.0, "period": 0.5,
+             "height": 12.0, "frame": "steel_moment", "importance": 1.0, "s1": 0.7}
+    for name in ("weight", "response_modification", "period", "height", "importance", "s1"):
+        refuses(fixed_base.fixed_base_shear, valid, name, math.nan, units[name])
+    refuses(fixed_base.fixed_base_shear, valid, "frame", "no-such-choice", None)
+    # Without period and height there is nothing to take T from: the message names both.
+    with pytest.raises(ValueError, match=r"^period = None is not allowed without height: .*\[s\].*\[m\]"):
+        fixed_base.fixed_base_shear(SPECTRUM, 1000.0, 8.0)
+
+
+# --- ASCE/SEI 7-16 Ch. 17 and EN 1998-1 §10.9 building data -----------------------------------
+
+def test_elf_building_messages():
+    valid = dict(base_weight=2000.0, floor_weights=(3000.0, 3000.0, 2000.0), floor_elevations=(4.0, 8.0, 12.0),
+                 plan_length=40.0, plan_width=20.0, response_modification=8.0, eccentricity=1.0,
+                 corner_distance=21.0, torsion_period_ratio=1.0, isolator_kind="sliding", fixed_base_period=0.5,
+                 frame="steel_moment", importance=1.25, wind_base_shear=500.0, activation_force=900.0, s1=0.5,
+                 site_class="C", height=13.0, moat_clearance=0.05)
+    probe_all(ElfBuilding, valid, choices=("isolator_kind", "frame", "site_class"))
+    message = refuses(ElfBuilding, valid, "irregular", "yes", None)
+    assert "True" in message and "False" in message
+
+
+def test_eurocode_messages():
+    valid = dict(weight=10000.0, superstructure_period=0.4, plan_length=30.0, plan_width=20.0, eccentricity=1.0,
+                 corner_distance=16.0, storeys=3, behaviour_factor=3.9, isolated_behaviour_factor=1.2,
+                 displacement_amplification=1.2, fault_distance=20.0, vertical_stiffness_ratio=800.0,
+                 superstructure_weight=7000.0)
+    probe_all(design_eurocode.EurocodeBuilding, valid, unitless=("storeys",))
+    message = refuses(design_eurocode.EurocodeBuilding, valid, "storeys", 0, None)
+    assert "integer >= 1" in message
+    refuses(design_eurocode.EurocodeBuilding, valid, "regular", "yes", None)
+    spectrum = EurocodeSpectrum(0.3, "C")
+    probe_all(design_eurocode.eurocode_approximate_period, {"height": 12.0, "frame": "steel_moment"},
+              choices=("frame",))
+    units = documented_units(design_eurocode.eurocode_design_spectrum)
+    valid = {"spectrum": spectrum, "period": 1.0, "behaviour_factor": 3.9, "lower_bound": 0.2}
+    for name in ("period", "behaviour_factor", "lower_bound"):
+        refuses(design_eurocode.eurocode_design_spectrum, valid, name, math.nan, units[name])
+    units = documented_units(design_eurocode.eurocode_fixed_base_shear)
+    valid = {"spectrum": spectrum, "weight": 7000.0, "behaviour_factor": 3.9, "period": 0.4, "storeys": 3}
+    for name in ("weight", "period", "storeys"):
+        refuses(design_eurocode.eurocode_fixed_base_shear, valid, name, math.nan, units[name])
+
+
+# --- site spectra and damping ------------------------------------------------------------------
+
+def test_spectrum_messages():
+    probe_all(CodeSpectrum, dict(sms=1.5, sm1=0.9, long_period=8.0, level="design", max_period=10.0,
+                                 rule="eurocode"), choices=("level", "rule"))
+    probe_all(EurocodeSpectrum, dict(ag=0.3, ground="B", spectrum_type=2, importance=1.2, rule="asce7",
+                                     max_period=6.0), choices=("ground", "rule"), skip=("spectrum_type",))
+    refuses(EurocodeSpectrum, dict(ag=0.3), "spectrum_type", 3, None)
+    probe_all(TabulatedSpectrum, dict(periods=(0.0, 0.5, 1.0, 2.0), values=(0.4, 1.0, 0.8, 0.4), damping=0.1,
+                                      rule="eurocode"), choices=("rule",))
+    units = documented_units(CodeSpectrum.sa)
+    for spectrum in (SPECTRUM, EurocodeSpectrum(0.3, "C")):
+        refuses(spectrum.sa, {"period": 1.0, "damping": 0.1}, "damping", math.nan, units["damping"])
+        refuses(spectrum.sa, {"period": 1.0, "damping": 0.1, "rule": "asce7"}, "rule", "no-such-choice", None)
+
+
+def test_damping_messages():
+    # The damping functions serve Spectrum.sa(period, damping): their messages name that field.
+    for call in (damping.damping_coefficient, damping.eurocode_eta):
+        unit = documented_units(call)["beta"]
+        for bad in (math.nan, 1.5, -0.1):
+            with pytest.raises(ValueError) as caught:
+                call(bad)
+            assert re.match(r"damping = .* is not allowed: must be .* \[" + re.escape(unit) + r"\]$", str(caught.value))
+        with pytest.raises(ValueError, match=r"^damping\[1\] = nan is not allowed: .* \[-\]$"):
+            call([0.1, math.nan])
+    refuses(damping.damping_coefficient, {"beta": 0.2, "rule": "eurocode"}, "rule", "no-such-choice", None)
+
+
+# --- overturning and verdict sources -----------------------------------------------------------
+
+def test_overturning_messages():
+    probe_all(overturning.grid_rows, {"count": 12, "across": 20.0, "along": 30.0}, unitless=("count",))
+    for bad in (1, 2.5, True):
+        assert "integer >= 2" in refuses(overturning.grid_rows, {"count": 12, "across": 20.0, "along": 30.0},
+                                         "count", bad, None)
+    probe_all(overturning.asce7_vertical_fraction, {"sms": 1.5})
+    probe_all(overturning.eurocode_vertical_fraction, {"ag": 0.3, "spectrum_type": 1}, skip=("spectrum_type",))
+    refuses(overturning.eurocode_vertical_fraction, {"ag": 0.3, "spectrum_type": 1}, "spectrum_type", 3, None)
+    probe_all(overturning.bearing_uplift, dict(shear=1000.0, height=6.0, bearings=[(4, 1000.0), (8, 2000.0)],
+                                                plan_length=30.0, plan_width=20.0, gravity_factor=0.9,
+                                                vertical_fraction=0.2))
+
+
+def test_verdict_sources_messages():
+    probe_all(verdict_sources.eurocode_reduction_factor, {"importance": 1.2})
+    refuses(verdict_sources.source, {"topic": "drift", "basis": "asce7"}, "basis", "no-such-choice", None)
+    refuses(verdict_sources.drift_limit, {"basis": "asce7"}, "basis", "no-such-choice", None)
+    refuses(verdict_sources.drift_limit, {"basis": "eurocode", "nonstructural": "brittle"}, "nonstructural",
+            "no-such-choice", None)
