@@ -1195,3 +1195,121 @@ def test_fixed_base_defaults_and_notes():
     flat = TabulatedSpectrum(periods=(0.01, 0.5, 1.0, 6.0), values=(0.6, 0.6, 0.6, 0.1))
     other = fixed_base_shear(flat, 1000.0, 8.0, period=0.3)
     assert _cites(other.source, "§21.4 style") and other.sds == pytest.approx(0.9 * 2.0 / 3.0 * 0.6)
+
+
+# --- what the printed reports say: units, citations, the standards' terms -----------------------
+
+# Units of each reported quantity from its dimensions in the package's units (kN, m, s; "-" for a
+# ratio) [derived]: displacements m, periods s, forces kN, stiffness kN/m.
+_ELF_UNITS = {"D_M": "m", "T_M": "s", "beta_M": "-", "B_M": "-", "k_M": "kN/m", "e": "m", "D_TM": "m", "moat": "m",
+              "V_b": "kN", "V_st": "kN", "R_I": "-", "V_s,min,fixed": "kN", "V_s,min,wind": "kN",
+              "V_s,min,activation": "kN", "V_s": "kN", "T_fb": "s", "k": "-", "F_1": "kN", "V_fb": "kN",
+              "V_s/V_fb": "-"}
+# Clause of ASCE/SEI 7-16 for each (Ch. 17 as listed in the module docstring, from memory).
+_ELF_CLAUSES = {"D_M": "Eq. 17.5-1", "T_M": "Eq. 17.5-2", "B_M": "Table 17.5-1", "k_M": "§17.5.3",
+                "e": "§17.5.3.3", "D_TM": "Eq. 17.5-3", "moat": "§17.2", "V_b": "§17.5.4.1", "V_st": "§17.5.4.2",
+                "R_I": "§17.5.4.2", "V_s,min,fixed": "§17.5.4.3 item 1", "V_s,min,wind": "§17.5.4.3 item 2",
+                "V_s,min,activation": "§17.5.4.3 item 3", "T_fb": "Eq. 12.8-7", "k": "§17.5.5", "F_1": "§17.5.5",
+                "V_fb": "Eq. 12.8-"}
+# Terms of ASCE/SEI 7-16 §11.3 notation (from memory) that start each quantity's name.
+_ELF_TERMS = {"D_M": "maximum displacement", "D_TM": "total maximum displacement", "T_M": "effective period",
+              "beta_M": "effective damping", "k_M": "effective stiffness", "B_M": "damping coefficient",
+              "V_s": "superstructure design shear", "R_I": "reduction factor", "T_fb": "fixed-base period"}
+
+
+def test_elf_report_units_citations_and_terms():
+    report = asce7_elf(sets(), building(isolator_kind="sliding", activation_force=900.0, fixed_base_period=None),
+                       SPECTRUM)
+    items = {i.symbol: i for i in report.quantities}
+    assert {s: i.unit for s, i in items.items()} == _ELF_UNITS
+    for symbol, clause in _ELF_CLAUSES.items():
+        assert items[symbol].source.startswith(f"ASCE/SEI 7-16 {clause}"), (symbol, items[symbol].source)
+    for symbol, term in _ELF_TERMS.items():
+        assert items[symbol].name.startswith(term), (symbol, items[symbol].name)
+    # Effective damping by the energy dissipated per cycle: Naeim & Kelly (1999), Eq. beta = EDC/(2 pi k D^2).
+    assert items["beta_M"].source.startswith("Naeim & Kelly (1999): EDC/(2 pi K_eff D^2)")
+    # Each V_s lower limit is named after what it is, and V_s cites the one that governs.
+    for symbol, what in (("V_s,min,fixed", "fixed-base shear at T_M"), ("V_s,min,wind", "factored wind shear"),
+                         ("V_s,min,activation", "activation force")):
+        assert items[symbol].name == f"lower limit on V_s: {what}"
+    governing = max(("V_st", "V_s,min,fixed", "V_s,min,wind", "V_s,min,activation"),
+                    key=lambda s: items[s].value / (items["R_I"].value if s == "V_st" else 1.0))
+    assert items["V_s"].source == (items[governing].source if governing != "V_st" else "ASCE/SEI 7-16 §17.5.4.2")
+    # Sliding system: the exponent's 3.5 beta_M and the reason are stated (issue: friction conventions).
+    assert "1 - 3.5 beta_M replaces 1 - 2.5 beta_M" in items["V_st"].source
+    assert "activation force 900 kN (given" in items["V_s,min,activation"].source
+    # The ELF applicability checks cite §17.4.1, the restoring force §17.2.4.4, the drift §17.5.6.
+    for check in report.applicability:
+        clause = "§17.2.4.4" if check.name.startswith("restoring force") else "§17.4.1"
+        assert check.source.startswith(f"ASCE/SEI 7-16 {clause}"), check.source
+    units = {c.name.split(" (")[0].split(",")[0]: c.unit for c in report.applicability}
+    assert units["height above the isolation interface"] == "m" and units["longest effective period T_M"] == "s"
+    assert units["storeys above the isolation interface"] == "-" and units["largest effective damping beta_M"] == "-"
+    (drift,) = report.checks
+    assert drift.source.startswith("ASCE/SEI 7-16 §17.5.6") and drift.unit == "-"
+    assert drift.name.startswith("storey drift ratio estimate (level ")
+
+
+def test_elf_warnings_say_what_failed_and_what_follows():
+    # 20 storeys of 4 m: 80 m over the 19.8 m of §17.4.1 (from memory) -> ELF not permitted.
+    tall = asce7_elf(sets(), building(floor_weights=(400.0,) * 20, floor_elevations=tuple(4.0 * (i + 1) for i in range(20))),
+                     SPECTRUM)
+    assert not tall.elf_permitted
+    failed = [c for c in tall.applicability if not c.passed]
+    assert len(failed) == len(tall.warnings) - sum(not c.passed for c in tall.checks)
+    for check, warning in zip(failed, tall.warnings):
+        unit = "" if check.unit == "-" else f" {check.unit}"
+        assert warning == (f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} ({check.source})"
+                           " - ELF not permitted: response-history analysis is required")
+    assert any(w.startswith("height above the isolation interface: 80 against limit 19.8 m (") for w in tall.warnings)
+
+
+# EN 1998-1:2004 clauses of each quantity of the simplified analysis (from memory, as in the
+# module docstring) and units by dimensions [derived].
+_EC_UNITS = {"d_dc": "m", "T_eff": "s", "xi_eff": "-", "eta": "-", "K_eff,min": "kN/m", "e_tot": "m", "delta": "-",
+             "gamma_x": "-", "d_d": "m", "V": "kN", "V_s": "kN", "F_b": "kN", "V_s/F_b": "-"}
+_EC_CLAUSES = {"d_dc": "§10.9.2", "T_eff": "§10.9.2", "xi_eff": "§10.5", "eta": "§3.2.2.2 Eq. 3.6",
+               "K_eff,min": "§10.9.2", "e_tot": "§4.3.2", "delta": "§10.9.3", "gamma_x": "§10.3(2)", "V": "§10.9.2",
+               "V_s": "§10.10(5)", "F_b": "Eq. 4.5"}
+_EC_TERMS = {"d_dc": "design displacement of the stiffness centre", "T_eff": "effective period",
+             "xi_eff": "effective damping", "eta": "damping correction factor", "K_eff,min": "effective stiffness",
+             "gamma_x": "displacement amplification", "d_d": "isolator design displacement",
+             "F_b": "fixed-base design shear"}
+
+
+def test_eurocode_report_units_citations_and_terms():
+    ec = EurocodeBuilding(10000.0, 0.4, 30.0, 20.0, storeys=3, behaviour_factor=3.9, superstructure_weight=7000.0,
+                          fault_distance=20.0, vertical_stiffness_ratio=800.0)
+    report = eurocode_simplified(sets(lower=(2.0, 0.2), upper=(2.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
+    items = {i.symbol: i for i in report.quantities}
+    assert {s: i.unit for s, i in items.items()} == _EC_UNITS
+    for symbol, clause in _EC_CLAUSES.items():
+        assert items[symbol].source.startswith(f"EN 1998-1:2004 {clause}"), (symbol, items[symbol].source)
+    for symbol, term in _EC_TERMS.items():
+        assert items[symbol].name.startswith(term), (symbol, items[symbol].name)
+    # F_b: lambda 0.85 (T_1 0.4 s <= 2 T_C, 3 storeys: EN 1998-1 §4.3.3.2.2(1)), q and W_s stated.
+    assert items["F_b"].note == "lambda = 0.85, q = 3.9, W_s = 7000 kN"
+    assert items["V_s"].note.startswith("W_s = 7000 kN above the isolation plane, q = 1")
+    # Applicability: §10.9.2 limits, §10.9.1(5) for the equivalent-linear model; units of the limits.
+    for check in report.applicability:
+        clause = "§10.9.1(5)" if "§10.9.1(5)" in check.name else "§10.9.2"
+        assert check.source.startswith(f"EN 1998-1:2004 {clause}"), check.source
+    units = {c.name: c.unit for c in report.applicability}
+    assert units["longest effective period T_eff"] == "s" and units["largest plan dimension"] == "m"
+    assert units["distance to an active fault (Ms >= 6.5)"] == "km"
+    assert units["vertical over effective horizontal stiffness"] == "-"
+
+
+def test_eurocode_warnings_say_what_failed_and_what_follows():
+    # Plan 60 m over the 50 m of §10.9.2 (from memory): multimodal or response-history analysis.
+    ec = EurocodeBuilding(10000.0, 0.4, 60.0, 20.0, fault_distance=10.0, vertical_stiffness_ratio=100.0, regular=False)
+    report = eurocode_simplified(sets(lower=(2.0, 0.2), upper=(2.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
+    assert not report.simplified_permitted
+    failed = [c for c in report.applicability if not c.passed]
+    assert [c.name.split(" (")[0] for c in failed] == ["largest plan dimension", "superstructure regular and symmetric",
+                                                       "distance to an active fault", "vertical over effective horizontal stiffness"]
+    for check, warning in zip(failed, report.warnings):
+        unit = "" if check.unit == "-" else f" {check.unit}"
+        assert warning.startswith(f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} ({check.source}) - ")
+        assert warning.endswith("simplified analysis not applicable: use multimodal or response-history analysis "
+                                "(EN 1998-1 §10.9.3/§10.9.4)")
