@@ -418,3 +418,58 @@ def test_lengths_and_forces_in_messages_follow_the_unit_system():
     assert "0.500 m" in v.moat_clearance(0.5, None).message
     assert "2200 kN" in v.wind(650.0, 2200.0).message
     assert "495 kip" in v.wind(650.0, 2200.0, system="US").message   # 2200/4.4482 = 494.6
+
+
+# --- site and shape rules: topic, unit, limit, source and the figures in the message -------------
+
+def test_site_rules_state_their_figures_and_sources():
+    # Slenderness H/B against 3 (common practice): the ratio in the message, 2 decimals.
+    r = v.slenderness(3.5)
+    assert (r.topic, r.level, r.value, r.limit, r.unit, r.source) == ("slenderness", "condition", 3.5, 3.0, "-",
+                                                                       "common practice")
+    assert r.message.startswith("height/width = 3.50 exceeds 3: ") and "rocks on its bearings" in r.message
+    r = v.slenderness(2.0)
+    assert (r.topic, r.limit, r.unit, r.source, r.message) == ("slenderness", 3.0, "-", "common practice",
+                                                               "height/width = 2.00")
+    # Soft soil: ASCE 7 "site class" (§20.3), Eurocode "ground type" (EN 1998-1 §3.1.2).
+    r = v.site_suitability("F", "asce7")
+    assert (r.topic, r.unit) == ("soft soil", "-") and r.source.startswith("ASCE/SEI 7-16 §11.4.8")
+    assert r.message.startswith("site class F needs a site-specific response analysis")   # §11.4.8 (from memory)
+    r = v.site_suitability("D", "eurocode")
+    assert (r.topic, r.source) == ("soft soil", "common practice") and r.message.startswith("ground type D is soft")
+    r = v.site_suitability("E", "asce7")
+    assert r.message.startswith("site class E is soft") and "site-specific spectrum" in r.message
+    r = v.site_suitability("B", "eurocode")
+    assert (r.topic, r.level, r.source, r.message) == ("soft soil", "ok", "common practice", "ground type B")
+    assert v.site_suitability(None) is None
+    # Spectral benefit: thresholds 0.5 and 0.8 (common practice), ratio shown in per cent.
+    for ratio, level, limit in ((0.9, "against", 0.8), (0.6, "condition", 0.5), (0.2, "ok", 0.5)):
+        r = v.spectral_benefit(ratio)
+        assert (r.topic, r.level, r.value, r.limit, r.unit) == ("long-period site", level, ratio, limit, "-")
+        assert r.source == "site spectrum (derived); thresholds common practice"
+        assert r.message.startswith(f"the site spectrum at the isolated period and damping is {ratio:.0%} of its value")
+
+
+def test_near_fault_and_wind_state_their_figures():
+    # Near fault: ASCE/SEI 7-16 §11.2 (from memory), distance and limit in km.
+    r = v.near_fault(False, distance=10.0)
+    assert (r.topic, r.unit) == ("near fault", "km") and r.source.startswith("ASCE/SEI 7-16 §11.2")
+    assert r.message.startswith("the site is 10 km from an active fault, within 15 km: include pulse-like records")
+    r = v.near_fault(False, distance=20.0)
+    assert (r.topic, r.level, r.unit) == ("near fault", "ok", "km")
+    assert r.message == "the site is 20 km from an active fault, beyond 15 km"
+    r = v.near_fault(True)
+    assert (r.topic, r.level, r.value, r.limit, r.unit) == ("near fault", "condition", None, None, "-")
+    assert r.message.startswith("the site is flagged as near an active fault (no distance given)")
+    # A basis without its own distance falls back to ASCE 7's 15 km.
+    r = v.near_fault(False, basis="eurocode", distance=14.0)
+    assert r.source.startswith("common practice; EN 1998-1:2004 §10.9.2") and r.limit == 15.0
+    # Wind: forces in kN, the margin stated only when it is not 1, the strength's kind stated.
+    r = v.wind(1000.0, 2000.0)
+    assert (r.topic, r.level, r.unit) == ("wind", "ok", "kN") and r.source.startswith("ASCE/SEI 7-16 §17.2.4.3")
+    assert r.message == "wind base shear 1000 kN against the resistance 2000 kN (lower bound)"
+    r = v.wind(1500.0, 1400.0)
+    assert r.message.endswith(": the isolators would slide or yield in wind, so a wind restraint is needed")
+    r = v.wind(None, 1400.0, basis="eurocode")
+    assert (r.topic, r.unit, r.source) == ("wind", "kN", "common practice: wind without yielding the isolation system")
+    assert r.message.startswith("wind was not checked")
