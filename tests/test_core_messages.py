@@ -217,3 +217,55 @@ def test_verdict_sources_messages():
     refuses(verdict_sources.drift_limit, {"basis": "asce7"}, "basis", "no-such-choice", None)
     refuses(verdict_sources.drift_limit, {"basis": "eurocode", "nonstructural": "brittle"}, "nonstructural",
             "no-such-choice", None)
+
+
+def test_spectrum_range_and_table_messages():
+    # Periods outside a spectrum's range: field, value, the range and the unit; the Eurocode
+    # spectrum says where EN 1998-1 §3.2.2.2 ends (4 s) and how to go further.
+    with pytest.raises(ValueError) as caught:
+        SPECTRUM.sa(12.0)
+    assert str(caught.value) == "period = 12.0 is not allowed: must lie in [0, 10] for this CodeSpectrum [s]"
+    with pytest.raises(ValueError) as caught:
+        EurocodeSpectrum(0.3).sd([1.0, 5.0])
+    message = str(caught.value)
+    assert message.startswith("period = 5.0 is not allowed: must lie in [0, 4] for this EurocodeSpectrum [s]; ")
+    assert "EN 1998-1 §3.2.2.2 ends at 4 s" in message and "max_period" in message
+    with pytest.raises(ValueError) as caught:
+        EurocodeSpectrum(0.3, max_period=10.0).sa(11.0)
+    assert str(caught.value).endswith("for this EurocodeSpectrum [s]")      # nothing further to suggest
+    # ASCE/SEI 7-16 §11.4.6 (from memory): T_L beyond T_S = S_M1/S_MS.
+    with pytest.raises(ValueError, match=r"^long_period = 0\.5 is not allowed: must exceed T_S = sm1/sms = 0\.6 \[s\]$"):
+        CodeSpectrum(1.5, 0.9, long_period=0.5)
+    refuses(CodeSpectrum.from_design_values, {"sds": 1.0, "sd1": 0.6}, "sds", math.nan,
+            documented_units(CodeSpectrum.from_design_values)["sds"])
+    refuses(CodeSpectrum.from_design_values, {"sds": 1.0, "sd1": 0.6}, "sd1", -1.0,
+            documented_units(CodeSpectrum.from_design_values)["sd1"])
+    table = dict(periods=(0.0, 0.5, 1.0), values=(0.4, 1.0, 0.8))
+    with pytest.raises(ValueError, match=r"^periods = \(1\.0,\) is not allowed: must be a list of at least 2 periods \[s\]$"):
+        TabulatedSpectrum(periods=(1.0,), values=(0.5,))
+    with pytest.raises(ValueError, match=r"^values has 2 entries but periods has 3: must be the same length$"):
+        TabulatedSpectrum(periods=table["periods"], values=(0.4, 1.0))
+    with pytest.raises(ValueError, match=r"^periods = \[0\.5, 0\.0, 1\.0\] is not allowed: must be >= 0 \(only the first may be 0\) \[s\]$"):
+        TabulatedSpectrum(periods=(0.5, 0.0, 1.0), values=table["values"])
+    with pytest.raises(ValueError, match=r"^periods\[2\] = 0\.5 is not allowed: must be strictly increasing \(previous 0\.5\) \[s\]$"):
+        TabulatedSpectrum(periods=(0.0, 0.5, 0.5), values=table["values"])
+    with pytest.raises(ValueError, match=r"^damping = 0\.0 is not allowed: must be a finite number in \(0, 1\] \[-\]$"):
+        TabulatedSpectrum(**table, damping=0.0)
+
+
+def test_spectrum_from_dict_messages():
+    from isolation.spectra import spectrum_from_dict
+    with pytest.raises(ValueError, match=r"^spectrum = 3 is not allowed: must be a mapping with a 'kind' key$"):
+        spectrum_from_dict(3)
+    with pytest.raises(ValueError, match=r"^spectrum\.kind = 'nz' is not allowed: must be one of 'code', 'eurocode', 'tabulated'$"):
+        spectrum_from_dict({"kind": "nz"})
+    with pytest.raises(ValueError, match=r"^spectrum\.sds is not allowed for kind 'code': known keys are sms, sm1, "):
+        spectrum_from_dict({"kind": "code", "sms": 1.5, "sm1": 0.9, "sds": 1.0})
+    # Each kind's to_dict() names its kind and rebuilds the same spectrum.
+    for spectrum in (CodeSpectrum(1.5, 0.9, level="design", rule="eurocode"),
+                     EurocodeSpectrum(0.3, "B", 2, 1.2, max_period=6.0),
+                     TabulatedSpectrum(periods=(0.0, 0.5, 1.0), values=(0.4, 1.0, 0.8), damping=0.1)):
+        data = spectrum.to_dict()
+        assert data["kind"] == {"CodeSpectrum": "code", "EurocodeSpectrum": "eurocode",
+                                "TabulatedSpectrum": "tabulated"}[type(spectrum).__name__]
+        assert spectrum_from_dict(data) == spectrum
