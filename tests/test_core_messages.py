@@ -37,7 +37,7 @@ def documented_units(obj) -> dict[str, str]:
         text: list[str] = []
         for line in doc[head.end():end].splitlines() + ["x : end"]:
             if line and not line[0].isspace() and " : " in line:
-                found = re.findall(r"\[([^\]]+)\]", " ".join(text))
+                found = re.findall(r"\[([^\[\]]+)\]", " ".join(text))
                 for name in names:
                     if found:
                         units[name] = found[-1]
@@ -48,13 +48,14 @@ def documented_units(obj) -> dict[str, str]:
     return units
 
 
-def refuses(call, valid: dict, name: str, bad, unit: str | None) -> str:
-    """Call with ``name`` set to ``bad``: the ValueError names the field, the value and the unit."""
+def refuses(call, valid: dict, name: str, bad, unit: str | None, field: str | None = None) -> str:
+    """Call with ``name`` set to ``bad``: the ValueError names the field (``field``, default the
+    parameter's name), the value and the unit."""
     kwargs = dict(valid, **{name: bad})
     with pytest.raises(ValueError) as caught:
         call(**kwargs)
     message = str(caught.value)
-    assert re.match(rf"{re.escape(name)}(\[\d+\])? = ", message), message
+    assert re.match(rf"{re.escape(field or name)}(\[\d+\])? = ", message), message
     assert "is not allowed: must be" in message, message
     if unit is not None:
         assert message.endswith(f" [{unit}]"), (message, unit)
@@ -62,11 +63,13 @@ def refuses(call, valid: dict, name: str, bad, unit: str | None) -> str:
 
 
 def probe_all(call, valid: dict, *, choices: tuple[str, ...] = (), skip: tuple[str, ...] = (),
-              unitless: tuple[str, ...] = ()):
+              unitless: tuple[str, ...] = (), fields: dict | None = None):
     """Every documented numeric parameter in ``valid`` refused as NaN (message with its documented
     unit; for a sequence, NaN in its second entry and the index in the message), every parameter
     in ``choices`` refused as an unknown word (message listing the choices). ``unitless``: integer
-    counts whose message says "an integer" instead of a unit."""
+    counts whose message says "an integer" instead of a unit. ``fields``: parameter -> the field
+    name its message uses instead (a bearing property passed through a helper)."""
+    fields = fields or {}
     units = documented_units(call)
     probed = 0
     for name, value in valid.items():
@@ -74,14 +77,14 @@ def probe_all(call, valid: dict, *, choices: tuple[str, ...] = (), skip: tuple[s
             continue
         if isinstance(value, tuple) and len(value) > 1 and all(isinstance(v, float) for v in value):
             bad = value[:1] + (math.nan,) + value[2:]
-            message = refuses(call, valid, name, bad, units[name])
-            assert message.startswith(f"{name}[1] = nan"), message
+            message = refuses(call, valid, name, bad, units[name], fields.get(name))
+            assert message.startswith(f"{fields.get(name, name)}[1] = nan"), message
             probed += 1
             continue
         if isinstance(value, bool) or not isinstance(value, (int, float)):
             continue
         assert name in units, f"{getattr(call, '__name__', call)}: no unit documented for {name}"
-        refuses(call, valid, name, math.nan, None if name in unitless else units[name])
+        refuses(call, valid, name, math.nan, None if name in unitless else units[name], fields.get(name))
         probed += 1
     for name in choices:
         message = refuses(call, valid, name, "no-such-choice", None)
@@ -269,3 +272,55 @@ def test_spectrum_from_dict_messages():
         assert data["kind"] == {"CodeSpectrum": "code", "EurocodeSpectrum": "eurocode",
                                 "TabulatedSpectrum": "tabulated"}[type(spectrum).__name__]
         assert spectrum_from_dict(data) == spectrum
+
+
+# --- bearings ---------------------------------------------------------------------------------
+
+from isolation.bearings import backbone as _bb, checks as _ck, damping_rubber as _dr, double_concave as _dc
+from isolation.bearings import friction as _fr, rubber as _ru, system as _sy, triple_pendulum as _tp
+
+_COMPOUND = _dr.RubberCompound((0.5, 1.0, 2.0), (700.0, 500.0, 400.0), (0.18, 0.15, 0.12))
+_BEARING_CASES = [
+    (_bb.Bilinear, dict(elastic_stiffness=20000.0, post_yield_stiffness=1000.0, characteristic_strength=100.0), ()),
+    (_bb.MultiLinear, dict(linear_stiffness=1000.0, stiffnesses=(20000.0, 5000.0), strengths=(100.0, 200.0)), ()),
+    (_fr.FrictionPendulum, dict(radius=3.0, friction=0.05, slider_height=0.2, displacement_capacity=0.5,
+                                friction_slow=0.03, rate_parameter=20.0, yield_displacement=0.001), ()),
+    (_dc.DoubleConcave, dict(radius_1=2.0, friction_1=0.03, radius_2=3.0, friction_2=0.06, slider_height_1=0.1,
+                             slider_height_2=0.1, displacement_capacity_1=0.3, displacement_capacity_2=0.3,
+                             yield_displacement=0.001), ()),
+    (_tp.TripleFrictionPendulum, dict(radius_outer=2.5, radius_inner=0.5, friction_inner=0.02, friction_1=0.06,
+                                      friction_4=0.10, slider_height_outer=0.2, slider_height_inner=0.1,
+                                      displacement_capacity_outer=0.5, displacement_capacity_inner=0.1,
+                                      yield_displacement=0.001), ()),
+    (_ru.LeadRubber, dict(outer_diameter=0.8, lead_diameter=0.2, layer_thickness=0.01, layers=20, shear_modulus=400.0,
+                          lead_yield_stress=10000.0, stiffness_ratio=10.0, bulk_modulus=2.0e6, shim_thickness=0.003,
+                          end_plate_thickness=0.025, displacement_capacity=0.4), ("layers",)),
+    (_dr.RubberCompound, dict(strains=(0.5, 1.0, 2.0), shear_moduli=(700.0, 500.0, 400.0),
+                              dampings=(0.18, 0.15, 0.12)), ()),
+    (_dr.HighDampingRubber, dict(outer_diameter=0.9, layer_thickness=0.01, layers=15, compound=_COMPOUND,
+                                 inner_diameter=0.1, reference_strain=1.0, stiffness_ratio=10.0, bulk_modulus=2.0e6,
+                                 shim_thickness=0.003, end_plate_thickness=0.025, displacement_capacity=0.4), ("layers",)),
+    # Helpers of the bearings: their messages name the bearing property the value comes from.
+    (_dr.equivalent_bilinear, dict(stiffness=1000.0, damping=0.15, displacement=0.2, ratio=10.0), ()),
+    (_dr.max_bilinear_damping, dict(ratio=10.0), ()),
+    (_sy.PropertyBound, dict(lower=0.9, upper=1.2), ()),
+    (_sy.BearingGroup, dict(bearing=_fr.FrictionPendulum(3.0, 0.05), count=4, axial_load=1000.0,
+                            axial_load_max=1500.0, axial_load_min=500.0, rotation=0.005), ("count",)),
+    (_ck.shape_factor, dict(outer_diameter=0.8, layer_thickness=0.01, inner_diameter=0.1), ()),
+    (_ck.hole_factor, dict(outer_diameter=0.8, inner_diameter=0.1), ()),
+    (_ck.compression_modulus, dict(shear_modulus=400.0, shape=20.0, bulk_modulus=2.0e6, hole=0.9), ()),
+    (_ck.overlap_ratio, dict(diameter=0.8, displacement=0.3), ()),
+    (_ck.buckling_load, dict(shear_modulus=400.0, area=0.5, inertia=0.02, compression=5.0e5, rubber_thickness=0.2,
+                             height=0.3), ()),
+    (_ck.rotation_strain, dict(diameter=0.8, layer_thickness=0.01, rubber_thickness=0.2, rotation=0.005), ()),
+]
+
+
+_FIELDS = {"equivalent_bilinear": {"stiffness": "effective stiffness", "ratio": "stiffness_ratio"},
+           "compression_modulus": {"shape": "shape_factor"}, "buckling_load": {"compression": "compression_modulus"}}
+
+
+@pytest.mark.parametrize("call, valid, skip", _BEARING_CASES, ids=[c[0].__name__ for c in _BEARING_CASES])
+def test_bearing_messages(call, valid, skip):
+    call(**valid)
+    probe_all(call, valid, skip=skip, fields=_FIELDS.get(call.__name__))

@@ -101,7 +101,10 @@ def max_bilinear_damping(ratio) -> float:
     ratio : float
         K_u/K_d, > 1. [-]
     """
-    root = math.sqrt(ratio)
+    n = validate.finite("ratio", ratio, "-")
+    if n <= 1.0:
+        raise ValueError(f"ratio = {ratio!r} is not allowed: must be a finite number > 1 [-]")
+    root = math.sqrt(n)
     return 2.0 / math.pi * (root - 1.0) / (root + 1.0)
 
 

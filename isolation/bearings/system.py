@@ -200,6 +200,9 @@ class BearingGroup:
         object.__setattr__(self, "count", int(count))
         object.__setattr__(self, "axial_load", validate.positive("axial_load", self.axial_load, "kN"))
         object.__setattr__(self, "rotation", validate.non_negative("rotation", self.rotation, "rad"))
+        for name in ("axial_load_max", "axial_load_min"):
+            if getattr(self, name) is not None:
+                object.__setattr__(self, name, validate.finite(name, getattr(self, name), "kN"))
         if self.factors is not None and not isinstance(self.factors, PropertyFactors):
             raise ValueError(f"factors = {self.factors!r} is not allowed: must be PropertyFactors or None")
 
