@@ -1367,3 +1367,105 @@ def test_verdict_sources_uplift_and_drift_wording():
     # nu changes between the classes: gamma_I 1.0 (class II) -> 0.5; 1.2 (class III) -> 0.4; the split at 1.1.
     assert eurocode_reduction_factor() == 0.5 and eurocode_reduction_factor(1.1) == 0.5
     assert eurocode_reduction_factor(1.1000001) == 0.4
+
+
+# --- ELF report: remaining branches probed with hand arithmetic -----------------------------------
+
+def test_elf_building_stores_plain_floats_in_tuples():
+    # Sequences given as lists of integers are kept as tuples of floats (a frozen, hashable record).
+    b = ElfBuilding(base_weight=2000, floor_weights=[3000, 3000], floor_elevations=[4, 8], plan_length=40,
+                    plan_width=20, response_modification=8)
+    assert b.floor_weights == (3000.0, 3000.0) and type(b.floor_weights) is tuple
+    assert b.floor_elevations == (4.0, 8.0) and type(b.floor_elevations) is tuple
+    assert all(type(x) is float for x in (b.base_weight, *b.floor_weights, *b.floor_elevations, b.plan_length))
+    hash(b)
+    # A mezzanine 0.5 m above a floor is a valid level (levels only have to rise).
+    assert ElfBuilding(base_weight=0.0, floor_weights=(10.0, 10.0), floor_elevations=(4.0, 4.5), plan_length=10.0,
+                       plan_width=10.0, response_modification=8.0).structural_height == 4.5
+    with pytest.raises(ValueError, match=r"^site_class = 'X' is not allowed: must be one of 'A', 'B', 'C', 'D', 'E', 'F'$"):
+        building(site_class="X")
+
+
+class YieldOnly:
+    """Test double: a property set that exposes only its yield force [kN]."""
+
+    def __init__(self, yield_force):
+        self.yield_force = yield_force
+
+
+def test_activation_force_at_exact_equality_and_from_yield_force():
+    # ASCE/SEI 7-16 §17.5.4.3 item 3 (from memory): the greater of the upper-bound yield force and
+    # 1.5 x nominal. 1.5 x 400 = 600 = the upper bound: either is the answer; the note names the
+    # 1.5 x nominal reading (the clause's "greater of", ties to its second term, as documented).
+    force, note = activation_force({"nominal": YieldOnly(400.0), "upper": YieldOnly(600.0)})
+    assert force == 600.0 and note == "1.5 x nominal yield force"
+    force, note = activation_force({"nominal": YieldOnly(400.0), "upper": YieldOnly(601.0)})
+    assert force == 601.0 and note == "upper-bound yield force"
+    assert activation_force({"upper": YieldOnly(700.0)}) == (700.0, "upper-bound yield force")
+
+
+class SteppedSystem(LinearSystem):
+    """Test double: effective stiffness k [kN/m] above ``step`` [m], k/``ratio`` below (a plane
+    that is stiffer at small amplitude, like a yielding system)."""
+
+    def __init__(self, stiffness, damping, step, ratio):
+        super().__init__(stiffness, damping)
+        self.step, self.ratio = step, ratio
+
+    def effective_stiffness(self, d):
+        return self.stiffness if d > self.step else self.stiffness / self.ratio
+
+    def force(self, d):
+        return self.effective_stiffness(d) * d
+
+
+@pytest.mark.parametrize("ratio, passed", [(0.30, False), (0.40, True)])
+def test_elf_stiffness_ratio_limit_one_third(ratio, passed):
+    # ASCE/SEI 7-16 §17.4.1 (from memory): k_eff at D_M over k_eff at 0.2 D_M greater than 1/3.
+    # T 3 s, beta 20 %: D_M = g 0.9 3/(4 pi^2 1.5) = 0.447 m [derived]; the stiffness steps at 0.15 m,
+    # so at 0.2 D_M = 0.089 m it is k/ratio: the check sees exactly ``ratio``.
+    k = stiffness_for_period(10000.0, 3.0)
+    system = SteppedSystem(k, 0.2, 0.15, ratio)
+    report = asce7_elf({"lower": system, "upper": system}, building(), SPECTRUM)
+    check = [c for c in report.applicability if c.name.startswith("k_eff(D_M)/k_eff(0.2 D_M)")][0]
+    assert check.value == pytest.approx(ratio) and check.limit == pytest.approx(1.0 / 3.0)
+    assert check.passed is passed
+    if not passed:
+        assert not report.elf_permitted and any(w.startswith("k_eff(D_M)/k_eff(0.2 D_M)") for w in report.warnings)
+
+
+def test_elf_eq_12_8_6_at_t_m_and_for_the_fixed_base_comparison():
+    # S_1 0.75 g >= 0.6 g: Eq. 12.8-6 0.5 S_1/(R/I_e) applies in §12.8 (ASCE/SEI 7-16 §12.8.1.1, from memory),
+    # also in the V_s lower limit of §17.5.4.3 item 1 (§12.8 with R_I at T_M). [derived]
+    # At T_M 3 s, R_I 2: 12.8-3 0.6/(3*2) = 0.1 < 12.8-6 0.5*0.75/2 = 0.1875 -> 0.1875 * 8000 = 1500 kN.
+    # Fixed base: steel moment frame, h 60 m: T_a = 0.0724 60^0.8 = 1.91 s (Table 12.8-2), T 2.0 s
+    # given (< C_u T_a); R 8: 12.8-3 0.6/(2*8) = 0.0375, 12.8-5 0.044, 12.8-6 0.5*0.75/8 = 0.046875
+    # -> V_fb = 0.046875 * 8000 = 375 kN.
+    report = asce7_elf(sets(), building(s1=0.75, frame="steel_moment", height=60.0, fixed_base_period=2.0), SPECTRUM)
+    items = {i.symbol: i for i in report.quantities}
+    assert items["V_s,min,fixed"].value == pytest.approx(1500.0) and "Eq. 12.8-6" in items["V_s,min,fixed"].source
+    assert items["V_fb"].value == pytest.approx(375.0) and items["V_fb"].source.startswith("ASCE/SEI 7-16 Eq. 12.8-6 (")
+    assert items["V_fb"].note == "given" and items["T_fb"].source == "given"
+    # A given period above C_u T_a is capped, and the note says so: 3 s > 1.4 x 1.91 s (Table 12.8-1).
+    capped = asce7_elf(sets(), building(s1=0.75, frame="steel_moment", height=60.0, fixed_base_period=3.0), SPECTRUM)
+    assert {i.symbol: i.note for i in capped.quantities}["V_fb"].startswith("given, capped at C_u T_a")
+    assert capped.building.height == 60.0 and capped.fixed_base.period == pytest.approx(1.4 * 0.0724 * 60.0**0.8)
+
+
+def test_elf_passes_options_to_the_iteration_and_keeps_its_inputs():
+    b = building()
+    report = asce7_elf(sets(), b, SPECTRUM)
+    assert report.building is b
+    # tolerance of isolation.design.equivalent_linear is limited to (0, 0.01]: passed through, it is checked.
+    with pytest.raises(ValueError, match=r"^tolerance = 0\.5 is not allowed"):
+        asce7_elf(sets(), b, SPECTRUM, tolerance=0.5)
+
+
+def test_elf_v_st_source_states_the_exponent():
+    # ASCE/SEI 7-16 Eq. 17.5-7 (from memory): V_st = V_b (W_s/W)^(1 - 2.5 beta_M); beta_M 0.2 -> 0.5.
+    other = {i.symbol: i.source for i in asce7_elf(sets(), building(), SPECTRUM).quantities}["V_st"]
+    assert other.endswith("V_b (W_s/W)^(1 - 2.5 beta_M), exponent 0.500")
+    # Sliding: 1 - 3.5 beta_M = 0.3, and the source says where the 3.5 comes from.
+    sliding = {i.symbol: i.source for i in asce7_elf(sets(), building(isolator_kind="sliding"), SPECTRUM).quantities}
+    assert "V_b (W_s/W)^(1 - 3.5 beta_M), exponent 0.300 (" in sliding["V_st"]
+    assert sliding["V_st"].endswith("ASCE/SEI 7-16 §17.5.4.2, Eq. 17.5-7, from memory, not re-read)")
