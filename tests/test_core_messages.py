@@ -324,3 +324,17 @@ _FIELDS = {"equivalent_bilinear": {"stiffness": "effective stiffness", "ratio": 
 def test_bearing_messages(call, valid, skip):
     call(**valid)
     probe_all(call, valid, skip=skip, fields=_FIELDS.get(call.__name__))
+
+
+def test_damping_range_ends_and_first_bad_entry():
+    # 0 <= beta <= 1 (documented): beta = 1 is allowed and the ASCE/SEI 7-16 Table 17.5-1 B_M stays at
+    # its 50 % value 2.0 beyond the table (clamped, as documented).
+    assert damping.damping_coefficient(1.0) == 2.0 and type(damping.damping_coefficient(0.2)) is float
+    assert damping.damping_coefficient(0.0) == 0.8                  # the 2 % row, clamped below
+    # The message quotes the first offending entry and says what a damping ratio is.
+    with pytest.raises(ValueError) as caught:
+        damping.damping_coefficient([0.1, 1.5, 2.0])
+    assert str(caught.value) == ("damping = 1.5 is not allowed: must be a damping ratio in [0, 1] "
+                                 "(0.05 means 5 %) [-]")
+    with pytest.raises(ValueError, match=r"^damping = -0\.1 is not allowed: must be a damping ratio in \[0, 1\]"):
+        damping.eurocode_eta(-0.1)
