@@ -1469,3 +1469,11 @@ def test_elf_v_st_source_states_the_exponent():
     sliding = {i.symbol: i.source for i in asce7_elf(sets(), building(isolator_kind="sliding"), SPECTRUM).quantities}
     assert "V_b (W_s/W)^(1 - 3.5 beta_M), exponent 0.300 (" in sliding["V_st"]
     assert sliding["V_st"].endswith("ASCE/SEI 7-16 §17.5.4.2, Eq. 17.5-7, from memory, not re-read)")
+
+
+def test_drift_limit_defaults():
+    # Default basis ASCE 7 (§17.6.4.4, 0.020, from memory); default gamma_I 1.0 (class II) -> nu 0.5, so
+    # brittle partitions give 0.005/0.5 = 1 % (EN 1998-1 §4.4.3.2, from memory).
+    limit, text = drift_limit()
+    assert limit == 0.020 and text.startswith("ASCE/SEI 7-16 §17.6.4.4")
+    assert drift_limit("eurocode", "brittle")[0] == pytest.approx(0.010)
