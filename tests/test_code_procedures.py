@@ -1477,3 +1477,74 @@ def test_drift_limit_defaults():
     limit, text = drift_limit()
     assert limit == 0.020 and text.startswith("ASCE/SEI 7-16 §17.6.4.4")
     assert drift_limit("eurocode", "brittle")[0] == pytest.approx(0.010)
+
+
+# --- EN 1998-1 simplified analysis: range ends and limits at equality --------------------------
+
+def test_eurocode_building_range_ends():
+    base = dict(weight=10000.0, superstructure_period=0.4, plan_length=30.0, plan_width=20.0)
+    # Documented ranges (EN 1998-1 §10.10(5) q <= 1.5 for the isolated superstructure, §10.3(2)
+    # gamma_x, from memory; q of the fixed base up to 10; 0 < W_s <= W): both ends inclusive except W_s > 0.
+    ok = EurocodeBuilding(**base, behaviour_factor=10.0, isolated_behaviour_factor=1.5, displacement_amplification=3.0,
+                          superstructure_weight=10000.0)
+    assert (ok.behaviour_factor, ok.isolated_behaviour_factor, ok.displacement_amplification) == (10.0, 1.5, 3.0)
+    assert ok.weight_above == 10000.0
+    low = EurocodeBuilding(**base, behaviour_factor=1.0, isolated_behaviour_factor=1.0, displacement_amplification=1.0)
+    assert low.weight_above == 10000.0                      # default W_s = W
+    for field, value in (("behaviour_factor", 10.01), ("isolated_behaviour_factor", 1.51),
+                         ("displacement_amplification", 3.01), ("superstructure_weight", 0.0),
+                         ("superstructure_weight", 10000.01), ("behaviour_factor", 0.99)):
+        with pytest.raises(ValueError, match=rf"^{field} = "):
+            EurocodeBuilding(**base, **{field: value})
+    for value in (0, 1.5, True):
+        with pytest.raises(ValueError, match=r"^storeys = .* must be an integer >= 1$"):
+            EurocodeBuilding(**base, storeys=value)
+
+
+def test_eurocode_fixed_base_shear_lambda_and_period_ends():
+    from isolation.design_eurocode import eurocode_design_spectrum, eurocode_fixed_base_shear
+    spectrum = EurocodeSpectrum(0.3, "C")     # type 1, ground C: S 1.15, T_B 0.2, T_C 0.6, T_D 2.0 s (Table 3.2)
+    # lambda = 0.85 when T_1 <= 2 T_C and more than two storeys, else 1.0 (EN 1998-1 §4.3.3.2.2(1), from memory).
+    plateau = 0.3 * 1.15 * 2.5 / 4.0         # S_d on the plateau, q 4 (Eq. 3.14)
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 0.5, 3)[:2] == (pytest.approx(1000.0 * plateau * 0.85), 0.85)
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 0.5, 2)[1] == 1.0
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 1.2, 3)[1] == 0.85        # T_1 = 2 T_C exactly
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 1.21, 3)[1] == 1.0
+    # The 4 s end of the design spectrum (§3.2.2.5, Eq. 3.16): max(a_g S 2.5/q T_C T_D/T^2, beta a_g).
+    shear, lam, source = eurocode_fixed_base_shear(spectrum, 1000.0, 1.5, 4.0, 3)
+    assert shear == pytest.approx(1000.0 * max(0.3 * 1.15 * 2.5 / 1.5 * 0.6 * 2.0 / 16.0, 0.2 * 0.3))
+    assert lam == 1.0 and source.startswith("EN 1998-1:2004 Eq. 4.5")
+    with pytest.raises(ValueError, match=r"^period = 0\.0 is not allowed: must be a finite number in \(0, 4\] \[s\]$"):
+        eurocode_fixed_base_shear(spectrum, 1000.0, 1.5, 0.0, 3)
+    # Eq. 3.13 at T = 0: a_g S 2/3; q = 1 and q = 10 are both allowed.
+    assert eurocode_design_spectrum(spectrum, 0.0, 1.0) == pytest.approx(0.3 * 1.15 * 2.0 / 3.0)
+    assert eurocode_design_spectrum(spectrum, 0.4, 10.0) == pytest.approx(0.3 * 1.15 * 2.5 / 10.0)
+    assert eurocode_design_spectrum(spectrum, 4.0, 1.0) == pytest.approx(0.3 * 1.15 * 2.5 * 0.6 * 2.0 / 16.0)
+
+
+@pytest.mark.parametrize("ratio, passed", [(0.5, True), (0.45, False)])
+def test_eurocode_stiffness_ratio_limit_one_half(ratio, passed):
+    # EN 1998-1 §10.9.1(5) (from memory): K_eff at d_dc at least 50 % of K_eff at 0.2 d_dc. T 2 s, 20 %:
+    # d_dc = g Se T^2/(4 pi^2) ~ 0.2 m [derived]; the stiffness steps at 0.08 m, below which it is k/ratio.
+    k = stiffness_for_period(10000.0, 2.0)
+    system = SteppedSystem(k, 0.2, 0.08, ratio)
+    report = eurocode_simplified({"lower": system, "upper": system}, EurocodeBuilding(10000.0, 0.4, 30.0, 20.0),
+                                 EurocodeSpectrum(0.3, "C"))
+    check = [c for c in report.applicability if c.name.startswith("K_eff(d_dc)/K_eff(0.2 d_dc)")][0]
+    assert check.value == pytest.approx(ratio) and check.limit == 0.5 and check.passed is passed
+    assert report.simplified_permitted is passed
+    if not passed:
+        assert "equivalent-linear model not permitted" in report.warnings[0]
+
+
+def test_eurocode_limits_at_equality():
+    # EN 1998-1 §10.9.2 (from memory): T_eff >= 3 T_f, T_eff <= 3 s, K_v/K_eff >= 150, more than 15 km
+    # from an active fault; at the limit the first three pass and the fault distance does not.
+    ec = EurocodeBuilding(10000.0, 1.0, 30.0, 20.0, fault_distance=15.0, vertical_stiffness_ratio=150.0)
+    report = eurocode_simplified(sets(lower=(3.0, 0.2), upper=(3.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
+    checks = {c.name: c for c in report.applicability}
+    assert checks["shortest T_eff over the superstructure period T_f"].passed
+    assert checks["longest effective period T_eff"].passed
+    assert checks["vertical over effective horizontal stiffness"].passed
+    assert not checks["distance to an active fault (Ms >= 6.5)"].passed
+    assert checks["largest plan dimension"].passed and checks["largest plan dimension"].limit == 50.0
