@@ -15,6 +15,7 @@ import inspect
 import math
 import re
 
+import numpy as np
 import pytest
 
 from isolation import damping, design_eurocode, fixed_base, overturning, verdict_sources
@@ -338,3 +339,12 @@ def test_damping_range_ends_and_first_bad_entry():
                                  "(0.05 means 5 %) [-]")
     with pytest.raises(ValueError, match=r"^damping = -0\.1 is not allowed: must be a damping ratio in \[0, 1\]"):
         damping.eurocode_eta(-0.1)
+
+
+def test_spectrum_zero_dimensional_period_array():
+    # A 0-d array is a number: the message shows the plain value.
+    with pytest.raises(ValueError, match=r"^period = 12\.0 is not allowed: must lie in \[0, 10\] for this CodeSpectrum \[s\]$"):
+        SPECTRUM.sa(np.array(12.0))
+    with pytest.raises(ValueError, match=r"^period = 11\.0 is not allowed: must lie in \[0, 10\]"):
+        SPECTRUM.sd(np.array([1.0, 11.0, 12.0]))
+    assert type(SPECTRUM.sa(np.array(1.0))) is float
