@@ -50,6 +50,10 @@ MODULES: dict[str, tuple[str, ...]] = {
     "bearings/friction": ("tests/bearings/test_bearings_friction.py",),
     "bearings/rubber": ("tests/bearings/test_bearings_rubber.py",),
     "bearings/system": ("tests/bearings/test_bearings_system.py",),
+    "bearings/double_concave": ("tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_system.py"),
+    "bearings/triple_pendulum": ("tests/bearings/test_bearings_triple_pendulum.py",),
+    "bearings/damping_rubber": ("tests/bearings/test_bearings_rubber.py",),
+    "bearings/checks": ("tests/bearings/test_bearings_rubber.py", "tests/bearings/test_bearings_system.py"),
     "dynamics/newmark": ("tests/dynamics/test_history.py", "tests/dynamics/test_history_reference.py", "tests/dynamics/test_history_isolators.py"),
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py"),
 }

@@ -18,9 +18,12 @@ import re
 import numpy as np
 import pytest
 
-from isolation import damping, design_eurocode, fixed_base, overturning, verdict_sources
-from isolation.design_asce7 import ElfBuilding
-from isolation.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+from isolation.codes import asce7_fixed_base as fixed_base, eurocode as design_eurocode
+from isolation.design import overturning
+from isolation.site import damping
+from isolation.verdict import sources as verdict_sources
+from isolation.codes.asce7 import ElfBuilding
+from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
 
 _SECTION = re.compile(r"^([A-Z][A-Za-z ]+)\n-{3,}$", re.M)
 
@@ -258,7 +261,7 @@ def test_spectrum_range_and_table_messages():
 
 
 def test_spectrum_from_dict_messages():
-    from isolation.spectra import spectrum_from_dict
+    from isolation.site.spectra import spectrum_from_dict
     with pytest.raises(ValueError, match=r"^spectrum = 3 is not allowed: must be a mapping with a 'kind' key$"):
         spectrum_from_dict(3)
     with pytest.raises(ValueError, match=r"^spectrum\.kind = 'nz' is not allowed: must be one of 'code', 'eurocode', 'tabulated'$"):
