@@ -429,8 +429,8 @@ def test_site_rules_state_their_figures_and_sources():
                                                                        "common practice")
     assert r.message.startswith("height/width = 3.50 exceeds 3: ") and "rocks on its bearings" in r.message
     r = v.slenderness(2.0)
-    assert (r.topic, r.limit, r.unit, r.source, r.message) == ("slenderness", 3.0, "-", "common practice",
-                                                               "height/width = 2.00")
+    assert (r.topic, r.value, r.limit, r.unit, r.source, r.message) == ("slenderness", 2.0, 3.0, "-", "common practice",
+                                                                        "height/width = 2.00")
     # Soft soil: ASCE 7 "site class" (§20.3), Eurocode "ground type" (EN 1998-1 §3.1.2).
     r = v.site_suitability("F", "asce7")
     assert (r.topic, r.unit) == ("soft soil", "-") and r.source.startswith("ASCE/SEI 7-16 §11.4.8")
@@ -456,8 +456,8 @@ def test_near_fault_and_wind_state_their_figures():
     assert (r.topic, r.unit) == ("near fault", "km") and r.source.startswith("ASCE/SEI 7-16 §11.2")
     assert r.message.startswith("the site is 10 km from an active fault, within 15 km: include pulse-like records")
     r = v.near_fault(False, distance=20.0)
-    assert (r.topic, r.level, r.unit) == ("near fault", "ok", "km")
-    assert r.message == "the site is 20 km from an active fault, beyond 15 km"
+    assert (r.topic, r.level, r.value, r.limit, r.unit) == ("near fault", "ok", 20.0, 15.0, "km")
+    assert r.message == "the site is 20 km from an active fault, beyond 15 km" and r.source.startswith("ASCE/SEI 7-16 §11.2")
     r = v.near_fault(True)
     assert (r.topic, r.level, r.value, r.limit, r.unit) == ("near fault", "condition", None, None, "-")
     assert r.message.startswith("the site is flagged as near an active fault (no distance given)")
@@ -466,9 +466,12 @@ def test_near_fault_and_wind_state_their_figures():
     assert r.source.startswith("common practice; EN 1998-1:2004 §10.9.2") and r.limit == 15.0
     # Wind: forces in kN, the margin stated only when it is not 1, the strength's kind stated.
     r = v.wind(1000.0, 2000.0)
-    assert (r.topic, r.level, r.unit) == ("wind", "ok", "kN") and r.source.startswith("ASCE/SEI 7-16 §17.2.4.3")
+    assert (r.topic, r.level, r.value, r.limit, r.unit) == ("wind", "ok", 1000.0, 2000.0, "kN")
+    assert r.source.startswith("ASCE/SEI 7-16 §17.2.4.3")
     assert r.message == "wind base shear 1000 kN against the resistance 2000 kN (lower bound)"
     r = v.wind(1500.0, 1400.0)
+    assert (r.topic, r.level, r.value, r.limit, r.unit) == ("wind", "condition", 1500.0, 1400.0, "kN")
+    assert r.source.startswith("ASCE/SEI 7-16 §17.2.4.3")
     assert r.message.endswith(": the isolators would slide or yield in wind, so a wind restraint is needed")
     r = v.wind(None, 1400.0, basis="eurocode")
     assert (r.topic, r.unit, r.source) == ("wind", "kN", "common practice: wind without yielding the isolation system")
