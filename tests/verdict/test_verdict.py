@@ -476,3 +476,16 @@ def test_near_fault_and_wind_state_their_figures():
     r = v.wind(None, 1400.0, basis="eurocode")
     assert (r.topic, r.unit, r.source) == ("wind", "kN", "common practice: wind without yielding the isolation system")
     assert r.message.startswith("wind was not checked")
+
+
+def test_site_rules_defaults_units_and_conclusions():
+    # Default basis ASCE 7: site class D is not soft there (soft: E; F against), unlike Eurocode ground D.
+    r = v.site_suitability("D")
+    assert (r.level, r.unit, r.message) == ("ok", "-", "site class D")
+    assert v.site_suitability("E").unit == "-" and v.site_suitability("D", "eurocode").unit == "-"
+    assert v.site_suitability("F").message.endswith("soft or liquefiable soil amplifies long periods")
+    assert v.slenderness(4.0).message.endswith("a slender building rocks on its bearings")
+    # Spectral benefit: each level says what the ratio means for the design.
+    assert v.spectral_benefit(0.9).message.endswith("at the fixed-base period: the period shift buys little")
+    assert v.spectral_benefit(0.6).message.endswith("at the fixed-base period: a long-period site limits the benefit")
+    assert v.spectral_benefit(0.2).message.endswith("is 20% of its value at the fixed-base period")
