@@ -195,6 +195,23 @@ def summarise(module: str, folder: Path) -> dict:
     return counts
 
 
+def _refresh_sources(module: str, folder: Path) -> bool:
+    """Copy the package's current files, all but the mutated module, into the scratch folder (a fix
+    elsewhere, e.g. in ``validate``, counts in a re-run). False when the mutated module itself
+    changed: its mutants no longer match it."""
+    source, mutated = ROOT / "isolation", f"{module}.py"
+    copied = folder / "isolation" / mutated
+    if not copied.exists() or copied.read_bytes() != (source / mutated).read_bytes():
+        return False
+    for target in (folder / "isolation", folder / "mutants" / "isolation"):
+        for path in source.rglob("*.py"):
+            relative = path.relative_to(source)
+            if relative.as_posix() != mutated and "__pycache__" not in relative.parts:
+                (target / relative).parent.mkdir(parents=True, exist_ok=True)
+                shutil.copy2(path, target / relative)
+    return True
+
+
 def recheck(module: str, max_children: int = 1) -> int:
     """Run the surviving mutants of an earlier run again against the current tests."""
     folder = SCRATCH / module.replace("/", "_")
@@ -203,6 +220,9 @@ def recheck(module: str, max_children: int = 1) -> int:
         return run(module, max_children)
     codes = json.loads(meta.read_text(encoding="utf-8")).get("exit_code_by_key", {})
     names = [name for name, code in codes.items() if code in (0, None)]
+    if not _refresh_sources(module, folder):
+        print(f"== {module}: the module changed since its last run; running all its mutants", flush=True)
+        return run(module, max_children)
     for target in (folder / "tests", folder / "mutants" / "tests"):
         if target.exists():
             shutil.rmtree(target)
