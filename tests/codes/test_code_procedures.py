@@ -1548,3 +1548,11 @@ def test_eurocode_limits_at_equality():
     assert checks["vertical over effective horizontal stiffness"].passed
     assert not checks["distance to an active fault (Ms >= 6.5)"].passed
     assert checks["largest plan dimension"].passed and checks["largest plan dimension"].limit == 50.0
+
+
+def test_fixed_base_period_at_the_cap_is_kept():
+    from isolation.codes.asce7_fixed_base import fixed_base_shear, period_upper_limit_factor
+    # ASCE/SEI 7-16 §12.8.2 (from memory): T "shall not exceed" C_u T_a; a period equal to it stands as given.
+    cap = period_upper_limit_factor(0.6) * approximate_period(20.0)
+    shear = fixed_base_shear(SPECTRUM, 1000.0, 8.0, period=cap, height=20.0)
+    assert shear.period == cap and shear.period_source == "given"
