@@ -397,3 +397,52 @@ def test_hole_factor_lies_in_unit_interval_and_falls_as_the_hole_grows(do, a, b)
     small, large = sorted((a, b))
     f_small, f_large = hole_factor(do, small * do), hole_factor(do, large * do)
     assert 0.0 < f_large <= f_small <= 1.0
+
+
+# Units of each check by its dimensions [derived] and the source of its limit (as in the module
+# docstring: AASHTO Guide Specifications, Kelly & Konstantinidis 2011, Gent 1990, ASCE/SEI 7-16
+# §17.2.4.4; "common practice" where there is no single source).
+_ELASTOMER_CHECKS = {
+    "displacement capacity": ("m", "rated displacement of the bearing as given"),
+    "shape factor": ("-", "common practice: "),
+    "compression modulus": ("kPa", "Kelly & Konstantinidis 2011: "),
+    "vertical period": ("s", "common practice: "),
+    "buckling load at zero displacement / axial load": ("-", "AASHTO Guide Spec. Seismic Isolation Design: "),
+    "buckling load at design displacement / max axial load": ("-", "AASHTO Guide Spec. Seismic Isolation Design: "),
+    "compression strain": ("-", "AASHTO Guide Spec. Seismic Isolation Design: "),
+    "shear strain": ("-", "AASHTO Guide Spec. Seismic Isolation Design: "),
+    "rotation strain": ("-", "AASHTO Guide Spec.: "),
+    "combined strain (max load on overlap area)": ("-", "AASHTO Guide Spec. Seismic Isolation Design: "),
+    "tension stress (cavitation)": ("kPa", "Gent: "),
+    "restoring force": ("-", "ASCE/SEI 7-16 §17.2.4.4: "),
+}
+
+
+def test_elastomer_checks_units_and_sources():
+    checks = LeadRubber(**LRB, displacement_capacity=0.4).checks(2000.0, 0.3, axial_load_min=-100.0, rotation=0.005)
+    assert [c.name for c in checks] == list(_ELASTOMER_CHECKS)
+    for check in checks:
+        unit, source = _ELASTOMER_CHECKS[check.name]
+        assert check.unit == unit and check.source.startswith(source), (check.name, check.unit, check.source)
+    marks = {c.name: c.source for c in checks}
+    for name in ("compression strain", "shear strain", "combined strain (max load on overlap area)",
+                 "buckling load at zero displacement / axial load", "rotation strain", "tension stress (cavitation)"):
+        assert "(from memory)" in marks[name], name
+    # Reported values without a limit pass by definition.
+    reported = {c.name: c for c in checks if c.limit is None}
+    assert set(reported) == {"compression modulus", "rotation strain"} and all(c.passed for c in reported.values())
+
+
+def test_slider_checks_units_and_sources():
+    from isolation.bearings import DoubleConcave, FrictionPendulum
+    checks = FrictionPendulum(2.0, 0.05, displacement_capacity=0.5).checks(1000.0, 0.3, axial_load_min=-10.0)
+    assert [(c.name, c.unit) for c in checks] == [("displacement capacity", "m"), ("restoring force", "-"),
+                                                  ("net tension (uplift)", "kN")]
+    sources = {c.name: c.source for c in checks}
+    assert sources["displacement capacity"] == "dish displacement capacity of the bearing as given"
+    assert sources["net tension (uplift)"].startswith("common practice: a slider carries no tension")
+    assert not checks[2].passed and checks[2].value == -10.0 and checks[2].limit == 0.0
+    contact = {c.name: c for c in DoubleConcave(2.0, 0.03, 3.0, 0.06, displacement_capacity_1=0.3,
+                                                displacement_capacity_2=0.3).checks(1000.0, 0.2)}
+    first = contact["first restrainer contact"]
+    assert first.unit == "m" and first.source.startswith("Fenz & Constantinou 2006: sliding regimes I-II end")
