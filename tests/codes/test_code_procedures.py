@@ -1274,19 +1274,26 @@ _EC_CLAUSES = {"d_dc": "§10.9.2", "T_eff": "§10.9.2", "xi_eff": "§10.5", "eta
 _EC_TERMS = {"d_dc": "design displacement of the stiffness centre", "T_eff": "effective period",
              "xi_eff": "effective damping", "eta": "damping correction factor", "K_eff,min": "effective stiffness",
              "gamma_x": "displacement amplification", "d_d": "isolator design displacement",
-             "F_b": "fixed-base design shear"}
+             "F_b": "fixed-base design shear", "e_tot": "total eccentricity", "delta": "torsional amplification",
+             "V": "elastic base shear", "V_s": "isolated superstructure design shear",
+             "V_s/F_b": "ratio isolated/fixed-base design shear"}
 
 
 def test_eurocode_report_units_citations_and_terms():
     ec = EurocodeBuilding(10000.0, 0.4, 30.0, 20.0, storeys=3, behaviour_factor=3.9, superstructure_weight=7000.0,
                           fault_distance=20.0, vertical_stiffness_ratio=800.0)
-    report = eurocode_simplified(sets(lower=(2.0, 0.2), upper=(2.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
+    # Lower bound T 2.2 s (displacement), upper bound T 2.0 s (forces).
+    report = eurocode_simplified(sets(lower=(2.2, 0.2), upper=(2.0, 0.2)), ec, EurocodeSpectrum(0.3, "C"))
     items = {i.symbol: i for i in report.quantities}
     assert {s: i.unit for s, i in items.items()} == _EC_UNITS
     for symbol, clause in _EC_CLAUSES.items():
         assert items[symbol].source.startswith(f"EN 1998-1:2004 {clause}"), (symbol, items[symbol].source)
     for symbol, term in _EC_TERMS.items():
         assert items[symbol].name.startswith(term), (symbol, items[symbol].name)
+    # Derived quantities say how they follow from the others; the governing property sets are named.
+    assert items["d_d"].source == "gamma_x delta d_dc" and items["V_s/F_b"].source == "V_s over F_b"
+    assert items["d_dc"].note == "property set 'lower'" and items["V"].note == "property set 'upper'"
+    assert items["delta"].note.startswith("y = ") and items["delta"].note.endswith(" m")
     # F_b: lambda 0.85 (T_1 0.4 s <= 2 T_C, 3 storeys: EN 1998-1 §4.3.3.2.2(1)), q and W_s stated.
     assert items["F_b"].note == "lambda = 0.85, q = 3.9, W_s = 7000 kN"
     assert items["V_s"].note.startswith("W_s = 7000 kN above the isolation plane, q = 1")
@@ -1294,10 +1301,13 @@ def test_eurocode_report_units_citations_and_terms():
     for check in report.applicability:
         clause = "§10.9.1(5)" if "§10.9.1(5)" in check.name else "§10.9.2"
         assert check.source.startswith(f"EN 1998-1:2004 {clause}"), check.source
-    units = {c.name: c.unit for c in report.applicability}
-    assert units["longest effective period T_eff"] == "s" and units["largest plan dimension"] == "m"
-    assert units["distance to an active fault (Ms >= 6.5)"] == "km"
-    assert units["vertical over effective horizontal stiffness"] == "-"
+    units = {c.name.split(",")[0]: c.unit for c in report.applicability}
+    assert units == {"shortest T_eff over the superstructure period T_f": "-", "longest effective period T_eff": "s",
+                     "largest effective damping xi_eff (§10.9.1(5))": "-", "largest plan dimension": "m",
+                     "superstructure regular and symmetric (0 = no)": "-",
+                     "distance to an active fault (Ms >= 6.5)": "km",
+                     "vertical over effective horizontal stiffness": "-", "K_eff(d_dc)/K_eff(0.2 d_dc)": "-",
+                     "restoring force increase from d_dc/2 to d_dc over W": "-"}
 
 
 def test_eurocode_warnings_say_what_failed_and_what_follows():
@@ -1556,3 +1566,36 @@ def test_fixed_base_period_at_the_cap_is_kept():
     cap = period_upper_limit_factor(0.6) * approximate_period(20.0)
     shear = fixed_base_shear(SPECTRUM, 1000.0, 8.0, period=cap, height=20.0)
     assert shear.period == cap and shear.period_source == "given"
+
+
+def test_eurocode_building_plain_floats_small_superstructure_and_options():
+    b = EurocodeBuilding(10000, 1, 30, 20, superstructure_weight=0.5)     # 0 < W_s <= W: any positive W_s
+    assert all(type(x) is float for x in (b.weight, b.superstructure_period, b.plan_length, b.plan_width,
+                                          b.superstructure_weight))
+    assert b.weight_above == 0.5
+    with pytest.raises(ValueError, match=r"^tolerance = 0\.5 is not allowed"):
+        eurocode_simplified(sets(), EurocodeBuilding(10000.0, 0.4, 30.0, 20.0), EurocodeSpectrum(0.3, "C"), tolerance=0.5)
+
+
+def test_eurocode_damping_limit_at_thirty_per_cent():
+    # EN 1998-1 §10.9.1(5) (from memory): xi_eff <= 30 %; exactly 30 % keeps the equivalent-linear model.
+    report = eurocode_simplified(sets(lower=(2.0, 0.30), upper=(2.0, 0.30)), EurocodeBuilding(10000.0, 0.4, 30.0, 20.0),
+                                 EurocodeSpectrum(0.3, "C"))
+    check = [c for c in report.applicability if c.name.startswith("largest effective damping xi_eff")][0]
+    assert check.value == 0.30 and check.passed
+
+
+def test_eurocode_inputs_kept_as_floats_and_its_damping_rule():
+    b = EurocodeBuilding(10000, 1, 30, 20, eccentricity=1, behaviour_factor=4, isolated_behaviour_factor=1,
+                         displacement_amplification=2, superstructure_weight=7000)
+    assert all(type(getattr(b, name)) is float for name in ("eccentricity", "behaviour_factor", "isolated_behaviour_factor",
+                                                            "displacement_amplification", "superstructure_weight"))
+    # EN 1998-1 Eq. 4.6 (from memory): C_t 0.050 for "all other structures", the documented default.
+    assert eurocode_approximate_period(16.0) == pytest.approx(0.050 * 16.0**0.75)
+    # The simplified analysis always takes eta of §3.2.2.2 (rule "eurocode"), whatever the spectrum's own rule.
+    report = eurocode_simplified(sets(lower=(2.0, 0.2), upper=(2.0, 0.2)), EurocodeBuilding(10000.0, 0.4, 30.0, 20.0),
+                                 EurocodeSpectrum(0.3, "C", rule="asce7"))
+    assert report.bounds.displacement.rule == "eurocode"
+    assert report.value("eta") == pytest.approx(math.sqrt(10.0 / 25.0))
+    with pytest.raises(ValueError, match=r"^building = str is not allowed: must be a EurocodeBuilding$"):
+        eurocode_simplified(sets(), "tall", EurocodeSpectrum(0.3, "C"))
