@@ -1214,13 +1214,19 @@ _ELF_CLAUSES = {"D_M": "Eq. 17.5-1", "T_M": "Eq. 17.5-2", "B_M": "Table 17.5-1",
 # Terms of ASCE/SEI 7-16 §11.3 notation (from memory) that start each quantity's name.
 _ELF_TERMS = {"D_M": "maximum displacement", "D_TM": "total maximum displacement", "T_M": "effective period",
               "beta_M": "effective damping", "k_M": "effective stiffness", "B_M": "damping coefficient",
-              "V_s": "superstructure design shear", "R_I": "reduction factor", "T_fb": "fixed-base period"}
+              "V_s": "superstructure design shear", "R_I": "reduction factor", "T_fb": "fixed-base period",
+              # and plain words for the rest: V_b on the isolation system, V_st unreduced, F_1 at the base level
+              "e": "eccentricity incl. 5 % accidental", "moat": "moat width", "V_b": "isolation-system shear",
+              "V_st": "unreduced superstructure shear", "k": "distribution exponent", "F_1": "force at base level",
+              "V_fb": "fixed-base design shear", "V_s/V_fb": "ratio isolated/fixed-base design shear"}
 
 
 def test_elf_report_units_citations_and_terms():
-    report = asce7_elf(sets(), building(isolator_kind="sliding", activation_force=900.0, fixed_base_period=None),
-                       SPECTRUM)
+    # Lower bound T 3.2 s (displacement), upper bound T 3.0 s (forces).
+    report = asce7_elf(sets(lower=(3.2, 0.2)), building(isolator_kind="sliding", activation_force=900.0,
+                                                       fixed_base_period=None), SPECTRUM)
     items = {i.symbol: i for i in report.quantities}
+    assert items["D_M"].note == "property set 'lower'" and items["V_b"].note == "property set 'upper'"
     assert {s: i.unit for s, i in items.items()} == _ELF_UNITS
     for symbol, clause in _ELF_CLAUSES.items():
         assert items[symbol].source.startswith(f"ASCE/SEI 7-16 {clause}"), (symbol, items[symbol].source)
@@ -1389,6 +1395,13 @@ def test_elf_building_stores_plain_floats_in_tuples():
     assert b.floor_elevations == (4.0, 8.0) and type(b.floor_elevations) is tuple
     assert all(type(x) is float for x in (b.base_weight, *b.floor_weights, *b.floor_elevations, b.plan_length))
     hash(b)
+    b = building(plan_width=20, response_modification=8, torsion_period_ratio=1, importance=1, eccentricity=1,
+                 wind_base_shear=500, s1=1, moat_clearance=0, corner_distance=20, fixed_base_period=1,
+                 activation_force=900, height=13)
+    for name in ("plan_width", "response_modification", "torsion_period_ratio", "importance", "eccentricity",
+                 "wind_base_shear", "s1", "moat_clearance", "corner_distance", "fixed_base_period", "activation_force",
+                 "height"):
+        assert type(getattr(b, name)) is float, name
     # A mezzanine 0.5 m above a floor is a valid level (levels only have to rise).
     assert ElfBuilding(base_weight=0.0, floor_weights=(10.0, 10.0), floor_elevations=(4.0, 4.5), plan_length=10.0,
                        plan_width=10.0, response_modification=8.0).structural_height == 4.5
