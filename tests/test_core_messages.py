@@ -351,3 +351,27 @@ def test_spectrum_zero_dimensional_period_array():
     with pytest.raises(ValueError, match=r"^period = 11\.0 is not allowed: must lie in \[0, 10\]"):
         SPECTRUM.sd(np.array([1.0, 11.0, 12.0]))
     assert type(SPECTRUM.sa(np.array(1.0))) is float
+
+
+# --- bearings written out: to_dict() rebuilds the same bearing --------------------------------
+
+@pytest.mark.parametrize("call, valid, skip", _BEARING_CASES[2:6] + _BEARING_CASES[7:8],
+                         ids=[c[0].__name__ for c in _BEARING_CASES[2:6] + _BEARING_CASES[7:8]])
+def test_bearing_to_dict_rebuilds_the_bearing(call, valid, skip):
+    # Each bearing's record names its kind by the study's bearing type (isolation.study.keys.BEARING_KEYS),
+    # holds every constructor field, and any other entry is the bearing's property of that name.
+    import dataclasses
+    from isolation.study.keys import BEARING_KEYS
+    bearing = call(**valid)
+    data = bearing.to_dict()
+    assert data["kind"] in BEARING_KEYS
+    fields = {f.name for f in dataclasses.fields(bearing)}
+    assert fields <= set(data), fields - set(data)
+    rebuilt = {k: v for k, v in data.items() if k in fields}
+    if "compound" in rebuilt:
+        rebuilt["compound"] = _dr.RubberCompound(**{k: tuple(v) if isinstance(v, list) else v
+                                                    for k, v in rebuilt["compound"].items()})
+    assert call(**rebuilt) == bearing
+    for key in set(data) - fields - {"kind"}:
+        value = getattr(bearing, key)
+        assert data[key] == (list(value) if isinstance(value, tuple) else value), key
