@@ -1248,9 +1248,17 @@ def test_elf_report_units_citations_and_terms():
     for check in report.applicability:
         clause = "§17.2.4.4" if check.name.startswith("restoring force") else "§17.4.1"
         assert check.source.startswith(f"ASCE/SEI 7-16 {clause}"), check.source
-    units = {c.name.split(" (")[0].split(",")[0]: c.unit for c in report.applicability}
-    assert units["height above the isolation interface"] == "m" and units["longest effective period T_M"] == "s"
-    assert units["storeys above the isolation interface"] == "-" and units["largest effective damping beta_M"] == "-"
+    units = {c.name.split(",")[0]: c.unit for c in report.applicability}
+    assert units == {"site class D within A-D (A=0 ... F=5)": "-", "storeys above the isolation interface": "-",
+                     "height above the isolation interface": "m", "longest effective period T_M": "s",
+                     "shortest T_M over 3 T_fb": "-", "largest effective damping beta_M": "-",
+                     "barred structural irregularity (1 = present)": "-", "k_eff(D_M)/k_eff(0.2 D_M)": "-",
+                     "restoring force (F(D_M) - F(D_M/2))/W": "-"}
+    # Quantities at D_M say so (ASCE/SEI 7-16 notation: T_M, beta_M, k_M at the maximum displacement).
+    for symbol in ("T_M", "beta_M", "k_M"):
+        assert items[symbol].name.endswith(" at D_M"), items[symbol].name
+    assert items["V_s/V_fb"].source == "V_s over §12.8 V"
+    assert items["V_s,min,activation"].source.endswith("not divided by R_I (from memory; ASCE/SEI 7-22 same, from memory)")
     (drift,) = report.checks
     assert drift.source.startswith("ASCE/SEI 7-16 §17.5.6") and drift.unit == "-"
     assert drift.name.startswith("storey drift ratio estimate (level ")
