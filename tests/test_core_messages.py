@@ -375,3 +375,20 @@ def test_bearing_to_dict_rebuilds_the_bearing(call, valid, skip):
     for key in set(data) - fields - {"kind"}:
         value = getattr(bearing, key)
         assert data[key] == (list(value) if isinstance(value, tuple) else value), key
+
+
+def test_spectra_keep_plain_floats_and_refuse_unknown_ground():
+    code = CodeSpectrum(2, 1, 8, max_period=10)
+    assert all(type(x) is float for x in (code.sms, code.sm1, code.long_period, code.max_period))
+    ec = EurocodeSpectrum(1, "C", importance=1, max_period=4)
+    assert all(type(x) is float for x in (ec.ag, ec.importance, ec.max_period))
+    assert type(TabulatedSpectrum(periods=(0, 1), values=(1, 1), damping=1).damping) is float
+    # EN 1998-1 Table 3.2/3.3: ground types A-E only.
+    with pytest.raises(ValueError, match=r"^ground = 'X' is not allowed: must be one of 'A', 'B', 'C', 'D', 'E'$"):
+        EurocodeSpectrum(0.3, "X")
+    # A period that is not a number: named, with its unit.
+    with pytest.raises(ValueError, match=r"^period = nan is not allowed: must be a finite number \[s\]$"):
+        SPECTRUM.sa(math.nan)
+    with pytest.raises(ValueError) as caught:
+        EurocodeSpectrum(0.3).sa(4.5)
+    assert str(caught.value).endswith("pass max_period (up to 10 s) to extend the T_C T_D/T^2 branch")
