@@ -98,3 +98,44 @@ def test_damping_bounded_by_rigid_plastic_limit(kd, ratio, qd, d_factor):
     beta = b.effective_damping(d)
     assert 0.0 < beta < 2.0 / math.pi
     assert np.isfinite(b.effective_stiffness(d))
+
+
+# --- scalars in, floats out; arrays in, arrays out; limits of the constructors --------------------
+
+def test_backbone_scalars_arrays_and_elastic_range():
+    from isolation.bearings import Bilinear, MultiLinear
+    # K_u 20000, K_d 1000, Q_d 95 kN: D_y = Q_d/(K_u - K_d) = 0.005 m (Naeim & Kelly 1999, bilinear model).
+    for b in (Bilinear(20000.0, 1000.0, 95.0), MultiLinear(1000.0, (19000.0,), (95.0,))):
+        for name in ("force", "effective_stiffness", "loop_energy", "effective_damping"):
+            method = getattr(b, name)
+            assert type(method(0.1)) is float, name
+            many = method(np.array([0.1, 0.2]))
+            assert isinstance(many, np.ndarray) and many.shape == (2,), name
+            assert many[0] == method(0.1), name
+        # Below yield the loop is elastic: no energy dissipated, no hysteretic damping.
+        assert b.loop_energy(0.004) == 0.0 and b.effective_damping(0.004) == 0.0
+        assert b.loop_energy(0.1) == pytest.approx(4.0 * 95.0 * (0.1 - 0.005))    # EDC = 4 Q_d (D - D_y)
+        assert b.force([-0.1, 0.1]).tolist() == [-b.force(0.1), b.force(0.1)]
+        assert b.scaled() == b and b.scaled(strength=2.0).characteristic_strength == 190.0
+        assert b.scaled(stiffness=2.0).post_yield_stiffness == 2000.0
+        assert b.scaled(stiffness=2.0).characteristic_strength == 95.0
+    # K_d must be below K_u (no yield otherwise); equal is refused.
+    with pytest.raises(ValueError, match=r"^post_yield_stiffness = 1000\.0 is not allowed: must be < elastic_stiffness = 1000\.0 \[kN/m\]$"):
+        Bilinear(1000.0, 1000.0, 10.0)
+    b = Bilinear(20000, 1000, 95)
+    assert (type(b.elastic_stiffness), type(b.post_yield_stiffness), type(b.characteristic_strength)) == (float,) * 3
+    # A linear spring alone is a backbone; no stiffness at all is not.
+    spring = MultiLinear(1000)
+    assert spring.force(0.2) == pytest.approx(200.0) and spring.yield_displacement == math.inf
+    assert type(spring.linear_stiffness) is float
+    assert MultiLinear(0.0, (1000.0,), (10.0,)).force(1.0) == pytest.approx(10.0)
+    with pytest.raises(ValueError, match=r"^linear_stiffness = 0\.0 with no elements is not allowed: the backbone needs stiffness$"):
+        MultiLinear(0.0)
+    with pytest.raises(ValueError, match=r"^strengths has 1 entries but stiffnesses has 2: must match$"):
+        MultiLinear(0.0, (1.0, 2.0), (1.0,))
+    ml = MultiLinear(1000, [19000], [95])
+    assert ml.stiffnesses == (19000.0,) and ml.strengths == (95.0,) and type(ml.stiffnesses[0]) is float
+    assert ml.to_dict() == {"kind": "multilinear", "linear_stiffness": 1000.0, "stiffnesses": [19000.0], "strengths": [95.0]}
+    for bad in (dict(stiffness=math.nan), dict(strength=-1.0)):
+        with pytest.raises(ValueError, match=r"^(stiffness|strength) factor = "):
+            b.scaled(**bad)
