@@ -139,3 +139,10 @@ def test_backbone_scalars_arrays_and_elastic_range():
     for bad in (dict(stiffness=math.nan), dict(strength=-1.0)):
         with pytest.raises(ValueError, match=r"^(stiffness|strength) factor = "):
             b.scaled(**bad)
+
+
+def test_bilinear_record_rebuilds_it():
+    b = Bilinear(20000.0, 1000.0, 95.0)
+    data = b.to_dict()
+    assert data["kind"] == "bilinear" and Bilinear(**{k: v for k, v in data.items() if k != "kind"}) == b
+    assert set(data) == {"kind", "elastic_stiffness", "post_yield_stiffness", "characteristic_strength"}
