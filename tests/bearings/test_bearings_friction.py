@@ -301,8 +301,9 @@ def test_double_concave_force_method_follows_regimes():
 def test_friction_pendulum_inputs_copies_and_pass_through():
     import dataclasses
     from isolation.bearings import friction
-    fp = FrictionPendulum(3, 0.06, slider_height=0, displacement_capacity=1, friction_slow=0.04, rate_parameter=20,
-                          yield_displacement=0.001)
+    # Integers and numpy scalars are stored as plain floats.
+    fp = FrictionPendulum(3, np.float64(0.06), slider_height=np.float64(0.2), displacement_capacity=1,
+                          friction_slow=np.float64(0.04), rate_parameter=20, yield_displacement=np.float64(0.001))
     for f in dataclasses.fields(fp):
         assert type(getattr(fp, f.name)) is float, f.name
     # A property modification factor changes both frictions and nothing else.
@@ -312,13 +313,14 @@ def test_friction_pendulum_inputs_copies_and_pass_through():
     with pytest.raises(ValueError, match=r"^weight = 0\.0 is not allowed: must be a finite number > 0 \[kN\]$"):
         fp.bilinear(0.0)
     assert type(fp.friction_at(0.1)) is float and fp.friction_at(np.array([0.0, 0.1])).shape == (2,)
-    # checks(): the extreme loads and the restored weight reach the checks. F(D) - F(D/2) = W D/(2 R) for a
-    # pendulum (Zayas et al. 1990: K_d = W/R) -> over a weight share of 2 W it halves: D/(4 R) [derived].
+    # checks(): the extreme loads and the restored weight reach the checks. F(D) - F(D/2) = W D/(2 R_eff) for a
+    # pendulum (Zayas et al. 1990: K_d = W/R_eff, R_eff = R - h = 2.8 m) -> over a weight share of 2 W it
+    # halves: D/(4 R_eff) [derived].
     with pytest.raises(ValueError, match=r"^axial_load_max = 500\.0 is not allowed: must be >= axial_load"):
         fp.checks(1000.0, 0.3, axial_load_max=500.0)
     own = next(c for c in fp.checks(1000.0, 0.3) if c.name == "restoring force")
     shared = next(c for c in fp.checks(1000.0, 0.3, weight_share=2000.0) if c.name == "restoring force")
-    assert own.value == pytest.approx(0.3 / (2 * 3.0)) and shared.value == pytest.approx(0.3 / (4 * 3.0))
+    assert own.value == pytest.approx(0.3 / (2 * 2.8)) and shared.value == pytest.approx(0.3 / (4 * 2.8))
     # The double concave bearing moved to its own module and stays importable from here.
     from isolation.bearings.double_concave import DoubleConcave
     assert friction.DoubleConcave is DoubleConcave
