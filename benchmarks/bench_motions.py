@@ -28,7 +28,6 @@ import eqsig.sdof  # noqa: E402
 from scipy.signal import lsim  # noqa: E402
 
 from isolation import GRAVITY  # noqa: E402
-
 from isolation.motions import matched_suite, response_spectrum  # noqa: E402
 from isolation.site.spectra import CodeSpectrum  # noqa: E402
 

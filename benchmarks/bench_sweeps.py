@@ -60,9 +60,9 @@ def _batch(folder: Path, radii, frictions, name: str) -> Path:
 
 
 def bench_kernel(side: int) -> None:
-    from isolation.study import assembly as model
     from isolation.design import design_bounds
     from isolation.design.array_kernel import design_bounds_many
+    from isolation.study import assembly as model
     from isolation.study import load_study
 
     study = load_study(STUDY)
@@ -169,8 +169,8 @@ def bench_histories(count: int, ratio_count: int) -> None:
             full_count = len(radii) * len(frictions)
             full, line_full = _history_run(_batch(folder, radii, frictions, "histories-full"), folder / "full", 2)
     small_count = side * side
-    print(f"history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
-          f"alternative is the same in every variant, run once per worker):")
+    print("history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
+          "alternative is the same in every variant, run once per worker):")
     print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  {line_one}")
     print(f"  {small_count} variants, 2 workers: {two:7.1f} s  {small_count / two:6.2f} variants/s  "
           f"ratio {one / two:.2f} (aim >= 1.8)  {line_two}")

@@ -144,8 +144,8 @@ def _say(message: str) -> None:
 
 
 def _check(args) -> int:
-    from isolation.study.runner import check_study
     from isolation.study import load_study
+    from isolation.study.runner import check_study
 
     study = load_study(args.study, overrides=_overrides(args.set))
     check_study(study)
@@ -216,8 +216,8 @@ def _run(args) -> int:
 
 
 def _motions(args) -> int:
-    from isolation.study.runner import export_suite
     from isolation.study import load_study
+    from isolation.study.runner import export_suite
 
     _out_folder(args.out)
     study = load_study(args.study)

@@ -26,8 +26,8 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
-from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 from isolation.codes.asce7_fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
+from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 
 __all__ = [
     "Item",

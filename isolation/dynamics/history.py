@@ -34,8 +34,16 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.dynamics.energy import COMPONENTS, balance_error
-from isolation.dynamics.isolators import (FRICTION_LAWS, BoucWen, ElasticPlasticLaw, SharpFrictionLaw, SmoothLaw,
-                                 describe, friction_regularisation, isolator_law)
+from isolation.dynamics.isolators import (
+    FRICTION_LAWS,
+    BoucWen,
+    ElasticPlasticLaw,
+    SharpFrictionLaw,
+    SmoothLaw,
+    describe,
+    friction_regularisation,
+    isolator_law,
+)
 from isolation.dynamics.newmark import simulate, substeps
 from isolation.dynamics.response import HistoryResult, suite_statistics
 from isolation.dynamics.structure import IsolatedBuilding, ShearBuilding, linear_isolated_matrices

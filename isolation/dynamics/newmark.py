@@ -41,8 +41,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from isolation.errors import RunError
 from isolation.dynamics.isolators import SmoothColumns
+from isolation.errors import RunError
 
 __all__ = ["integrate", "simulate", "kernel_module", "compiled_available", "substeps"]
 

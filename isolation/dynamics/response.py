@@ -13,8 +13,8 @@ from pathlib import Path
 
 import numpy as np
 
-from isolation.files import write_bytes_atomic
 from isolation.dynamics.oscillator import response_spectrum
+from isolation.files import write_bytes_atomic
 
 __all__ = ["HistoryResult", "suite_statistics"]
 

@@ -24,10 +24,8 @@ import numpy as np
 
 from isolation.loss import costs as _costs
 from isolation.loss.consequences import occupancy as _occupancy
-from isolation.loss.fragility import (IRREPARABLE, collapse_fragility, collapse_probability_at_mce,
-                                      component_fragilities)
-from isolation.loss.hazard import (DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard,
-                                   rate_from_probability)
+from isolation.loss.fragility import IRREPARABLE, collapse_fragility, collapse_probability_at_mce, component_fragilities
+from isolation.loss.hazard import DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard, rate_from_probability
 from isolation.loss.inputs import LossInputs
 from isolation.loss.simulation import PERCENTILES, Demands, LossModel, simulate, summarise
 

@@ -24,8 +24,8 @@ import numpy as np
 
 from isolation import GRAVITY
 from isolation import verdict as _verdict
-from isolation.verdict.sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
+from isolation.verdict.sources import drift_limit as _drift_limit
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
            "bearing_uplift_check",
@@ -69,8 +69,16 @@ def site_spectrum(study: Study):
 
 def isolation_system(alternative: Alternative):
     """Bearing groups and property factors of one alternative."""
-    from isolation.bearings import (BearingGroup, DoubleConcave, FrictionPendulum, HighDampingRubber,
-                                    IsolationSystem, LeadRubber, PropertyFactors, TripleFrictionPendulum)
+    from isolation.bearings import (
+        BearingGroup,
+        DoubleConcave,
+        FrictionPendulum,
+        HighDampingRubber,
+        IsolationSystem,
+        LeadRubber,
+        PropertyFactors,
+        TripleFrictionPendulum,
+    )
 
     kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
              "triple_pendulum": TripleFrictionPendulum,
@@ -377,9 +385,9 @@ def _check_time_step(study: Study, structure) -> None:
     """The engine sub-steps a motion whose step exceeds T_min/10 (ground motion interpolated inside the
     step); only a building so stiff that it would need more than :data:`MAX_SUBSTEPS` sub-steps per
     sample of analysis.time_step is refused, naming the building keys."""
-    from isolation.errors import InputError
     from isolation.dynamics.history import DT_FRACTION
     from isolation.dynamics.newmark import substeps
+    from isolation.errors import InputError
 
     shortest = float(np.min(structure.modal().periods))
     needed = substeps(study.analysis.time_step, shortest, DT_FRACTION)

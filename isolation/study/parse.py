@@ -70,11 +70,9 @@ from typing import Any, Mapping
 
 from isolation.errors import InputError
 from isolation.files import read_input_text
-from isolation.study.inputs import (Alternative, Analysis, BearingSpec, Building, Project, Site, Study,
-                                    StudyError)
+from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site, Study, StudyError
 from isolation.study.keys import BEARING_KEYS, Problems, Reader
-from isolation.study.sections import (LATERAL_SYSTEMS, _alternatives, _analysis, _basis, _building, _project,
-                                      _site)
+from isolation.study.sections import LATERAL_SYSTEMS, _alternatives, _analysis, _basis, _building, _project, _site
 
 __all__ = [
     "Study",

@@ -12,8 +12,15 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from isolation.app.batch.maps import (best_history_alternatives, best_history_table, feasible, grid_field,
-                                  history_front, history_rows, plot_history_maps)
+from isolation.app.batch.maps import (
+    best_history_alternatives,
+    best_history_table,
+    feasible,
+    grid_field,
+    history_front,
+    history_rows,
+    plot_history_maps,
+)
 
 X, Y = "alternative.0.bearings.0.radius", "alternative.0.bearings.0.friction"
 

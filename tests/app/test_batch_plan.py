@@ -6,13 +6,13 @@ values themselves are validated by isolation.study. Expected values are
 written out by hand from the batch files below, not produced by the code.
 """
 
-from pathlib import Path
 import shutil
+from pathlib import Path
 
 import pytest
 
-from isolation.app.batch.command import main
 from isolation.app.batch.check import validate_plan
+from isolation.app.batch.command import main
 from isolation.app.batch.plan import load_batch
 from isolation.errors import InputError
 

@@ -17,8 +17,8 @@ from pathlib import Path
 
 import pytest
 
-from isolation.app.batch.execute import STATE_FILE, run_batch
 from isolation.app.batch.check import validate_plan
+from isolation.app.batch.execute import STATE_FILE, run_batch
 from isolation.app.batch.plan import load_batch
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
 from isolation.app.batch.summary import read_summary

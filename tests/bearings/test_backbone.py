@@ -13,7 +13,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import Bilinear, MultiLinear
 

@@ -17,13 +17,18 @@ Sources
 
 import math
 
-import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
-from isolation.bearings import HighDampingRubber, LeadRubber, RubberCompound, TYPICAL_COMPOUND
+from isolation.bearings import TYPICAL_COMPOUND, HighDampingRubber, LeadRubber, RubberCompound
 from isolation.bearings.checks import (
-    buckling_load, compression_modulus, overlap_area, overlap_ratio, rotation_strain, shape_factor,
+    buckling_load,
+    compression_modulus,
+    overlap_area,
+    overlap_ratio,
+    rotation_strain,
+    shape_factor,
 )
 from isolation.bearings.damping_rubber import equivalent_bilinear
 

@@ -15,11 +15,21 @@ import json
 import math
 
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import (
-    BearingGroup, Bilinear, CombinedBackbone, DoubleConcave, FrictionPendulum, HighDampingRubber,
-    IsolationSystem, LeadRubber, MultiLinear, PropertyBound, PropertyFactors,
+    BearingGroup,
+    Bilinear,
+    CombinedBackbone,
+    DoubleConcave,
+    FrictionPendulum,
+    HighDampingRubber,
+    IsolationSystem,
+    LeadRubber,
+    MultiLinear,
+    PropertyBound,
+    PropertyFactors,
 )
 
 FP = FrictionPendulum(2.235, 0.06, displacement_capacity=0.5)

@@ -7,18 +7,16 @@ has no single source.
 """
 
 import math
-
-import numpy as np
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from isolation.bearings import Bilinear
 from isolation.codes.asce7 import ElfBuilding, activation_force, asce7_elf
-from isolation.codes.eurocode import EurocodeBuilding, eurocode_approximate_period, eurocode_simplified
 from isolation.codes.asce7_fixed_base import approximate_period
-from isolation.design.overturning import (asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction,
-                                   grid_rows)
+from isolation.codes.eurocode import EurocodeBuilding, eurocode_approximate_period, eurocode_simplified
+from isolation.design.overturning import asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction, grid_rows
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum
 from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
 from isolation.study.assembly import fixed_base_period
@@ -395,8 +393,8 @@ EXPECTED_LEVEL = {
 
 @pytest.fixture(scope="module")
 def demo_results():
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     return run_study(load_study(DEMO), quick=True)
 
@@ -928,7 +926,11 @@ def test_eurocode_building_keeps_its_values():
 
 def test_eurocode_design_spectrum_ranges():
     # EN 1998-1 §3.2.2.5 covers 0-4 s (the elastic spectrum's range, §3.2.2.2); q >= 1 here up to 10.
-    from isolation.codes.eurocode import eurocode_approximate_period, eurocode_design_spectrum, eurocode_fixed_base_shear
+    from isolation.codes.eurocode import (
+        eurocode_approximate_period,
+        eurocode_design_spectrum,
+        eurocode_fixed_base_shear,
+    )
     spectrum = EurocodeSpectrum(0.3, "C")
     assert eurocode_design_spectrum(spectrum, 4.0, 10.0) == pytest.approx(0.06)
     with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed: .* \[s\]"):

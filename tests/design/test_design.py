@@ -17,8 +17,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from isolation.bearings import Bilinear
-from isolation.design import design_bounds, equivalent_linear
 from isolation.codes.asce7 import ElfBuilding, asce7_elf
+from isolation.codes.asce7_fixed_base import approximate_period, fixed_base_shear, response_coefficient
 from isolation.codes.eurocode import (
     EurocodeBuilding,
     eurocode_approximate_period,
@@ -26,8 +26,8 @@ from isolation.codes.eurocode import (
     eurocode_fixed_base_shear,
     eurocode_simplified,
 )
+from isolation.design import design_bounds, equivalent_linear
 from isolation.errors import RunError
-from isolation.codes.asce7_fixed_base import approximate_period, fixed_base_shear, response_coefficient
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
 
 G = 9.80665

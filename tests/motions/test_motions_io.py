@@ -18,9 +18,9 @@ from isolation.motions import (
     read_csv_accelerogram,
     read_suite_records,
     read_text_accelerogram,
+    records_io,
     write_suite,
 )
-from isolation.motions import records_io
 from isolation.site.spectra import CodeSpectrum
 
 STANDARD_GRAVITY = 9.80665  # m/s2, CGPM 1901 definition (outside source)

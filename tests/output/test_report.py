@@ -21,11 +21,11 @@ import pytest
 from matplotlib.figure import Figure
 from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook, new_output
 
-from isolation.output import report
-from tools import PDF_READERS, require_pdf_tools, require_tools
 from isolation.errors import RunError
+from isolation.output import report
 from isolation.output.plots import captioned
 from isolation.output.tables import Table
+from tools import PDF_READERS, require_pdf_tools, require_tools
 
 CODE_MARKER = "import_secret_marker_xyz"
 PRINTED = "PRINTED_CONSOLE_TEXT"

@@ -18,11 +18,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from isolation.output import plots, tables
 from isolation.performance.comparison import fixed_base_comparison, isolated_superstructure
-from isolation.study.runner import fixed_base_period, run_study, site_spectrum, superstructure
 from isolation.study import load_study, parse_study, read_study_mapping
-from isolation.output import plots
-from isolation.output import tables
+from isolation.study.runner import fixed_base_period, run_study, site_spectrum, superstructure
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = ROOT / "examples" / "demo_study.toml"

@@ -20,8 +20,8 @@ import pytest
 
 from isolation import GRAVITY
 from isolation.errors import InputError, RunError
-from isolation.study.runner import StudyResults, load_results, run_study, superstructure
 from isolation.study import apply_overrides, load_study, parse_study, read_study_mapping
+from isolation.study.runner import StudyResults, load_results, run_study, superstructure
 from isolation.verdict import NOT_RECOMMENDED, OUTCOMES
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -305,8 +305,8 @@ def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law(demo):
     # exp(-a|v|) (Constantinou, Mokha & Reinhorn 1990) in the response histories, its friction
     # scaled by the lower/upper factors of the study (0.85 / 1.25 in the demo; derived arithmetic).
     from isolation.bearings import FrictionPendulum
-    from isolation.study.runner import _history_isolator
     from isolation.study.assembly import isolation_system
+    from isolation.study.runner import _history_isolator
 
     mapping = apply_overrides(read_study_mapping(DEMO), {"alternative.0.bearings.0.friction_slow": 0.03})
     study = parse_study(mapping, source=str(DEMO), base_dir=DEMO.parent)

@@ -36,7 +36,6 @@ import io
 import itertools
 import math
 import re
-import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping

@@ -72,7 +72,6 @@ def design_rows(study) -> list[dict]:
         One row per alternative (columns of :mod:`isolation.app.batch.summary`).
     """
     from isolation.study import assembly as model
-    from isolation import verdict
 
     spectrum = model.site_spectrum(study)
     period, _ = model.fixed_base_period(study)
@@ -96,8 +95,8 @@ _BOUND_KEYS = ("displacement", "period", "damping", "base_shear")
 def _judged(study, spectrum, period, alternative, system, sets, report, quantities, permitted, reasons,
             checks) -> dict:
     """One alternative's row input: bounds, quantities and the verdict on the equivalent-linear numbers."""
-    from isolation.study import assembly as model
     from isolation import verdict
+    from isolation.study import assembly as model
 
     bounds = report.bounds.results
     strength = getattr(sets["lower"], "characteristic_strength", None)
@@ -290,8 +289,8 @@ def design_rows_many(studies: list) -> list:
         Per study its list of rows, or the exception its design raised
         (:func:`design_rows` raises the same one).
     """
-    from isolation.study import assembly as model
     from isolation.design.array_kernel import design_bounds_many
+    from isolation.study import assembly as model
 
     contexts: dict = {}
     prepared: list = []  # per study: (context, [(alternative, key)]) or an exception
@@ -410,7 +409,6 @@ def check_direct(study_file: str, items: list, settings: Mapping | None = None) 
     list of (str, str or None, str or None)
         Variant id, input hash (None when invalid), one-line problem (None when valid).
     """
-    from isolation.app.batch.check import variant_hash
 
     found = []
     parts: dict = {}

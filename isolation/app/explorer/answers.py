@@ -40,8 +40,17 @@ from matplotlib.figure import Figure
 
 from isolation import validate
 from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
-from isolation.app.explorer.tables import (_force, _length, checks_html, comparison_html, comparison_table,
-                                       quantities_html, summary_html, summary_table, warnings_html)
+from isolation.app.explorer.tables import (
+    _force,
+    _length,
+    checks_html,
+    comparison_html,
+    comparison_table,
+    quantities_html,
+    summary_html,
+    summary_table,
+    warnings_html,
+)
 from isolation.output.plots import COLOURS, masing_loop
 
 __all__ = [

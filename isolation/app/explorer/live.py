@@ -19,8 +19,17 @@ from typing import Any
 import numpy as np
 
 from isolation.app.explorer import answers as ex
-from isolation.app.explorer.controls import (BASES, BEARING_TYPES, CHOICES, CONTROLS, GROUPS, from_display, to_display,
-                                         unit_factor, unit_name)
+from isolation.app.explorer.controls import (
+    BASES,
+    BEARING_TYPES,
+    CHOICES,
+    CONTROLS,
+    GROUPS,
+    from_display,
+    to_display,
+    unit_factor,
+    unit_name,
+)
 from isolation.output.plots import COLOURS
 
 __all__ = ["build"]
