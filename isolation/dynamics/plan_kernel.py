@@ -169,13 +169,13 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 tmp2[j] = c2 * u[j] + v[j]
             for j in range(nd):
                 s = -(mr[j, 0] * g0 + mr[j, 1] * g1)
-                for l in range(nd):
-                    s += m[j, l] * tmp[l] + c[j, l] * tmp2[l]
+                for q in range(nd):
+                    s += m[j, q] * tmp[q] + c[j, q] * tmp2[q]
                 rhs[j] = s
             for j in range(nd):
                 s = 0.0
-                for l in range(nd):
-                    s += rhs[l] * k_inv[l, j]
+                for q in range(nd):
+                    s += rhs[q] * k_inv[q, j]
                 u_lin[j] = s
             # overturning moment of the previous step's inertial forces
             moment_x = 0.0
@@ -194,8 +194,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 axial[b] = share
             for i in range(3):
                 s = u_lin[i]
-                for l in range(3):
-                    s -= force[l] * k_inv[l, i]
+                for q in range(3):
+                    s -= force[q] * k_inv[q, i]
                 ub[i] = s
             converged = False
             for _ in range(max_iterations):
@@ -233,8 +233,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 w = v[j] + v_next[j]
                 s_in += w * (mr[j, 0] * (g[col, 0, n] + g0) + mr[j, 1] * (g[col, 1, n] + g1))
                 t2 = 0.0
-                for l in range(nd):
-                    t2 += c[j, l] * (v[l] + v_next[l])
+                for q in range(nd):
+                    t2 += c[j, q] * (v[q] + v_next[q])
                 s_damp += w * t2
             e_in -= 0.25 * dt * s_in
             e_damp += 0.25 * dt * s_damp
@@ -254,8 +254,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
         energy[col, 3] = peak_in
         kinetic = 0.0
         for j in range(nd):
-            for l in range(nd):
-                kinetic += 0.5 * v[j] * m[j, l] * v[l]
+            for q in range(nd):
+                kinetic += 0.5 * v[j] * m[j, q] * v[q]
         energy[col, 4] = kinetic
     return 0
 

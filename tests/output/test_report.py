@@ -93,7 +93,7 @@ def _text(pdf) -> str:
 
 def _page_size(pdf) -> tuple[float, float]:
     info = subprocess.run(["pdfinfo", str(pdf)], capture_output=True, text=True, check=True).stdout
-    line = next(l for l in info.splitlines() if l.startswith("Page size:"))
+    line = next(text for text in info.splitlines() if text.startswith("Page size:"))
     parts = line.split()
     return float(parts[2]), float(parts[4])
 

@@ -82,7 +82,6 @@ def design_rows(study) -> list[dict]:
         sets = system.property_sets(weight)
         report, quantities, permitted, reasons = model.design_alternative(study, sets, system, spectrum, period)
         checks = system.checks(quantities["total_displacement"])
-        bounds = report.bounds.results
         alternatives.append(_judged(study, spectrum, period, alternative, system, sets, report, quantities,
                                     permitted, reasons, checks))
     shear = fixed_base_elastic_shear(spectrum, period, weight)
@@ -174,7 +173,7 @@ def _apply_fast(base, fast: dict, source: str):
     alternatives = list(base.alternatives)
     bearing_changes: dict[tuple[int, int], dict] = {}
     other: dict[int, dict] = {}
-    for key, (match, value) in fast.items():
+    for match, value in fast.values():
         i = int(match.group(1))
         if i >= len(alternatives):
             return None
