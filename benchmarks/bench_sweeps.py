@@ -91,7 +91,8 @@ def bench_kernel(side: int) -> None:
                 for i in range(reference_count) for c in ("lower", "nominal", "upper"))
     print(f"array kernel, {count} variants x 3 property sets (friction pendulum, demo study), one core:")
     print(f"  scalar design_bounds (reference): {scalar_rate:10.0f} variants/s")
-    print(f"  design_bounds_many             : {count / elapsed:10.0f} variants/s  ratio {count / elapsed / scalar_rate:.0f} "
+    print(f"  design_bounds_many             : {count / elapsed:10.0f} variants/s  ratio "
+          f"{count / elapsed / scalar_rate:.0f} "
           f"(aim >= 20,000 variants/s); largest relative difference in D {worst:.1e}")
     print(f"  CPU time {cpu:.3f} s: {count / cpu:10.0f} variants per CPU second (what a free core gives)")
     print(f"  ({_load()})")
@@ -171,7 +172,8 @@ def bench_histories(count: int, ratio_count: int) -> None:
     small_count = side * side
     print("history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
           "alternative is the same in every variant, run once per worker):")
-    print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  {line_one}")
+    print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  "
+          f"{line_one}")
     print(f"  {small_count} variants, 2 workers: {two:7.1f} s  {small_count / two:6.2f} variants/s  "
           f"ratio {one / two:.2f} (aim >= 1.8)  {line_two}")
     if full_count:

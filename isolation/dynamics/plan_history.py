@@ -124,7 +124,8 @@ class PlanHistoryResult:
         if self.bearing_displacement_peak is not None:
             out.update({
                 "total_displacement_m": self.total_displacement.mean().item(),
-                "centre_displacement_m": np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean().item(),
+                "centre_displacement_m":
+                    np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean().item(),
                 "torsional_amplification": self.torsional_amplification.mean().item(),
                 "axial_min_kN": self.bearing_axial_force[..., 0].min().item(),
                 "axial_max_kN": self.bearing_axial_force[..., 1].max().item(),
@@ -200,14 +201,17 @@ def run_plan_cases(buildings, acceleration, dt, *, vertical=None) -> list:
         raise ValueError("buildings = [] is not allowed: give at least one building")
     isolated = isinstance(buildings[0], PlanIsolatedBuilding)
     for b in buildings:
-        if isolated and not isinstance(b, PlanIsolatedBuilding) or not isolated and not isinstance(b, PlanShearBuilding):
-            raise ValueError(f"building = {b!r} is not allowed: cases must all be PlanIsolatedBuilding or one PlanShearBuilding")
+        if (isolated and not isinstance(b, PlanIsolatedBuilding)
+                or not isolated and not isinstance(b, PlanShearBuilding)):
+            raise ValueError(f"building = {b!r} is not allowed: cases must all be PlanIsolatedBuilding or one "
+                             "PlanShearBuilding")
     if not isolated and len(buildings) != 1:
         raise ValueError("a fixed-base plan building runs as one case")
     first = buildings[0]
     if isolated:
         for b in buildings[1:]:
-            if b.superstructure != first.superstructure or b.base_mass != first.base_mass or not np.array_equal(b.positions, first.positions):
+            if (b.superstructure != first.superstructure or b.base_mass != first.base_mass
+                    or not np.array_equal(b.positions, first.positions)):
                 raise ValueError("cases integrated together must share superstructure, base mass and bearing positions")
         m, k, c = first.matrices()
         structure = first.superstructure
@@ -351,7 +355,8 @@ def _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical):
                 if change[:, :2].max() <= tolerance and change[:, 2].max() * max(1.0, np.abs(pos).max()) <= tolerance:
                     break
             else:
-                raise RuntimeError(f"plan isolator iteration did not converge at step {n + 1} (t = {(n + 1) * dt:.4g} s)")
+                raise RuntimeError(f"plan isolator iteration did not converge at step {n + 1} "
+                                   f"(t = {(n + 1) * dt:.4g} s)")
             d = bearing_motion(ub)
             step = d - d_prev
             vb = c2 * step - vb_prev

@@ -28,8 +28,8 @@ available = njit is not None
 _EDGE = 1.0 - 1e-15
 
 
-def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength, inv_ey,
-              c2, commit, uplift, axial_min, axial_max):
+def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength,
+                     inv_ey, c2, commit, uplift, axial_min, axial_max):
     """Resultant bearing forces (x, y, moment) for base motion ``ub``; with ``commit`` the states advance."""
     nb = pos.shape[0]
     ne = strength.shape[2]

@@ -31,7 +31,8 @@ import scipy.linalg
 from isolation import GRAVITY, validate
 from isolation.dynamics.isolators import describe, isolator_law
 
-__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES", "PlanShearBuilding", "PlanIsolatedBuilding"]
+__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES", "PlanShearBuilding",
+           "PlanIsolatedBuilding"]
 
 HYSTERESES = ("bilinear", "clough")
 """Storey laws of a yielding ShearBuilding (see its ``hysteresis`` parameter)."""

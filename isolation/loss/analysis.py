@@ -38,7 +38,8 @@ LOW_END = 0.5
 its hazard intervals at an intensity with negligible loss, from memory)."""
 
 CAUTIONS = (
-    "Order-of-magnitude screening from storey-based damage functions (FEMA earthquake loss estimation manual) and a short "
+    "Order-of-magnitude screening from storey-based damage functions (FEMA earthquake loss estimation manual) and a "
+    "short "
     "matched suite, not a component-by-component loss assessment.",
     "Costs are to be confirmed by a cost consultant; defaults are invented demo values.",
     "Not an insurance estimate; expected annual values depend strongly on the assumed hazard curve.",

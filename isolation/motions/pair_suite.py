@@ -200,7 +200,8 @@ class MatchedPairs:
             band=band,
             lowest_ratio=tuple(float(v) for v in ratios.min(axis=1)),
             highest_ratio=tuple(float(v) for v in ratios.max(axis=1)),
-            within_band=tuple(bool(lo >= band[0] and hi <= band[1]) for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
+            within_band=tuple(bool(lo >= band[0] and hi <= band[1])
+                              for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
             correlation=tuple(float(c) for c in self.correlation),
             baseline_ok=tuple(
                 bool(v <= BASELINE_TOLERANCE["velocity"] and d <= BASELINE_TOLERANCE["displacement"])

@@ -69,8 +69,10 @@ def test_scaled_applies_property_factors():
     "kwargs, field",
     [
         (dict(elastic_stiffness=-1.0, post_yield_stiffness=0.0, characteristic_strength=1.0), "elastic_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0), "post_yield_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0), "characteristic_strength"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0),
+         "post_yield_stiffness"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0),
+         "characteristic_strength"),
         (dict(elastic_stiffness=10.0, post_yield_stiffness=20.0, characteristic_strength=1.0), "post_yield_stiffness"),
     ],
 )

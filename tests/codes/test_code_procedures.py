@@ -670,7 +670,8 @@ def test_every_elf_item_by_hand():
     units = {i.symbol: i.unit for i in report.quantities}
     assert units["D_M"] == "m" and units["V_s"] == "kN" and units["k_M"] == "kN/m" and units["T_M"] == "s"
     sources = {i.symbol: i.source for i in report.quantities}
-    assert "Table 17.5-1" in sources["B_M"] and "Eq. 17.5-1" in sources["D_M"] and "§17.5.4.3" in sources["V_s,min,wind"]
+    assert "Table 17.5-1" in sources["B_M"] and "Eq. 17.5-1" in sources["D_M"]
+    assert "§17.5.4.3" in sources["V_s,min,wind"]
     assert sources["T_fb"] == "given"
     names = {i.symbol: i.name for i in report.quantities}
     assert names["B_M"] == "damping coefficient" and names["V_s"] == "superstructure design shear"
@@ -697,7 +698,8 @@ def test_activation_force_of_a_multilinear_plane():
 
 @pytest.mark.parametrize("changes, words", [
     # Brief rule: bad input names the field, the value and what is allowed, with its unit.
-    (dict(floor_elevations=(4.0, 4.0, 12.0)), r"floor_elevations = \[4\.0, 4\.0, 12\.0\] is not allowed: must increase"),
+    (dict(floor_elevations=(4.0, 4.0, 12.0)),
+     r"floor_elevations = \[4\.0, 4\.0, 12\.0\] is not allowed: must increase"),
     (dict(plan_length=-1.0), r"plan_length = -1\.0 is not allowed: .* \[m\]"),
     (dict(plan_width=0.0), r"plan_width = 0\.0 is not allowed: .* \[m\]"),
     (dict(response_modification=0.0), r"response_modification = 0\.0 is not allowed: .* \[-\]"),
@@ -782,7 +784,8 @@ def test_applicability_checks_quote_value_limit_and_source():
     by_name = {c.name.split(",")[0].split(" (")[0]: c for c in report.applicability}
     site = [c for c in report.applicability if c.name.startswith("site class")][0]
     assert (site.value, site.limit, site.passed) == (3.0, 3.0, True)   # D is the fourth class
-    expected = {"storeys above the isolation interface": (3.0, 4.0), "height above the isolation interface": (12.0, 19.8),
+    expected = {"storeys above the isolation interface": (3.0, 4.0),
+                "height above the isolation interface": (12.0, 19.8),
                 "longest effective period T_M": (3.0, 5.0), "shortest T_M over 3 T_fb": (6.0, 3.0),
                 "largest effective damping beta_M": (0.2, 0.30)}
     for name, (value, limit) in expected.items():

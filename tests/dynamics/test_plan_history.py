@@ -93,7 +93,8 @@ def test_mass_offset_twists_the_plan_both_signs_alike():
 def test_energy_balance_closes():
     # Source: Newmark average acceleration energy balance (Chopra 4th ed.; from memory); < 1 % asked.
     motion = _motion(records=1)
-    result = run_plan(_plan_building(PENDULUM, offset=(1.2, 0.8)), np.stack([motion, 0.7 * motion[:, ::-1]], axis=1), DT)
+    result = run_plan(_plan_building(PENDULUM, offset=(1.2, 0.8)), np.stack([motion, 0.7 * motion[:, ::-1]], axis=1),
+                      DT)
     assert result.energy_error.max() < 1e-8
 
 

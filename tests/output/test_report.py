@@ -287,4 +287,5 @@ def test_missing_or_broken_notebook_is_refused(tmp_path):
 def test_install_hint_names_the_debian_packages():
     hint = report.install_hint(["xelatex"])
     assert "xelatex" in hint
-    assert "apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra pandoc" in hint
+    assert ("apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra "
+            "pandoc") in hint

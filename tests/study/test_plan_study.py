@@ -107,7 +107,8 @@ def test_bidirectional_study_end_to_end(tmp_path):
     assert plots.pairs_figure(results.live["pairs"]).axes
     path = results.save(tmp_path / "results.json")
     again = load_results(path)
-    assert again.alternatives[0].history["bidirectional"]["grid"] == results.alternatives[0].history["bidirectional"]["grid"]
+    assert (again.alternatives[0].history["bidirectional"]["grid"]
+            == results.alternatives[0].history["bidirectional"]["grid"])
     json.loads(path.read_text())
 
 

@@ -29,7 +29,8 @@ DEMO = ROOT / "examples" / "demo_study.toml"
 SOFT = ROOT / "examples" / "soft_site_study.toml"
 US = ROOT / "examples" / "pendulum_vs_rubber_study.toml"
 
-B_TABLE = ([0.02, 0.05, 0.10, 0.20, 0.30, 0.40, 0.50], [0.8, 1.0, 1.2, 1.5, 1.7, 1.9, 2.0])  # ASCE/SEI 7-16 Table 17.5-1
+B_TABLE = ([0.02, 0.05, 0.10, 0.20, 0.30, 0.40, 0.50],
+           [0.8, 1.0, 1.2, 1.5, 1.7, 1.9, 2.0])  # ASCE/SEI 7-16 Table 17.5-1
 
 
 def b_m(beta):
@@ -173,7 +174,8 @@ def test_tabulated_spectrum_gives_the_code_answer(tmp_path):
     sa = np.where(periods < t0, sms * (0.4 + 0.6 * periods / t0),
                   np.where(periods <= ts, sms, np.where(periods <= tl, sm1 / np.maximum(periods, 1e-9),
                                                         sm1 * tl / np.maximum(periods, 1e-9) ** 2)))
-    (tmp_path / "site.csv").write_text("period_s,sa_g\n" + "\n".join(f"{float(t)!r},{float(a)!r}" for t, a in zip(periods, sa)))
+    (tmp_path / "site.csv").write_text("period_s,sa_g\n"
+                                       + "\n".join(f"{float(t)!r},{float(a)!r}" for t, a in zip(periods, sa)))
     mapping = read_study_mapping(DEMO)
     for key in ("sms", "sm1", "long_period"):
         del mapping["site"][key]

@@ -40,7 +40,8 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     )
     parser.add_argument("batch_file", metavar="BATCH.toml", help="batch file naming the base study and its variants")
     parser.add_argument("--out", metavar="DIR", help=f"batch folder (default: {DEFAULT_ROOT}/<batch name>)")
-    parser.add_argument("--workers", type=int, metavar="N", help="worker processes on this machine (default: cores; a --scheduler cluster has its own)")
+    parser.add_argument("--workers", type=int, metavar="N",
+                        help="worker processes on this machine (default: cores; a --scheduler cluster has its own)")
     where = parser.add_mutually_exclusive_group()
     where.add_argument("--scheduler", metavar="ADDRESS", help="run on the dask cluster at this scheduler address")
     where.add_argument("--local-cluster", action="store_true", help="run on a dask LocalCluster on this machine")

@@ -125,7 +125,8 @@ def sweep_runner(task: VariantTask) -> VariantOutcome:
 
 # --- many variants at once ---------------------------------------------------------------
 
-_FAST_KEY = re.compile(r"^alternative\.(\d+)\.(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
+_FAST_KEY = re.compile(r"^alternative\.(\d+)\."
+                       r"(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
 _FIXED_BEARING_KEYS = ("type", "count", "axial_load")  # change shares or the model: the full parse
 
 

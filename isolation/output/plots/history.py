@@ -48,7 +48,8 @@ def displacement_histories(
     fig, ax = _figure(3.0)
     for index, row in enumerate(series):
         name = labels[index] if labels is not None else f"record {index + 1}"
-        ax.plot(time, length(row), lw=0.7, color=SERIES_COLOURS[index % len(SERIES_COLOURS)], label=name if len(series) <= 11 else None)
+        ax.plot(time, length(row), lw=0.7, color=SERIES_COLOURS[index % len(SERIES_COLOURS)],
+                label=name if len(series) <= 11 else None)
     for value, text, style in ((design_displacement, "equivalent-linear D", "--"), (capacity, "capacity", "-")):
         if value is not None:
             for sign in (1, -1):
@@ -106,7 +107,8 @@ def storey_profiles(
     floor_accelerations : mapping
         Peak floor acceleration by case, one per level including the base. [g]
     units : str
-        Display unit system, "SI" or "US" (heights in m or ft; drift ratio and acceleration are unitless or g); inputs stay in SI.
+        Display unit system, "SI" or "US" (heights in m or ft; drift ratio and acceleration are unitless or g);
+        inputs stay in SI.
     """
     height = axis_unit("height", units)
     levels = height(heights)

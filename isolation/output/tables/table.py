@@ -50,7 +50,8 @@ _LATEX_SPECIALS = {
 }
 
 TYPST_MIME = "text/x-typst"
-"""Output type of Typst markup (a table or figure as a complete ``#figure``), read by :mod:`isolation.output.typeset`."""
+"""Output type of Typst markup (a table or figure as a complete ``#figure``), read by
+:mod:`isolation.output.typeset`."""
 
 _LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_-]*$")
 _TYPST_ALIGN = {"l": "left", "r": "right", "c": "center", "p": "left"}

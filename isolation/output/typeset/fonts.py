@@ -130,6 +130,7 @@ def replace_uncovered(text: str) -> tuple[str, list[str]]:
     if not missing:
         return text, []
     table = {ord(ch): f"(U+{ord(ch):04X})" for ch in missing}
-    notes = [f"U+{ord(ch):04X} {unicodedata.name(ch, 'control character' if unicodedata.category(ch) == 'Cc' else 'unnamed character')}"
+    notes = [f"U+{ord(ch):04X} "
+             f"{unicodedata.name(ch, 'control character' if unicodedata.category(ch) == 'Cc' else 'unnamed character')}"
              for ch in missing]
     return text.translate(table), notes
