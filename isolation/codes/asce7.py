@@ -315,6 +315,7 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     ]
     t_fb = building.fixed_base_period or approximate_period(building.structural_height, building.frame)
     at_tm = fixed_base_shear(spectrum, w_s, r_i, period=up.period, importance=ISOLATED_IMPORTANCE, s1=building.s1)
+    activation: float | None
     if building.activation_force is not None:
         activation, activation_note = building.activation_force, "given"
     else:

@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, fields
-from typing import Any, Mapping
+from typing import Any, ClassVar, Mapping
 
 import numpy as np
 from scipy.optimize import brentq
@@ -45,6 +45,8 @@ __all__ = [
 
 
 class _ToDict:
+    __dataclass_fields__: ClassVar[dict[str, Any]]  # the subclasses are dataclasses
+
     def to_dict(self) -> dict:
         # NaN and infinity stay floats here; the study results turn them into None.
         return {f.name: plain(getattr(self, f.name), keep_nonfinite=True) for f in fields(self)}

@@ -99,19 +99,22 @@ class PlanHistoryResult:
     @property
     def total_displacement(self) -> np.ndarray:
         """Peak displacement of the most displaced bearing per record (D_TM from histories). [m]"""
+        assert self.bearing_displacement_peak is not None, "a fixed-base case has no bearings"
         return self.bearing_displacement_peak.max(axis=1)
 
     @property
     def torsional_amplification(self) -> np.ndarray:
         """Peak displacement of the most displaced bearing over the peak at the centre of mass, per record. [-]"""
+        assert self.isolator_displacement is not None, "a fixed-base case has no bearings"
         centre = np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1)
         return self.total_displacement / centre
 
     def bearing_orbit(self, index: int) -> np.ndarray:
         """Displacement orbit of bearing ``index``: (records, 2, steps) [m]."""
+        u, rotation = self.isolator_displacement, self.base_rotation
+        assert self.positions is not None and u is not None and rotation is not None, "fixed base: no bearings"
         px, py = self.positions[index]
-        u = self.isolator_displacement
-        return np.stack([u[:, 0] - py * self.base_rotation, u[:, 1] + px * self.base_rotation], axis=1)
+        return np.stack([u[:, 0] - py * rotation, u[:, 1] + px * rotation], axis=1)
 
     def summary(self) -> dict:
         """Suite means of the headline quantities (plain JSON types)."""
@@ -122,6 +125,8 @@ class PlanHistoryResult:
             "energy_error": self.energy_error.max().item(),
         }
         if self.bearing_displacement_peak is not None:
+            assert (self.isolator_displacement is not None and self.bearing_axial_force is not None
+                    and self.uplift_steps is not None)  # written with the bearing peaks
             out.update({
                 "total_displacement_m": self.total_displacement.mean().item(),
                 "centre_displacement_m":

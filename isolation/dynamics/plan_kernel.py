@@ -13,13 +13,14 @@ not bit for bit.  Without numba the array version runs.
 from __future__ import annotations
 
 import math
+from typing import Callable
 
 import numpy as np
 
 try:  # numba is optional: the array version is the fallback
     from numba import njit
 except ImportError:  # pragma: no cover - exercised where numba is missing
-    njit = None
+    njit = None  # type: ignore[assignment]  # the optional import's stand-in
 
 __all__ = ["available", "isolated_loop"]
 
@@ -260,6 +261,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
     return 0
 
 
+_bearings: Callable[..., tuple[float, float, float]]
+isolated_loop: Callable[..., int] | None
 if available:
     _bearings = njit(cache=True)(_bearings_python)
     isolated_loop = njit(cache=True)(_isolated_loop)

@@ -110,7 +110,7 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
         reference = float(np.asarray(spectrum.sa(h.period)).ravel()[0])
         x = [sa / reference for sa, _ in h.points]
         rates = [rate for _, rate in h.points]
-        curve = HazardCurve(x, rates)
+        curve = HazardCurve(tuple(x), tuple(rates))
         hazard = curve.power_law() if h.fit == "power_law" else curve
         basis = (f"site hazard curve, Sa({h.period:g} s) points divided by the site spectrum's "
                  f"{reference:.3g} g; " + ("least-squares power law" if h.fit == "power_law"

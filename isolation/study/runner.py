@@ -194,7 +194,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     """
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
-    options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
+    options: dict[str, Any] = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
     # record for short records so the envelope keeps its rise and decay (common practice).

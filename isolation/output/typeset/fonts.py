@@ -42,6 +42,8 @@ def font_dirs() -> tuple[Path, ...]:
             module = importlib.import_module(name)
         except ImportError:
             continue
+        if module.__file__ is None:  # a namespace package has no folder of its own
+            continue
         folder = Path(module.__file__).resolve().parent
         if any(p.suffix.lower() in _FONT_SUFFIXES for p in folder.iterdir()):
             found.append(folder)
