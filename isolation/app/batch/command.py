@@ -129,10 +129,11 @@ def _run(args: argparse.Namespace) -> int:
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
     if args.direct:  # key-by-key validation of bearing-property grids (same rules, same hashes)
-        from isolation.app.batch.sweep import validate_direct as validate
+        from isolation.app.batch.sweep import validate_direct
+
+        validate = validate_direct
     else:
-        def validate(plan, settings, executor=None):
-            return validate_plan(plan, settings=settings, executor=executor, model_checks=True)
+        validate = validate_plan  # with the model checks (its default)
     if args.check or len(plan.variants) < CHUNK_FROM:
         hashes = validate(plan, settings)
         if args.check:

@@ -367,7 +367,7 @@ def _run(tasks: list) -> list:
             if len(_DONE) >= _CACHE_LIMIT:
                 _DONE.pop(next(iter(_DONE)))
             _DONE[key] = value
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
@@ -401,7 +401,8 @@ def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dic
                                  "fixed_elastic": response_indicators(elastic, None, thresholds)})}
 
 
-def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
+def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray,
+           dt: float) -> Mapping:
     """Fixed-base runs: the batch's when the building is the base study's, else run once here."""
     if fingerprint == fixed_file.get("structure") and "indicators" in fixed_file:
         return fixed_file

@@ -339,7 +339,7 @@ def design_rows_many(studies: list) -> list:
                                       report, quantities, permitted, reasons, checks)
             except Exception as error:  # noqa: BLE001
                 judged[key] = error
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
@@ -410,7 +410,7 @@ def check_direct(study_file: str, items: list, settings: Mapping | None = None) 
         Variant id, input hash (None when invalid), one-line problem (None when valid).
     """
 
-    found = []
+    found: list[tuple[str, str | None, str | None]] = []
     parts: dict = {}
     for variant_id, overrides in items:
         try:
@@ -457,7 +457,7 @@ def _study_dict(study, parts: dict) -> dict:
 
     shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)
     key = tuple(map(id, shared))
-    entry = parts.get(key)
+    entry: tuple | None = parts.get(key)
     if entry is None or any(a is not b for a, b in zip(entry[0], shared)):
         whole = study.to_dict()
         entry = (shared, {k: v for k, v in whole.items() if k != "alternatives"}, {})
