@@ -79,7 +79,8 @@ _CLAUSE = r"\d+(?:\.\d+)*(?:\(\d+\)[a-z]?)*"
 _JOIN = r"\s*(?:,|/|\bto\b|\band\b|-)\s*"
 _KINDS = (
     ("§", re.compile(rf"§\s?(?P<items>{_CLAUSE}(?:-\d+\.\d+(?:\.\d+)*)?)")),
-    ("Eq.", re.compile(rf"\b(?:Eqs?\.|Equations?)\s*\(?(?P<items>{_NUMBER}\)?(?:{_JOIN}\(?-?(?:{_NUMBER}|[a-z]\b)\)?)*)")),
+    ("Eq.", re.compile(rf"\b(?:Eqs?\.|Equations?)\s*\(?(?P<items>{_NUMBER}\)?"
+                       rf"(?:{_JOIN}\(?-?(?:{_NUMBER}|[a-z]\b)\)?)*)")),
     ("Table", re.compile(rf"\bTables?\s+(?P<items>{_NUMBER}(?:{_JOIN}(?:{_NUMBER}|[a-z])\b)*)")),
     ("Fig.", re.compile(rf"\b(?:Figs?\.|Figures?)\s+(?P<items>\d+-\d+(?:{_JOIN}\d+-\d+)*)")),
     ("Chapter", re.compile(r"\b(?:Chapter|Ch\.|Section)\s+(?P<items>\d+)\b(?!\.\d)")),
@@ -142,6 +143,25 @@ def _normal(kind: str, number: str, document: str) -> str:
     return f"{kind} {number}"
 
 
+class _Mark(NamedTuple):
+    start: int
+    end: int
+    kind: str  # "doc" or a clause kind of _KINDS
+    document: tuple[str, str] | None  # (document, edition or "") of a document name
+    items: str  # the numbers of a clause citation
+
+
+def _source(kind: str, number: str, context: tuple[str, str] | None) -> tuple[str, str] | None:
+    """(document, edition or "") a clause number belongs to, or None when it is no code clause."""
+    if kind in ("Eq.", "Table") and not re.search(r"[.\-]", number):
+        return None  # "Table 3: ..." in a caption, "Eq. 5" of a paper: code numbers have a dot or hyphen
+    if kind in ("Eq.", "Table", "Fig.") and re.fullmatch(r"\d+\.\d+-\d+[a-z]?|\d+-\d+", number):
+        # Only ASCE/SEI 7 numbers equations, tables and figures with a hyphen.
+        return context if context is not None and context[0] == "ASCE/SEI 7" else ("ASCE/SEI 7", "")
+    source = context if context is not None else _by_form(kind, number)
+    return None if source is None or source[0] == _OTHER else source
+
+
 def citations(text: str) -> list[Citation]:
     """Every code clause cited in ``text``, in order, each once.
 
@@ -155,44 +175,30 @@ def citations(text: str) -> list[Citation]:
     list of Citation
         (document, edition, clause), e.g. ``("ASCE/SEI 7", "7-16", "§17.5.4.2")``.
     """
-    marks: list[tuple[int, int, str, object]] = []
+    marks: list[_Mark] = []
     for pattern, name in _DOCUMENTS:
-        for m in pattern.finditer(text):
-            marks.append((m.start(), m.end(), "doc", name(m)))
+        marks += [_Mark(m.start(), m.end(), "doc", name(m), "") for m in pattern.finditer(text)]
     for kind, pattern in _KINDS:
-        for m in pattern.finditer(text):
-            marks.append((m.start(), m.end(), kind, m["items"]))
-    marks.sort(key=lambda mark: (mark[0], mark[2] != "doc"))
+        marks += [_Mark(m.start(), m.end(), kind, None, m["items"]) for m in pattern.finditer(text)]
+    marks.sort(key=lambda mark: (mark.start, mark.kind != "doc"))
     found: list[Citation] = []
     context: tuple[str, str] | None = None
-    taken = -1
-    for start, end, kind, value in marks:
-        if kind == "doc":
-            if start >= taken:
-                context = value  # type: ignore[assignment]
-                taken = end
-                if value[0] in WHOLE_DOCUMENTS:  # type: ignore[index]
-                    cite = Citation(value[0], DEFAULT_EDITIONS[value[0]], WHOLE_DOCUMENTS[value[0]])  # type: ignore[index]
-                    if cite not in found:
-                        found.append(cite)
+    taken = -1  # end of the last document name read; a clause pattern inside it is part of the name
+    for mark in marks:
+        if mark.start < taken:
             continue
-        if start < taken:
+        if mark.document is not None:
+            context, taken = mark.document, mark.end
+            if context[0] in WHOLE_DOCUMENTS:
+                found.append(Citation(context[0], DEFAULT_EDITIONS[context[0]], WHOLE_DOCUMENTS[context[0]]))
             continue
-        for number in _items(kind, str(value)):
-            if kind in ("Eq.", "Table") and not re.search(r"[.\-]", number):
-                continue  # "Table 3: ..." in a caption, "Eq. 5" of a paper: code numbers have a dot or hyphen
-            source = context if context is not None else _by_form(kind, number)
-            if kind in ("Eq.", "Table", "Fig.") and re.fullmatch(r"\d+\.\d+-\d+[a-z]?|\d+-\d+", number) \
-                    and (source is None or source[0] != "ASCE/SEI 7"):
-                source = ("ASCE/SEI 7", "")  # only ASCE/SEI 7 numbers with a hyphen
-            if source is None or source[0] == _OTHER:
-                continue
-            document, edition = source
-            edition = edition or DEFAULT_EDITIONS[document]
-            cite = Citation(document, edition, _normal(kind, number, document))
-            if cite not in found:
-                found.append(cite)
-    return found
+        for number in _items(mark.kind, mark.items):
+            source = _source(mark.kind, number, context)
+            if source is not None:
+                document, edition = source
+                found.append(Citation(document, edition or DEFAULT_EDITIONS[document],
+                                      _normal(mark.kind, number, document)))
+    return list(dict.fromkeys(found))
 
 
 # --- the package's own sources ---------------------------------------------------------------
