@@ -194,3 +194,17 @@ def test_clause_table_prints_every_row_with_its_status():
             assert clause.note in table.notes
     typst = table._repr_typst_()
     assert "<tab-clauses>" in typst and "breakable: true" in typst  # a long table may run over pages
+
+
+# --- values of the re-read rows against the code ------------------------------------------------------
+
+def test_importance_factors_of_table_1_5_2_bound_the_study_input():
+    # ASCE/SEI 7-16 Table 1.5-2 as quoted in the NCSEA webinar "Frequently Misunderstood Seismic Provisions"
+    # (2020, re-read): I_e = 1.0 (risk categories I and II), 1.25 (III), 1.5 (IV).
+    from isolation.loss.fragility import COLLAPSE_AT_MCE, collapse_probability_at_mce
+    from isolation.study.sections import IMPORTANCE_RANGES
+
+    assert IMPORTANCE_RANGES["asce7"] == (1.0, 1.5)
+    assert find_clause("ASCE/SEI 7", "Table 1.5-2").status == "re-read"
+    for importance, category in ((1.0, "II"), (1.25, "III"), (1.5, "IV")):
+        assert collapse_probability_at_mce(importance) == COLLAPSE_AT_MCE[category]
