@@ -216,7 +216,7 @@ def test_pdf_appendix_prints_the_clause_table(feasibility_pdf):
     _, text, _ = feasibility_pdf
     start = text.index("Appendix: code clauses used", text.index("Cautions"))
     appendix = text[start:]
-    assert "Code clauses the study uses" in appendix  # the captioned table
+    assert "Code clauses the tool uses" in appendix  # the captioned table
     # Its first and last rows (the table is long and runs over pages: code, clause, subject's first words).
     assert (CLAUSES[0].clause, CLAUSES[-1].clause) == ("§17.4.1", "(no article)")
     assert "ASCE 7-10 §17.4.1 Selection of analysis" in appendix

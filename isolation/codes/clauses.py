@@ -180,7 +180,7 @@ def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-c
         columns=("Code", "Clause", "Subject", "Status", "Used in"),
         rows=[(_short_name(c.document, c.edition), c.clause, c.title, c.status,
                ", ".join(_module_name(p) for p in c.used_in)) for c in rows],
-        caption="Code clauses the study uses, whether each was re-read for this table, and where the package uses it",
+        caption="Code clauses the tool uses, whether each was re-read for this table, and where it uses them",
         align="llplp",
         notes=notes,
         label=label,
