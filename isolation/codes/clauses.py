@@ -26,7 +26,7 @@ from typing import Iterable
 from isolation.codes.citations import DEFAULT_EDITIONS, Citation
 from isolation.codes.clause_rows import ROWS
 
-__all__ = ["Clause", "CLAUSES", "STATUSES", "find_clause", "clause_table"]
+__all__ = ["Clause", "CLAUSES", "STATUSES", "find_clause", "clause_table", "check_rows"]
 
 STATUSES = ("re-read", "from memory")
 """Allowed :attr:`Clause.status` values."""
@@ -185,3 +185,38 @@ def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-c
         notes=notes,
         label=label,
     )
+
+
+def check_rows(root=None) -> list[str]:
+    """What the clause rows miss against the package's citations, as lines to act on.
+
+    Parameters
+    ----------
+    root : str or Path, optional
+        Repository folder (default: the one this package was imported from).
+
+    Returns
+    -------
+    list of str
+        A row skeleton for each cited clause without a row, and the ``used_in`` each
+        row should have where it differs; empty when the table is complete and true.
+    """
+    from isolation.codes.citations import package_citations
+
+    cited = package_citations(root)
+    out = []
+    for key in sorted(k for k in cited if k not in _BY_KEY):
+        out.append(f"missing row: ({key.document!r}, {key.edition!r}, {key.clause!r}, '<subject>', 'from memory', "
+                   f"{tuple(sorted(cited[key]))!r}, ''),")
+    for clause in CLAUSES:
+        used = tuple(sorted(cited.get(clause.key, ())))
+        if used != tuple(sorted(clause.used_in)):
+            gone = "" if used else " (no longer cited: remove the row)"
+            out.append(f"used_in of {clause.reference}: {used!r}{gone}")
+    return out
+
+
+if __name__ == "__main__":  # python -m isolation.codes.clauses: what to change in clause_rows.py
+    problems = check_rows()
+    print("\n".join(problems) if problems else f"clause table complete: {len(CLAUSES)} rows")
+    raise SystemExit(1 if problems else 0)

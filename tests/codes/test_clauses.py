@@ -63,14 +63,28 @@ def test_citations_of_the_forms_the_package_writes(text, expected):
 
 def test_every_cited_clause_has_a_row(cited):
     missing = sorted(c for c in cited if c not in KEYS)
-    assert not missing, "add a row to isolation/codes/clause_rows.py for: " + "; ".join(
+    assert not missing, "add a row to isolation/codes/clause_rows.py (python -m isolation.codes.clauses): " + "; ".join(
         f"{c.document} {c.edition} {c.clause} (cited in {sorted(cited[c])})" for c in missing)
 
 
 def test_every_row_says_where_it_is_used(cited):
     wrong = {c.reference: tuple(sorted(cited.get(c.key, ()))) for c in CLAUSES
              if set(c.used_in) != cited.get(c.key, set())}
-    assert not wrong, f"used_in should read (empty: no longer cited, remove the row): {wrong}"
+    assert not wrong, ("used_in should read (empty: no longer cited, remove the row; python -m "
+                       f"isolation.codes.clauses lists them): {wrong}")
+
+
+def test_check_rows_names_what_to_change(tmp_path):
+    from isolation.codes.clauses import check_rows
+
+    assert check_rows(ROOT) == []
+    (tmp_path / "isolation").mkdir()
+    (tmp_path / "isolation" / "new.py").write_text('SOURCE = "ASCE/SEI 7-16 §17.5.4.2 and §99.9"\n', encoding="utf-8")
+    lines = check_rows(tmp_path)
+    assert lines[0] == ("missing row: ('ASCE/SEI 7', '7-16', '§99.9', '<subject>', 'from memory', "
+                        "('isolation/new.py',), ''),")
+    assert "used_in of ASCE/SEI 7-16 §17.5.4.2: ('isolation/new.py',)" in lines
+    assert "used_in of ASCE/SEI 7-16 §17.2.1: () (no longer cited: remove the row)" in lines
 
 
 def test_used_in_files_exist():
