@@ -18,12 +18,21 @@ import re
 import numpy as np
 import pytest
 
-from isolation.codes import asce7_fixed_base as fixed_base, eurocode as design_eurocode
+from isolation.bearings import backbone as _bb
+from isolation.bearings import checks as _ck
+from isolation.bearings import damping_rubber as _dr
+from isolation.bearings import double_concave as _dc
+from isolation.bearings import friction as _fr
+from isolation.bearings import rubber as _ru
+from isolation.bearings import system as _sy
+from isolation.bearings import triple_pendulum as _tp
+from isolation.codes import asce7_fixed_base as fixed_base
+from isolation.codes import eurocode as design_eurocode
+from isolation.codes.asce7 import ElfBuilding
 from isolation.design import overturning
 from isolation.site import damping
-from isolation.verdict import sources as verdict_sources
-from isolation.codes.asce7 import ElfBuilding
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+from isolation.verdict import sources as verdict_sources
 
 _SECTION = re.compile(r"^([A-Z][A-Za-z ]+)\n-{3,}$", re.M)
 
@@ -241,20 +250,24 @@ def test_spectrum_range_and_table_messages():
         EurocodeSpectrum(0.3, max_period=10.0).sa(11.0)
     assert str(caught.value).endswith("for this EurocodeSpectrum [s]")      # nothing further to suggest
     # ASCE/SEI 7-16 §11.4.6 (from memory): T_L beyond T_S = S_M1/S_MS.
-    with pytest.raises(ValueError, match=r"^long_period = 0\.5 is not allowed: must exceed T_S = sm1/sms = 0\.6 \[s\]$"):
+    with pytest.raises(ValueError, match=r"^long_period = 0\.5 is not allowed: must exceed T_S = sm1/sms = 0\.6 "
+                                         r"\[s\]$"):
         CodeSpectrum(1.5, 0.9, long_period=0.5)
     refuses(CodeSpectrum.from_design_values, {"sds": 1.0, "sd1": 0.6}, "sds", math.nan,
             documented_units(CodeSpectrum.from_design_values)["sds"])
     refuses(CodeSpectrum.from_design_values, {"sds": 1.0, "sd1": 0.6}, "sd1", -1.0,
             documented_units(CodeSpectrum.from_design_values)["sd1"])
     table = dict(periods=(0.0, 0.5, 1.0), values=(0.4, 1.0, 0.8))
-    with pytest.raises(ValueError, match=r"^periods = \(1\.0,\) is not allowed: must be a list of at least 2 periods \[s\]$"):
+    with pytest.raises(ValueError, match=r"^periods = \(1\.0,\) is not allowed: must be a list of at least 2 periods "
+                                         r"\[s\]$"):
         TabulatedSpectrum(periods=(1.0,), values=(0.5,))
     with pytest.raises(ValueError, match=r"^values has 2 entries but periods has 3: must be the same length$"):
         TabulatedSpectrum(periods=table["periods"], values=(0.4, 1.0))
-    with pytest.raises(ValueError, match=r"^periods = \[0\.5, 0\.0, 1\.0\] is not allowed: must be >= 0 \(only the first may be 0\) \[s\]$"):
+    with pytest.raises(ValueError, match=r"^periods = \[0\.5, 0\.0, 1\.0\] is not allowed: must be >= 0 \(only the "
+                                         r"first may be 0\) \[s\]$"):
         TabulatedSpectrum(periods=(0.5, 0.0, 1.0), values=table["values"])
-    with pytest.raises(ValueError, match=r"^periods\[2\] = 0\.5 is not allowed: must be strictly increasing \(previous 0\.5\) \[s\]$"):
+    with pytest.raises(ValueError, match=r"^periods\[2\] = 0\.5 is not allowed: must be strictly increasing \(previous "
+                                         r"0\.5\) \[s\]$"):
         TabulatedSpectrum(periods=(0.0, 0.5, 0.5), values=table["values"])
     with pytest.raises(ValueError, match=r"^damping = 0\.0 is not allowed: must be a finite number in \(0, 1\] \[-\]$"):
         TabulatedSpectrum(**table, damping=0.0)
@@ -264,7 +277,8 @@ def test_spectrum_from_dict_messages():
     from isolation.site.spectra import spectrum_from_dict
     with pytest.raises(ValueError, match=r"^spectrum = 3 is not allowed: must be a mapping with a 'kind' key$"):
         spectrum_from_dict(3)
-    with pytest.raises(ValueError, match=r"^spectrum\.kind = 'nz' is not allowed: must be one of 'code', 'eurocode', 'tabulated'$"):
+    with pytest.raises(ValueError, match=r"^spectrum\.kind = 'nz' is not allowed: must be one of 'code', 'eurocode', "
+                                         r"'tabulated'$"):
         spectrum_from_dict({"kind": "nz"})
     with pytest.raises(ValueError, match=r"^spectrum\.sds is not allowed for kind 'code': known keys are sms, sm1, "):
         spectrum_from_dict({"kind": "code", "sms": 1.5, "sm1": 0.9, "sds": 1.0})
@@ -279,9 +293,6 @@ def test_spectrum_from_dict_messages():
 
 
 # --- bearings ---------------------------------------------------------------------------------
-
-from isolation.bearings import backbone as _bb, checks as _ck, damping_rubber as _dr, double_concave as _dc
-from isolation.bearings import friction as _fr, rubber as _ru, system as _sy, triple_pendulum as _tp
 
 _COMPOUND = _dr.RubberCompound((0.5, 1.0, 2.0), (700.0, 500.0, 400.0), (0.18, 0.15, 0.12))
 _BEARING_CASES = [
@@ -303,7 +314,8 @@ _BEARING_CASES = [
                               dampings=(0.18, 0.15, 0.12)), ()),
     (_dr.HighDampingRubber, dict(outer_diameter=0.9, layer_thickness=0.01, layers=15, compound=_COMPOUND,
                                  inner_diameter=0.1, reference_strain=1.0, stiffness_ratio=10.0, bulk_modulus=2.0e6,
-                                 shim_thickness=0.003, end_plate_thickness=0.025, displacement_capacity=0.4), ("layers",)),
+                                 shim_thickness=0.003, end_plate_thickness=0.025, displacement_capacity=0.4),
+     ("layers",)),
     # Helpers of the bearings: their messages name the bearing property the value comes from.
     (_dr.equivalent_bilinear, dict(stiffness=1000.0, damping=0.15, displacement=0.2, ratio=10.0), ()),
     (_dr.max_bilinear_damping, dict(ratio=10.0), ()),
@@ -346,7 +358,8 @@ def test_damping_range_ends_and_first_bad_entry():
 
 def test_spectrum_zero_dimensional_period_array():
     # A 0-d array is a number: the message shows the plain value.
-    with pytest.raises(ValueError, match=r"^period = 12\.0 is not allowed: must lie in \[0, 10\] for this CodeSpectrum \[s\]$"):
+    with pytest.raises(ValueError, match=r"^period = 12\.0 is not allowed: must lie in \[0, 10\] for this CodeSpectrum "
+                                         r"\[s\]$"):
         SPECTRUM.sa(np.array(12.0))
     with pytest.raises(ValueError, match=r"^period = 11\.0 is not allowed: must lie in \[0, 10\]"):
         SPECTRUM.sd(np.array([1.0, 11.0, 12.0]))
@@ -361,6 +374,7 @@ def test_bearing_to_dict_rebuilds_the_bearing(call, valid, skip):
     # Each bearing's record names its kind by the study's bearing type (isolation.study.keys.BEARING_KEYS),
     # holds every constructor field, and any other entry is the bearing's property of that name.
     import dataclasses
+
     from isolation.study.keys import BEARING_KEYS
     bearing = call(**valid)
     data = bearing.to_dict()

@@ -124,7 +124,8 @@ def test_backbone_scalars_arrays_and_elastic_range():
         assert b.scaled(stiffness=2.0).post_yield_stiffness == 2000.0
         assert b.scaled(stiffness=2.0).characteristic_strength == 95.0
     # K_d must be below K_u (no yield otherwise); equal is refused.
-    with pytest.raises(ValueError, match=r"^post_yield_stiffness = 1000\.0 is not allowed: must be < elastic_stiffness = 1000\.0 \[kN/m\]$"):
+    with pytest.raises(ValueError, match=r"^post_yield_stiffness = 1000\.0 is not allowed: must be < elastic_stiffness "
+                                         r"= 1000\.0 \[kN/m\]$"):
         Bilinear(1000.0, 1000.0, 10.0)
     b = Bilinear(20000, 1000, 95)
     assert (type(b.elastic_stiffness), type(b.post_yield_stiffness), type(b.characteristic_strength)) == (float,) * 3
@@ -133,13 +134,15 @@ def test_backbone_scalars_arrays_and_elastic_range():
     assert spring.force(0.2) == pytest.approx(200.0) and spring.yield_displacement == math.inf
     assert type(spring.linear_stiffness) is float
     assert MultiLinear(0.0, (1000.0,), (10.0,)).force(1.0) == pytest.approx(10.0)
-    with pytest.raises(ValueError, match=r"^linear_stiffness = 0\.0 with no elements is not allowed: the backbone needs stiffness$"):
+    with pytest.raises(ValueError, match=r"^linear_stiffness = 0\.0 with no elements is not allowed: the backbone "
+                                         r"needs stiffness$"):
         MultiLinear(0.0)
     with pytest.raises(ValueError, match=r"^strengths has 1 entries but stiffnesses has 2: must match$"):
         MultiLinear(0.0, (1.0, 2.0), (1.0,))
     ml = MultiLinear(1000, [19000], [95])
     assert ml.stiffnesses == (19000.0,) and ml.strengths == (95.0,) and type(ml.stiffnesses[0]) is float
-    assert ml.to_dict() == {"kind": "multilinear", "linear_stiffness": 1000.0, "stiffnesses": [19000.0], "strengths": [95.0]}
+    assert ml.to_dict() == {"kind": "multilinear", "linear_stiffness": 1000.0, "stiffnesses": [19000.0],
+                            "strengths": [95.0]}
     for bad in (dict(stiffness=math.nan), dict(strength=-1.0)):
         with pytest.raises(ValueError, match=r"^(stiffness|strength) factor = "):
             b.scaled(**bad)

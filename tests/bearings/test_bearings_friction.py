@@ -301,6 +301,7 @@ def test_double_concave_force_method_follows_regimes():
 
 def test_friction_pendulum_inputs_copies_and_pass_through():
     import dataclasses
+
     from isolation.bearings import friction
     # Integers and numpy scalars are stored as plain floats.
     fp = FrictionPendulum(3, np.float64(0.06), slider_height=np.float64(0.2), displacement_capacity=1,
@@ -326,4 +327,4 @@ def test_friction_pendulum_inputs_copies_and_pass_through():
     from isolation.bearings.double_concave import DoubleConcave
     assert friction.DoubleConcave is DoubleConcave
     with pytest.raises(AttributeError, match=r"^module 'isolation.bearings.friction' has no attribute 'Nothing'$"):
-        friction.Nothing
+        _ = friction.Nothing

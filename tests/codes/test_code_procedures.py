@@ -1263,7 +1263,8 @@ def test_elf_report_units_citations_and_terms():
     for symbol in ("T_M", "beta_M", "k_M"):
         assert items[symbol].name.endswith(" at D_M"), items[symbol].name
     assert items["V_s/V_fb"].source == "V_s over §12.8 V"
-    assert items["V_s,min,activation"].source.endswith("not divided by R_I (from memory; ASCE/SEI 7-22 same, from memory)")
+    assert items["V_s,min,activation"].source.endswith("not divided by R_I (from memory; ASCE/SEI 7-22 same, from "
+                                                       "memory)")
     (drift,) = report.checks
     assert drift.source.startswith("ASCE/SEI 7-16 §17.5.6") and drift.unit == "-"
     assert drift.name.startswith("storey drift ratio estimate (level ")
@@ -1271,7 +1272,8 @@ def test_elf_report_units_citations_and_terms():
 
 def test_elf_warnings_say_what_failed_and_what_follows():
     # 20 storeys of 4 m: 80 m over the 19.8 m of §17.4.1 (from memory) -> ELF not permitted.
-    tall = asce7_elf(sets(), building(floor_weights=(400.0,) * 20, floor_elevations=tuple(4.0 * (i + 1) for i in range(20))),
+    tall = asce7_elf(sets(), building(floor_weights=(400.0,) * 20,
+                                      floor_elevations=tuple(4.0 * (i + 1) for i in range(20))),
                      SPECTRUM)
     assert not tall.elf_permitted
     failed = [c for c in tall.applicability if not c.passed]
@@ -1336,10 +1338,12 @@ def test_eurocode_warnings_say_what_failed_and_what_follows():
     assert not report.simplified_permitted
     failed = [c for c in report.applicability if not c.passed]
     assert [c.name.split(" (")[0] for c in failed] == ["largest plan dimension", "superstructure regular and symmetric",
-                                                       "distance to an active fault", "vertical over effective horizontal stiffness"]
+                                                       "distance to an active fault",
+                                                       "vertical over effective horizontal stiffness"]
     for check, warning in zip(failed, report.warnings):
         unit = "" if check.unit == "-" else f" {check.unit}"
-        assert warning.startswith(f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} ({check.source}) - ")
+        assert warning.startswith(f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} "
+                                  f"({check.source}) - ")
         assert warning.endswith("simplified analysis not applicable: use multimodal or response-history analysis "
                                 "(EN 1998-1 §10.9.3/§10.9.4)")
 
@@ -1381,7 +1385,8 @@ def test_verdict_sources_uplift_and_drift_wording():
     assert PRACTICE == "common practice"
     # Uplift: the method is derived statics, the tributary load common practice, the vertical term cited.
     asce = source("uplift", "asce7")
-    assert asce.startswith("outermost bearing of a regular grid") and "(derived)" in asce and "(common practice)" in asce
+    assert asce.startswith("outermost bearing of a regular "
+                           "grid") and "(derived)" in asce and "(common practice)" in asce
     assert "E_v = 0.2 S_MS D (ASCE/SEI 7-16 §17.2.4.6, §12.4.2.2, from memory)" in asce    # Eq. 12.4-4a
     ec = source("uplift", "eurocode")
     assert ec.startswith("outermost bearing of a regular grid") and "(common practice)" in ec
@@ -1418,7 +1423,8 @@ def test_elf_building_stores_plain_floats_in_tuples():
     # A mezzanine 0.5 m above a floor is a valid level (levels only have to rise).
     assert ElfBuilding(base_weight=0.0, floor_weights=(10.0, 10.0), floor_elevations=(4.0, 4.5), plan_length=10.0,
                        plan_width=10.0, response_modification=8.0).structural_height == 4.5
-    with pytest.raises(ValueError, match=r"^site_class = 'X' is not allowed: must be one of 'A', 'B', 'C', 'D', 'E', 'F'$"):
+    with pytest.raises(ValueError, match=r"^site_class = 'X' is not allowed: must be one of 'A', 'B', 'C', 'D', 'E', "
+                                         r"'F'$"):
         building(site_class="X")
 
 
@@ -1542,7 +1548,8 @@ def test_eurocode_fixed_base_shear_lambda_and_period_ends():
     spectrum = EurocodeSpectrum(0.3, "C")     # type 1, ground C: S 1.15, T_B 0.2, T_C 0.6, T_D 2.0 s (Table 3.2)
     # lambda = 0.85 when T_1 <= 2 T_C and more than two storeys, else 1.0 (EN 1998-1 §4.3.3.2.2(1), from memory).
     plateau = 0.3 * 1.15 * 2.5 / 4.0         # S_d on the plateau, q 4 (Eq. 3.14)
-    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 0.5, 3)[:2] == (pytest.approx(1000.0 * plateau * 0.85), 0.85)
+    assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 0.5, 3)[:2] == (pytest.approx(1000.0 * plateau * 0.85),
+                                                                            0.85)
     assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 0.5, 2)[1] == 1.0
     assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 1.2, 3)[1] == 0.85        # T_1 = 2 T_C exactly
     assert eurocode_fixed_base_shear(spectrum, 1000.0, 4.0, 1.21, 3)[1] == 1.0
@@ -1600,7 +1607,8 @@ def test_eurocode_building_plain_floats_small_superstructure_and_options():
                                           b.superstructure_weight))
     assert b.weight_above == 0.5
     with pytest.raises(ValueError, match=r"^tolerance = 0\.5 is not allowed"):
-        eurocode_simplified(sets(), EurocodeBuilding(10000.0, 0.4, 30.0, 20.0), EurocodeSpectrum(0.3, "C"), tolerance=0.5)
+        eurocode_simplified(sets(), EurocodeBuilding(10000.0, 0.4, 30.0, 20.0), EurocodeSpectrum(0.3, "C"),
+                            tolerance=0.5)
 
 
 def test_eurocode_damping_limit_at_thirty_per_cent():
@@ -1614,7 +1622,8 @@ def test_eurocode_damping_limit_at_thirty_per_cent():
 def test_eurocode_inputs_kept_as_floats_and_its_damping_rule():
     b = EurocodeBuilding(10000, 1, 30, 20, eccentricity=1, behaviour_factor=4, isolated_behaviour_factor=1,
                          displacement_amplification=2, superstructure_weight=7000)
-    assert all(type(getattr(b, name)) is float for name in ("eccentricity", "behaviour_factor", "isolated_behaviour_factor",
+    assert all(type(getattr(b, name)) is float for name in ("eccentricity", "behaviour_factor",
+                                                            "isolated_behaviour_factor",
                                                             "displacement_amplification", "superstructure_weight"))
     # EN 1998-1 Eq. 4.6 (from memory): C_t 0.050 for "all other structures", the documented default.
     assert eurocode_approximate_period(16.0) == pytest.approx(0.050 * 16.0**0.75)

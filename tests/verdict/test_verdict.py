@@ -460,7 +460,8 @@ def test_near_fault_and_wind_state_their_figures():
     assert r.message.startswith("the site is 10 km from an active fault, within 15 km: include pulse-like records")
     r = v.near_fault(False, distance=20.0)
     assert (r.topic, r.level, r.value, r.limit, r.unit) == ("near fault", "ok", 20.0, 15.0, "km")
-    assert r.message == "the site is 20 km from an active fault, beyond 15 km" and r.source.startswith("ASCE/SEI 7-16 §11.2")
+    assert r.message == "the site is 20 km from an active fault, beyond 15 km" and r.source.startswith("ASCE/SEI 7-16 "
+                                                                                                       "§11.2")
     r = v.near_fault(True)
     assert (r.topic, r.level, r.value, r.limit, r.unit) == ("near fault", "condition", None, None, "-")
     assert r.message.startswith("the site is flagged as near an active fault (no distance given)")
