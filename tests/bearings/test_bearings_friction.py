@@ -328,3 +328,33 @@ def test_friction_pendulum_inputs_copies_and_pass_through():
     assert friction.DoubleConcave is DoubleConcave
     with pytest.raises(AttributeError, match=r"^module 'isolation.bearings.friction' has no attribute 'Nothing'$"):
         _ = friction.Nothing
+
+
+def test_double_concave_regimes_inputs_and_pass_through():
+    import dataclasses
+    # Fenz & Constantinou (2006), sliding regimes I and II of a double concave bearing, surface a the one of
+    # lower friction: regime I (u <= u* = (mu_b - mu_a) R_a): F = W u/R_a + mu_a W; regime II beyond:
+    # F = W u/(R_a + R_b) + W (mu_a R_a + mu_b R_b)/(R_a + R_b). R 2 and 3 m, mu 0.03 and 0.06: u* = 0.06 m.
+    dc = DoubleConcave(2.0, 0.03, 3.0, 0.06)
+    w = 1000.0
+    assert dc.force(w, 0.05) == pytest.approx(w * 0.05 / 2.0 + 0.03 * w)                       # regime I
+    assert dc.force(w, 0.10) == pytest.approx(w * 0.10 / 5.0 + w * (0.03 * 2.0 + 0.06 * 3.0) / 5.0)  # regime II
+    assert dc.force(w, -0.10) == -dc.force(w, 0.10)
+    assert type(dc.force(w, 0.1)) is float and dc.force(w, np.array([0.05, 0.1])).shape == (2,)
+    # A slider as high as its dish radius leaves no radius to slide on.
+    with pytest.raises(ValueError, match=r"^slider_height_1 = 2\.0 is not allowed"):
+        DoubleConcave(2.0, 0.03, 3.0, 0.06, slider_height_1=2.0)
+    full = DoubleConcave(2, np.float64(0.03), 3, np.float64(0.06), slider_height_1=0.1, slider_height_2=0.2,
+                         displacement_capacity_1=0.3, displacement_capacity_2=0.4, yield_displacement=np.float64(0.001))
+    for f in dataclasses.fields(full):
+        assert type(getattr(full, f.name)) is float, f.name
+    # A property modification factor multiplies both frictions and keeps everything else.
+    assert full.with_friction_factor(1.2) == dataclasses.replace(full, friction_1=0.03 * 1.2, friction_2=0.06 * 1.2)
+    # checks(): extreme loads and the restored weight reach the checks.
+    with pytest.raises(ValueError, match=r"^axial_load_max = 500\.0 is not allowed"):
+        full.checks(1000.0, 0.2, axial_load_max=500.0)
+    tension = {c.name: c for c in full.checks(1000.0, 0.2, axial_load_min=-10.0)}["net tension (uplift)"]
+    assert tension.value == -10.0 and not tension.passed
+    own = next(c for c in full.checks(1000.0, 0.2) if c.name == "restoring force")
+    shared = next(c for c in full.checks(1000.0, 0.2, weight_share=2000.0) if c.name == "restoring force")
+    assert shared.value == pytest.approx(own.value / 2.0)
