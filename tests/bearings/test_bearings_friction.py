@@ -358,3 +358,12 @@ def test_double_concave_regimes_inputs_and_pass_through():
     own = next(c for c in full.checks(1000.0, 0.2) if c.name == "restoring force")
     shared = next(c for c in full.checks(1000.0, 0.2, weight_share=2000.0) if c.name == "restoring force")
     assert shared.value == pytest.approx(own.value / 2.0)
+
+
+def test_double_concave_messages():
+    dc = DoubleConcave(2.0, 0.03, 3.0, 0.06)
+    with pytest.raises(ValueError) as caught:
+        dc.bilinear(1000.0)
+    assert str(caught.value).endswith("bilinear() needs equal friction; use backbone() for the multi-regime behaviour")
+    with pytest.raises(ValueError, match=r"^friction factor = nan is not allowed"):
+        dc.with_friction_factor(math.nan)
