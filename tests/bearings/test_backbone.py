@@ -143,9 +143,10 @@ def test_backbone_scalars_arrays_and_elastic_range():
     assert ml.stiffnesses == (19000.0,) and ml.strengths == (95.0,) and type(ml.stiffnesses[0]) is float
     assert ml.to_dict() == {"kind": "multilinear", "linear_stiffness": 1000.0, "stiffnesses": [19000.0],
                             "strengths": [95.0]}
-    for bad in (dict(stiffness=math.nan), dict(strength=-1.0)):
-        with pytest.raises(ValueError, match=r"^(stiffness|strength) factor = "):
-            b.scaled(**bad)
+    for backbone in (b, ml):
+        for bad, field in ((dict(stiffness=math.nan), "stiffness"), (dict(strength=-1.0), "strength")):
+            with pytest.raises(ValueError, match=rf"^{field} factor = "):
+                backbone.scaled(**bad)
 
 
 def test_bilinear_record_rebuilds_it():
