@@ -132,3 +132,61 @@ def test_study_file_with_a_triple_pendulum_runs(tmp_path):
     first = results.alternatives[0]
     assert first.to_dict()["name"] == "Friction pendulum"
     assert first.to_dict()["system"]["groups"][0]["bearing"]["kind"] == "triple_pendulum"
+
+
+def test_standard_configuration_limits():
+    # Fenz & Constantinou (2008a) standard configuration: R_eff1 > R_eff2 (outer surfaces flatter than the
+    # inner ones), mu_2 < mu_1 <= mu_4; a slider height below its surface's radius.
+    base = dict(radius_outer=2.5, radius_inner=0.5, friction_inner=0.02, friction_1=0.06, friction_4=0.10)
+    for changes, field in ((dict(slider_height_outer=2.5), "slider_height_outer"),
+                           (dict(slider_height_inner=0.5), "slider_height_inner"),
+                           (dict(radius_outer=1.0, slider_height_outer=0.6, slider_height_inner=0.05), "radius_outer"),
+                           (dict(radius_outer=0.5), "radius_outer"),
+                           (dict(friction_1=0.02), "friction_1"), (dict(friction_4=0.05), "friction_4")):
+        with pytest.raises(ValueError, match=rf"^{field} = "):
+            TripleFrictionPendulum(**dict(base, **changes))
+    # Effective radii 0.5 m outer against 0.35 m inner: allowed (the heights count only once each).
+    ok = TripleFrictionPendulum(**dict(base, radius_outer=1.0, slider_height_outer=0.5, radius_inner=0.45,
+                                       slider_height_inner=0.1))
+    assert ok.effective_radius_outer == pytest.approx(0.5) and ok.effective_radius_inner == pytest.approx(0.35)
+    # mu_1 = mu_4 is the edge of the configuration: allowed.
+    assert TripleFrictionPendulum(**dict(base, friction_4=0.06)).friction_4 == 0.06
+    # numpy scalars and integers are stored as plain floats.
+    typed = TripleFrictionPendulum(np.float64(2.5), 1, np.float64(0.02), np.float64(0.06), np.float64(0.1),
+                                   slider_height_outer=np.float64(0.2), slider_height_inner=0,
+                                   displacement_capacity_outer=np.float64(0.35), displacement_capacity_inner=1,
+                                   yield_displacement=np.float64(0.001))
+    import dataclasses
+    for f in dataclasses.fields(typed):
+        assert type(getattr(typed, f.name)) is float, f.name
+
+
+def test_equal_outer_frictions_backbone_matches_the_series_model():
+    # mu_1 = mu_4: regime II has no length (u*_1 = u*_2), the parallel model has two elements; its
+    # backbone equals the series model of Fenz & Constantinou (2008c) in regimes I and III [derived].
+    bearing = TripleFrictionPendulum(2.5, 0.5, 0.02, 0.06, 0.06, slider_height_outer=0.2, slider_height_inner=0.1,
+                                     yield_displacement=1e-7)
+    u1, u2 = bearing.regime_limits
+    assert u1 == u2 == pytest.approx(2 * 0.4 * 0.04)
+    model = bearing.backbone(W)
+    assert len(model.stiffnesses) == 2
+    for u in (0.01, u1, 0.1, 0.3):
+        assert model.force(u) == pytest.approx(bearing.force(W, u), rel=1e-5, abs=1e-6), u
+    # Regime III slope W/(R_eff1 + R_eff4) = 1000/4.6 kN/m.
+    assert model.force(0.3) - model.force(0.2) == pytest.approx(0.1 * W / 4.6, rel=1e-9)
+    assert type(bearing.force(W, 0.1)) is float and bearing.force(W, np.array([0.1, 0.2])).shape == (2,)
+
+
+def test_triple_checks_pass_loads_through_and_cite_the_inner_travel():
+    with pytest.raises(ValueError, match=r"^axial_load_max = 500\.0 is not allowed"):
+        BEARING.checks(1000.0, 0.2, axial_load_max=500.0)
+    checks = {c.name: c for c in BEARING.checks(1000.0, 0.2, axial_load_min=-10.0)}
+    assert checks["net tension (uplift)"].value == -10.0
+    inner = checks["inner surface travel in regimes I-III"]
+    # Fenz & Constantinou (2008a): surface 3 slides R_eff3 (mu_4 - mu_3) = 0.4 x 0.08 = 0.032 m before regime III,
+    # capacity d_3 R_eff3/R_3 = 0.08 x 0.4/0.5 = 0.064 m [derived].
+    assert (inner.value, inner.limit, inner.unit) == (pytest.approx(0.032), pytest.approx(0.064), "m")
+    assert inner.passed and inner.source.startswith("Fenz & Constantinou 2008a: surface 3 slides")
+    own = next(c for c in BEARING.checks(1000.0, 0.2) if c.name == "restoring force")
+    shared = next(c for c in BEARING.checks(1000.0, 0.2, weight_share=2000.0) if c.name == "restoring force")
+    assert shared.value == pytest.approx(own.value / 2.0)
