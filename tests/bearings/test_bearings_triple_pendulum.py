@@ -15,6 +15,8 @@ Sources
 - ASCE/SEI 7-16 §17.2.4.4 restoring force: F(D) - F(D/2) >= 0.025 W (from memory).
 """
 
+import math
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
@@ -190,3 +192,15 @@ def test_triple_checks_pass_loads_through_and_cite_the_inner_travel():
     own = next(c for c in BEARING.checks(1000.0, 0.2) if c.name == "restoring force")
     shared = next(c for c in BEARING.checks(1000.0, 0.2, weight_share=2000.0) if c.name == "restoring force")
     assert shared.value == pytest.approx(own.value / 2.0)
+
+
+def test_triple_pendulum_messages():
+    # R_eff1 = 1.0 - 0.6 = 0.4 m does not exceed R_eff2 = 0.5 - 0.05 = 0.45 m: the message quotes 0.45 m.
+    with pytest.raises(ValueError) as caught:
+        TripleFrictionPendulum(1.0, 0.5, 0.02, 0.06, 0.10, slider_height_outer=0.6, slider_height_inner=0.05)
+    assert str(caught.value) == ("radius_outer = 1.0 is not allowed: the outer effective radius must exceed the "
+                                 "inner one (0.45 m) [m]")
+    with pytest.raises(ValueError, match=r"^friction factor = nan is not allowed"):
+        BEARING.with_friction_factor(math.nan)
+    inner = {c.name: c for c in BEARING.checks(1000.0, 0.2)}["inner surface travel in regimes I-III"]
+    assert inner.source.endswith("its capacity is d_3 R_eff3/R_3")
