@@ -451,3 +451,50 @@ def test_slider_checks_units_and_sources():
                                                 displacement_capacity_2=0.3).checks(1000.0, 0.2)}
     first = contact["first restrainer contact"]
     assert first.unit == "m" and first.source.startswith("Fenz & Constantinou 2006: sliding regimes I-II end")
+
+
+def test_elastomer_check_values_by_hand():
+    # Formulas of the module docstring (Kelly & Konstantinidis 2011; Naeim & Kelly 1999; Gent 1990 for
+    # cavitation at about 3 G, from memory) evaluated on the demo bearing [derived].
+    from isolation.bearings.checks import overlap_ratio
+    lrb = LeadRubber(**LRB, displacement_capacity=0.3)
+    p, d = 2000.0, 0.3
+    checks = {c.name: c for c in lrb.checks(p, d, axial_load_max=2500.0, axial_load_min=-100.0)}
+    cap = checks["displacement capacity"]
+    assert (cap.value, cap.limit, cap.passed) == (0.3, 0.3, True)             # D = capacity: within it
+    assert not {c.name: c for c in lrb.checks(p, 0.31)}["displacement capacity"].passed
+    vertical = checks["vertical period"]
+    assert vertical.value == pytest.approx(2 * math.pi * math.sqrt(p / (9.80665 * lrb.vertical_stiffness)))
+    assert checks["buckling load at zero displacement / axial load"].value == pytest.approx(lrb.buckling_load(0.0) / p)
+    assert checks["buckling load at design displacement / max axial load"].value == pytest.approx(
+        lrb.buckling_load(d) / 2500.0)
+    reduced = lrb.rubber_area * overlap_ratio(0.8, d)
+    tension = checks["tension stress (cavitation)"]
+    assert tension.value == pytest.approx(100.0 / reduced) and tension.limit == pytest.approx(3.0 * 400.0)
+    assert tension.passed is (100.0 / reduced <= 1200.0)
+    assert checks["rotation strain"].value == 0.0                               # no rotation given
+    # No tension at all, and an offset beyond the diameter (no overlap: any tension is unbounded).
+    none = {c.name: c for c in lrb.checks(p, d)}["tension stress (cavitation)"]
+    assert none.value == 0.0 and none.passed
+    beyond = {c.name: c for c in LeadRubber(**LRB).checks(p, 0.85, axial_load_min=-1.0)}
+    assert beyond["tension stress (cavitation)"].value == math.inf and not beyond["tension stress (cavitation)"].passed
+    assert {c.name: c for c in LeadRubber(**LRB).checks(p, 0.85)}["tension stress (cavitation)"].value == 0.0
+    # The restored weight: F(D) - F(D/2) over twice the weight halves the ratio.
+    own = checks["restoring force"].value
+    shared = {c.name: c for c in lrb.checks(p, d, weight_share=2 * p)}["restoring force"].value
+    assert shared == pytest.approx(own / 2.0)
+
+
+def test_slider_check_values_at_their_limits():
+    from isolation.bearings import DoubleConcave, FrictionPendulum
+    fp = FrictionPendulum(2.0, 0.05, displacement_capacity=0.3)
+    at = {c.name: c for c in fp.checks(1000.0, 0.3, axial_load_min=0.0)}
+    assert (at["displacement capacity"].value, at["displacement capacity"].limit) == (0.3, 0.3)
+    assert at["displacement capacity"].passed                                   # D = capacity: within it
+    assert at["net tension (uplift)"].passed and at["net tension (uplift)"].value == 0.0   # zero load: no tension
+    assert {c.name: c for c in fp.checks(1000.0, 0.3, axial_load_min=0.5)}["net tension (uplift)"].passed
+    dc = DoubleConcave(2.0, 0.03, 3.0, 0.06, displacement_capacity_1=0.3, displacement_capacity_2=0.3)
+    contact = dc.first_contact_displacement
+    first = {c.name: c for c in dc.checks(1000.0, contact)}["first restrainer contact"]
+    assert (first.value, first.limit, first.passed) == (contact, contact, True)
+    assert not {c.name: c for c in dc.checks(1000.0, contact * 1.01)}["first restrainer contact"].passed
