@@ -73,7 +73,7 @@ def mark_stale_partials(parent: str | Path) -> list[Path]:
     """
     from isolation.app.calc_records import _now, _write_json, read_manifest
 
-    marked = []
+    marked: list[Path] = []
     folder = Path(parent)
     if not folder.is_dir():
         return marked

@@ -114,5 +114,6 @@ def read_suite_records(metadata_path: Any) -> list[Accelerogram]:
     except json.JSONDecodeError as error:
         raise ValueError(f"{file}: line {error.lineno}: not valid JSON ({error.msg})") from None
     if metadata.get("format") != FORMAT_NAME or not isinstance(metadata.get("files"), list):
-        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a 'files' list")
+        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a "
+                         "'files' list")
     return [read_text_accelerogram(file.parent / name) for name in metadata["files"]]

@@ -96,7 +96,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     """
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
-    options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
+    options: dict[str, Any] = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
     # record for short records so the envelope keeps its rise and decay (common practice).
@@ -258,6 +258,9 @@ def _bidirectional(study: Study, design: AlternativeDesign, shared: _SharedRuns)
     if shared.pairs is None:
         return None
     q = design.quantities
+    if q.total_displacement is None or q.displacement is None:
+        raise RunError(f"alternative {design.name!r}: bidirectional history needs the code report's maximum and "
+                       "total displacement, which it does not give")
     try:
         return bidirectional_summary(study, design.alternative, design.system, shared.structure, shared.base_mass,
                                      shared.pairs, q.total_displacement, q.displacement)

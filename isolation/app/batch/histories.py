@@ -167,7 +167,7 @@ def _run(tasks: list) -> list:
             if len(_DONE) >= _CACHE_LIMIT:
                 _DONE.pop(next(iter(_DONE)))
             _DONE[key] = value
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
@@ -258,7 +258,7 @@ def _run_todo(todo: dict, acc: np.ndarray, dt: float) -> dict:
                 judged[key] = error
         for start in range(0, len(designed), ENSEMBLE_LIMIT):
             part = designed[start:start + ENSEMBLE_LIMIT]
-            for (key, found, design, _), stats in zip(part, _histories(context, part, acc, dt)):
+            for (key, _, design, _), stats in zip(part, _histories(context, part, acc, dt)):
                 if isinstance(stats, Exception):
                     judged[key] = stats
                     continue
@@ -291,7 +291,8 @@ def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dic
                                  "fixed_elastic": response_indicators(elastic, None, thresholds)})}
 
 
-def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
+def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray,
+           dt: float) -> Mapping:
     """Fixed-base runs: the batch's when the building is the base study's, else run once here."""
     if fingerprint == fixed_file.get("structure") and "indicators" in fixed_file:
         return fixed_file

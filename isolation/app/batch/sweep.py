@@ -98,7 +98,8 @@ def sweep_runner(task: VariantTask) -> VariantOutcome:
 
 # --- many variants at once ---------------------------------------------------------------
 
-_FAST_KEY = re.compile(r"^alternative\.(\d+)\.(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
+_FAST_KEY = re.compile(r"^alternative\.(\d+)\."
+                       r"(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
 _FIXED_BEARING_KEYS = ("type", "count", "axial_load")  # change shares or the model: the full parse
 
 
@@ -146,7 +147,7 @@ def _apply_fast(base, fast: dict, source: str):
     alternatives = list(base.alternatives)
     bearing_changes: dict[tuple[int, int], dict] = {}
     other: dict[int, dict] = {}
-    for key, (match, value) in fast.items():
+    for match, value in fast.values():
         i = int(match.group(1))
         if i >= len(alternatives):
             return None
@@ -263,7 +264,7 @@ def design_rows_many(studies: list) -> list:
     """
     prepared, todo = _prepare_many(studies)
     judged = _design_many(todo)
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)

@@ -27,7 +27,7 @@ def check_direct(study_file: str, items: list, settings: Mapping | None = None) 
     """
     from isolation.app.batch.sweep import variant_study
 
-    found = []
+    found: list[tuple[str, str | None, str | None]] = []
     parts: dict = {}
     for variant_id, overrides in items:
         try:
@@ -75,7 +75,7 @@ def _study_dict(study, parts: dict) -> dict:
 
     shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)
     key = tuple(map(id, shared))
-    entry = parts.get(key)
+    entry: tuple | None = parts.get(key)
     if entry is None or any(a is not b for a, b in zip(entry[0], shared)):
         whole = study.to_dict()
         entry = (shared, {k: v for k, v in whole.items() if k != "alternatives"}, {})

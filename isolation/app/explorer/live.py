@@ -252,7 +252,7 @@ class _Explorer:
         """Show every control in the other unit system; values rounded to 6 digits become the settings."""
         self.suspend = True
         try:
-            values = {"units": system}
+            values: dict[str, Any] = {"units": system}
             for c in CONTROLS:
                 entry, slider = self.entries[c.field], self.sliders[c.field]
                 shown = to_display(getattr(self.settings, c.field), c.kind, system)
@@ -350,7 +350,7 @@ class _Explorer:
         visible_pin = pinned is not None
         self.spectrum_marks["pinned"].visible = visible_pin
         self.trade_marks["pinned"].visible = visible_pin
-        if visible_pin:
+        if pinned is not None:
             pin = ex.plot_series(pinned)
             with self.spectrum_marks["pinned"].hold_sync():
                 self.spectrum_marks["pinned"].x = [pin["point"][c][0] for c in ex.CASES]

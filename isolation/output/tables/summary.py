@@ -16,7 +16,7 @@ import math
 import re
 from typing import Any
 
-from isolation.output.tables.results import _display, _part, _quantities, _summary, display_quantity
+from isolation.output.tables.results import _display, _part, _quantities, _summary, _times_100, display_quantity
 from isolation.output.tables.symbols import markdown_text
 from isolation.output.tables.table import Table, format_number
 
@@ -101,7 +101,8 @@ def summary_table(results: Any) -> Table:
             "not given" if moat is None else format_number(_display(moat, "length", system)[0]),
             _percent(s.superstructure_shear_ratio),
             _percent(s.floor_acceleration_ratio),
-            f"{format_number(100 * s.drift_ratio_isolated, 2)} / {format_number(100 * s.drift_ratio_fixed, 2)}",
+            f"{format_number(_times_100(s.drift_ratio_isolated), 2)} / "
+            f"{format_number(_times_100(s.drift_ratio_fixed), 2)}",
         ]
 
     labels = ("Verdict", f"Isolated period {symbols['period']}, upper to lower bound [s]",
@@ -143,10 +144,10 @@ def summary_text(results: Any) -> str:
     alternatives = list(_part(results, "alternatives"))
     best = preferred_alternative(results)
     if best is None:
-        reasons = "; ".join(f"**{_name(a)}**: {_deciding(a)[0]['message']}" if _deciding(a) else f"**{_name(a)}**"
-                            for a in alternatives)
+        each = "; ".join(f"**{_name(a)}**: {_deciding(a)[0]['message']}" if _deciding(a) else f"**{_name(a)}**"
+                         for a in alternatives)
         sentences = [f"None of the {len(alternatives)} alternatives studied is recommended as designed.",
-                     f"The main reason against each: {reasons}."]
+                     f"The main reason against each: {each}."]
         return markdown_text(" ".join(sentences))
 
     outcome = _outcome(best)
