@@ -8,16 +8,31 @@ Frozen dataclasses of floats (SI: m, s, kN; g for accelerations) with ``to_dict(
 from __future__ import annotations
 
 import dataclasses
+import math
 from dataclasses import dataclass
 from typing import Any, Mapping
 
-from isolation.plain import plain
+import numpy as np
 
 __all__ = ["DesignQuantities", "HistorySummary", "NO_HISTORY"]
 
 
 def _number(value: Any) -> float | None:
     return None if value is None else float(value)
+
+
+def _plain_scalar(value: Any) -> Any:
+    """:func:`isolation.plain.plain` of a number or None, without its general dispatch (sweeps call
+    this for every alternative)."""
+    if isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    return value
+
+
+def _plain_fields(obj: Any, names: tuple[str, ...]) -> dict:
+    return {name: _plain_scalar(getattr(obj, name)) for name in names}
 
 
 @dataclass(frozen=True)
@@ -66,7 +81,7 @@ class DesignQuantities:
 
     def to_dict(self) -> dict:
         """Plain mapping, the ``quantities`` of ``results.json``."""
-        return plain({f.name: getattr(self, f.name) for f in dataclasses.fields(self)})
+        return _plain_fields(self, _QUANTITY_FIELDS)
 
     @classmethod
     def from_dict(cls, mapping: Mapping[str, Any]) -> "DesignQuantities":
@@ -169,10 +184,10 @@ class HistorySummary:
     def to_dict(self, *, computed_only: bool = False) -> dict:
         """Plain mapping, the ``history.summary`` of ``results.json``; ``computed_only`` leaves
         out the numbers that were not computed (None)."""
-        values = {f.name: getattr(self, f.name) for f in dataclasses.fields(self)}
+        values = _plain_fields(self, _SUMMARY_FIELDS)
         if computed_only:
             values = {k: v for k, v in values.items() if v is not None}
-        return plain(values)
+        return values
 
     @classmethod
     def from_dict(cls, mapping: Mapping[str, Any], *, strict: bool = True) -> "HistorySummary":
@@ -184,6 +199,9 @@ class HistorySummary:
             raise ValueError(f"history summary = {unknown!r} is not allowed: keys must be among {sorted(names)}")
         return cls(**{k: _number(v) for k, v in mapping.items() if k in names})
 
+
+_QUANTITY_FIELDS = tuple(f.name for f in dataclasses.fields(DesignQuantities))
+_SUMMARY_FIELDS = tuple(f.name for f in dataclasses.fields(HistorySummary))
 
 NO_HISTORY = HistorySummary()
 """The summary of an alternative without response histories (equivalent-linear sweeps)."""

@@ -39,6 +39,9 @@ SCHEMA_VERSION = 2
 are layout 1, which differs only by lacking it. [-]"""
 
 
+_NO_HISTORY_VALUES = NO_HISTORY.to_dict()  # read only: verdict_figures looks values up
+
+
 _BOUND_KEYS = ("displacement", "period", "damping", "base_shear")
 
 
@@ -242,6 +245,7 @@ def alternative_figures(study, spectrum, design: AlternativeDesign, summary: His
     """
     from isolation.study.assembly import verdict_figures
 
+    values = _NO_HISTORY_VALUES if summary is NO_HISTORY else summary.to_dict()
     return verdict_figures(study, spectrum, design.alternative, design.quantities.to_dict(),
-                           summary.to_dict(), design.report, design.permitted, design.reasons, design.checks,
+                           values, design.report, design.permitted, design.reasons, design.checks,
                            design.bounds, design.quantities.fixed_base_period)
