@@ -201,3 +201,38 @@ def test_bounds_order_stiffness_and_strength(radius, mu, lower, upper, d):
 def test_invalid_input_names_the_field(make, field):
     with pytest.raises(ValueError, match=rf"^{field} = "):
         make()
+
+
+def test_group_and_bound_inputs_and_pass_through():
+    import math
+
+    import numpy as np
+
+    from isolation.bearings import BearingGroup, Bilinear, CombinedBackbone, PropertyBound, PropertyFactors
+    fp = FP
+    # One bearing is a group; none is not. The message lists the bearing types one can use.
+    assert BearingGroup(fp, 1, 1000.0).count == 1
+    with pytest.raises(ValueError, match=r"^count = 0 is not allowed: must be a whole number >= 1$"):
+        BearingGroup(fp, 0, 1000.0)
+    with pytest.raises(ValueError, match=r"^bearing = 'slab' is not allowed: must be one of FrictionPendulum, "):
+        BearingGroup("slab", 1, 1000.0)
+    # A slider's backbone follows the vertical load asked for: K_d = W/R_eff (Zayas et al. 1990).
+    group = BearingGroup(fp, 2, 1000.0)
+    assert group.backbone(load=2000.0).post_yield_stiffness == pytest.approx(2 * 2000.0 / fp.effective_radius)
+    assert group.backbone().post_yield_stiffness == pytest.approx(2 * 1000.0 / fp.effective_radius)
+    own = PropertyFactors(stiffness=(0.9, 1.2), strength=(0.9, 1.2), friction=(0.9, 1.2))
+    assert BearingGroup(fp, 2, 1000.0, factors=own).to_dict()["factors"] == own.to_dict()
+    # ASCE/SEI 7-16 §17.2.8.4 (from memory): lambda_max = (1 + 0.75 (lambda_ae,max - 1)) lambda_test,max
+    # lambda_spec,max; with no factors given both bounds are 1; a minimum factor of 0 is not a factor.
+    assert PropertyBound.from_factors() == PropertyBound(1.0, 1.0)
+    assert PropertyBound.from_factors(aging_max=1.2).upper == pytest.approx(1.0 + 0.75 * 0.2)
+    for name in ("aging_min", "test_min", "spec_min"):
+        with pytest.raises(ValueError, match=rf"^{name} = 0\.0 is not allowed"):
+            PropertyBound.from_factors(**{name: 0.0})
+    with pytest.raises(ValueError, match=r"^aging_max = nan is not allowed"):
+        PropertyBound.from_factors(aging_max=math.nan)
+    # Side-by-side backbones: stiffnesses add, a scalar gives a float and an array an array.
+    combined = CombinedBackbone((Bilinear(20000.0, 1000.0, 95.0), Bilinear(10000.0, 500.0, 50.0)))
+    assert type(combined.effective_stiffness(0.2)) is float
+    assert combined.effective_stiffness(0.2) == pytest.approx((1000.0 * 0.2 + 95.0 + 500.0 * 0.2 + 50.0) / 0.2)
+    assert combined.effective_stiffness(np.array([0.1, 0.2])).shape == (2,)
