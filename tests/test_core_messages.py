@@ -406,3 +406,16 @@ def test_spectra_keep_plain_floats_and_refuse_unknown_ground():
     with pytest.raises(ValueError) as caught:
         EurocodeSpectrum(0.3).sa(4.5)
     assert str(caught.value).endswith("pass max_period (up to 10 s) to extend the T_C T_D/T^2 branch")
+
+
+def test_bearing_check_messages_and_record():
+    # The checks of a bearing take loads [kN], a displacement [m] and a rotation [rad] as documented.
+    fp = _fr.FrictionPendulum(2.0, 0.05)
+    lrb = _ru.LeadRubber(0.8, 0.2, 0.01, 20, 400.0)
+    loads = dict(axial_load=1000.0, displacement=0.2, axial_load_max=1500.0, axial_load_min=100.0,
+                 weight_share=1000.0)
+    probe_all(fp.checks, loads)
+    probe_all(lrb.checks, dict(loads, rotation=0.005))
+    check = fp.checks(1000.0, 0.2)[0]
+    assert set(check.to_dict()) == {"name", "value", "limit", "passed", "unit", "source"}
+    assert check.to_dict()["unit"] == check.unit and check.to_dict()["source"] == check.source
