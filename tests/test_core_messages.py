@@ -419,3 +419,21 @@ def test_bearing_check_messages_and_record():
     check = fp.checks(1000.0, 0.2)[0]
     assert set(check.to_dict()) == {"name", "value", "limit", "passed", "unit", "source"}
     assert check.to_dict()["unit"] == check.unit and check.to_dict()["source"] == check.source
+
+
+def test_property_factor_inputs_and_records():
+    # ASCE/SEI 7-16 §17.2.8.4 component factors (from memory): every factor is a ratio [-].
+    probe_all(_sy.PropertyBound.from_factors, dict(aging_max=1.1, aging_min=0.95, test_max=1.1, test_min=0.9,
+                                                   spec_max=1.15, spec_min=0.85, adjustment=0.75))
+    bound = _sy.PropertyBound(np.float64(0.9), np.float64(1.2))
+    assert (type(bound.lower), type(bound.upper)) == (float, float)
+    factors = _sy.PropertyFactors(stiffness=(0.9, 1.2), strength=(0.8, 1.3), friction=(0.85, 1.25))
+    data = factors.to_dict()
+    assert _sy.PropertyFactors(**{k: (v["lower"], v["upper"]) for k, v in data.items()}) == factors
+    group = _sy.BearingGroup(_fr.FrictionPendulum(2.0, 0.05), np.int64(4), 1000, axial_load_max=1500,
+                             axial_load_min=-10, rotation=0)
+    assert type(group.count) is int and group.count == 4
+    assert all(type(getattr(group, n)) is float for n in ("axial_load", "axial_load_max", "axial_load_min", "rotation"))
+    record = group.to_dict()
+    assert (record["count"], record["axial_load"], record["axial_load_max"], record["axial_load_min"]) == (
+        4, 1000.0, 1500.0, -10.0)
