@@ -17,6 +17,7 @@ Sources
 
 import math
 
+import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -498,3 +499,33 @@ def test_slider_check_values_at_their_limits():
     first = {c.name: c for c in dc.checks(1000.0, contact)}["first restrainer contact"]
     assert (first.value, first.limit, first.passed) == (contact, contact, True)
     assert not {c.name: c for c in dc.checks(1000.0, contact * 1.01)}["first restrainer contact"].passed
+
+
+def test_lead_rubber_inputs_and_moved_names():
+    import dataclasses
+
+    from isolation.bearings import damping_rubber, rubber
+    one = LeadRubber(0.8, 0.2, 0.01, 1, 400.0)                      # a single rubber layer is a bearing
+    assert one.rubber_thickness == pytest.approx(0.01)
+    with pytest.raises(ValueError, match=r"^layers = 0 is not allowed"):
+        LeadRubber(0.8, 0.2, 0.01, 0, 400.0)
+    with pytest.raises(ValueError, match=r"^lead_core = 'solid' is not allowed: must be one of "):
+        LeadRubber(**LRB, lead_core="solid")
+    assert LeadRubber(**LRB, stiffness_ratio=1.5).stiffness_ratio == 1.5     # K_u/K_d just above 1
+    with pytest.raises(ValueError, match=r"^stiffness_ratio = 1\.0 is not allowed"):
+        LeadRubber(**LRB, stiffness_ratio=1.0)
+    typed = LeadRubber(np.float64(0.8), np.float64(0.2), np.float64(0.01), np.int64(20), np.float64(400.0),
+                       lead_yield_stress=np.float64(10000.0), stiffness_ratio=np.float64(10.0),
+                       bulk_modulus=np.float64(2.0e6), shim_thickness=np.float64(0.003),
+                       end_plate_thickness=np.float64(0.025), displacement_capacity=np.float64(0.4))
+    for f in dataclasses.fields(typed):
+        value = getattr(typed, f.name)
+        assert type(value) in ((int,) if f.name == "layers" else (float, str)), (f.name, type(value))
+    with pytest.raises(ValueError, match=r"^weight = nan is not allowed: must be a finite number > 0 \[kN\]$"):
+        typed.bilinear(math.nan)
+    with pytest.raises(ValueError, match=r"^weight = -1\.0 is not allowed"):
+        typed.backbone(-1.0)
+    # The high-damping bearing moved to its own module and stays importable from here.
+    assert rubber.HighDampingRubber is damping_rubber.HighDampingRubber
+    with pytest.raises(AttributeError, match=r"'Nothing'"):
+        _ = rubber.Nothing
