@@ -529,3 +529,25 @@ def test_lead_rubber_inputs_and_moved_names():
     assert rubber.HighDampingRubber is damping_rubber.HighDampingRubber
     with pytest.raises(AttributeError, match=r"'Nothing'"):
         _ = rubber.Nothing
+
+
+def test_layer_formula_ranges_and_array_forms():
+    # Shape factor = loaded area / free (bulging) area (Kelly & Konstantinidis 2011): D/(4 t) for a solid
+    # circular layer; by default the inner face does not bulge (filled hole), a free inner face adds bulging
+    # area and so lowers S [derived].
+    assert shape_factor(0.8, 0.01) == pytest.approx(0.8 / 0.04)
+    assert shape_factor(0.8, 0.01, 0.2) == pytest.approx(shape_factor(0.8, 0.01, 0.2, inner_face_free=False))
+    assert shape_factor(0.8, 0.01, 0.2, inner_face_free=True) < shape_factor(0.8, 0.01, 0.2)
+    with pytest.raises(ValueError, match=r"^inner_diameter = 0\.8 is not allowed"):
+        shape_factor(0.8, 0.01, 0.8)
+    # Hole factor F in (0, 1]: 1 (no hole) allowed, 0 and above 1 refused.
+    assert compression_modulus(400.0, 20.0, hole=1.0) == pytest.approx(6 * 400.0 * 20.0**2)
+    for bad in (0.0, 1.5):
+        with pytest.raises(ValueError, match=r"^hole = "):
+            compression_modulus(400.0, 20.0, hole=bad)
+    # Overlap of top and bottom plates: a scalar gives a float, an array an array; a negative offset is refused.
+    assert type(overlap_ratio(0.8, 0.2)) is float and overlap_ratio(0.8, np.array([0.0, 0.2])).shape == (2,)
+    assert type(overlap_area(0.8, 0.2)) is float and overlap_area(0.8, np.array([0.0, 0.2])).shape == (2,)
+    assert overlap_ratio(0.8, 0.0) == pytest.approx(1.0)
+    with pytest.raises(ValueError, match=r"^displacement = "):
+        overlap_ratio(0.8, -0.1)
