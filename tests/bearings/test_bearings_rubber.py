@@ -551,3 +551,32 @@ def test_layer_formula_ranges_and_array_forms():
     assert overlap_ratio(0.8, 0.0) == pytest.approx(1.0)
     with pytest.raises(ValueError, match=r"^displacement = "):
         overlap_ratio(0.8, -0.1)
+
+
+def test_compound_and_bilinear_limits():
+    from isolation.bearings.damping_rubber import max_bilinear_damping
+    # Largest damping of a bilinear loop with K_u/K_d = n: (2/pi)(sqrt(n) - 1)/(sqrt(n) + 1) [derived from
+    # EDC = 4 Q_d (D - D_y) at its optimum amplitude]; n = 4: (2/pi)/3.
+    assert max_bilinear_damping(4.0) == pytest.approx(2.0 / math.pi / 3.0)
+    assert max_bilinear_damping(1.5) > 0.0
+    with pytest.raises(ValueError, match=r"^ratio = 1\.0 is not allowed: must be a finite number > 1 \[-\]$"):
+        max_bilinear_damping(1.0)
+    with pytest.raises(ValueError, match=r"with stiffness_ratio = 1\.0: must be <= 0\.0000, the most a bilinear"):
+        equivalent_bilinear(1000.0, 0.1, 0.2, 1.0)
+    limit = max_bilinear_damping(1.5)
+    with pytest.raises(ValueError, match=rf"must be <= {limit:.4f}, the most a bilinear loop reaches"):
+        equivalent_bilinear(1000.0, 0.3, 0.2, 1.5)
+    # Compound tables: plain floats, strictly increasing strains, dampings in (0, 0.5).
+    compound = RubberCompound([0.5, 1], [700, 500], [0.18, np.float64(0.15)])
+    assert compound.strains == (0.5, 1.0) and compound.shear_moduli == (700.0, 500.0)
+    assert all(type(x) is float for x in compound.strains + compound.shear_moduli + compound.dampings)
+    assert type(compound.shear_modulus_at(0.7)) is float and compound.damping_at(np.array([0.6, 0.8])).shape == (2,)
+    assert type(compound.damping_at(0.7)) is float and compound.shear_modulus_at(np.array([0.6, 0.8])).shape == (2,)
+    assert RubberCompound((0.5, 1.0), (700.0, 500.0), (0.49, 0.01)).dampings == (0.49, 0.01)
+    for bad in ((0.5, 0.0), (0.5, 0.2)):
+        with pytest.raises(ValueError, match=r"^dampings\[\d\] = "):
+            RubberCompound((0.5, 1.0), (700.0, 500.0), bad)
+    with pytest.raises(ValueError, match=r"strains"):
+        RubberCompound((0.5, 0.5), (700.0, 500.0), (0.2, 0.1))
+    with pytest.raises(ValueError):
+        RubberCompound((0.5, 1.0), (700.0,), (0.2, 0.1))
