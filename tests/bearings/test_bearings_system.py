@@ -236,3 +236,28 @@ def test_group_and_bound_inputs_and_pass_through():
     assert type(combined.effective_stiffness(0.2)) is float
     assert combined.effective_stiffness(0.2) == pytest.approx((1000.0 * 0.2 + 95.0 + 500.0 * 0.2 + 50.0) / 0.2)
     assert combined.effective_stiffness(np.array([0.1, 0.2])).shape == (2,)
+
+
+def test_combined_backbone_adds_its_parts():
+    import numpy as np
+
+    from isolation.bearings import Bilinear, CombinedBackbone
+    # Backbones side by side: forces, stiffnesses and loop energies add; damping is the summed EDC over
+    # 2 pi K_eff D^2 of the sum (Naeim & Kelly 1999, effective damping of a system).
+    a, b = Bilinear(20000.0, 1000.0, 95.0), Bilinear(10000.0, 500.0, 50.0)
+    both = CombinedBackbone((a, b))
+    for d in (0.05, 0.2):
+        assert both.force(d) == pytest.approx(a.force(d) + b.force(d))
+        assert both.force(-d) == pytest.approx(-(a.force(d) + b.force(d)))
+        assert both.loop_energy(d) == pytest.approx(a.loop_energy(d) + b.loop_energy(d))
+        k = (a.force(d) + b.force(d)) / d
+        assert both.effective_damping(d) == pytest.approx((a.loop_energy(d) + b.loop_energy(d))
+                                                          / (2 * math.pi * k * d * d))
+    for name in ("force", "loop_energy", "effective_damping"):
+        assert type(getattr(both, name)(0.2)) is float, name
+        assert getattr(both, name)(np.array([0.1, 0.2])).shape == (2,), name
+    assert both.times(3).force(0.2) == pytest.approx(3 * both.force(0.2))
+    assert both.scaled(stiffness=2.0, strength=1.0).parts == (a.scaled(stiffness=2.0), b.scaled(stiffness=2.0))
+    assert both.scaled(strength=2.0).parts == (a.scaled(strength=2.0), b.scaled(strength=2.0))
+    assert both.parallel(a).parts == (a, b, a)
+    assert both.to_dict() == {"kind": "combined", "parts": [a.to_dict(), b.to_dict()]}
