@@ -20,14 +20,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any, Mapping
+from typing import Any, ClassVar, Mapping
 
 import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
-from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 from isolation.codes.asce7_fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
+from isolation.codes.basis import SingleModeReport
+from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 
 __all__ = [
     "Item",
@@ -174,33 +175,34 @@ class StoreyForce(_ToDict):
 
 
 @dataclass(frozen=True)
-class ElfReport(_ToDict):
-    """ASCE/SEI 7-16 Ch. 17 equivalent lateral force summary (see :func:`asce7_elf`)."""
+class ElfReport(SingleModeReport):
+    """ASCE/SEI 7-16 Ch. 17 equivalent lateral force summary (see :func:`asce7_elf`): the
+    :class:`~isolation.codes.basis.SingleModeReport` of ASCE 7; ``elf_permitted`` is ``permitted``."""
 
-    bounds: BoundsResult
-    building: ElfBuilding
-    quantities: tuple
-    applicability: tuple
-    checks: tuple
-    storey_forces: tuple
-    fixed_base: FixedBaseShear
-    warnings: tuple
-    elf_permitted: bool
-    scope: str = ("Concept-stage feasibility, not construction design; verify against the local code "
-                  "with a licensed structural engineer.")
+    SYMBOLS: ClassVar[Mapping[str, str]] = {
+        "displacement": "D_M", "total_displacement": "D_TM", "period": "T_M", "isolation_shear": "V_b",
+        "unreduced_shear": "V_st", "superstructure_shear": "V_s", "fixed_base_shear": "V_fb",
+        "shear_ratio": "V_s/V_fb"}
 
-    def value(self, symbol: str) -> float:
-        """Value of the quantity with this symbol (e.g. "D_TM")."""
-        for item in self.quantities:
-            if item.symbol == symbol:
-                return item.value
-        raise KeyError(f"symbol = {symbol!r} is not in the report: known {[i.symbol for i in self.quantities]}")
+    @property
+    def elf_permitted(self) -> bool:
+        """True when ASCE/SEI 7-16 §17.4.1 permits the ELF procedure (same as ``permitted``)."""
+        return self.permitted
+
+    def to_dict(self) -> dict:
+        out = super().to_dict()
+        out["elf_permitted"] = out["permitted"]
+        return out
 
 
 ISOLATED_IMPORTANCE = 1.0
 """I_e of a seismically isolated structure: ASCE/SEI 7-16 §17.2.1 (same in 7-22; from memory,
 the clause text was not found through this session's search) takes I_e = 1.0 whatever the risk
 category; the building's own I_e applies only to the fixed-base comparison."""
+
+
+def _damping_source(rule: str | None) -> str:
+    return f"{ASCE} Table 17.5-1" if rule == "asce7" else str(rule)
 
 
 def _activation_force(system) -> float | None:
@@ -276,7 +278,7 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
              f"property set '{bounds.displacement_governs}'"),
         Item("effective period at D_M", "T_M", low.period, "s", f"{ASCE} Eq. 17.5-2"),
         Item("effective damping at D_M", "beta_M", low.damping, "-", "Naeim & Kelly (1999): EDC/(2 pi K_eff D^2)"),
-        Item("damping coefficient", "B_M", low.damping_coefficient, "-", f"{ASCE} Table 17.5-1" if low.rule == "asce7" else low.rule),
+        Item("damping coefficient", "B_M", low.damping_coefficient, "-", _damping_source(low.rule)),
         Item("effective stiffness at D_M", "k_M", low.stiffness, "kN/m", f"{ASCE} §17.5.3"),
     ]
     # Torsion (Eqs. 17.5-3/-4); P_T taken <= 1.0 (from memory, verify).
@@ -369,7 +371,7 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     ]
     return ElfReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(applicability),
                      checks=tuple(checks), storey_forces=storeys, fixed_base=comparison, warnings=tuple(warnings),
-                     elf_permitted=permitted)
+                     permitted=permitted)
 
 
 def _elf_applicability(bounds, property_sets, building, t_fb) -> list[Check]:

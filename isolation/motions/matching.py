@@ -57,17 +57,21 @@ from typing import Any
 import numpy as np
 from scipy.fft import irfft, next_fast_len, rfft, rfftfreq
 
+from isolation.codes import registry as _codes
 from isolation.motions.envelope import intensity_envelope, typical_significant_duration
 from isolation.motions.measures import displacement, velocity
 from isolation.motions.spectrum import response_spectrum
-from isolation.motions.suite import MEAN_RULES, RECORD_BAND, MatchedSuite
+from isolation.motions.suite import RECORD_BAND, MatchedSuite
 from isolation.motions.wavelets import wavelet_step
 from isolation.validate import finite_array, in_range, one_of, positive
 
 __all__ = ["matched_suite", "GOALS"]
 
 #: Records are matched to goal x target, per suite-mean rule.
-GOALS = {"asce7": 1.15, "eurocode": 1.08}
+def __getattr__(name: str):
+    if name == "GOALS":  # matching goal per rule (:attr:`isolation.codes.basis.SuiteRules.goal`)
+        return {n: _codes.get(n).suite.goal for n in _codes.names()}
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 _TOLERANCE = 0.05  # stop when every record is within +/-5 % of goal x target
 _KAPPA = 1.0  # exponent of the amplitude correction
@@ -117,10 +121,9 @@ def _band(spectrum, dt, duration, period_range, isolated_period, rule):
             raise ValueError(f"period_range = {period_range!r} is not allowed: Tmax must be <= duration / 3 = {duration / 3:g} [s]")
     if lows is None:
         check = (low, high)
-    elif rule == "asce7":
-        check = (0.75 * lows, 1.25 * highs)  # ASCE/SEI 7 Ch. 17, from memory
-    else:
-        check = (0.2 * lows, 2.0 * highs)  # EN 1998-1 §3.2.3.1.2(4)
+    else:  # the code's range (ASCE/SEI 7 Ch. 17 0.75-1.25, EN 1998-1 §3.2.3.1.2(4) 0.2-2.0)
+        lower, upper = _codes.get(rule, "rule").suite.period_range
+        check = (lower * lows, upper * highs)
     if check[0] < low * (1 - 1e-9) or check[1] > high * (1 + 1e-9):
         raise ValueError(
             f"isolated_period = {isolated_period!r} is not allowed: its check range "
@@ -271,7 +274,7 @@ def matched_suite(
     *,
     magnitude: float = 7.0,
     significant_duration: float | None = None,
-    rule: str = "asce7",
+    rule: str = _codes.DEFAULT_BASIS,
     isolated_period: Any = None,
     control_points: int = 80,
     max_iterations: int = 30,
@@ -335,7 +338,7 @@ def matched_suite(
     length = in_range("duration", duration, 5.0, 600.0, "s")
     step = in_range("dt", dt, 0.001, 0.05, "s")
     base_seed = _whole("seed", seed, 0, 2**63 - 1)
-    one_of("rule", rule, MEAN_RULES)
+    rules = _codes.get(rule, "rule").suite
     points = _whole("control_points", control_points, 10, 400)
     limit = _whole("max_iterations", max_iterations, 1, 200)
     refinements = _whole("refinements", refinements, 0, 200)
@@ -351,7 +354,7 @@ def matched_suite(
     target = np.asarray(spectrum.sa(periods, zeta), dtype=float)
     if target.shape != periods.shape or not np.all(np.isfinite(target)) or (target <= 0).any():
         raise ValueError(f"spectrum = {spectrum!r} is not allowed: sa() must give finite values > 0 [g]")
-    goal = GOALS[rule]
+    goal = rules.goal
     aim = goal * target
 
     shaping = _shaping(length, step, strong, periods, high, magnitude if chosen_magnitude is not None else None)
@@ -403,7 +406,7 @@ def matched_suite(
 
     spectra = response_spectrum(best, step, periods, zeta)
     inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
-    factors = _record_factors(spectra / target, inside, MEAN_RULES[rule])
+    factors = _record_factors(spectra / target, inside, rules.mean_ratio)
     if np.any(factors != 1.0):
         best = best * factors[:, None]
         spectra = response_spectrum(best, step, periods, zeta)

@@ -36,8 +36,17 @@ from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBui
 __all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
            "ACCIDENTAL_ECCENTRICITY", "with_bidirectional"]
 
-#: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code basis.
-HISTORY_LOWER_LIMIT = {"asce7": 0.8, "eurocode": 0.0}
+
+
+def __getattr__(name: str):
+    if name == "HISTORY_LOWER_LIMIT":
+        # Lower limit on the history total displacement as a fraction of the single-mode D_TM, per
+        # code basis (:attr:`isolation.codes.basis.SuiteRules.history_lower_limit`).
+        from isolation import codes
+
+        return {n: codes.get(n).suite.history_lower_limit for n in codes.names()}
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 #: Accidental eccentricity as a fraction of the plan dimension (both codes; from memory).
 ACCIDENTAL_ECCENTRICITY = 0.05
@@ -184,7 +193,9 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
                     "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
     peaks = np.max(peaks, axis=0)
     history_total = float(peaks.max())
-    limit = HISTORY_LOWER_LIMIT.get(study.basis, 0.0)
+    from isolation import codes
+
+    limit = codes.get(study.basis).suite.history_lower_limit
     gravity = np.asarray(cases["lower"][1]) * weight / float(np.sum(cases["lower"][1]))
     lowest = np.min(axial_min, axis=0)
     capacity = getattr(system, "displacement_capacity", None)

@@ -36,16 +36,25 @@ from typing import Any, Mapping
 import numpy as np
 
 from isolation import GRAVITY, __version__
+from isolation import codes as _codes
 from isolation import verdict as _verdict
 from isolation.errors import RunError
 from isolation.files import write_text_atomic
 from isolation.plain import plain
-from isolation.study.plan import bidirectional_summary, with_bidirectional
 from isolation.study import Study
-from isolation.study.assembly import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
-                                   history_isolator, history_summary, isolation_system, site_spectrum,
-                                   superstructure,
-                                   verdict_figures)
+from isolation.study.assembly import (
+    EUROCODE_SPECTRUM_NOTE,
+    check_study,
+    design_alternative,
+    fixed_base_period,
+    history_isolator,
+    history_summary,
+    isolation_system,
+    site_spectrum,
+    superstructure,
+    verdict_figures,
+)
+from isolation.study.plan import bidirectional_summary, with_bidirectional
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
@@ -185,7 +194,8 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     ``periods`` is (T_M upper bound, T_M lower bound) [s] over all alternatives.
     """
     a = study.analysis
-    rule = "eurocode" if study.basis == "eurocode" else "asce7"
+    code = _codes.get(study.basis)
+    rule = code.matching_rule()
     options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
@@ -193,7 +203,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     from isolation.motions import typical_significant_duration
     options["significant_duration"] = min(typical_significant_duration(7.0), 0.4 * a.duration)
     # Suite-mean check range around T_M: ASCE 7 up to 1.25 T_M (lower bound), Eurocode up to 2 T_M.
-    reach = 1.25 if rule == "asce7" else 2.0
+    reach = code.suite.period_range[1]
     if quick:
         # The matched band reaches duration/3 and must cover the check range: 5 T_M (ASCE 7),
         # 6.5 T_M (Eurocode).
@@ -244,7 +254,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         When a step fails for a valid study (no convergence, a model the
         engine refuses, ...); the message names the alternative and the step.
     """
-    from isolation.dynamics.history import run as run_history, run_cases
+    from isolation.dynamics.history import run as run_history
+    from isolation.dynamics.history import run_cases
 
     started = time.perf_counter()
     timings: dict[str, float] = {}
@@ -269,8 +280,13 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
     lower_periods = [d[3].bounds.results["lower"].period for d in designs]
     structure = superstructure(study)
     check_study(study)
-    from isolation.performance.comparison import (comparison_summary, fixed_base_comparison, isolated_superstructure,
-                                      response_indicators, thresholds_of)
+    from isolation.performance.comparison import (
+        comparison_summary,
+        fixed_base_comparison,
+        isolated_superstructure,
+        response_indicators,
+        thresholds_of,
+    )
     try:
         comparison = fixed_base_comparison(study, spectrum, structure, t_fb)
     except ValueError as error:
@@ -374,8 +390,7 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
     suite_data["note"] = suite_note
     if pairs is not None:
         suite_data["pairs"] = plain(pairs.to_dict())
-    extended = study.basis == "eurocode" and not study.site.spectrum_periods
-    spectrum_note = EUROCODE_SPECTRUM_NOTE if extended else ""
+    spectrum_note = _codes.get(study.basis).spectrum_note(study.site)
     return StudyResults(
         study=study.to_dict(),
         spectrum={"definition": plain(spectrum), "periods": curve.tolist(),

@@ -24,10 +24,23 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass
 from typing import Any, Mapping
 
-from isolation.verdict.rules import (Reason, base_shear_reduction, bearing_checks, design_shear,
-                                     displacement_capacity, displacement_size, effective_damping,
-                                     elf_applicability, floor_acceleration_reduction, isolated_period,
-                                     moat_clearance, period_shift, storey_drift, uplift)
+from isolation.codes.registry import DEFAULT_BASIS
+from isolation.verdict.rules import (
+    Reason,
+    base_shear_reduction,
+    bearing_checks,
+    design_shear,
+    displacement_capacity,
+    displacement_size,
+    effective_damping,
+    elf_applicability,
+    floor_acceleration_reduction,
+    isolated_period,
+    moat_clearance,
+    period_shift,
+    storey_drift,
+    uplift,
+)
 from isolation.verdict.site import near_fault, site_suitability, slenderness, spectral_benefit, wind
 from isolation.verdict.yielding import superstructure_yielding
 
@@ -202,7 +215,7 @@ class Figures:
     uplift_ratio: float | None = None
     slenderness: float | None = None
     site_class: str | None = None
-    basis: str = "asce7"
+    basis: str = DEFAULT_BASIS
     near_fault: bool = False
     spectral_ratio: float | None = None
     wind_base_shear: float | None = None

@@ -1,0 +1,129 @@
+"""Registry of code bases: one object per code, found by the name a study file gives.
+
+``get(name)`` answers the :class:`isolation.codes.basis.CodeBasis` registered under
+``name`` (a study's ``code.basis``); ``register(name, basis)`` adds one. The two
+built-in bases (ASCE/SEI 7-16 and EN 1998-1) are loaded on first use, so that this
+module imports nothing heavy and low-level modules may ask it; bases of outside
+packages are found through the entry-point group :data:`ENTRY_POINT_GROUP`
+(``name = "package.module:OBJECT"``).
+
+Outside :mod:`isolation.codes` no module compares a basis name: it asks the object.
+"""
+
+from __future__ import annotations
+
+import importlib
+from importlib import metadata
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from isolation.codes.basis import CodeBasis
+
+__all__ = ["DEFAULT_BASIS", "ENTRY_POINT_GROUP", "UnknownBasisError", "register", "unregister", "get", "names"]
+
+DEFAULT_BASIS = "asce7"
+"""Name of the code basis a study without ``[code]`` takes, and the default of every
+function that takes a basis name."""
+
+ENTRY_POINT_GROUP = "isolation.code_bases"
+"""Entry-point group through which outside packages offer a code basis."""
+
+_BUILT_IN = {
+    "asce7": ("isolation.codes.asce7_basis", "ASCE7"),
+    "eurocode": ("isolation.codes.eurocode_basis", "EUROCODE"),
+}
+
+_REGISTRY: dict[str, Any] = {}
+_LOADED = False
+
+
+class UnknownBasisError(ValueError):
+    """A code-basis name that is not registered (a ValueError naming the field, the value and the known names)."""
+
+
+def _load() -> None:
+    global _LOADED
+    if _LOADED:
+        return
+    _LOADED = True
+    for name, (module, attribute) in _BUILT_IN.items():
+        _REGISTRY.setdefault(name, getattr(importlib.import_module(module), attribute))
+    try:
+        points = metadata.entry_points(group=ENTRY_POINT_GROUP)
+    except Exception:  # pragma: no cover - broken metadata of some installed distribution
+        points = ()
+    for point in points:
+        if point.name not in _REGISTRY:
+            _REGISTRY[point.name] = point.load()
+
+
+def register(name: str, basis: "CodeBasis", *, replace: bool = False) -> "CodeBasis":
+    """Register a code basis under ``name`` (the value of a study's ``code.basis``).
+
+    Parameters
+    ----------
+    name : str
+        Registry name, lower case letters, digits and underscores. [-]
+    basis : CodeBasis
+        The basis object; its ``name`` must equal ``name``. [-]
+    replace : bool
+        Allow replacing a basis already registered under ``name``. [-]
+
+    Returns
+    -------
+    CodeBasis
+        ``basis``, so that a module can write ``MY_CODE = register("my_code", MyCode())``.
+    """
+    from isolation.codes.basis import CodeBasis
+
+    _load()
+    if not isinstance(name, str) or not name or not name.replace("_", "").isalnum() or name != name.lower():
+        raise ValueError(f"name = {name!r} is not allowed: must be lower-case letters, digits and underscores")
+    if not isinstance(basis, CodeBasis):
+        raise ValueError(f"basis = {type(basis).__name__} is not allowed: must be a CodeBasis")
+    if basis.name != name:
+        raise ValueError(f"basis.name = {basis.name!r} is not allowed: must equal the registry name {name!r}")
+    if name in _REGISTRY and not replace:
+        raise ValueError(f"name = {name!r} is not allowed: a code basis of that name is registered "
+                         "(pass replace=True to replace it)")
+    _REGISTRY[name] = basis
+    return basis
+
+
+def unregister(name: str) -> None:
+    """Remove the basis registered under ``name`` (a no-op when there is none)."""
+    _load()
+    _REGISTRY.pop(name, None)
+
+
+def names() -> tuple:
+    """Names of the registered code bases, built-ins first. [-]"""
+    _load()
+    return tuple(_REGISTRY)
+
+
+def get(name: Any = DEFAULT_BASIS, field: str = "code.basis") -> "CodeBasis":
+    """The code basis registered under ``name`` (a basis object is returned as it is).
+
+    Parameters
+    ----------
+    name : str or CodeBasis
+        Registry name, e.g. a study's ``code.basis``. [-]
+    field : str
+        Name of the field the value came from, for the error message. [-]
+
+    Raises
+    ------
+    UnknownBasisError
+        ``name`` is not registered; the message names the field, the value and the known names.
+    """
+    from isolation.codes.basis import CodeBasis
+
+    if isinstance(name, CodeBasis):
+        return name
+    _load()
+    try:
+        return _REGISTRY[name]
+    except (KeyError, TypeError):
+        listed = ", ".join(repr(n) for n in _REGISTRY)
+        raise UnknownBasisError(f"{field} = {name!r} is not allowed: must be one of {listed}") from None
