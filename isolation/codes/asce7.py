@@ -26,7 +26,7 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
-from isolation.codes.asce7_fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
+from isolation.codes.asce7_fixed_base import FRAME_TYPES, approximate_period, fixed_base_shear
 from isolation.codes.basis import SingleModeReport
 from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 

@@ -100,6 +100,7 @@ class Asce7Basis(CodeBasis):
     procedure_full: str = "the equivalent lateral force procedure"
     site_level: str = "MCE_R"
     reference_levels: tuple = (2.0 / 3.0, 1.0)
+    level_marks: tuple = ("design level", "MCE_R")
     level_names: tuple = ("design level", "MCE_R")
     near_fault_distance: float = 15.0
     drift_formula: str = "C_d delta_xe/(I_e h_sx)"
@@ -111,6 +112,14 @@ class Asce7Basis(CodeBasis):
     long_period_bars_procedure: bool = True
     report_title: str = "ELF procedure (ASCE/SEI 7-16 §17.4.1)"
     answer_source: str = "ASCE/SEI 7-16 §17.5, MCE_R"
+    site_inputs: tuple = ("sms", "sm1", "long_period", "s1", "site_class")
+    quantity_labels: Mapping[str, str] = field(default_factory=lambda: {
+        "displacement": "D_M, maximum displacement (lower bound)",
+        "total_displacement": "D_TM, total maximum displacement with torsion",
+        "moat": "Moat width needed (D_TM + 50 mm)",
+        "isolation_shear": "V_b, isolation-system shear (upper bound)",
+        "superstructure_shear": "V_s, superstructure design shear",
+        "shear_ratio": "V_s / V_fb, isolated over fixed-base design shear"})
 
     # --- site ---------------------------------------------------------------------------------
     def damping_coefficient(self, beta):
@@ -137,6 +146,18 @@ class Asce7Basis(CodeBasis):
         from isolation.site.spectra import CodeSpectrum
 
         return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period)
+
+    def site_advice(self, site) -> list:
+        out = []
+        if site.sm1 > site.sms:
+            out.append(f"S_M1 = {site.sm1:g} g exceeds S_MS = {site.sms:g} g, so T_S = S_M1/S_MS = "
+                       f"{site.sm1 / site.sms:.2f} s: code site spectra have S_M1 well below S_MS (ASCE/SEI 7-16 "
+                       "§11.4.4: S_MS = F_a S_S, S_M1 = F_v S_1, and S_1 < S_S on the maps; from memory). "
+                       "Check the site values.")
+        if site.long_period < 4.0:
+            out.append(f"T_L = {site.long_period:g} s: the long-period transition of the ASCE 7 maps is 4 s or more "
+                       "(ASCE/SEI 7-16 Fig. 22-14 to 22-17, from memory).")
+        return out
 
     def site_suitability(self, site_class: str) -> tuple[str, str]:
         if site_class == "F":

@@ -244,8 +244,8 @@ class CodeBasis(ABC):
         What the site spectrum is ("MCE_R", "design action").
     reference_levels : (float, float)
         Design and maximum level as fractions of the site spectrum (loss analysis). [-]
-    level_names : (str, str)
-        Names of those two levels.
+    level_names, level_marks : (str, str)
+        Names of those two levels in tables, and their short marks on plots.
     near_fault_distance : float
         Distance within which a site counts as near an active fault. [km]
     drift_formula : str
@@ -262,6 +262,10 @@ class CodeBasis(ABC):
     report_title, answer_source : str
         Name of the single-mode procedure with its clause, and the source of the
         equivalent-linear answer (for tables).
+    site_inputs : tuple of str
+        Every site key the code reads (``site_keys``, the site class and the rest).
+    quantity_labels : mapping
+        Label of each reported quantity in tables (common name -> text).
     """
 
     name: str
@@ -279,6 +283,7 @@ class CodeBasis(ABC):
     site_level: str
     reference_levels: tuple
     level_names: tuple
+    level_marks: tuple
     near_fault_distance: float
     drift_formula: str
     sources: Mapping[str, str]
@@ -288,6 +293,8 @@ class CodeBasis(ABC):
     procedure_full: str = ""
     report_title: str = ""
     answer_source: str = ""
+    site_inputs: tuple = ()
+    quantity_labels: Mapping[str, str] = {}
 
     # --- site ---------------------------------------------------------------------
     @abstractmethod
@@ -310,6 +317,11 @@ class CodeBasis(ABC):
     def spectrum_note(self, site) -> str:
         """Assumption about the site spectrum stated in the results ("" for none)."""
         return ""
+
+    def site_advice(self, site) -> list:
+        """Plain warnings about implausible site parameters of this code (``site`` has the
+        attributes named in :attr:`site_inputs`)."""
+        return []
 
     def site_suitability(self, site_class: str) -> tuple[str, str]:
         """("against" | "condition" | "ok", text) for a site class of this code."""

@@ -128,6 +128,7 @@ class EurocodeBasis(CodeBasis):
     procedure_full: str = "the simplified linear analysis"
     site_level: str = "design action"
     reference_levels: tuple = (1.0, 1.5)
+    level_marks: tuple = ("design action", "1.5 x design")
     level_names: tuple = ("design action", "1.5 x design action")
     near_fault_distance: float = 15.0
     drift_formula: str = "nu q d_e/h"
@@ -139,6 +140,14 @@ class EurocodeBasis(CodeBasis):
     long_period_bars_procedure: bool = False
     report_title: str = "simplified analysis (EN 1998-1 §10.9)"
     answer_source: str = "EN 1998-1 §10.9, design action"
+    site_inputs: tuple = ("ag", "spectrum_type", "ground_type")
+    quantity_labels: Mapping[str, str] = field(default_factory=lambda: {
+        "displacement": "d_dc, design displacement (lower bound)",
+        "total_displacement": "d_d, isolator design displacement",
+        "moat": "Gap needed (d_d + 50 mm, common practice)",
+        "isolation_shear": "V, elastic base shear (upper bound)",
+        "superstructure_shear": "V_s, superstructure design shear",
+        "shear_ratio": "V_s / F_b, isolated over fixed-base"})
 
     # --- site ---------------------------------------------------------------------------------
     def damping_coefficient(self, beta):

@@ -19,7 +19,8 @@ from typing import TYPE_CHECKING, Any
 if TYPE_CHECKING:
     from isolation.codes.basis import CodeBasis
 
-__all__ = ["DEFAULT_BASIS", "ENTRY_POINT_GROUP", "UnknownBasisError", "register", "unregister", "get", "names"]
+__all__ = ["DEFAULT_BASIS", "ENTRY_POINT_GROUP", "UnknownBasisError", "register", "unregister", "get", "names",
+           "get_or_default"]
 
 DEFAULT_BASIS = "asce7"
 """Name of the code basis a study without ``[code]`` takes, and the default of every
@@ -100,6 +101,13 @@ def names() -> tuple:
     """Names of the registered code bases, built-ins first. [-]"""
     _load()
     return tuple(_REGISTRY)
+
+
+def get_or_default(name: Any) -> "CodeBasis":
+    """The basis registered under ``name``, or the default basis when ``name`` is not registered
+    (for results written by another installation, or a study whose ``code.basis`` is in error)."""
+    _load()
+    return get(name if isinstance(name, str) and name in _REGISTRY else DEFAULT_BASIS)
 
 
 def get(name: Any = DEFAULT_BASIS, field: str = "code.basis") -> "CodeBasis":

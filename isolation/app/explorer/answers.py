@@ -40,8 +40,19 @@ from matplotlib.figure import Figure
 
 from isolation import validate
 from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
-from isolation.app.explorer.tables import (_force, _length, checks_html, comparison_html, comparison_table,
-                                       quantities_html, summary_html, summary_table, warnings_html)
+from isolation.app.explorer.tables import (
+    _force,
+    _length,
+    checks_html,
+    comparison_html,
+    comparison_table,
+    quantities_html,
+    summary_html,
+    summary_table,
+    warnings_html,
+)
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.output.plots import COLOURS, masing_loop
 
 __all__ = [
@@ -164,7 +175,7 @@ class ExplorerSettings:
     layers: int = 20
     shear_modulus: float = 400.0
     displacement_capacity: float = 0.8
-    basis: str = "asce7"
+    basis: str = DEFAULT_BASIS
     sms: float = 1.5
     sm1: float = 0.75
     long_period: float = 8.0
@@ -223,11 +234,11 @@ class ExplorerSettings:
 
     def spectrum(self):
         """The site spectrum (ASCE/SEI 7-16 §11.4.6 MCE_R or EN 1998-1 §3.2.2.2 elastic)."""
-        if self.basis == "asce7":
-            from isolation.site.spectra import CodeSpectrum
-            return CodeSpectrum(self.sms, self.sm1, self.long_period)
-        from isolation.study.assembly import site_spectrum
-        return site_spectrum(self.study())
+        from types import SimpleNamespace
+
+        site = SimpleNamespace(sms=self.sms, sm1=self.sm1, long_period=self.long_period, ag=self.ag,
+                               ground_type=self.ground_type, spectrum_type=1, spectrum_periods=())
+        return _codes.get(self.basis).site_spectrum(site, 1.0)
 
     def system(self):
         """The isolation plane: all bearings alike, equal shares of the weight."""
