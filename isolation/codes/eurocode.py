@@ -29,8 +29,8 @@ from typing import Any, ClassVar, Mapping
 
 from isolation import validate
 from isolation.bearings.checks import Check
-from isolation.codes.basis import SingleModeReport
 from isolation.codes.eurocode_basis import EUROCODE
+from isolation.codes.report import SingleModeReport
 from isolation.design.single_mode import BoundsResult, Item, _force, _unit, design_bounds
 from isolation.plain import plain
 from isolation.site.spectra import EurocodeSpectrum, eurocode_eta

@@ -24,7 +24,8 @@ from isolation import validate
 from isolation.codes.basis import CodeBasis, SuiteRules
 from isolation.codes.lateral_systems import FRAMES, LATERAL_SYSTEM_ROWS
 
-__all__ = ["EurocodeBasis", "EUROCODE", "OVERSTRENGTH", "NONSTRUCTURAL", "eurocode_reduction_factor", "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
+__all__ = ["EurocodeBasis", "EUROCODE", "OVERSTRENGTH", "NONSTRUCTURAL", "eurocode_reduction_factor",
+           "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
 _EC8 = "EN 1998-1:2004"
 _PRACTICE = "common practice"

@@ -49,6 +49,7 @@ def _load() -> None:
     _LOADED = True
     for name, (module, attribute) in _BUILT_IN.items():
         _REGISTRY.setdefault(name, getattr(importlib.import_module(module), attribute))
+    points: Any
     try:
         points = metadata.entry_points(group=ENTRY_POINT_GROUP)
     except Exception:  # pragma: no cover - broken metadata of some installed distribution
