@@ -58,15 +58,13 @@ class ElfReport(SingleModeReport):
         "unreduced_shear": "V_st", "superstructure_shear": "V_s", "fixed_base_shear": "V_fb",
         "shear_ratio": "V_s/V_fb"}
 
+    DICT_FIELDS: ClassVar[tuple] = ("bounds", "building", "quantities", "applicability", "checks", "storey_forces",
+                                    "fixed_base", "warnings", "elf_permitted", "scope")
+
     @property
     def elf_permitted(self) -> bool:
         """True when ASCE/SEI 7-16 §17.4.1 permits the ELF procedure (same as ``permitted``)."""
         return self.permitted
-
-    def to_dict(self) -> dict:
-        out = super().to_dict()
-        out["elf_permitted"] = out["permitted"]
-        return out
 
 
 ISOLATED_IMPORTANCE = 1.0

@@ -145,7 +145,7 @@ class Asce7Basis(CodeBasis):
     def site_spectrum(self, site, importance: float = 1.0):
         from isolation.site.spectra import CodeSpectrum
 
-        return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period)
+        return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period, rule=self.damping_rule)
 
     def site_advice(self, site) -> list:
         out = []
@@ -199,7 +199,7 @@ class Asce7Basis(CodeBasis):
                           isolator_kind="sliding" if system.is_sliding else "other", fixed_base_period=t_fb,
                           frame=FRAMES[b.lateral_system], importance=b.importance,
                           wind_base_shear=study.wind_base_shear or 0.0, s1=s1, site_class=study.site.site_class)
-        return asce7_elf(sets, elf, spectrum, bounds=bounds)
+        return asce7_elf(sets, elf, spectrum, rule=self.damping_rule, bounds=bounds)
 
     def uplift_action(self, study, report, spectrum, plateau) -> tuple:
         from isolation.design.overturning import asce7_vertical_fraction

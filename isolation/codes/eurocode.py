@@ -29,7 +29,6 @@ from typing import Any, ClassVar, Mapping
 
 from isolation import validate
 from isolation.bearings.checks import Check
-from isolation.codes.eurocode_basis import EUROCODE
 from isolation.codes.report import SingleModeReport
 from isolation.design.single_mode import BoundsResult, Item, _force, _unit, design_bounds
 from isolation.plain import plain
@@ -244,19 +243,17 @@ class EurocodeReport(SingleModeReport):
         "displacement": "d_dc", "total_displacement": "d_d", "period": "T_eff", "isolation_shear": "V",
         "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
 
+    DICT_FIELDS: ClassVar[tuple] = ("bounds", "building", "quantities", "applicability", "warnings",
+                                    "simplified_permitted", "scope")
+
     @property
     def simplified_permitted(self) -> bool:
         """True when EN 1998-1 §10.9 permits the simplified analysis (same as ``permitted``)."""
         return self.permitted
 
-    def to_dict(self) -> dict:
-        out = super().to_dict()
-        out["simplified_permitted"] = out["permitted"]
-        return out
-
 
 def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuilding, spectrum, *,
-                        bounds: BoundsResult | None = None, **options) -> EurocodeReport:
+                        bounds: BoundsResult | None = None, rule: str = "eurocode", **options) -> EurocodeReport:
     """EN 1998-1 §10.9 simplified linear analysis for all property sets.
 
     Parameters
@@ -269,7 +266,9 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
         Elastic site spectrum, usually a :class:`~isolation.site.spectra.EurocodeSpectrum`. [g]
     bounds : BoundsResult, optional
         The equivalent-linear results of ``property_sets`` already computed
-        (damping rule "eurocode"); default: computed here.
+        (damping rule ``rule``); default: computed here.
+    rule : str
+        Damping rule of the displacement (the EN 1998-1 eta by default). [-]
     **options
         Passed to :func:`isolation.design.equivalent_linear`.
 
@@ -288,7 +287,7 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     if not isinstance(building, EurocodeBuilding):
         raise ValueError(f"building = {type(building).__name__} is not allowed: must be a EurocodeBuilding")
     if bounds is None:
-        bounds = design_bounds(property_sets, building.weight, spectrum, EUROCODE.damping_rule, **options)
+        bounds = design_bounds(property_sets, building.weight, spectrum, rule, **options)
     low, up = bounds.displacement, bounds.force
     length, width = building.plan_length, building.plan_width
     e_tot = building.eccentricity + 0.05 * length

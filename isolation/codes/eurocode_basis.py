@@ -196,7 +196,7 @@ class EurocodeBasis(CodeBasis):
                               superstructure_period=t_fb, plan_length=b.plan_length,
                               plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
                               behaviour_factor=b.response_modification)
-        return eurocode_simplified(sets, ec, spectrum, bounds=bounds)
+        return eurocode_simplified(sets, ec, spectrum, bounds=bounds, rule=self.damping_rule)
 
     def uplift_action(self, study, report, spectrum, plateau) -> tuple:
         from isolation.design.overturning import eurocode_vertical_fraction

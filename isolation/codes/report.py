@@ -60,6 +60,8 @@ class SingleModeReport:
 
     #: common name -> the code's symbol (see :data:`COMMON_QUANTITIES`)
     SYMBOLS: ClassVar[Mapping[str, str]] = {}
+    #: keys of :meth:`to_dict`, each an attribute (a subclass keeps the layout of its earlier report)
+    DICT_FIELDS: ClassVar[tuple] = ()
 
     def value(self, symbol: str) -> float:
         """Value of the quantity with this symbol (e.g. "D_TM")."""
@@ -114,7 +116,8 @@ class SingleModeReport:
         return max((s.drift_ratio for s in self.storey_forces), default=None)
 
     def to_dict(self) -> dict:
-        return {f.name: plain(getattr(self, f.name), keep_nonfinite=True) for f in fields(self)}
+        names = self.DICT_FIELDS or tuple(f.name for f in fields(self))
+        return {name: plain(getattr(self, name), keep_nonfinite=True) for name in names}
 
 
 @dataclass(frozen=True)
