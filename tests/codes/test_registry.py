@@ -198,3 +198,27 @@ def test_the_toy_basis_is_asked_for_its_rules_everywhere(toy):
     assert damping_coefficient(0.3, "toy_code") == pytest.approx(B_CAP)  # Table 17.5-1 gives 1.7 at 30 %
     assert damping_coefficient(0.3, "asce7") == pytest.approx(1.7)
     assert source("moat", "toy_code") == source("moat", "asce7")
+
+
+def test_an_outside_package_offers_a_basis_through_the_entry_point_group(monkeypatch):
+    from isolation.codes import registry
+
+    class Point:  # what importlib.metadata answers for an entry point of the group
+        name = "toy_code"
+
+        @staticmethod
+        def load():
+            return ToyBasis()
+
+    asked = []
+
+    def entry_points(group):
+        asked.append(group)
+        return [Point()]
+
+    monkeypatch.setattr(registry, "_REGISTRY", {})
+    monkeypatch.setattr(registry, "_LOADED", False)
+    monkeypatch.setattr(registry.metadata, "entry_points", entry_points)
+    assert registry.names() == ("asce7", "eurocode", "toy_code")
+    assert asked == [codes.ENTRY_POINT_GROUP] == ["isolation.code_bases"]
+    assert isinstance(codes.get("toy_code"), ToyBasis)
