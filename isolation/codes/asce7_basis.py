@@ -21,6 +21,7 @@ import numpy as np
 from isolation import validate
 from isolation.codes.basis import CodeBasis, SuiteRules
 from isolation.codes.lateral_systems import FRAMES, LATERAL_SYSTEM_ROWS
+from isolation.site.damping import _b_m
 
 __all__ = ["Asce7Basis", "ASCE7", "SYSTEM_ROWS", "DRIFT_LIMITS"]
 
@@ -123,9 +124,7 @@ class Asce7Basis(CodeBasis):
 
     # --- site ---------------------------------------------------------------------------------
     def damping_coefficient(self, beta):
-        from isolation.site.damping import b_m
-
-        return b_m(beta)
+        return _b_m(np.asarray(beta, dtype=float))
 
     def read_site(self, reader, values: dict, tabulated: bool) -> None:
         t = reader

@@ -23,6 +23,7 @@ import numpy as np
 from isolation import validate
 from isolation.codes.basis import CodeBasis, SuiteRules
 from isolation.codes.lateral_systems import FRAMES, LATERAL_SYSTEM_ROWS
+from isolation.site.damping import _eta
 
 __all__ = ["EurocodeBasis", "EUROCODE", "OVERSTRENGTH", "NONSTRUCTURAL", "eurocode_reduction_factor",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
@@ -152,9 +153,7 @@ class EurocodeBasis(CodeBasis):
 
     # --- site ---------------------------------------------------------------------------------
     def damping_coefficient(self, beta):
-        from isolation.site.damping import eurocode_eta
-
-        return 1.0 / eurocode_eta(beta)
+        return 1.0 / _eta(np.asarray(beta, dtype=float))
 
     def read_site(self, reader, values: dict, tabulated: bool) -> None:
         t = reader

@@ -13,14 +13,15 @@ Outside :mod:`isolation.codes` no module compares a basis name: it asks the obje
 from __future__ import annotations
 
 import importlib
+from collections.abc import Mapping, Sequence
 from importlib import metadata
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, Callable
 
 if TYPE_CHECKING:
     from isolation.codes.basis import CodeBasis
 
 __all__ = ["DEFAULT_BASIS", "ENTRY_POINT_GROUP", "UnknownBasisError", "register", "unregister", "get", "names",
-           "get_or_default"]
+           "get_or_default", "damping_rules", "PerBasis", "LiveNames"]
 
 DEFAULT_BASIS = "asce7"
 """Name of the code basis a study without ``[code]`` takes, and the default of every
@@ -36,6 +37,7 @@ _BUILT_IN = {
 
 _REGISTRY: dict[str, Any] = {}
 _LOADED = False
+_BY_RULE: dict[str, Any] = {}  # damping rule -> the first basis that has it (rebuilt when the registry changes)
 
 
 class UnknownBasisError(ValueError):
@@ -89,6 +91,7 @@ def register(name: str, basis: "CodeBasis", *, replace: bool = False) -> "CodeBa
         raise ValueError(f"name = {name!r} is not allowed: a code basis of that name is registered "
                          "(pass replace=True to replace it)")
     _REGISTRY[name] = basis
+    _BY_RULE.clear()
     return basis
 
 
@@ -96,6 +99,7 @@ def unregister(name: str) -> None:
     """Remove the basis registered under ``name`` (a no-op when there is none)."""
     _load()
     _REGISTRY.pop(name, None)
+    _BY_RULE.clear()
 
 
 def names() -> tuple:
@@ -109,6 +113,16 @@ def get_or_default(name: Any) -> "CodeBasis":
     (for results written by another installation, or a study whose ``code.basis`` is in error)."""
     _load()
     return get(name if isinstance(name, str) and name in _REGISTRY else DEFAULT_BASIS)
+
+
+def damping_rules() -> dict:
+    """Damping rule -> the (first) registered basis whose spectra use it."""
+    _load()
+    if not _BY_RULE or any(b is not _REGISTRY.get(b.name) for b in _BY_RULE.values()):
+        _BY_RULE.clear()
+        for basis in _REGISTRY.values():
+            _BY_RULE.setdefault(basis.damping_rule, basis)
+    return _BY_RULE
 
 
 def get(name: Any = DEFAULT_BASIS, field: str = "code.basis") -> "CodeBasis":
@@ -126,6 +140,8 @@ def get(name: Any = DEFAULT_BASIS, field: str = "code.basis") -> "CodeBasis":
     UnknownBasisError
         ``name`` is not registered; the message names the field, the value and the known names.
     """
+    if _LOADED and isinstance(name, str) and name in _REGISTRY:  # the common case, kept quick
+        return _REGISTRY[name]
     from isolation.codes.basis import CodeBasis
 
     if isinstance(name, CodeBasis):
@@ -136,3 +152,51 @@ def get(name: Any = DEFAULT_BASIS, field: str = "code.basis") -> "CodeBasis":
     except (KeyError, TypeError):
         listed = ", ".join(repr(n) for n in _REGISTRY)
         raise UnknownBasisError(f"{field} = {name!r} is not allowed: must be one of {listed}") from None
+
+
+class PerBasis(Mapping):
+    """Read-only table basis name -> ``getter(basis)`` over the bases registered at the time of use.
+
+    The per-basis tables that modules kept as dictionaries (e.g.
+    ``isolation.motions.suite.MEAN_RULES``) are these views: a basis registered later
+    appears in them, and their values come from the basis objects.
+    """
+
+    def __init__(self, getter: Callable[[Any], Any]) -> None:
+        self._getter = getter
+
+    def __getitem__(self, name: str) -> Any:
+        if not isinstance(name, str) or name not in names():
+            raise KeyError(name)
+        return self._getter(get(name))
+
+    def __iter__(self):
+        return iter(names())
+
+    def __len__(self) -> int:
+        return len(names())
+
+    def __repr__(self) -> str:
+        return repr(dict(self))
+
+
+class LiveNames(Sequence):
+    """Read-only tuple of names computed at the time of use (e.g. the registered bases)."""
+
+    def __init__(self, source: Callable[[], tuple]) -> None:
+        self._source = source
+
+    def __getitem__(self, index):
+        return self._source()[index]
+
+    def __len__(self) -> int:
+        return len(self._source())
+
+    def __eq__(self, other: object) -> bool:
+        return isinstance(other, (tuple, LiveNames)) and tuple(self) == tuple(other)
+
+    def __hash__(self) -> int:
+        return hash(tuple(self))
+
+    def __repr__(self) -> str:
+        return repr(tuple(self))

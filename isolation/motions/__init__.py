@@ -26,7 +26,7 @@ pairs
 """
 
 from isolation.motions.envelope import intensity_envelope, typical_significant_duration
-from isolation.motions.matching import matched_suite
+from isolation.motions.matching import GOALS, matched_suite
 from isolation.motions.measures import (
     IntensityMeasures,
     arias_intensity,
@@ -42,7 +42,7 @@ from isolation.motions.measures import (
 )
 from isolation.motions.pair_io import RecordedPair, read_pair
 from isolation.motions.pair_spectra import component_correlation, rotd100_spectrum, rotd_spectrum, srss_spectrum
-from isolation.motions.pair_suite import MatchedPairs, PairCheck
+from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs, PairCheck
 from isolation.motions.pairs import matched_pairs
 from isolation.motions.records_io import (
     FORMAT_NAME,
@@ -56,6 +56,7 @@ from isolation.motions.records_io import (
 from isolation.motions.spectrum import ResponseSpectra, log_periods, response_spectra, response_spectrum
 from isolation.motions.suite import (
     BASELINE_TOLERANCE,
+    MEAN_RULES,
     RECORD_BAND,
     MatchedSuite,
     RecordCheck,
@@ -106,16 +107,3 @@ __all__ = [
     "velocity",
     "write_suite",
 ]
-
-
-def __getattr__(name: str):
-    # Per-basis rule tables, computed on use from the registered code bases.
-    if name in ("GOALS", "MEAN_RULES", "PAIR_RULES"):
-        from isolation.motions import matching, pair_suite, suite
-
-        for module in (matching, suite, pair_suite):
-            try:
-                return getattr(module, name)
-            except AttributeError:
-                pass
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -63,15 +63,13 @@ from isolation.motions.measures import displacement, velocity
 from isolation.motions.spectrum import response_spectrum
 from isolation.motions.suite import RECORD_BAND, MatchedSuite
 from isolation.motions.wavelets import wavelet_step
-from isolation.validate import finite_array, in_range, one_of, positive
+from isolation.validate import finite_array, in_range, positive
 
 __all__ = ["matched_suite", "GOALS"]
 
 #: Records are matched to goal x target, per suite-mean rule.
-def __getattr__(name: str):
-    if name == "GOALS":  # matching goal per rule (:attr:`isolation.codes.basis.SuiteRules.goal`)
-        return {n: _codes.get(n).suite.goal for n in _codes.names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+GOALS = _codes.PerBasis(lambda basis: basis.suite.goal)
+"""Matching goal per rule (:attr:`isolation.codes.basis.SuiteRules.goal`)."""
 
 _TOLERANCE = 0.05  # stop when every record is within +/-5 % of goal x target
 _KAPPA = 1.0  # exponent of the amplitude correction

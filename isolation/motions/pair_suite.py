@@ -16,14 +16,9 @@ from isolation.motions.suite import BASELINE_TOLERANCE
 
 __all__ = ["MatchedPairs", "PairCheck", "PAIR_RULES", "PAIR_BAND"]
 
-
-
-def __getattr__(name: str):
-    if name == "PAIR_RULES":
-        # Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors
-        # on (T_low, T_high) (:attr:`isolation.codes.basis.SuiteRules.pair_rule`).
-        return {n: _codes.get(n).suite.pair_rule for n in _codes.names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+#: Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors on
+#: (T_low, T_high) (:attr:`isolation.codes.basis.SuiteRules.pair_rule`).
+PAIR_RULES = _codes.PerBasis(lambda basis: basis.suite.pair_rule)
 
 #: Per-pair band as a fraction of the goal (0.9-1.3 of the target at the ASCE 7 goal 1.15; common practice).
 PAIR_BAND = (0.9 / 1.15, 1.3 / 1.15)

@@ -39,7 +39,7 @@ from isolation.codes import registry as _codes
 from isolation.motions.matching import _band, _record_factors, _shaping, _whole, matched_suite, progress_bar
 from isolation.motions.pair_spectra import rotd100_spectrum, srss_spectrum
 from isolation.motions.pair_suite import MatchedPairs
-from isolation.validate import in_range, one_of, positive
+from isolation.validate import in_range, positive
 
 __all__ = ["matched_pairs"]
 

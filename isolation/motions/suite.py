@@ -33,14 +33,9 @@ BASELINE_TOLERANCE = {"velocity": 1.0e-4, "displacement": 1.0e-4}
 #: Per-record band, ratio of record spectrum to target (common practice).
 RECORD_BAND = (0.9, 1.3)
 
-
-
-def __getattr__(name: str):
-    if name == "MEAN_RULES":
-        # Required minimum ratio of the suite-mean spectrum to the target, per rule (the code
-        # basis's :attr:`isolation.codes.basis.SuiteRules.mean_ratio`).
-        return {n: _codes.get(n).suite.mean_ratio for n in _codes.names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+#: Required minimum ratio of the suite-mean spectrum to the target, per rule (the code basis's
+#: :attr:`isolation.codes.basis.SuiteRules.mean_ratio`).
+MEAN_RULES = _codes.PerBasis(lambda basis: basis.suite.mean_ratio)
 
 
 @dataclass(frozen=True)

@@ -33,13 +33,11 @@ AASHTO = "aashto"
 
 def rules() -> tuple:
     """Names of the damping modification rules: those of the registered code bases, then AASHTO."""
-    return tuple(dict.fromkeys([_codes.get(n).damping_rule for n in _codes.names()] + [AASHTO]))
+    return tuple(_codes.damping_rules()) + (AASHTO,)
 
 
-def __getattr__(name: str):
-    if name == "RULES":  # computed on use, so that a code basis registered later counts
-        return rules()
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+RULES = _codes.LiveNames(rules)
+"""Names of the damping modification rules (computed on use, so that a code basis registered later counts)."""
 
 # ASCE/SEI 7-16 Table 17.5-1: damping ratio [-] -> B_M [-]; linear between rows, clamped.
 _ASCE7_DAMPING = np.array([0.02, 0.05, 0.10, 0.20, 0.30, 0.40, 0.50])
@@ -85,7 +83,17 @@ def b_m(beta):
     float or array
         B_M. [-]
     """
-    return _unwrap(np.asarray(np.interp(_damping_array(beta), _ASCE7_DAMPING, _ASCE7_FACTOR), dtype=float))
+    return _unwrap(np.asarray(_b_m(_damping_array(beta)), dtype=float))
+
+
+def _b_m(b: np.ndarray) -> np.ndarray:
+    """B_M of checked damping ratios ``b`` (see :func:`b_m`)."""
+    return np.interp(b, _ASCE7_DAMPING, _ASCE7_FACTOR)
+
+
+def _eta(b: np.ndarray) -> np.ndarray:
+    """eta of checked damping ratios ``b`` (see :func:`eurocode_eta`)."""
+    return np.maximum(np.sqrt(10.0 / (5.0 + 100.0 * b)), 0.55)
 
 
 def b_l(beta):
@@ -107,10 +115,11 @@ def b_l(beta):
 
 def _rule_of(rule: str):
     """The basis whose damping rule is ``rule``, or None for AASHTO."""
+    known = _codes.damping_rules()
+    if rule in known:
+        return known[rule]
     validate.one_of("rule", rule, rules())
-    if rule == AASHTO:
-        return None
-    return next(_codes.get(n) for n in _codes.names() if _codes.get(n).damping_rule == rule)
+    return None
 
 
 def damping_coefficient(beta, rule: str = _codes.DEFAULT_BASIS):
@@ -138,7 +147,7 @@ def damping_coefficient(beta, rule: str = _codes.DEFAULT_BASIS):
         Damping coefficient B. [-]
     """
     basis = _rule_of(rule)
-    b = _damping_array(beta)
+    b = _damping_array(beta)  # checked once here; a basis's coefficient takes checked ratios
     out = b_l(b) if basis is None else basis.damping_coefficient(b)
     return _unwrap(np.asarray(out, dtype=float))
 
@@ -156,5 +165,4 @@ def eurocode_eta(beta):
     float or array
         eta. [-]
     """
-    b = _damping_array(beta)
-    return _unwrap(np.maximum(np.sqrt(10.0 / (5.0 + 100.0 * b)), 0.55))
+    return _unwrap(_eta(_damping_array(beta)))

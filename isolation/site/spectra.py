@@ -41,7 +41,7 @@ from isolation import GRAVITY, validate
 from isolation.codes.asce7_basis import ASCE7 as _ASCE7
 from isolation.codes.eurocode_basis import EUROCODE as _EUROCODE
 from isolation.codes.registry import DEFAULT_BASIS
-from isolation.site.damping import _checked_array, _unwrap, damping_coefficient, eurocode_eta, rules
+from isolation.site.damping import RULES, _checked_array, _unwrap, damping_coefficient, eurocode_eta, rules
 
 EUROCODE_KIND = "eurocode"  # file-format tag of a serialised EN 1998-1 spectrum (not a basis name)
 
@@ -515,9 +515,3 @@ def spectrum_from_dict(mapping: Mapping[str, Any]):
             f"spectrum.{unknown[0]} is not allowed for kind {kind!r}: known keys are {', '.join(allowed)}"
         )
     return cls(**fields)
-
-
-def __getattr__(name: str):
-    if name == "RULES":  # computed on use (see isolation.site.damping.rules)
-        return rules()
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

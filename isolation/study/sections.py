@@ -15,6 +15,7 @@ from typing import Any
 
 from isolation.codes.lateral_systems import LATERAL_SYSTEM_ROWS
 from isolation.codes.registry import DEFAULT_BASIS
+from isolation.codes.registry import PerBasis as _PerBasis
 from isolation.codes.registry import get as _get_basis
 from isolation.codes.registry import names as _basis_names
 from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
@@ -154,13 +155,8 @@ def _lateral_system(t: Reader) -> str | None:
     return t.choice("lateral_system", LATERAL_SYSTEMS)
 
 
-def __getattr__(name: str):
-    if name == "IMPORTANCE_RANGES":  # per registered code basis, computed on use
-        return {n: _get_basis(n).importance_range for n in _basis_names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-
-
-IMPORTANCE_RANGES_DOC = """Allowed ``building.importance`` [-] per code basis (``IMPORTANCE_RANGES``, from
+IMPORTANCE_RANGES = _PerBasis(lambda basis: basis.importance_range)
+"""Allowed ``building.importance`` [-] per code basis (``IMPORTANCE_RANGES``, from
 :attr:`isolation.codes.basis.CodeBasis.importance_range`). ASCE 7: the seismic importance
 factor I_e (ASCE/SEI 7-16 Table 1.5-2: 1.0, 1.25, 1.5). Eurocode: the importance factor
 gamma_I (EN 1998-1 §4.2.5, recommended 0.8, 1.0, 1.2, 1.4 for importance classes I-IV;

@@ -77,13 +77,8 @@ def spectral_benefit(ratio: float) -> Reason:
     return Reason("long-period site", "ok", text, ratio, 0.5, "-", source)
 
 
-def __getattr__(name: str):
-    if name == "NEAR_FAULT_DISTANCE":  # per registered code basis (CodeBasis.near_fault_distance)
-        return {n: _codes.get(n).near_fault_distance for n in _codes.names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-
-
-NEAR_FAULT_DISTANCE_DOC = """Distance [km] within which a site counts as near-fault: ASCE/SEI 7-16 §11.2 'near-fault site'
+NEAR_FAULT_DISTANCE = _codes.PerBasis(lambda basis: basis.near_fault_distance)
+"""Distance [km] within which a site counts as near-fault: ASCE/SEI 7-16 §11.2 'near-fault site'
 (15 km from a fault able to produce M_w >= 7; 10 km for M_w >= 6: the larger distance is taken
 since the magnitude is not a study input), EN 1998-1 §10.9.2 (15 km from a fault of Ms >= 6.5);
 both from memory."""

@@ -18,10 +18,8 @@ from isolation.codes.registry import DEFAULT_BASIS
 __all__ = ["BASES", "PRACTICE", "source", "drift_limit", "NONSTRUCTURAL", "eurocode_reduction_factor"]
 
 
-def __getattr__(name: str):
-    if name == "BASES":  # code bases the verdict knows: the registered ones
-        return _codes.names()
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+BASES = _codes.LiveNames(_codes.names)
+"""Code bases the verdict knows: the registered ones (ASCE/SEI 7-16 and EN 1998-1:2004 built in)."""
 
 
 PRACTICE = "common practice"

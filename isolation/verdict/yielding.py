@@ -12,11 +12,8 @@ from isolation.verdict.rules import Reason
 
 __all__ = ["superstructure_yielding", "YIELDING_SOURCES"]
 
-
-def __getattr__(name: str):
-    if name == "YIELDING_SOURCES":  # source of the limits per code basis (CodeBasis.yielding_source)
-        return {n: _codes.get(n).yielding_source for n in _codes.names()}
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+YIELDING_SOURCES = _codes.PerBasis(lambda basis: basis.yielding_source)
+"""Source of the limits per code basis (:attr:`isolation.codes.basis.CodeBasis.yielding_source`)."""
 
 
 def superstructure_yielding(ductility_isolated: float | None, residual_drift_isolated: float | None,
@@ -40,8 +37,6 @@ def superstructure_yielding(ductility_isolated: float | None, residual_drift_iso
     basis : str
         ``"asce7"`` or ``"eurocode"``: the clause the source cites. [-]
     """
-    from isolation import validate
-
     source = _codes.get(basis, "basis").yielding_source
     if ductility_isolated is None or residual_drift_isolated is None:
         return None
