@@ -8,7 +8,7 @@ and cites the clause. Clause numbers marked "from memory" were not re-read.
 References
 ----------
 ASCE/SEI 7-16, Minimum Design Loads and Associated Criteria for Buildings and Other
-Structures, Ch. 11, 12, 17 (Table 1.5-2, Table 12.2-1, Table 12.12-1, Table 17.5-1).
+Structures; the clause of each rule is named beside it.
 """
 
 from __future__ import annotations
@@ -92,7 +92,7 @@ class Asce7Basis(CodeBasis):
     suite: SuiteRules = SuiteRules(
         mean_ratio=1.10, goal=1.15, period_range=(0.75, 1.25), pair_spectrum="RotD100", pair_ratio=1.10,
         pair_goal=1.15, pair_period_range=(0.75, 1.25), pair_start=1.0 / 1.25, history_lower_limit=0.8,
-        source="ASCE/SEI 7-22 Ch. 16 matched-suite rule, ASCE/SEI 7-16 §17.3 (from memory)")
+        source="ASCE/SEI 7-22 Ch. 16 matched-suite rule (from memory)")
     symbols: Mapping[str, str] = field(default_factory=lambda: {
         "displacement": "D_M", "total_displacement": "D_TM", "period": "T_M", "isolation_shear": "V_b",
         "unreduced_shear": "V_st", "superstructure_shear": "V_s", "fixed_base_shear": "V_fb",

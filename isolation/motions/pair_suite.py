@@ -6,6 +6,7 @@ Rules per basis are in :data:`PAIR_RULES` (sources in :mod:`isolation.motions.pa
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TypedDict
 
 import numpy as np
 
@@ -15,6 +16,16 @@ from isolation.motions.pair_spectra import component_correlation
 from isolation.motions.suite import BASELINE_TOLERANCE
 
 __all__ = ["MatchedPairs", "PairCheck", "PAIR_RULES", "PAIR_BAND"]
+
+
+class PairRule(TypedDict):
+    """Suite rules for pairs under one basis."""
+
+    spectrum: str  # "RotD100" or "SRSS"
+    required: float  # required suite-mean ratio to the target [-]
+    goal: float  # matching goal [-]
+    range: tuple[float, float]  # check range factors on (T_low, T_high) [-]
+
 
 #: Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors on
 #: (T_low, T_high) (:attr:`isolation.codes.basis.SuiteRules.pair_rule`).
@@ -199,7 +210,8 @@ class MatchedPairs:
             band=band,
             lowest_ratio=tuple(float(v) for v in ratios.min(axis=1)),
             highest_ratio=tuple(float(v) for v in ratios.max(axis=1)),
-            within_band=tuple(bool(lo >= band[0] and hi <= band[1]) for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
+            within_band=tuple(bool(lo >= band[0] and hi <= band[1])
+                              for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
             correlation=tuple(float(c) for c in self.correlation),
             baseline_ok=tuple(
                 bool(v <= BASELINE_TOLERANCE["velocity"] and d <= BASELINE_TOLERANCE["displacement"])

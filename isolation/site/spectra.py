@@ -488,7 +488,8 @@ class TabulatedSpectrum(_Spectrum):
         }
 
 
-_KINDS = {"code": CodeSpectrum, EUROCODE_KIND: EurocodeSpectrum, "tabulated": TabulatedSpectrum}
+_KINDS: dict[str, type[CodeSpectrum | EurocodeSpectrum | TabulatedSpectrum]] = {
+    "code": CodeSpectrum, EUROCODE_KIND: EurocodeSpectrum, "tabulated": TabulatedSpectrum}
 
 
 def spectrum_from_dict(mapping: Mapping[str, Any]):

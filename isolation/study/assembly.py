@@ -23,16 +23,15 @@ from __future__ import annotations
 import numpy as np
 
 from isolation import GRAVITY
+from isolation import codes as _codes
 from isolation import verdict as _verdict
+from isolation.codes.eurocode_basis import EUROCODE_MAX_PERIOD, EUROCODE_SPECTRUM_NOTE
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
            "bearing_uplift_check",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
-
-from isolation import codes as _codes
-from isolation.codes.eurocode_basis import EUROCODE_MAX_PERIOD, EUROCODE_SPECTRUM_NOTE
 
 
 def site_spectrum(study: Study):
@@ -60,6 +59,7 @@ def isolation_system(alternative: Alternative):
         HighDampingRubber,
         IsolationSystem,
         LeadRubber,
+        PropertyBound,
         PropertyFactors,
         TripleFrictionPendulum,
     )
@@ -73,7 +73,7 @@ def isolation_system(alternative: Alternative):
         bearing = kinds[spec.type](**properties)
         groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
                                    name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
-    bound = (alternative.lower_factor, alternative.upper_factor)
+    bound = PropertyBound(alternative.lower_factor, alternative.upper_factor)
     return IsolationSystem(tuple(groups), PropertyFactors(stiffness=bound, strength=bound, friction=bound))
 
 
@@ -131,7 +131,7 @@ def history_isolator(backbone, result, system=None, case: str = "nominal"):
     from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
     from isolation.bearings.damping_rubber import equivalent_bilinear
 
-    groups = getattr(system, "groups", ())
+    groups: tuple = getattr(system, "groups", ())
     if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
         bearing = groups[0].bearing
         if bearing.friction_slow != bearing.friction:
@@ -404,7 +404,8 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
         characteristic_strength=strength, elf_permitted=permitted,
         elf_reasons=tuple(reasons), failed_checks=tuple(c.name for c in checks if not c.passed),
         effective_damping=max(r.damping for r in bounds.values()), units=study.units,
-        ductility_isolated=summary.get("ductility_isolated"), residual_drift_isolated=summary.get("residual_drift_isolated"),
+        ductility_isolated=summary.get("ductility_isolated"),
+        residual_drift_isolated=summary.get("residual_drift_isolated"),
         ductility_fixed=summary.get("ductility_fixed"), residual_drift_fixed=summary.get("residual_drift_fixed"),
         fixed_base_period_source=period_source,
         nominal_period=bounds["nominal"].period if "nominal" in bounds else None,

@@ -196,7 +196,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     a = study.analysis
     code = _codes.get(study.basis)
     rule = code.matching_rule()
-    options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
+    options: dict[str, Any] = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
     # record for short records so the envelope keeps its rise and decay (common practice).
@@ -403,7 +403,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
-        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure, "comparison": comparison,
+        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure,
+              "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
 
         loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),

@@ -11,6 +11,8 @@ every clause against the governing local code.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+
 from isolation.codes import registry as _codes
 from isolation.codes.eurocode_basis import NONSTRUCTURAL, eurocode_reduction_factor
 from isolation.codes.registry import DEFAULT_BASIS
@@ -23,6 +25,25 @@ BASES = _codes.LiveNames(_codes.names)
 
 
 PRACTICE = "common practice"
+
+
+class _TopicTable(Mapping):
+    """Verdict topic -> {basis name: source}, over the bases registered at the time of use."""
+
+    def __getitem__(self, topic: str) -> dict:
+        table = {name: _codes.get(name).sources.get(topic) for name in _codes.names()}
+        if all(text is None for text in table.values()):
+            raise KeyError(topic)
+        return table
+
+    def __iter__(self):
+        return iter(dict.fromkeys(t for name in _codes.names() for t in _codes.get(name).sources))
+
+    def __len__(self) -> int:
+        return sum(1 for _ in self)
+
+
+_SOURCES = _TopicTable()
 
 def source(topic: str, basis: str = DEFAULT_BASIS) -> str:
     """The source of one verdict limit for the code basis.

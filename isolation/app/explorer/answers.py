@@ -223,7 +223,8 @@ class ExplorerSettings:
                              f"outer_diameter = {self.outer_diameter!r} [m]")
 
     def study(self):
-        """These settings as a validated :class:`isolation.study.Study` (see :mod:`isolation.app.explorer.study_file`)."""
+        """These settings as a validated :class:`isolation.study.Study`
+        (see :mod:`isolation.app.explorer.study_file`)."""
         from isolation.app.explorer.study_file import STUDY_FIELDS, study_mapping
         from isolation.study import StudyError, parse_study
 
