@@ -1,10 +1,11 @@
 """Registry of code bases: one object per code, found by the name a study file gives.
 
 ``get(name)`` answers the :class:`isolation.codes.basis.CodeBasis` registered under
-``name`` (a study's ``code.basis``); ``register(name, basis)`` adds one. The two
-built-in bases (ASCE/SEI 7-16 and EN 1998-1) are loaded on first use, so that this
-module imports nothing heavy and low-level modules may ask it; bases of outside
-packages are found through the entry-point group :data:`ENTRY_POINT_GROUP`
+``name`` (a study's ``code.basis``); ``register(name, basis)`` adds one. The bases of
+the package are the module-level basis objects of the modules ``isolation/codes/*_basis.py``
+(ASCE/SEI 7-16 in ``asce7_basis``, EN 1998-1 in ``eurocode_basis``), found and loaded on
+first use, so that this module imports nothing heavy and low-level modules may ask it;
+bases of outside packages are found through the entry-point group :data:`ENTRY_POINT_GROUP`
 (``name = "package.module:OBJECT"``).
 
 Outside :mod:`isolation.codes` no module compares a basis name: it asks the object.
@@ -13,6 +14,7 @@ Outside :mod:`isolation.codes` no module compares a basis name: it asks the obje
 from __future__ import annotations
 
 import importlib
+import pkgutil
 from collections.abc import Mapping, Sequence
 from importlib import metadata
 from typing import TYPE_CHECKING, Any, Callable
@@ -30,10 +32,8 @@ function that takes a basis name."""
 ENTRY_POINT_GROUP = "isolation.code_bases"
 """Entry-point group through which outside packages offer a code basis."""
 
-_BUILT_IN = {
-    "asce7": ("isolation.codes.asce7_basis", "ASCE7"),
-    "eurocode": ("isolation.codes.eurocode_basis", "EUROCODE"),
-}
+_MODULE_SUFFIX = "_basis"
+"""Modules of this folder whose name ends so hold one code basis each (a module-level object)."""
 
 _REGISTRY: dict[str, Any] = {}
 _LOADED = False
@@ -49,8 +49,16 @@ def _load() -> None:
     if _LOADED:
         return
     _LOADED = True
-    for name, (module, attribute) in _BUILT_IN.items():
-        _REGISTRY.setdefault(name, getattr(importlib.import_module(module), attribute))
+    from isolation import codes as package
+    from isolation.codes.basis import CodeBasis
+
+    for info in sorted(pkgutil.iter_modules(package.__path__), key=lambda m: m.name):
+        if not info.name.endswith(_MODULE_SUFFIX):
+            continue
+        module = importlib.import_module(f"{package.__name__}.{info.name}")
+        for value in vars(module).values():
+            if isinstance(value, CodeBasis) and type(value).__module__ == module.__name__:
+                _REGISTRY.setdefault(value.name, value)
     points: Any
     try:
         points = metadata.entry_points(group=ENTRY_POINT_GROUP)

@@ -40,6 +40,9 @@ ALLOWED = {
 
 def test_registry_answers_the_two_built_in_bases_by_name():
     assert codes.names()[:2] == ("asce7", "eurocode")
+    # found as the module-level basis objects of isolation/codes/*_basis.py
+    assert {type(codes.get(n)).__module__ for n in codes.names()} == {
+        f"isolation.codes.{p.stem}" for p in (PACKAGE / "codes").glob("*_basis.py")}
     assert codes.get("asce7") is ASCE7 and codes.get("eurocode") is EUROCODE
     assert codes.get(ASCE7) is ASCE7  # a basis object is answered as it is
     assert codes.get() is codes.get(codes.DEFAULT_BASIS) is ASCE7
