@@ -18,8 +18,9 @@ A code basis (ASCE/SEI 7-16 in :mod:`isolation.codes.asce7_basis`, EN 1998-1 in
 
 The rest of the package never compares a basis name: it calls
 ``isolation.codes.get(study.basis)`` and asks the object. A new code is one module
-that defines a subclass and calls :func:`isolation.codes.register` (see the
-contributor guide, "How to add a code basis").
+``isolation/codes/<name>_basis.py`` that defines a subclass and one instance of it, which
+the registry finds (or :func:`isolation.codes.register` adds at run time); see the
+contributor guide, "How to add a code basis".
 
 Scope: concept-stage feasibility, not construction design.
 """
@@ -33,7 +34,6 @@ from typing import Any, Mapping
 from isolation.codes.report import COMMON_QUANTITIES, DesignAnswer, SingleModeReport
 
 __all__ = ["CodeBasis", "SuiteRules", "SingleModeReport", "COMMON_QUANTITIES", "DesignAnswer"]
-
 
 
 @dataclass(frozen=True)
