@@ -1,9 +1,9 @@
-"""Study choices of ``building.lateral_system`` and the rows of each code's table they stand for.
+"""Lateral systems a study may name, and their rows in the codes' approximate-period tables.
 
-The approximate fixed-base period of a code basis (:meth:`isolation.codes.basis.CodeBasis.fixed_base_period`)
-takes the study's choice; this table gives the frame type of
-:data:`isolation.codes.asce7_fixed_base.FRAME_TYPES` (also the key of the EN 1998-1 C_t table) and
-the row of each code's table cited. Re-exported as ``isolation.study.sections.LATERAL_SYSTEM_ROWS``.
+The study's ``building.lateral_system`` choices (:data:`LATERAL_SYSTEM_ROWS`), shared by the
+study reader (:mod:`isolation.study.sections`), the assembly of the fixed-base period
+(:mod:`isolation.study.assembly`) and the code-designed comparison building
+(:mod:`isolation.performance.comparison`), which is why it lives here, below all of them.
 """
 
 from __future__ import annotations
@@ -38,4 +38,5 @@ LATERAL_SYSTEMS = tuple(LATERAL_SYSTEM_ROWS)
 """Study choices of ``building.lateral_system``."""
 
 FRAMES = {name: row[0] for name, row in LATERAL_SYSTEM_ROWS.items()}
-"""Study choice -> frame type of the approximate-period tables."""
+"""Study choice of ``building.lateral_system`` -> frame type of
+:data:`isolation.codes.asce7_fixed_base.FRAME_TYPES`."""
