@@ -196,7 +196,8 @@ class HighDampingRubber(Elastomer):
                            validate.positive("reference_strain", self.reference_strain, "-"))
         ratio = validate.finite("stiffness_ratio", self.stiffness_ratio, "-")
         if ratio <= 1.0:
-            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 [-]")
+            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: "
+                             "must be a finite number > 1 [-]")
         object.__setattr__(self, "stiffness_ratio", ratio)
         most = max_bilinear_damping(ratio)
         top = max(compound.dampings)

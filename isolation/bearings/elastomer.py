@@ -39,7 +39,15 @@ def _optional_weight(weight) -> None:
 
 
 class Elastomer:
-    """Geometry and vertical mechanics shared by the laminated bearings."""
+    """Geometry and vertical mechanics shared by the laminated bearings (fields of the subclasses)."""
+
+    outer_diameter: float
+    layer_thickness: float
+    layers: int
+    bulk_modulus: float
+    shim_thickness: float
+    end_plate_thickness: float
+    displacement_capacity: float | None
 
     _inner_face_free = False
 

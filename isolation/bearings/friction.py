@@ -48,8 +48,13 @@ from isolation.bearings import checks as _checks
 from isolation.bearings.backbone import Bilinear
 from isolation.bearings.laws import FRICTION_LAWS, SharpFrictionLaw, SmoothLaw
 from isolation.bearings.registry import BearingType, register
-from isolation.bearings.slider import (DEFAULT_SLIDER_YIELD_DISPLACEMENT, friction_value, optional_positive,
-                                       slider_bilinear, weight_value)
+from isolation.bearings.slider import (
+    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
+    friction_value,
+    optional_positive,
+    slider_bilinear,
+    weight_value,
+)
 from isolation.schema import Key, Ordering
 
 __all__ = ["FrictionPendulum", "DEFAULT_SLIDER_YIELD_DISPLACEMENT", "FRICTION_PENDULUM"]
@@ -188,7 +193,7 @@ class FrictionPendulum:
         f = validate.positive("friction factor", factor)
         return FrictionPendulum(self.radius, self.friction * f, slider_height=self.slider_height,
                                 displacement_capacity=self.displacement_capacity,
-                                friction_slow=self.friction_slow * f,
+                                friction_slow=None if self.friction_slow is None else self.friction_slow * f,
                                 rate_parameter=self.rate_parameter,
                                 yield_displacement=self.yield_displacement)
 
@@ -254,10 +259,11 @@ class FrictionPendulum:
         """
         w = weight_value(weight)
         validate.one_of("friction_law", friction_law, FRICTION_LAWS)
+        slow = self.friction if self.friction_slow is None else self.friction_slow  # set in __post_init__
         if friction_law == "sharp":
-            return SharpFrictionLaw(w / self.effective_radius, self.friction * w, self.friction_slow * w,
+            return SharpFrictionLaw(w / self.effective_radius, self.friction * w, slow * w,
                                     self.rate_parameter, self.yield_displacement)
-        return SmoothLaw(w / self.effective_radius, self.friction * w, self.friction_slow * w,
+        return SmoothLaw(w / self.effective_radius, self.friction * w, slow * w,
                          self.rate_parameter, self.yield_displacement, 0.5)
 
 

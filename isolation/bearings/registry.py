@@ -21,7 +21,7 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Any, Callable, Iterator, Mapping, Protocol, runtime_checkable
 
-from isolation.schema import Key, Ordering
+from isolation.schema import Key
 
 __all__ = ["Bearing", "BearingType", "UnknownBearingType", "register", "unregister", "bearing_type",
            "entry_of", "type_of", "kinds", "registered", "is_sliding"]

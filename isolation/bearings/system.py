@@ -11,14 +11,14 @@ which a type is, :mod:`isolation.bearings.registry`).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
 from isolation import validate
 from isolation.bearings.backbone import CombinedBackbone, combine
 from isolation.bearings.checks import Check, restoring_force_check
-from isolation.bearings.factors import (CASES, UNQUALIFIED_LOWER, UNQUALIFIED_UPPER, PropertyBound,
-                                        PropertyFactors)
+from isolation.bearings.factors import CASES, UNQUALIFIED_LOWER, UNQUALIFIED_UPPER, PropertyBound, PropertyFactors
 from isolation.bearings.registry import entry_of
 
 __all__ = ["PropertyBound", "PropertyFactors", "BearingGroup", "IsolationSystem", "CombinedBackbone",
@@ -50,7 +50,7 @@ class BearingGroup:
         Factors for this group; default: the system's.
     """
 
-    bearing: object
+    bearing: Any
     count: int
     axial_load: float
     name: str | None = None
@@ -146,8 +146,8 @@ class IsolationSystem:
     @property
     def displacement_capacity(self) -> float | None:
         """Smallest displacement capacity over the groups that state one, or None. [m]"""
-        caps = [getattr(g.bearing, "displacement_capacity", None) for g in self.groups]
-        caps = [c for c in caps if c is not None]
+        caps: list[float] = [c for g in self.groups
+                             if (c := getattr(g.bearing, "displacement_capacity", None)) is not None]
         return min(caps) if caps else None
 
     def label(self, index: int) -> str:
@@ -219,6 +219,7 @@ class IsolationSystem:
         return out
 
     def to_dict(self) -> dict:
-        return {"groups": [g.to_dict() for g in self.groups], "factors": self.factors.to_dict(),
+        factors = self.factors.to_dict() if self.factors is not None else None  # set by __post_init__
+        return {"groups": [g.to_dict() for g in self.groups], "factors": factors,
                 "weight": self.weight, "is_sliding": self.is_sliding,
                 "displacement_capacity": self.displacement_capacity}

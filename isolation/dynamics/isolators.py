@@ -45,14 +45,12 @@ base isolation II: Modeling. J. Struct. Eng. 116(2).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
 from isolation import validate
 from isolation.bearings.backbone import Bilinear, MultiLinear
-from isolation.bearings.laws import (FRICTION_LAWS, BoucWen, ElasticPlasticLaw, SharpFrictionLaw, SmoothLaw,
-                                     backbone_law)
+from isolation.bearings.laws import FRICTION_LAWS, BoucWen, ElasticPlasticLaw, SharpFrictionLaw, SmoothLaw, backbone_law
 from isolation.bearings.registry import type_of
 
 __all__ = ["BoucWen", "ElasticPlasticLaw", "SmoothLaw", "SharpFrictionLaw", "isolator_law", "describe",

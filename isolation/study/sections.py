@@ -13,8 +13,8 @@ import math
 from pathlib import Path
 from typing import Any
 
-from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
 from isolation.bearings.registry import bearing_type
+from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
 from isolation.study.keys import BEARING_KEYS, Problems, Reader
 
 __all__ = ["LATERAL_SYSTEMS", "IMPORTANCE_RANGES", "WEIGHT_MAX", "AXIAL_LOAD_MAX", "SPECTRUM_PERIOD_MAX",

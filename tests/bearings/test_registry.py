@@ -21,8 +21,16 @@ import pytest
 
 from isolation import GRAVITY, validate
 from isolation.bearings import (
-    BearingGroup, Bilinear, Check, DoubleConcave, FrictionPendulum, HighDampingRubber, IsolationSystem,
-    LeadRubber, TripleFrictionPendulum, registry,
+    BearingGroup,
+    Bilinear,
+    Check,
+    DoubleConcave,
+    FrictionPendulum,
+    HighDampingRubber,
+    IsolationSystem,
+    LeadRubber,
+    TripleFrictionPendulum,
+    registry,
 )
 from isolation.bearings.laws import backbone_law
 from isolation.dynamics.isolators import isolator_law
@@ -145,8 +153,14 @@ def test_a_type_registered_in_a_test_runs_a_study_through_check_design_and_histo
     from isolation.app.cli import main
     from isolation.dynamics.history import run_cases
     from isolation.study import BEARING_KEYS, load_study
-    from isolation.study.assembly import (design_alternative, fixed_base_period, history_isolator,
-                                          isolation_system, site_spectrum, superstructure)
+    from isolation.study.assembly import (
+        design_alternative,
+        fixed_base_period,
+        history_isolator,
+        isolation_system,
+        site_spectrum,
+        superstructure,
+    )
 
     assert BEARING_KEYS[TOY] is toy_type.keys  # the study schema reads the registry
     path = tmp_path / "toy.toml"
