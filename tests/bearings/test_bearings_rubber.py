@@ -224,7 +224,7 @@ def test_equivalent_bilinear_refuses_damping_beyond_a_bilinear_loop():
 
 def test_typical_compound_is_marked_common_practice():
     assert "common practice" in TYPICAL_COMPOUND.source
-    # G 0.4-1.4 MPa and damping 10-20 % (isolation-formulas.md §3 high-damping rubber, common practice)
+    # G 0.4-1.4 MPa and damping 10-20 % (high-damping rubber compounds, common practice)
     assert all(400.0 <= g <= 1400.0 for g in TYPICAL_COMPOUND.shear_moduli)
     assert all(0.10 <= b <= 0.20 for b in TYPICAL_COMPOUND.dampings)
 

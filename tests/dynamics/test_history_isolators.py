@@ -155,7 +155,7 @@ from hypothesis import given, settings, strategies as st  # noqa: E402
        smooth=st.booleans())
 def test_energy_balance_closes_for_any_bilinear(strength, period, pga, smooth):
     # Uang & Bertero (1990) balance; with Newmark's average acceleration the trapezoid
-    # accumulation closes to the equilibrium tolerance (Chopra; reference section 3).
+    # accumulation closes to the equilibrium tolerance (Chopra, Dynamics of Structures, from memory).
     superstructure = ShearBuilding.from_period(0.3, [200.0, 200.0], [3.0, 3.0])
     total = superstructure.total_mass + 200.0
     kd = total * (2 * math.pi / period) ** 2

@@ -196,7 +196,7 @@ def test_progress_bar_when_asked(capsys):
 def test_envelope_significant_duration_and_magnitude_scaling():
     # Sources: D5-95 of e(t)^2 by scipy.integrate.cumulative_trapezoid (Trifunac & Brady 1975 definition);
     # typical D5-95 ranges on rock: Mw 6.5 -> 7-12 s, 7.0 -> 10-16 s, 7.5 -> 14-22 s
-    # (from memory, after Kempton & Stewart 2006, as in shared/reference/motions-and-dynamics.md).
+    # (from memory, after Kempton & Stewart 2006, Earthquake Spectra 22(4), 985-1013).
     time = np.arange(0, 60.0, 0.01)
     envelope = intensity_envelope(time, 12.0)
     energy = cumulative_trapezoid(envelope**2, time, initial=0.0)

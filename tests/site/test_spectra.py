@@ -1,7 +1,7 @@
 """Tests of isolation.site.spectra against the standards' formulas and tables.
 
 Sources named beside each check. "[derived]" marks arithmetic worked by hand
-from the published formula (see shared reference isolation-formulas.md §1).
+from the published formula named beside it.
 """
 
 import json
@@ -57,7 +57,7 @@ def test_code_spectrum_from_design_values_round_trip():
 
 
 def test_sd_gives_reference_displacement():
-    # [derived] shared reference §2: S_M1 0.9, T 3 s, beta 20 % (B_M 1.5)
+    # [derived] ASCE/SEI 7-16 Eq. 17.5-1 with Table 17.5-1: S_M1 0.9, T 3 s, beta 20 % (B_M 1.5)
     # -> D = g 0.9/3/1.5 * 9/(4 pi^2) = 0.4471 m.
     spectrum = CodeSpectrum(1.5, 0.9)
     assert spectrum.sa(3.0, 0.20) == pytest.approx(0.200, rel=1e-12)
