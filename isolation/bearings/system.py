@@ -16,10 +16,10 @@ from typing import Any
 import numpy as np
 
 from isolation import validate
-from isolation.bearings.backbone import CombinedBackbone, combine
+from isolation.bearings.backbone import Bilinear, CombinedBackbone, MultiLinear, combine  # noqa: F401
 from isolation.bearings.checks import Check, restoring_force_check
 from isolation.bearings.factors import CASES, UNQUALIFIED_LOWER, UNQUALIFIED_UPPER, PropertyBound, PropertyFactors
-from isolation.bearings.registry import entry_of
+from isolation.bearings.registry import entry_of, registered
 
 __all__ = ["PropertyBound", "PropertyFactors", "BearingGroup", "IsolationSystem", "CombinedBackbone",
            "UNQUALIFIED_LOWER", "UNQUALIFIED_UPPER", "CASES", "combine"]
@@ -223,3 +223,11 @@ class IsolationSystem:
         return {"groups": [g.to_dict() for g in self.groups], "factors": factors,
                 "weight": self.weight, "is_sliding": self.is_sliding,
                 "displacement_capacity": self.displacement_capacity}
+
+
+def __getattr__(name: str):
+    """The bearing classes, once importable from here, answered from the registry (no import of them)."""
+    for entry in registered():
+        if entry.model.__name__ == name:
+            return entry.model
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

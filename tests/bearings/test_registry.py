@@ -282,3 +282,21 @@ def test_an_amplitude_dependent_type_without_a_history_law_says_what_to_run():
         isolator_law(hdr, 1000.0)
     system = IsolationSystem([BearingGroup(hdr, 4, 1000.0)])
     assert not system.is_sliding
+
+
+@pytest.mark.slow
+def test_a_registered_type_runs_a_whole_quick_study(toy_type, tmp_path):
+    from isolation.study import load_study
+    from isolation.study.runner import run_study
+
+    path = tmp_path / "toy.toml"
+    path.write_text(STUDY, encoding="utf-8")
+    data = run_study(load_study(path), quick=True).to_dict()
+    alternative = data["alternatives"][0]
+    assert alternative["system"]["groups"][0]["bearing"]["kind"] == TOY
+    assert alternative["system"]["is_sliding"] is False
+    design = alternative["bounds"]["lower"]["displacement"]
+    history = alternative["history"]["summary"]["isolator_displacement_lower"]
+    # the suite is matched to the design spectrum, so the mean peak is of the order of the design
+    # displacement (common practice: within a factor of 2 for a bilinear isolator)
+    assert 0.5 * design < history < 2.0 * design
