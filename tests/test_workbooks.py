@@ -115,7 +115,8 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
     # Every section of the report is there, in order.
     headings = [line for c in nb.cells if c.cell_type == "markdown" for line in c.source.splitlines()
                 if line.startswith("# ")]
-    assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions", "# Site spectrum and period shift",
+    assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions",
+                        "# Site spectrum and period shift",
                         "# Isolation system and bearing checks", "# Equivalent-linear results for both bounds",
                         "# Motion suite", "# Response-history comparison",
                         "# Against the code-designed fixed-base building", "# Verdict", "# Cautions",
@@ -234,7 +235,8 @@ def test_pdf_shows_no_code_and_keeps_the_cautions(feasibility_pdf):
     assert "Quick run." in text  # a quick run says so in the report
     assert "Figure 1:" in text and "Table 1:" in text
     # issue 10: the report states how friction is regularised in the response histories
-    assert re.search(r"Friction law, Friction pendulum: (Friction regularised|No friction regularisation|Sharp friction)", text)
+    assert re.search(r"Friction law, Friction pendulum: (Friction regularised|No friction regularisation|Sharp "
+                     r"friction)", text)
 
 
 @pytest.mark.slow

@@ -18,6 +18,7 @@ Seismic and Vibration Isolation. Wiley.
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -39,8 +40,9 @@ def _optional_weight(weight) -> None:
 
 
 class Elastomer:
-    """Geometry and vertical mechanics shared by the laminated bearings (fields of the subclasses)."""
+    """Geometry and vertical mechanics shared by the laminated bearings."""
 
+    # Fields of the dataclasses built on this class.
     outer_diameter: float
     layer_thickness: float
     layers: int
@@ -49,7 +51,14 @@ class Elastomer:
     end_plate_thickness: float
     displacement_capacity: float | None
 
-    _inner_face_free = False
+    if TYPE_CHECKING:
+        @property
+        def shear_modulus(self) -> float:
+            """Shear modulus of the rubber (a field or a strain-dependent property). [kPa]"""
+
+    @property
+    def _inner_face_free(self) -> bool:
+        return False
 
     def _check_geometry(self, inner_name: str, inner, inner_minimum_allowed: str) -> None:
         do = validate.positive("outer_diameter", self.outer_diameter, "m")

@@ -191,9 +191,10 @@ class FrictionPendulum:
             results must stay below 1. [-]
         """
         f = validate.positive("friction factor", factor)
+        assert self.friction_slow is not None  # None is replaced by friction in __post_init__
         return FrictionPendulum(self.radius, self.friction * f, slider_height=self.slider_height,
                                 displacement_capacity=self.displacement_capacity,
-                                friction_slow=None if self.friction_slow is None else self.friction_slow * f,
+                                friction_slow=self.friction_slow * f,
                                 rate_parameter=self.rate_parameter,
                                 yield_displacement=self.yield_displacement)
 

@@ -49,10 +49,6 @@ class UnknownBearingType(ValueError):
     """A bearing type name or object the registry does not know."""
 
 
-def _build(model: type) -> Callable[[Mapping[str, Any]], Any]:
-    return lambda properties: model(**properties)
-
-
 def _never(bearing: Any) -> bool:
     return False
 
@@ -134,10 +130,14 @@ class BearingType:
                 raise ValueError(f"cross_checks entry {check!r} is not allowed: must have problem(values)")
         object.__setattr__(self, "keys", MappingProxyType(dict(self.keys)))
         object.__setattr__(self, "cross_checks", tuple(self.cross_checks))
-        if self.build is None:
-            object.__setattr__(self, "build", _build(self.model))
         if not self.label:
             object.__setattr__(self, "label", self.kind.replace("_", " "))
+
+    def create(self, values: Mapping[str, Any]) -> Any:
+        """A bearing from validated key values (internal units): ``build(values)``, or ``model(**values)``."""
+        if self.build is not None:
+            return self.build(values)
+        return self.model(**values)
 
     def problems(self, values: Mapping[str, Any]) -> Iterator[tuple[str, str]]:
         """(key, message) for every cross-check the validated ``values`` break."""

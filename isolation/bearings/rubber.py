@@ -102,8 +102,8 @@ class LeadRubber(Elastomer):
             object.__setattr__(self, name, value)
         ratio = validate.finite("stiffness_ratio", self.stiffness_ratio, "-")
         if ratio <= 1.0:
-            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: "
-                             "must be a finite number > 1 [-]")
+            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 "
+                             "[-]")
         object.__setattr__(self, "stiffness_ratio", ratio)
 
     @property

@@ -146,8 +146,8 @@ class IsolationSystem:
     @property
     def displacement_capacity(self) -> float | None:
         """Smallest displacement capacity over the groups that state one, or None. [m]"""
-        caps: list[float] = [c for g in self.groups
-                             if (c := getattr(g.bearing, "displacement_capacity", None)) is not None]
+        stated = [getattr(g.bearing, "displacement_capacity", None) for g in self.groups]
+        caps = [float(c) for c in stated if c is not None]
         return min(caps) if caps else None
 
     def label(self, index: int) -> str:
@@ -219,8 +219,8 @@ class IsolationSystem:
         return out
 
     def to_dict(self) -> dict:
-        factors = self.factors.to_dict() if self.factors is not None else None  # set by __post_init__
-        return {"groups": [g.to_dict() for g in self.groups], "factors": factors,
+        assert self.factors is not None  # None is replaced by PropertyFactors.unqualified() in __post_init__
+        return {"groups": [g.to_dict() for g in self.groups], "factors": self.factors.to_dict(),
                 "weight": self.weight, "is_sliding": self.is_sliding,
                 "displacement_capacity": self.displacement_capacity}
 

@@ -107,11 +107,11 @@ def _items(kind: str, text: str) -> list[str]:
             part = out[-1][:-1] + part
         elif out and re.fullmatch(r"-\d+", part):  # "17.5-3/-4"
             part = out[-1].rsplit("-", 1)[0] + part
-        elif out and (join == "to" or hyphen == "-"):  # "12.8-2 to 12.8-6", "3.13-3.16": every number between
-            head, low = re.fullmatch(r"(.*?)(\d+)", out[-1]).groups()  # type: ignore[union-attr]
-            last = re.fullmatch(rf"{re.escape(head)}(\d+)", part)
-            if last and int(low) < int(last[1]) <= int(low) + 20:
-                out.extend(f"{head}{n}" for n in range(int(low) + 1, int(last[1])))
+        elif out and (join == "to" or hyphen == "-") and (start := re.fullmatch(r"(.*?)(\d+)", out[-1])):
+            head, low = start.groups()  # "12.8-2 to 12.8-6", "3.13-3.16": every number between
+            end = re.fullmatch(rf"{re.escape(head)}(\d+)", part)
+            if end and int(low) < int(end[1]) <= int(low) + 20:
+                out.extend(f"{head}{n}" for n in range(int(low) + 1, int(end[1])))
         out.append(part)
     return out
 

@@ -95,7 +95,8 @@ def _read_spectrum_table(path: Path, key: str, problems: Problems):
         problems.add(f"{error}; must name an existing CSV file (relative to the study file) with columns "
                      "period [s], Sa [g]")
         return None
-    periods, values = [], []
+    periods: list[float] = []
+    values: list[float] = []
     for number, row in enumerate(csv.reader(lines), 1):
         if not row or not "".join(row).strip() or row[0].lstrip().startswith("#"):
             continue

@@ -14,7 +14,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import Bilinear, MultiLinear
 
@@ -69,8 +70,10 @@ def test_scaled_applies_property_factors():
     "kwargs, field",
     [
         (dict(elastic_stiffness=-1.0, post_yield_stiffness=0.0, characteristic_strength=1.0), "elastic_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0), "post_yield_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0), "characteristic_strength"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0),
+         "post_yield_stiffness"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0),
+         "characteristic_strength"),
         (dict(elastic_stiffness=10.0, post_yield_stiffness=20.0, characteristic_strength=1.0), "post_yield_stiffness"),
     ],
 )

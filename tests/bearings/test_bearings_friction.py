@@ -19,7 +19,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation import GRAVITY
 from isolation.bearings import Bilinear, DoubleConcave, FrictionPendulum, MultiLinear

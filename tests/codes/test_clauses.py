@@ -216,6 +216,7 @@ def test_risk_categories_follow_table_1_5_2():
     # ASCE/SEI 7-16 Table 1.5-2 (re-read; tests/data names the text read): I_e -> risk category; the loss
     # study's collapse target follows the category (I_e 1.0 is taken as category II, the common case).
     from check_values import read
+
     from isolation.loss.fragility import COLLAPSE_AT_MCE, collapse_probability_at_mce
 
     table = read("asce7_16_table_1_5_2.csv")

@@ -7,8 +7,8 @@ import glob
 import os
 
 import pytest
-
 from check_values import DATA, read
+
 from isolation.codes.asce7_fixed_base import approximate_period, period_upper_limit_factor
 from isolation.codes.eurocode import eurocode_approximate_period
 from isolation.site.damping import damping_coefficient

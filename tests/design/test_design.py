@@ -17,8 +17,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from isolation.bearings import Bilinear
-from isolation.design import design_bounds, equivalent_linear
 from isolation.codes.asce7 import ElfBuilding, asce7_elf
+from isolation.codes.asce7_fixed_base import approximate_period, fixed_base_shear, response_coefficient
 from isolation.codes.eurocode import (
     EurocodeBuilding,
     eurocode_approximate_period,
@@ -26,8 +26,8 @@ from isolation.codes.eurocode import (
     eurocode_fixed_base_shear,
     eurocode_simplified,
 )
+from isolation.design import design_bounds, equivalent_linear
 from isolation.errors import RunError
-from isolation.codes.asce7_fixed_base import approximate_period, fixed_base_shear, response_coefficient
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
 
 G = 9.80665
@@ -238,7 +238,8 @@ def test_no_nan_for_valid_input(weight, radius, ratio, strength, sms, shape, rul
     assert 0.0 <= r.damping < 2.0 / math.pi  # bilinear loop bound (Naeim & Kelly 1999)
     # Eq. 17.5-2 and the general displacement form hold at the answer.
     assert r.period == pytest.approx(2 * math.pi * math.sqrt(weight / (r.stiffness * G)), rel=1e-9)
-    assert r.displacement == pytest.approx(G * r.spectral_acceleration * r.period**2 / (4 * math.pi**2 * r.damping_coefficient), rel=1e-5)
+    assert r.displacement == pytest.approx(
+        G * r.spectral_acceleration * r.period**2 / (4 * math.pi**2 * r.damping_coefficient), rel=1e-5)
 
 
 # --- ASCE 7-16 Ch. 17 ELF report -----------------------------------------------------
@@ -266,7 +267,8 @@ def test_elf_report_derived_values():
     d_m = report.value("D_M")
     assert report.value("D_TM") == pytest.approx(1.24 * d_m, rel=1e-9)
     assert report.value("moat") == pytest.approx(1.24 * d_m + 0.05, rel=1e-9)
-    # ASCE 7-16 §17.5.4.2 [derived]: V_st = V_b (W_s/W)^(1 - 2.5 beta_M) = 2000 (8000/10000)^(1 - 2.5*0.2) = 2000*0.8^0.5 = 1788.85 kN.
+    # ASCE 7-16 §17.5.4.2 [derived]: V_st = V_b (W_s/W)^(1 - 2.5 beta_M) = 2000 (8000/10000)^(1 - 2.5*0.2)
+    # = 2000*0.8^0.5 = 1788.85 kN.
     assert report.value("V_st") == pytest.approx(1788.854, rel=1e-6)
     # §17.5.4.2: R_I = 3/8 * 8 = 3 -> capped at 2.0; V_s = 1788.85/2 = 894.43 kN (above the limits:
     # §12.8 at T_M = 3 s with R_I: C_s = 0.6/(3*2) = 0.1 -> 800 kN; wind 500 kN).
@@ -274,7 +276,8 @@ def test_elf_report_derived_values():
     assert report.value("V_s") == pytest.approx(894.427, rel=1e-6)
     # ASCE 7-16 §17.5.5 (from memory): F_1 = (V_b - V_st)/R_I = (2000 - 1788.85)/2 = 105.57 kN.
     assert report.value("F_1") == pytest.approx(105.573, rel=1e-5)
-    # ASCE 7-16 §17.5.5 (from memory): C_vx = w_x h_x^k/sum, k = 14 beta_M T_fb = 14*0.2*0.5 = 1.4; w h^k = 3000*4^1.4, 3000*8^1.4, 2000*12^1.4.
+    # ASCE 7-16 §17.5.5 (from memory): C_vx = w_x h_x^k/sum, k = 14 beta_M T_fb = 14*0.2*0.5 = 1.4;
+    # w h^k = 3000*4^1.4, 3000*8^1.4, 2000*12^1.4.
     assert report.value("k") == pytest.approx(1.4)
     wh = np.array([3000 * 4**1.4, 3000 * 8**1.4, 2000 * 12**1.4])
     forces = [s.force for s in report.storey_forces]

@@ -215,8 +215,8 @@ def test_run_cases_refuses_reserved_and_unknown_inputs():
 def test_convergence_failure_names_time_case_and_record(monkeypatch):
     # A Newton iteration allowed too few iterations must fail loudly, never silently.
     import isolation.dynamics.newmark as newmark
-    from isolation.errors import RunError
     from isolation.dynamics.history import run_cases
+    from isolation.errors import RunError
 
     monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
     t = np.arange(0.0, 2.0, 0.005)

@@ -19,6 +19,8 @@ import math
 import numpy as np
 import pytest
 import scipy.integrate
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation import GRAVITY
 from isolation.bearings import Bilinear, DoubleConcave, FrictionPendulum, LeadRubber, MultiLinear
@@ -145,9 +147,6 @@ def test_bouc_wen_refuses_bad_parameters():
         BoucWen(Bilinear(1e4, 1e3, 10.0), beta=0.0)
     with pytest.raises(ValueError, match="characteristic_strength"):
         BoucWen(Bilinear(1e4, 1e3, 0.0))
-
-
-from hypothesis import given, settings, strategies as st  # noqa: E402
 
 
 @settings(max_examples=15, deadline=None)

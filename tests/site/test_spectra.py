@@ -283,7 +283,8 @@ def test_code_spectrum_finite_and_positive(sms, ratio, long_period, period, damp
 
 
 @settings(max_examples=50, deadline=None)
-@given(t1=st.floats(0.6, 10.0), t2=st.floats(0.6, 10.0), ground=st.sampled_from(list("ABCDE")), kind=st.sampled_from([1, 2]))
+@given(t1=st.floats(0.6, 10.0), t2=st.floats(0.6, 10.0), ground=st.sampled_from(list("ABCDE")),
+       kind=st.sampled_from([1, 2]))
 def test_eurocode_falls_beyond_plateau(t1, t2, ground, kind):
     # Property of EN 1998-1 §3.2.2.2: beyond T_C the ordinate never increases (also across
     # 4 s into the extended 1/T^2 branch).

@@ -98,7 +98,8 @@ def test_unknown_capacity_and_moat_are_conditions():
     assert result.outcome == v.CONDITIONAL
 
 
-@pytest.mark.parametrize("d_tm, level", [(0.6, "ok"), (0.8, "ok"), (0.81, "condition"), (1.2, "condition"), (1.25, "against")])
+@pytest.mark.parametrize("d_tm, level",
+                         [(0.6, "ok"), (0.8, "ok"), (0.81, "condition"), (1.2, "condition"), (1.25, "against")])
 def test_displacement_size(d_tm, level):
     # Practical limits of moats and utility joints: common practice.
     assert v.displacement_size(d_tm).level == level
@@ -110,7 +111,8 @@ def test_narrow_moat_is_a_condition():
     assert v.moat_clearance(0.50, 0.50).level == "ok"   # equal to D_TM meets ">= D_TM"
 
 
-@pytest.mark.parametrize("ratio, level", [(0.69, "ok"), (0.7, "condition"), (0.99, "condition"), (1.0, "against"), (1.3, "against")])
+@pytest.mark.parametrize("ratio, level",
+                         [(0.69, "ok"), (0.7, "condition"), (0.99, "condition"), (1.0, "against"), (1.3, "against")])
 def test_base_shear_reduction(ratio, level):
     r = v.base_shear_reduction(ratio)
     assert r.level == level and f"{ratio:.0%}" in r.message
@@ -342,7 +344,8 @@ ASCE = "ASCE/SEI 7-16"
 EC8 = "EN 1998-1"
 RULE_TABLE = [
     # call, topic, level, value, limit, unit, source contains, message contains
-    (lambda: v.isolated_period(1.8, bound="upper"), "isolated period", "condition", 1.8, 2.0, "s", "common practice", "softer"),
+    (lambda: v.isolated_period(1.8, bound="upper"), "isolated period", "condition", 1.8, 2.0, "s", "common practice",
+     "softer"),
     (lambda: v.isolated_period(5.5), "isolated period", "note", 5.5, 5.0, "s", ASCE, "ELF procedure is not permitted"),
     (lambda: v.isolated_period(5.5, basis="eurocode"), "isolated period", "note", 5.5, 5.0, "s", "common practice",
      "exceeds 5 s: wind"),
