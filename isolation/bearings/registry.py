@@ -57,7 +57,7 @@ def _one(bearing: Any) -> float:
     return 1.0
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class BearingType:
     """Everything the rest of the package needs to know about one bearing type.
 
@@ -158,8 +158,9 @@ def register(entry: BearingType, *, replace: bool = False) -> BearingType:
     entry : BearingType
         The description.
     replace : bool, optional
-        Allow replacing a type of the same name (default False: a second
-        registration of a name is an error).
+        Allow replacing a type of the same name (default False: registering
+        another description under a registered name is an error; the same
+        description again is accepted).
 
     Returns
     -------
@@ -168,7 +169,7 @@ def register(entry: BearingType, *, replace: bool = False) -> BearingType:
     """
     if not isinstance(entry, BearingType):
         raise ValueError(f"entry = {entry!r} is not allowed: must be a BearingType")
-    if not replace and entry.kind in _TYPES and _TYPES[entry.kind] != entry:
+    if not replace and entry.kind in _TYPES and _TYPES[entry.kind] is not entry:
         raise ValueError(f"kind = {entry.kind!r} is not allowed: a bearing type of that name is already "
                          "registered (pass replace=True to replace it)")
     _TYPES[entry.kind] = entry
