@@ -242,7 +242,7 @@ ROWS: tuple[tuple[str, str, str, str, str, tuple[str, ...], str], ...] = (
      ''),
     ('ASCE/SEI 7', '7-16', '§17.2.8.4',
      'Property modification factors lambda_max, lambda_min',
-     'from memory', ('isolation/bearings/system.py',),
+     'from memory', ('isolation/bearings/factors.py', 'isolation/bearings/system.py'),
      ''),
     ('ASCE/SEI 7', '7-16', '§17.3.2',
      'Ground motions at near-fault sites (as cited by the near-fault rule)',

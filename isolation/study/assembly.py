@@ -51,26 +51,13 @@ def site_spectrum(study: Study):
 
 
 def isolation_system(alternative: Alternative):
-    """Bearing groups and property factors of one alternative."""
-    from isolation.bearings import (
-        BearingGroup,
-        DoubleConcave,
-        FrictionPendulum,
-        HighDampingRubber,
-        IsolationSystem,
-        LeadRubber,
-        PropertyBound,
-        PropertyFactors,
-        TripleFrictionPendulum,
-    )
+    """Bearing groups and property factors of one alternative (each bearing built by its registered type)."""
+    from isolation.bearings import BearingGroup, IsolationSystem, PropertyBound, PropertyFactors
+    from isolation.bearings.registry import bearing_type
 
-    kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
-             "triple_pendulum": TripleFrictionPendulum,
-             "lead_rubber": LeadRubber, "high_damping_rubber": HighDampingRubber}
     groups = []
     for i, spec in enumerate(alternative.bearings):
-        properties = {k: v for k, v in spec.properties.items()}
-        bearing = kinds[spec.type](**properties)
+        bearing = bearing_type(spec.type).create(spec.properties)
         groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
                                    name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
     bound = PropertyBound(alternative.lower_factor, alternative.upper_factor)
@@ -109,10 +96,11 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, 
 def history_isolator(backbone, result, system=None, case: str = "nominal"):
     """Isolator law the history engine integrates for one property case.
 
-    A single group of friction pendulums whose friction depends on velocity
-    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
-    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
-    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
+    A single group of a sliding type whose own law carries more than its
+    backbone (the registry's ``own_history_law``: friction pendulums whose
+    friction depends on velocity, ``friction_slow`` given) runs as the bearing
+    itself, friction scaled by the case's factor, so the engine applies mu(v)
+    (Constantinou, Mokha & Reinhorn 1990). Otherwise the backbone itself when bilinear / multi-linear, else the
     bilinear with the same K_eff and damping at the design displacement.
 
     Parameters
@@ -128,13 +116,15 @@ def history_isolator(backbone, result, system=None, case: str = "nominal"):
         ``"lower"``, ``"nominal"`` or ``"upper"``.
 
     """
-    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
+    from isolation.bearings import Bilinear, MultiLinear
     from isolation.bearings.damping_rubber import equivalent_bilinear
+    from isolation.bearings.registry import type_of
 
     groups: tuple = getattr(system, "groups", ())
-    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
+    if len(groups) == 1:
         bearing = groups[0].bearing
-        if bearing.friction_slow != bearing.friction:
+        entry = type_of(bearing)
+        if entry is not None and entry.sliding and entry.own_history_law(bearing):
             return bearing.with_friction_factor(system.factors.friction.factor(case))
     if isinstance(backbone, (Bilinear, MultiLinear)):
         return backbone
@@ -264,15 +254,15 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
 
 
 def _slow_friction_ratio(alternative) -> float | None:
-    """Smallest friction_slow/friction over the sliding bearing groups; None without sliders."""
+    """Smallest friction at rest over design friction among the sliding bearing groups (the registry's
+    ``slow_friction_ratio`` of each); None without sliders."""
+    from isolation.bearings.registry import bearing_type
+
     ratios = []
     for spec in alternative.bearings:
-        props = spec.properties
-        if "friction" in props:
-            slow = props.get("friction_slow")
-            ratios.append(1.0 if slow is None else float(slow) / float(props["friction"]))
-        elif "friction_1" in props:
-            ratios.append(1.0)
+        entry = bearing_type(spec.type)
+        if entry.sliding:
+            ratios.append(float(entry.slow_friction_ratio(entry.create(spec.properties))))
     return min(ratios) if ratios else None
 
 

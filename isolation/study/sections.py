@@ -13,6 +13,7 @@ import math
 from pathlib import Path
 from typing import Any
 
+from isolation.bearings.registry import bearing_type
 from isolation.codes.lateral_systems import LATERAL_SYSTEM_ROWS
 from isolation.codes.registry import DEFAULT_BASIS
 from isolation.codes.registry import PerBasis as _PerBasis
@@ -320,29 +321,9 @@ def _bearing_group(t: Reader) -> BearingSpec | None:
 
 
 def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
-    """Checks between keys of one bearing group."""
-    pairs = []
-    if kind == "friction_pendulum":
-        pairs = [("slider_height", "radius", "m"), ("friction_slow", "friction", "-")]
-    elif kind == "double_concave":
-        pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
-    elif kind == "triple_pendulum":
-        pairs = [("slider_height_outer", "radius_outer", "m"), ("slider_height_inner", "radius_inner", "m"),
-                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"),
-                 ("friction_1", "friction_4", "-")]
-    elif kind == "lead_rubber":
-        pairs = [("lead_diameter", "outer_diameter", "m")]
-    elif kind == "high_damping_rubber":
-        pairs = [("inner_diameter", "outer_diameter", "m")]
-    for small, large, unit in pairs:
-        a, b = props.get(small), props.get(large)
-        if a is None or b is None:
-            continue
-        strict = small not in ("friction_slow", "friction_1")
-        if (a >= b) if strict else (a > b):
-            relation = "<" if strict else "<="
-            t.problems.add(f"{t.path_of(small)} = {a:.4g} {unit} is not allowed: must be {relation} "
-                           f"{large} = {b:.4g} {unit}")
+    """Checks between keys of one bearing group (declared by the bearing type, see the registry)."""
+    for key, text in bearing_type(kind).problems(props):
+        t.problems.add(f"{t.path_of(key)} = {text}")
 
 
 def _share_axial_loads(specs: list, total_weight: float | None, t: Reader) -> list:
