@@ -494,12 +494,117 @@ def _stderr_to(path: Path):
         os.close(saved)
 
 
-def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
+KERNEL_ARGUMENTS = (
+    # Quiet the kernel's start-up warnings on stderr (loopback TCP on this machine); its errors still
+    # show. No IPython history file (nbclient's own choice for the kernels it starts).
+    "--IPKernelApp.log_level=ERROR", "--HistoryManager.hist_file=:memory:",
+)
+
+WARM_UP = ("import IPython.display, isolation.plots, isolation.report, isolation.runner, isolation.study, "
+           "isolation.tables", "del IPython, isolation")
+"""Lines the feasibility workbook's kernel runs as it starts (IPython ``exec_lines``): the modules its
+first cell imports, loaded while this process still checks the study; the names are deleted again,
+so the workbook's namespace is as if nothing ran."""
+
+
+def _fast_schema_import() -> None:
+    """Import jsonschema (nbformat's validator) without its optional IRI syntax checker.
+
+    jsonschema loads ``rfc3987_syntax`` when it is installed (jupyter-events asks for it), which
+    builds some forty grammars at import: about 1.5 s of every run. Notebooks never use that format
+    check, so it is skipped for this one import; a later ``import rfc3987_syntax`` works as usual.
+    """
+    if "jsonschema" in sys.modules or "rfc3987_syntax" in sys.modules:
+        return
+    sys.modules["rfc3987_syntax"] = None  # an import of it raises ImportError, which jsonschema expects
+    try:
+        import jsonschema  # noqa: F401
+    except ImportError:
+        pass
+    finally:
+        if "rfc3987_syntax" in sys.modules and sys.modules["rfc3987_syntax"] is None:
+            del sys.modules["rfc3987_syntax"]
+
+
+class _EarlyKernel:
+    """The workbook's kernel, started before the study is checked.
+
+    Its start-up (and, for the feasibility workbook, the imports of its first cell,
+    :data:`WARM_UP`) run beside the checks in this process; papermill then executes the
+    workbook on it. Its standard error goes to a temporary file, later copied into the
+    record's :data:`KERNEL_LOG`.
+    """
+
+    def __init__(self, warm_up: bool):
+        from jupyter_client.manager import AsyncKernelManager
+        from jupyter_core.utils import run_sync
+
+        self._sync = run_sync
+        self.log = tempfile.TemporaryFile()
+        self.km = AsyncKernelManager(kernel_name="python3")
+        arguments = list(KERNEL_ARGUMENTS)
+        if warm_up:
+            arguments += [f"--IPKernelApp.exec_lines={line}" for line in WARM_UP]
+        try:
+            run_sync(self.km.start_kernel)(stderr=self.log, extra_arguments=arguments)
+        except BaseException:
+            self.log.close()
+            raise
+
+    @classmethod
+    def start(cls, warm_up: bool) -> "_EarlyKernel | None":
+        """A started kernel, or None when it cannot start here (papermill then starts its own
+        and reports why in the record)."""
+        try:
+            return cls(warm_up)
+        except Exception:  # noqa: BLE001 - the run itself reports a kernel that cannot start
+            return None
+
+    def enter(self, folder: Path) -> None:
+        """Make ``folder`` the kernel's working folder (papermill's ``cwd`` for a kernel it starts)."""
+        client = self.km.blocking_client()
+        client.start_channels()
+        try:
+            client.wait_for_ready(timeout=60)
+            reply = client.execute_interactive(f"__import__('os').chdir({str(folder)!r})", silent=True,
+                                               store_history=False, timeout=60)
+        finally:
+            client.stop_channels()
+        if reply["content"].get("status") != "ok":
+            raise RunError(f"the workbook's kernel could not enter the record folder {str(folder)!r}")
+
+    def close(self, log: Path | None = None) -> None:
+        """Stop the kernel; append what it wrote to standard error to ``log`` (once; later calls do nothing)."""
+        if self.log.closed:
+            return
+        try:
+            if self.km.has_kernel:
+                self._sync(self.km.shutdown_kernel)(now=True)
+        except Exception:  # noqa: BLE001 - a kernel already gone
+            pass
+        try:
+            self.log.seek(0)
+            text = self.log.read()
+            if log is not None and text:
+                with open(log, "ab") as out:
+                    out.write(text)
+        except OSError:
+            pass
+        finally:
+            self.log.close()
+
+
+def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
+             kernel: _EarlyKernel | None = None) -> None:
     log = folder / KERNEL_LOG
     try:
         with _stderr_to(log):
-            _execute_quietly(notebook, folder, study_path, quick, timeout)
+            if kernel is not None:
+                kernel.enter(folder)
+            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel)
     finally:
+        if kernel is not None:
+            kernel.close(log)
         try:
             if log.stat().st_size == 0:
                 log.unlink()
@@ -507,7 +612,9 @@ def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout
             pass
 
 
-def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
+def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
+                     kernel: _EarlyKernel | None = None) -> None:
+    _fast_schema_import()
     import papermill
 
     papermill.execute_notebook(
@@ -516,9 +623,10 @@ def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool,
                     "quick": bool(quick)},
         cwd=str(folder), kernel_name="python3", progress_bar=False, log_output=False,
         execution_timeout=timeout,
-        # Quiet the kernel's start-up warnings on stderr (loopback TCP on this machine); its
-        # errors still show. A trait of nbclient's NotebookClient, passed on by papermill.
-        extra_arguments=["--IPKernelApp.log_level=ERROR"],
+        # A kernel papermill starts itself: the same arguments as the early one (a trait of nbclient's
+        # NotebookClient, passed on by papermill).
+        extra_arguments=list(KERNEL_ARGUMENTS),
+        km=None if kernel is None else kernel.km,
     )
 
 
@@ -576,6 +684,20 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
     KeyboardInterrupt
         Re-raised after an interrupted run was recorded as failed.
     """
+    # The workbook's kernel starts first: its start-up and imports overlap the checks below.
+    default = notebook is None or Path(notebook).resolve() == WORKBOOK.resolve()
+    kernel = _EarlyKernel.start(warm_up=default)
+    try:
+        return _run_record(study_file, out_dir, pdf=pdf, overrides=overrides, run_id=run_id, paper=paper,
+                           quick=quick, notebook=notebook, timeout=timeout, engine=engine,
+                           replace_failed=replace_failed, kernel=kernel)
+    finally:
+        if kernel is not None:
+            kernel.close()  # a no-op once the run has closed it
+
+
+def _run_record(study_file, out_dir, *, pdf, overrides, run_id, paper, quick, notebook, timeout, engine,
+                replace_failed, kernel) -> RecordOutcome:
     from isolation.validate import one_of
 
     try:
@@ -648,7 +770,7 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
         raise
     try:
         study_path, study = _prepare_inputs(study_file, overrides, folder)
-        _execute(notebook, folder, study_path, quick, timeout)
+        _execute(notebook, folder, study_path, quick, timeout, kernel)
         results = folder / "results.json"
         if not results.is_file():
             raise RunError("the workbook finished without writing results.json")
