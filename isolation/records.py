@@ -501,10 +501,10 @@ KERNEL_ARGUMENTS = (
 )
 
 WARM_UP = ("import IPython.display, isolation.plots, isolation.report, isolation.runner, isolation.study, "
-           "isolation.tables", "del IPython, isolation")
+           "isolation.tables", "isolation.runner.prepare()", "del IPython, isolation")
 """Lines the feasibility workbook's kernel runs as it starts (IPython ``exec_lines``): the modules its
-first cell imports, loaded while this process still checks the study; the names are deleted again,
-so the workbook's namespace is as if nothing ran."""
+first cell imports and :func:`isolation.runner.prepare`, loaded while this process still checks the
+study; the names are deleted again, so the workbook's namespace is as if nothing ran."""
 
 
 def _fast_schema_import() -> None:
