@@ -4,7 +4,7 @@ Ensemble: an invented 5-storey plan building (600 t floors, 3.5 m storeys, 30 m 
 centre of rigidity 1.0 m / 0.5 m off the centre of mass, 5 % accidental mass offset) on 30 bearings
 (6 x 5 grid): 11 component pairs x 3 property cases isolated plus the 11 fixed-base runs, 40 s at
 dt = 0.005 s (8,001 steps). Target: <= 5 s on one core; peak memory <= 1 GB.
-Reference in the same process: the planar engine (``isolation.history.run_cases``) on the x
+Reference in the same process: the planar engine (``isolation.dynamics.history.run_cases``) on the x
 components of the same motions, same superstructure and whole-plane isolator.
 
 Run: ``python -m benchmarks plan``. The motions are seeded synthetic noise (not recorded earthquakes).
@@ -23,11 +23,11 @@ import time  # noqa: E402
 import numpy as np  # noqa: E402
 
 from benchmarks.bench_history import BASE_MASS, DT, building, synthetic_motions  # noqa: E402
-from isolation import plan_kernel  # noqa: E402
+from isolation.dynamics import plan_kernel  # noqa: E402
 from isolation.bearings import FrictionPendulum, LeadRubber  # noqa: E402
-from isolation.history import run_cases  # noqa: E402
-from isolation.plan_history import run_plan, run_plan_cases  # noqa: E402
-from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid  # noqa: E402
+from isolation.dynamics.history import run_cases  # noqa: E402
+from isolation.dynamics.plan_history import run_plan, run_plan_cases  # noqa: E402
+from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid  # noqa: E402
 
 PLAN = (30.0, 20.0)
 COUNTS = (6, 5)

@@ -1,0 +1,228 @@
+"""Bidirectional response histories of a study's alternatives on the plan model.
+
+What a study asks for with ``[analysis] bidirectional = true``:
+
+* the plan superstructure: the planar shear building's floor masses, storey
+  stiffnesses and heights in both directions (the study gives one lateral
+  system, taken alike along the length and the width: an assumption stated in
+  the report), plan ``plan_length x plan_width`` with the centre of rigidity
+  ``eccentricity`` from the centre of mass along the length;
+* bearings on a grid over the plan (``grid`` of the alternative, or the grid
+  of the bearing count closest to the plan proportions), groups in the order
+  given, gravity loads in proportion to each group's axial load;
+* the accidental eccentricity as a mass offset of 5 % of the plan dimension
+  in each direction, four sign combinations run (ASCE/SEI 7-16 §12.8.4.2 and
+  §17.5.3.3 / EN 1998-1 §4.3.2(1); from memory);
+* lower and upper property sets, every pair of the matched suite of pairs.
+
+The total displacement from the histories is the suite mean of the largest
+bearing's peak resultant displacement, the largest over property sets and
+eccentricities.  The code's lower limit on response-history results applies:
+on an ASCE/SEI 7 basis the total displacement is not taken below 80 % of the
+single-mode D_TM (ASCE/SEI 7-16 §17.6.3.4 with Table 17.6-1 in 7-10 terms;
+from memory); EN 1998-1 §10.9 sets no such limit.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from isolation import GRAVITY
+from isolation.dynamics.plan_history import run_plan_cases
+from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
+
+__all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
+           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional"]
+
+#: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code basis.
+HISTORY_LOWER_LIMIT = {"asce7": 0.8, "eurocode": 0.0}
+
+#: Accidental eccentricity as a fraction of the plan dimension (both codes; from memory).
+ACCIDENTAL_ECCENTRICITY = 0.05
+
+
+def default_grid(count: int, length: float, width: float) -> tuple:
+    """Bearings along the length and the width whose product is ``count`` and spacing closest to square.
+
+    Parameters
+    ----------
+    count : int
+        Number of bearings, >= 1. [-]
+    length, width : float
+        Plan dimensions. [m]
+
+    Returns
+    -------
+    tuple of int
+    """
+    best, score = (count, 1), math.inf
+    for along in range(1, count + 1):
+        if count % along:
+            continue
+        across = count // along
+        spacing_l = length / max(along - 1, 1)
+        spacing_w = width / max(across - 1, 1)
+        value = abs(math.log(spacing_l / spacing_w))
+        if value < score - 1e-12:
+            best, score = (along, across), value
+    return best
+
+
+def plan_superstructure(planar, building) -> PlanShearBuilding:
+    """The planar superstructure on the study's plan (same storeys in both directions).
+
+    Parameters
+    ----------
+    planar : isolation.dynamics.structure.ShearBuilding
+        The study's planar superstructure. [-]
+    building : isolation.study.inputs.Building
+        The study's building (plan_length, plan_width, eccentricity [m]). [-]
+    """
+    return PlanShearBuilding(planar.masses, planar.stiffnesses, planar.stiffnesses, planar.heights,
+                             plan=(building.plan_length, building.plan_width),
+                             rigidity_offset=(building.eccentricity, 0.0), damping=planar.damping)
+
+
+def plan_bearings(system, case: str, displacement: float) -> tuple:
+    """One law object per bearing of an isolation system for a property case, with its gravity load.
+
+    Sliders keep their own law (friction scaled by the case's factor; forces follow the axial load);
+    other bearings use one bearing's backbone under the case's stiffness and strength factors, or,
+    for amplitude-dependent rubber, the equivalent bilinear at ``displacement`` [m].
+
+    Returns
+    -------
+    tuple of (list of bearing laws, list of axial loads [kN])
+    """
+    from isolation.bearings import Bilinear, MultiLinear
+    from isolation.bearings.damping_rubber import equivalent_bilinear
+
+    laws, loads = [], []
+    for group in system.groups:
+        factors = group.factors or system.factors
+        if group.is_sliding:
+            law = group.bearing.with_friction_factor(factors.friction.factor(case))
+        else:
+            whole = group.backbone(case, system.factors)
+            if isinstance(whole, (Bilinear, MultiLinear)):
+                law = whole.times(1.0 / group.count)
+            else:
+                law = equivalent_bilinear(whole.effective_stiffness(displacement) / group.count,
+                                          whole.effective_damping(displacement), displacement, 10.0)
+        laws += [law] * group.count
+        loads += [group.axial_load] * group.count
+    return laws, loads
+
+
+def _offsets(building) -> list:
+    ex = ACCIDENTAL_ECCENTRICITY * building.plan_length
+    ey = ACCIDENTAL_ECCENTRICITY * building.plan_width
+    return [(sx * ex, sy * ey) for sx in (1.0, -1.0) for sy in (1.0, -1.0)]
+
+
+def bidirectional_summary(study, alternative, system, structure, base_mass: float, pairs, design_total: float,
+                          design_displacement: float) -> dict:
+    """Run one alternative's plan model under the pairs and summarise it for the results and the verdict.
+
+    Parameters
+    ----------
+    study : isolation.study.inputs.Study
+        The study (building plan, basis). [-]
+    alternative : isolation.study.inputs.Alternative
+        Bearing groups and optional grid. [-]
+    system : isolation.bearings.IsolationSystem
+        The alternative's isolation system. [-]
+    structure : isolation.dynamics.structure.ShearBuilding
+        Planar superstructure of the study. [-]
+    base_mass : float
+        Mass of the isolation-plane floor. [t]
+    pairs : isolation.motions.MatchedPairs
+        Matched component pairs. [g]
+    design_total : float
+        Single-mode total displacement D_TM. [m]
+    design_displacement : float
+        Single-mode displacement D_M (for equivalent bilinear rubber). [m]
+
+    Returns
+    -------
+    dict
+        Plain numbers: history and code D_TM, the limit applied, the governing value, torsional
+        amplification, axial load extremes and uplift, per-bearing demand, one orbit.
+    """
+    building = study.building
+    superstructure = plan_superstructure(structure, building)
+    count = sum(g.count for g in system.groups)
+    grid = alternative.grid or default_grid(count, building.plan_length, building.plan_width)
+    positions = bearing_grid((building.plan_length, building.plan_width), grid)
+    weight = (base_mass + superstructure.total_mass) * GRAVITY
+    cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
+    peaks, axial_min, axial_max, centre, uplift, amplification = [], [], [], [], 0, []
+    worst = (-1.0, None)
+    for offset in _offsets(building):
+        buildings = []
+        for case in ("lower", "upper"):
+            laws, loads = cases[case]
+            share = np.asarray(loads) * weight / float(np.sum(loads))
+            buildings.append(PlanIsolatedBuilding(superstructure, base_mass, laws, positions,
+                                                  gravity_loads=tuple(share), mass_offset=offset))
+        for result in run_plan_cases(buildings, pairs.acceleration, pairs.dt):
+            peaks.append(result.bearing_displacement_peak.mean(axis=0))
+            axial_min.append(result.bearing_axial_force[..., 0].min(axis=0))
+            axial_max.append(result.bearing_axial_force[..., 1].max(axis=0))
+            centre.append(float(np.sqrt((result.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean()))
+            amplification.append(float(result.torsional_amplification.mean()))
+            uplift = max(uplift, int((result.uplift_steps > 0).any(axis=0).sum()))
+            corner = int(np.argmax(result.bearing_displacement_peak.max(axis=0)))
+            record = int(np.argmax(result.bearing_displacement_peak[:, corner]))
+            if result.bearing_displacement_peak[record, corner] > worst[0]:
+                step = max(1, result.isolator_displacement.shape[-1] // 2000)
+                worst = (float(result.bearing_displacement_peak[record, corner]), {
+                    "bearing": corner, "record": record,
+                    "centre": result.isolator_displacement[record, :, ::step].tolist(),
+                    "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
+    peaks = np.max(peaks, axis=0)
+    history_total = float(peaks.max())
+    limit = HISTORY_LOWER_LIMIT.get(study.basis, 0.0)
+    gravity = np.asarray(cases["lower"][1]) * weight / float(np.sum(cases["lower"][1]))
+    lowest = np.min(axial_min, axis=0)
+    capacity = getattr(system, "displacement_capacity", None)
+    return {
+        "grid": list(grid),
+        "positions_m": positions.tolist(),
+        "pair_check": pairs.check().to_dict(),
+        "total_displacement_history": history_total,
+        "total_displacement_code": float(design_total),
+        "lower_limit_factor": limit,
+        "total_displacement_governing": max(history_total, limit * float(design_total)),
+        "limit_governs": limit * float(design_total) > history_total,
+        "centre_displacement_history": max(centre),
+        "torsional_amplification": max(amplification),
+        "bearing_peak_displacement_m": peaks.tolist(),
+        "bearing_axial_min_kN": lowest.tolist(),
+        "bearing_axial_max_kN": np.max(axial_max, axis=0).tolist(),
+        "gravity_load_kN": gravity.tolist(),
+        "uplift_ratio": float(np.max((gravity - lowest) / gravity)),
+        "uplifted_bearings": uplift,
+        "displacement_capacity": capacity,
+        "orbit": worst[1],
+        "eccentricities_m": [list(o) for o in _offsets(building)],
+    }
+
+
+def with_bidirectional(figures, summary: dict):
+    """Verdict figures with the bidirectional results: governing D_TM, history D_TM and the uplift ratio.
+
+    Parameters
+    ----------
+    figures : isolation.verdict.Figures
+        Figures of the single-mode procedure and the planar histories. [-]
+    summary : dict
+        :func:`bidirectional_summary`. [-]
+    """
+    from dataclasses import replace
+
+    return replace(figures, total_displacement=summary["total_displacement_governing"],
+                   history_displacement=summary["total_displacement_history"],
+                   uplift_ratio=summary["uplift_ratio"])
