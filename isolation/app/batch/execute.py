@@ -37,7 +37,7 @@ from typing import Callable
 from isolation.app.batch.executors import executor_for, open_executor, terminate
 from isolation.app.batch.plan import BatchPlan
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
-from isolation.app.batch.summary import write_summary
+from isolation.app.batch.summary import preload_summary_writer, write_summary
 from isolation.files import write_text_atomic
 
 __all__ = [
@@ -315,6 +315,8 @@ def run_batch(
                     return
                 submit(queue.pop())
 
+        if pending or queue:
+            preload_summary_writer()  # while this process only waits for the workers
         try:
             top_up()
             while pending:
