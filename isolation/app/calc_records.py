@@ -25,6 +25,7 @@ from __future__ import annotations
 import contextlib
 import datetime as _dt
 import errno
+import functools
 import hashlib
 import json
 import os
@@ -612,13 +613,52 @@ def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout
             pass
 
 
+SAVE_INTERVAL = 5.0
+"""Seconds between saves of the executed workbook while it runs (:func:`_papermill_engine`). [s]"""
+
+
+@functools.lru_cache(maxsize=1)
+def _papermill_engine() -> str:
+    """Name of papermill's engine with fewer saves, registered once.
+
+    papermill writes the whole executed notebook before and after every cell: some fifty writes of
+    up to a few megabytes of figures for the feasibility workbook, while the kernel waits. This engine
+    saves at most every :data:`SAVE_INTERVAL` seconds in between (a run cut short still leaves a
+    recent notebook for diagnosis); papermill itself writes the complete notebook at the end and
+    the notebook with its error when a cell fails.
+    """
+    from papermill.engines import NBClientEngine, NotebookExecutionManager, papermill_engines
+
+    class Manager(NotebookExecutionManager):
+        def save(self, **kwargs):
+            if (self.now() - self.last_save_time).total_seconds() >= SAVE_INTERVAL:
+                super().save(**kwargs)
+
+    class Engine(NBClientEngine):
+        @classmethod
+        def execute_notebook(cls, nb, kernel_name, output_path=None, progress_bar=True, log_output=False,
+                             autosave_cell_every=30, **kwargs):
+            manager = Manager(nb, output_path=output_path, progress_bar=progress_bar, log_output=log_output,
+                              autosave_cell_every=autosave_cell_every)
+            manager.notebook_start()
+            try:
+                cls.execute_managed_notebook(manager, kernel_name, log_output=log_output, **kwargs)
+            finally:
+                manager.cleanup_pbar()
+                manager.notebook_complete()
+            return manager.nb
+
+    papermill_engines.register("isolation-records", Engine)
+    return "isolation-records"
+
+
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
                      kernel: _EarlyKernel | None = None) -> None:
     _fast_schema_import()
     import papermill
 
     papermill.execute_notebook(
-        str(notebook), str(folder / "feasibility.ipynb"),
+        str(notebook), str(folder / "feasibility.ipynb"), engine_name=_papermill_engine(),
         parameters={"study_path": study_path, "output_dir": ".", "results_path": "results.json",
                     "quick": bool(quick)},
         cwd=str(folder), kernel_name="python3", progress_bar=False, log_output=False,
