@@ -13,13 +13,14 @@ not bit for bit.  Without numba the array version runs.
 from __future__ import annotations
 
 import math
+from typing import Callable
 
 import numpy as np
 
 try:  # numba is optional: the array version is the fallback
     from numba import njit
 except ImportError:  # pragma: no cover - exercised where numba is missing
-    njit = None
+    njit = None  # type: ignore[assignment]  # the optional import's stand-in
 
 __all__ = ["available", "isolated_loop"]
 
@@ -28,8 +29,8 @@ available = njit is not None
 _EDGE = 1.0 - 1e-15
 
 
-def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength, inv_ey,
-              c2, commit, uplift, axial_min, axial_max):
+def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength,
+                     inv_ey, c2, commit, uplift, axial_min, axial_max):
     """Resultant bearing forces (x, y, moment) for base motion ``ub``; with ``commit`` the states advance."""
     nb = pos.shape[0]
     ne = strength.shape[2]
@@ -169,13 +170,13 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 tmp2[j] = c2 * u[j] + v[j]
             for j in range(nd):
                 s = -(mr[j, 0] * g0 + mr[j, 1] * g1)
-                for l in range(nd):
-                    s += m[j, l] * tmp[l] + c[j, l] * tmp2[l]
+                for q in range(nd):
+                    s += m[j, q] * tmp[q] + c[j, q] * tmp2[q]
                 rhs[j] = s
             for j in range(nd):
                 s = 0.0
-                for l in range(nd):
-                    s += rhs[l] * k_inv[l, j]
+                for q in range(nd):
+                    s += rhs[q] * k_inv[q, j]
                 u_lin[j] = s
             # overturning moment of the previous step's inertial forces
             moment_x = 0.0
@@ -194,8 +195,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 axial[b] = share
             for i in range(3):
                 s = u_lin[i]
-                for l in range(3):
-                    s -= force[l] * k_inv[l, i]
+                for q in range(3):
+                    s -= force[q] * k_inv[q, i]
                 ub[i] = s
             converged = False
             for _ in range(max_iterations):
@@ -233,8 +234,8 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
                 w = v[j] + v_next[j]
                 s_in += w * (mr[j, 0] * (g[col, 0, n] + g0) + mr[j, 1] * (g[col, 1, n] + g1))
                 t2 = 0.0
-                for l in range(nd):
-                    t2 += c[j, l] * (v[l] + v_next[l])
+                for q in range(nd):
+                    t2 += c[j, q] * (v[q] + v_next[q])
                 s_damp += w * t2
             e_in -= 0.25 * dt * s_in
             e_damp += 0.25 * dt * s_damp
@@ -254,12 +255,14 @@ def _isolated_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, ve
         energy[col, 3] = peak_in
         kinetic = 0.0
         for j in range(nd):
-            for l in range(nd):
-                kinetic += 0.5 * v[j] * m[j, l] * v[l]
+            for q in range(nd):
+                kinetic += 0.5 * v[j] * m[j, q] * v[q]
         energy[col, 4] = kinetic
     return 0
 
 
+_bearings: Callable[..., tuple[float, float, float]]
+isolated_loop: Callable[..., int] | None
 if available:
     _bearings = njit(cache=True)(_bearings_python)
     isolated_loop = njit(cache=True)(_isolated_loop)

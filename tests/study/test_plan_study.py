@@ -12,13 +12,12 @@ from __future__ import annotations
 
 import dataclasses
 import json
+import tomllib
 
 import pytest
 
-from isolation.study.plan import ACCIDENTAL_ECCENTRICITY, HISTORY_LOWER_LIMIT, default_grid
-import tomllib
-
 from isolation.study import StudyError, load_study, parse_study
+from isolation.study.plan import ACCIDENTAL_ECCENTRICITY, HISTORY_LOWER_LIMIT, default_grid
 
 DEMO = "examples/demo_study.toml"
 
@@ -97,8 +96,7 @@ def test_bidirectional_study_end_to_end(tmp_path):
                                                        b["bearing_axial_max_kN"]))
     assert results.suite["pairs"]["pair_spectrum"] == "RotD100"
     # the report's table and figures are made from these results
-    from isolation.output import plots
-    from isolation.output import tables
+    from isolation.output import plots, tables
 
     table = tables.bidirectional_table(results.alternatives[0])
     governing = results.alternatives[0].history["bidirectional"]["total_displacement_governing"]
@@ -109,7 +107,8 @@ def test_bidirectional_study_end_to_end(tmp_path):
     assert plots.pairs_figure(results.live["pairs"]).axes
     path = results.save(tmp_path / "results.json")
     again = load_results(path)
-    assert again.alternatives[0].history["bidirectional"]["grid"] == results.alternatives[0].history["bidirectional"]["grid"]
+    assert (again.alternatives[0].history["bidirectional"]["grid"]
+            == results.alternatives[0].history["bidirectional"]["grid"])
     json.loads(path.read_text())
 
 

@@ -54,7 +54,7 @@ import io
 import math
 import sys
 from pathlib import Path
-from typing import Any, Iterable, Mapping
+from typing import Any, Iterable, Mapping, Sequence
 
 from isolation.files import write_bytes_atomic, write_text_atomic
 
@@ -180,7 +180,7 @@ def preload_summary_writer() -> None:
     threading.Thread(target=load, name="summary-writer-import", daemon=True).start()
 
 
-def write_summary(rows: list[Mapping], out_dir: Path, override_keys: Iterable[str]) -> list[Path]:
+def write_summary(rows: Sequence[Mapping], out_dir: Path, override_keys: Iterable[str]) -> list[Path]:
     """Write ``summary.csv`` (and ``summary.parquet`` with pyarrow) in ``out_dir``.
 
     Parameters

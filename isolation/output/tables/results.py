@@ -52,7 +52,8 @@ def inputs_table(results: Any) -> Table:
             rows.append((label, site[key], unit))
     if site.get("long_period") is not None:
         rows.append(("T_L (long-period transition)", site["long_period"], "s"))
-    for key, label in (("site_class", "Site class"), ("ground_type", "Ground type"), ("spectrum_type", "Spectrum type")):
+    for key, label in (("site_class", "Site class"), ("ground_type", "Ground type"),
+                       ("spectrum_type", "Spectrum type")):
         if site.get(key) is not None:
             rows.append((label, site[key], ""))
     if site.get("spectrum_file"):
@@ -284,7 +285,8 @@ def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
         return None if value is None else _display(value, kind, system)[0]
 
     rows = (
-        (f"D_TM from the histories (largest bearing, suite mean) [{length}]", show(b["total_displacement_history"], "length")),
+        (f"D_TM from the histories (largest bearing, suite mean) [{length}]",
+         show(b["total_displacement_history"], "length")),
         (f"D_TM of the single-mode procedure [{length}]", show(b["total_displacement_code"], "length")),
         ("Lower limit on history results [x single-mode D_TM]", b["lower_limit_factor"]),
         (f"D_TM used by the verdict [{length}]", show(b["total_displacement_governing"], "length")),
