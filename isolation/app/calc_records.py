@@ -517,7 +517,8 @@ def _fast_schema_import() -> None:
     """
     if "jsonschema" in sys.modules or "rfc3987_syntax" in sys.modules:
         return
-    sys.modules["rfc3987_syntax"] = None  # an import of it raises ImportError, which jsonschema expects
+    # An import of it then raises ImportError, which jsonschema expects.
+    sys.modules["rfc3987_syntax"] = None  # type: ignore[assignment]
     try:
         import jsonschema  # noqa: F401
     except ImportError:

@@ -17,7 +17,7 @@ import numpy as np
 try:  # numba is a dependency; the lfilter loop stays as the fallback and the reference
     from numba import njit
 except ImportError:  # pragma: no cover - exercised where numba is missing
-    njit = None
+    njit = None  # type: ignore[assignment]  # the optional import's stand-in
 
 __all__ = ["peak_abs", "peak_abs_filtered", "available"]
 

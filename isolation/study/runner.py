@@ -249,7 +249,7 @@ def prepare() -> None:
     convert(1.0, "m", "mm")
     motion = 0.3 * np.sin(np.linspace(0.0, 12.0, 40))
     response_spectrum(np.stack([motion, motion]), 0.02, [0.5, 1.0])
-    building = ShearBuilding([100.0, 100.0], [2.0e5, 2.0e5], [3.0, 3.0], yield_shears=[300.0, 200.0])
+    building = ShearBuilding((100.0, 100.0), (2.0e5, 2.0e5), (3.0, 3.0), yield_shears=(300.0, 200.0))
     isolators = {"lower": Bilinear(2000.0, 100.0, 50.0),
                  "upper": FrictionPendulum(radius=2.0, friction=0.06, friction_slow=0.03)}
     run_cases(building, 100.0, isolators, np.stack([motion, motion]), 0.02)

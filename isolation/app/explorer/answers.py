@@ -457,8 +457,9 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
     study = points[0][1]  # the swept bearing changes neither the site nor the building
     spectrum, weight = site_spectrum(study), study.building.total_weight
     rule = "asce7" if study.basis == "asce7" else "eurocode"
+    bounds: list = []
     try:
-        bounds = design_bounds_many([sets for *_, sets in points], weight, spectrum, rule)
+        bounds = list(design_bounds_many([sets for *_, sets in points], weight, spectrum, rule))
     except (ValueError, RunError):  # a point without an answer: each alone, so the others still count
         bounds = []
         for *_, sets in points:
