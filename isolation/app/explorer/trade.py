@@ -106,7 +106,7 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
         return TradeOff(parameter, values, displacement, shear)
     study = points[0][1]  # the swept bearing changes neither the site nor the building
     spectrum, weight = site_spectrum(study), study.building.total_weight
-    rule = "asce7" if study.basis == "asce7" else "eurocode"
+    rule = spectrum.rule  # the damping rule of the study's code basis, as the scalar path takes it
     bounds: list = []
     try:
         bounds = list(design_bounds_many([sets for *_, sets in points], weight, spectrum, rule))
