@@ -97,11 +97,17 @@ def history_chunk(count: int, workers: int, records: int, steps: int) -> int:
         project's demo study; cases of a task are stepped together, so more
         per task is cheaper per case), and at most count/(2 max(workers, 2))
         so every worker gets work (one worker gets the chunks two would, so
-        their timings compare).
+        their timings compare). The tasks are then made equal and their
+        number a multiple of max(workers, 2): no worker runs the last chunk
+        alone while the others wait (with 11 chunks of 23 and one of 3, two
+        workers would share 256 variants 138 to 118).
     """
     per_variant = 2 * records * steps * 2e-6  # two bounds [s]
-    size = max(1, int(TARGET_TASK / max(per_variant, 1e-9)))
-    return max(1, min(size, -(-count // (2 * max(int(workers), 2)))))
+    lanes = max(int(workers), 2)
+    size = max(1, min(max(1, int(TARGET_TASK / max(per_variant, 1e-9))), -(-count // (2 * lanes))))
+    tasks = -(-count // size)
+    tasks = -(-tasks // lanes) * lanes
+    return max(1, -(-count // tasks))
 
 
 # --- the runs ---------------------------------------------------------------------------------
@@ -192,7 +198,7 @@ def _context(study, ckey, acc: np.ndarray, dt: float, fixed_file: Mapping) -> di
     fingerprint = _structure_fingerprint(comparison.building)
     fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
     return {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
-            "rule": "asce7" if study.basis == "asce7" else "eurocode",
+            "rule": spectrum.rule,
             "comparison": comparison, "fixed": fixed_runs["statistics"],
             "fixed_indicators": fixed_runs["indicators"],
             "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),
