@@ -7,7 +7,7 @@ uses it, whether its text was re-read from a published source for this table ("r
 the note names the source) or not ("from memory"), and the files that cite it.
 :data:`CLAUSES` holds them all (rows in :mod:`isolation.codes.clause_rows`);
 :func:`find_clause` looks one up and :func:`isolation.output.tables.clause_table` prints them for the
-report (the output layer sits above the codes; ``clause_table`` is still answered here).
+report (the output layer sits above the codes).
 
 Every citation in the package's strings, docstrings, comments and workbooks has a row
 here (``tests/codes/test_clauses.py`` reads them with
@@ -177,16 +177,6 @@ def check_rows(root=None) -> list[str]:
             gone = "" if used else " (no longer cited: remove the row)"
             out.append(f"used_in of {clause.reference}: {used!r}{gone}")
     return out
-
-
-def __getattr__(name: str):
-    """``clause_table`` moved to :mod:`isolation.output.tables.clauses` (the table layer sits above the
-    codes); the name is still answered here, loaded only when asked for."""
-    if name == "clause_table":
-        from isolation.output.tables.clauses import clause_table
-
-        return clause_table
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
 
 
 if __name__ == "__main__":  # python -m isolation.codes.clauses: what to change in clause_rows.py

@@ -13,7 +13,8 @@ from pathlib import Path
 import pytest
 
 from isolation.codes.citations import Citation, citations, package_citations
-from isolation.codes.clauses import CLAUSES, STATUSES, Clause, clause_table, find_clause
+from isolation.codes.clauses import CLAUSES, STATUSES, Clause, find_clause
+from isolation.output.tables import clause_table
 
 ROOT = Path(__file__).resolve().parents[2]
 KEYS = {c.key for c in CLAUSES}

@@ -1,7 +1,7 @@
 """The clause table for the report: every code clause the package cites (:data:`isolation.codes.clauses.CLAUSES`).
 
 :func:`clause_table` lives in the output layer, above the codes (the numeric core imports nothing
-from output); ``isolation.codes.clauses.clause_table`` still answers it.
+from output).
 """
 
 from __future__ import annotations
