@@ -40,7 +40,7 @@ from isolation import verdict as _verdict
 from isolation.errors import RunError
 from isolation.files import write_text_atomic
 from isolation.plain import plain
-from isolation.plan_study import bidirectional_summary, with_bidirectional
+from isolation.plan_study import bidirectional_summary, fixed_base_summary, with_bidirectional
 from isolation.study import Study
 from isolation.study_model import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
                                    history_isolator, history_summary, isolation_system, site_spectrum,
@@ -283,7 +283,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         fixed_elastic = run_history(structure, suite.acceleration, suite.dt) if comparison.yielding else fixed
         pairs = (_pair_suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
                  if study.analysis.bidirectional else None)
-    except (ValueError, RunError) as error:
+        fixed_plan = fixed_base_summary(study, comparison.building, pairs) if pairs is not None else None
+    except (ValueError, RuntimeError) as error:
         raise RunError(f"motion suite / fixed-base history failed: {' '.join(str(error).split())}") from error
     timings["suite"] = time.perf_counter() - mark
     fixed_stats = fixed.statistics()
@@ -329,8 +330,9 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         bidirectional = None
         if pairs is not None:
             try:
-                bidirectional = bidirectional_summary(study, alternative, system, structure, base_mass, pairs,
-                                                      quantities["total_displacement"], quantities["displacement"])
+                bidirectional = bidirectional_summary(study, alternative, system, above, base_mass, pairs,
+                                                      quantities["total_displacement"], quantities["displacement"],
+                                                      fixed_base=fixed_plan)
             except (ValueError, RuntimeError) as error:
                 raise RunError(f"alternative {alternative.name!r}: bidirectional history failed: "
                                f"{' '.join(str(error).split())}") from error
