@@ -28,7 +28,7 @@ from isolation.verdict_sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
-           "bearing_uplift_check",
+           "bearing_uplift_check", "overturning_inputs",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
@@ -421,7 +421,21 @@ def bearing_uplift_check(study, spectrum, alternative, report):
     storey forces (§17.5.5); Eurocode: the superstructure's share V W_s/W at the height of
     its mass centre (rigid-body translation above the isolators, derived).
     """
-    from isolation.overturning import asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction
+    from isolation.overturning import bearing_uplift
+
+    shear, height, factor, vertical, source = overturning_inputs(study, spectrum, report)
+    groups = [(spec.count, spec.axial_load) for spec in alternative.bearings]
+    return bearing_uplift(shear, height, groups, study.building.plan_length, study.building.plan_width,
+                          gravity_factor=factor, vertical_fraction=vertical, source=source)
+
+
+def overturning_inputs(study, spectrum, report) -> tuple:
+    """(shear [kN], height [m], gravity factor [-], vertical fraction [-], source) of the uplift check.
+
+    The lateral force on the superstructure and the height of its resultant, and the load
+    combination's factor on gravity and vertical earthquake (see :func:`bearing_uplift_check`).
+    """
+    from isolation.overturning import asce7_vertical_fraction, eurocode_vertical_fraction
 
     b = study.building
     heights = np.cumsum(b.storey_heights)
@@ -440,9 +454,7 @@ def bearing_uplift_check(study, spectrum, alternative, report):
         else:
             ag, kind = _plateau(spectrum) / 2.5, 1
         factor, vertical, source = eurocode_vertical_fraction(ag, kind)
-    groups = [(spec.count, spec.axial_load) for spec in alternative.bearings]
-    return bearing_uplift(shear, height, groups, b.plan_length, b.plan_width, gravity_factor=factor,
-                          vertical_fraction=vertical, source=source)
+    return shear, height, factor, vertical, source
 
 
 def verdict_figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
