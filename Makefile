@@ -11,7 +11,7 @@ $(STAMP): pyproject.toml
 	test -x $(PY) || $(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install -q --upgrade pip
 	$(PY) -m pip install -q -e ".[test]"
-	$(PY) -m isolation.workbook_saving
+	$(PY) -m isolation.app.workbook_saving
 	touch $(STAMP)
 
 demo: $(STAMP)
@@ -24,7 +24,7 @@ bench: $(STAMP)
 	$(PY) -m benchmarks
 
 # Mutation testing (mutmut) of the numeric core, one module at a time in .mutation/<module>/;
-# hours for all of them, so not in CI. Choose modules: make mutation MODULES="design_asce7 spectra"
+# hours for all of them, so not in CI. Choose modules: make mutation MODULES="codes/asce7 site/spectra"
 mutation: $(STAMP)
 	$(PY) -m pip install -q -e ".[mutation]"
 	$(PY) -m mutation $(MODULES)

@@ -43,7 +43,7 @@ def _batch(folder: Path, radii, frictions) -> Path:
 
 
 def _timed_batch(path: Path, out: Path, workers: int, runner, quick: bool) -> tuple[float, int]:
-    from isolation.batch import load_batch, run_batch, validate_plan
+    from isolation.app.batch import load_batch, run_batch, validate_plan
 
     plan = load_batch(path)
     hashes = validate_plan(plan, settings={"quick": quick})
@@ -57,7 +57,7 @@ def _timed_batch(path: Path, out: Path, workers: int, runner, quick: bool) -> tu
 
 def _timed_command(argv: list[str]) -> float:
     """Wall time of ``python -m isolation batch ARGV`` run in this process. [s]"""
-    from isolation.batch import main as batch
+    from isolation.app.batch import main as batch
 
     started = time.perf_counter()
     with contextlib.redirect_stdout(io.StringIO()):
@@ -68,7 +68,7 @@ def _timed_command(argv: list[str]) -> float:
 
 
 def bench_records(variants: int, quick: bool) -> None:
-    from isolation.batch.runners import record_runner
+    from isolation.app.batch.runners import record_runner
 
     radii = [round(2.0 + 0.25 * i, 2) for i in range(variants)]
     with tempfile.TemporaryDirectory() as scratch:
@@ -84,7 +84,7 @@ def bench_records(variants: int, quick: bool) -> None:
 
 
 def bench_sweep(count: int) -> None:
-    from isolation.batch.sweep import design_rows
+    from isolation.app.batch.sweep import design_rows
     from isolation.study import load_study
 
     side = max(2, int(round(count ** 0.5)))

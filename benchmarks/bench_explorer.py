@@ -13,7 +13,7 @@ drawn (a MutationObserver); the difference is the latency a person sees.
 Target (issue 13): median <= 150 ms per change on the development machine.
 Printed: median and max per kind of change, and the ratio of the overall
 median to a reference run in this process - the median time of the
-callback itself (:func:`isolation.explore.explore`) for the same settings -
+callback itself (:func:`isolation.app.explorer.answers.explore`) for the same settings -
 i.e. how much the browser, the widget messages and drawing add over the core.
 """
 
@@ -76,8 +76,8 @@ def _switch(page, name: str):
 def main() -> None:
     from playwright.sync_api import sync_playwright
 
-    from isolation import explore
-    from isolation.explorer.browser import ExplorerServer, chromium_path, launch, open_explorer
+    from isolation.app.explorer import answers as explore
+    from isolation.app.explorer.browser import ExplorerServer, chromium_path, launch, open_explorer
 
     if chromium_path() is None:
         print("chromium missing (Debian package 'chromium'): benchmark not run")

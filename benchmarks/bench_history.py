@@ -43,8 +43,8 @@ import scipy.signal  # noqa: E402
 
 from isolation import GRAVITY  # noqa: E402
 from isolation.bearings import FrictionPendulum, LeadRubber  # noqa: E402
-from isolation.history import BoucWen, run, run_cases  # noqa: E402
-from isolation.structure import ShearBuilding  # noqa: E402
+from isolation.dynamics.history import BoucWen, run, run_cases  # noqa: E402
+from isolation.dynamics.structure import ShearBuilding  # noqa: E402
 
 DT = 0.005
 DURATION = 40.0
@@ -157,7 +157,7 @@ def opensees_roof(structure, acceleration, dt):
 
 
 def main() -> None:
-    from isolation.newmark import compiled_available
+    from isolation.dynamics.newmark import compiled_available
 
     motions = synthetic_motions()
     structure = building()

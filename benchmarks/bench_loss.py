@@ -4,7 +4,7 @@ Run: ``python -m benchmarks loss`` or ``python benchmarks/bench_loss.py``.
 
 Both runs in this process, on the invented demo study, full suite (not quick):
 
-1. Reference: :func:`isolation.runner.run_study` with ``loss=False``.
+1. Reference: :func:`isolation.study.runner.run_study` with ``loss=False``.
 2. With the loss study (5 intensity levels x the suite, fixed base and every
    alternative, Monte Carlo): ``loss=True``.
 
@@ -27,7 +27,7 @@ TARGET_RATIO = 2.0
 
 
 def main() -> None:
-    from isolation.runner import run_study
+    from isolation.study.runner import run_study
     from isolation.study import load_study
 
     study = load_study(STUDY)

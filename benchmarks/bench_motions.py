@@ -30,7 +30,7 @@ from scipy.signal import lsim  # noqa: E402
 from isolation import GRAVITY  # noqa: E402
 
 from isolation.motions import matched_suite, response_spectrum  # noqa: E402
-from isolation.spectra import CodeSpectrum  # noqa: E402
+from isolation.site.spectra import CodeSpectrum  # noqa: E402
 
 
 def _lsim_spectrum(records: np.ndarray, dt: float, periods: np.ndarray, damping: float) -> np.ndarray:

@@ -6,7 +6,7 @@ centre of rigidity 1.0 m / 0.5 m off the centre of mass, 5 % accidental mass off
 dt = 0.005 s (8,001 steps). Storeys yield in x and in y (the strengths of the planar yielding
 benchmark, ``bench_history.yielding_building``, in both directions, 5 % hardening, P-delta);
 the elastic-storey run is printed beside it. Target: <= 5 s on one core; peak memory <= 1 GB.
-Reference in the same process: the planar engine (``isolation.history.run_cases``) on the x
+Reference in the same process: the planar engine (``isolation.dynamics.history.run_cases``) on the x
 components of the same motions, same yielding superstructure and whole-plane isolator.
 
 Run: ``python -m benchmarks plan``. The motions are seeded synthetic noise (not recorded earthquakes).
@@ -25,11 +25,11 @@ import time  # noqa: E402
 import numpy as np  # noqa: E402
 
 from benchmarks.bench_history import BASE_MASS, DT, building, synthetic_motions, yielding_building  # noqa: E402
-from isolation import plan_kernel  # noqa: E402
+from isolation.dynamics import plan_kernel  # noqa: E402
 from isolation.bearings import FrictionPendulum, LeadRubber  # noqa: E402
-from isolation.history import run_cases  # noqa: E402
-from isolation.plan_history import run_plan, run_plan_cases  # noqa: E402
-from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid  # noqa: E402
+from isolation.dynamics.history import run_cases  # noqa: E402
+from isolation.dynamics.plan_history import run_plan, run_plan_cases  # noqa: E402
+from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid  # noqa: E402
 
 PLAN = (30.0, 20.0)
 COUNTS = (6, 5)

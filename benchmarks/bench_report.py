@@ -7,11 +7,11 @@ into a record without a report (full motion suite, as ``make demo``).
 
 Timed, in one process, on that record's executed workbook:
 
-1. Typst engine (:func:`isolation.report.render`, ``engine="typst"``): the
+1. Typst engine (:func:`isolation.output.report.render`, ``engine="typst"``): the
    first render (fonts loaded, cold) and the median of three more; each split
    into preparing the notebook and writing the Typst source
-   (:func:`isolation.typeset.build_document`) and typesetting it
-   (:func:`isolation.typeset.compile_pdf`).
+   (:func:`isolation.output.typeset.build_document`) and typesetting it
+   (:func:`isolation.output.typeset.compile_pdf`).
 2. Reference: the LaTeX engine (``engine="latex"``: nbconvert's LaTeX exporter
    and two XeLaTeX runs) on the same workbook, when XeLaTeX and pandoc are
    installed; else the HTML fallback.
@@ -49,8 +49,8 @@ def _pages(pdf: Path) -> str:
 def _typst_split(notebook: Path) -> tuple[float, float]:
     import nbformat
 
-    from isolation.typeset import build_document, compile_pdf
-    from isolation.typeset.exporter import prepare
+    from isolation.output.typeset import build_document, compile_pdf
+    from isolation.output.typeset.exporter import prepare
 
     started = time.perf_counter()
     nb, fields, paper = prepare(nbformat.read(notebook, as_version=4))
@@ -61,8 +61,8 @@ def _typst_split(notebook: Path) -> tuple[float, float]:
 
 
 def main() -> None:
-    from isolation import report
-    from isolation.records import run_record
+    from isolation.output import report
+    from isolation.app.calc_records import run_record
 
     folder = Path(tempfile.mkdtemp(prefix="bench_report_"))
     try:

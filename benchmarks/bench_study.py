@@ -4,10 +4,10 @@ Run: ``python -m benchmarks study`` or ``python benchmarks/bench_study.py``.
 
 Steps timed, in one process (the machine's state at the time is part of the figure):
 
-1. Reference: :func:`isolation.runner.run_study` on the demo study in this
+1. Reference: :func:`isolation.study.runner.run_study` on the demo study in this
    process (design, full motion suite, response histories, verdict) - the
    numeric core alone.
-2. End to end: :func:`isolation.records.run_record` with the PDF report, as
+2. End to end: :func:`isolation.app.calc_records.run_record` with the PDF report, as
    ``python -m isolation demo`` does it (kernel start, workbook with its
    figures and tables, results JSON, report with the default engine, manifest),
    with its breakdown: kernel start (and papermill's own work), imports in the
@@ -49,9 +49,9 @@ def _peak_bytes(who: int) -> int:
 
 
 def main() -> None:
-    from isolation.records import run_record
-    from isolation.report import missing_tools
-    from isolation.runner import run_study
+    from isolation.app.calc_records import run_record
+    from isolation.output.report import missing_tools
+    from isolation.study.runner import run_study
     from isolation.study import load_study
 
     missing = missing_tools()
@@ -64,7 +64,7 @@ def main() -> None:
     steps = ", ".join(f"{k} {v:.2f} s" for k, v in results.run["timings"].items())
     print(f"reference run_study (in process): {core:.2f} s  [{steps}]")
 
-    import isolation.report as report_module
+    import isolation.output.report as report_module
 
     rendering: dict[str, float] = {}
     render = report_module.render

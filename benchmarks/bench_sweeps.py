@@ -60,9 +60,9 @@ def _batch(folder: Path, radii, frictions, name: str) -> Path:
 
 
 def bench_kernel(side: int) -> None:
-    from isolation import study_model as model
+    from isolation.study import assembly as model
     from isolation.design import design_bounds
-    from isolation.design_array import design_bounds_many
+    from isolation.design.array_kernel import design_bounds_many
     from isolation.study import load_study
 
     study = load_study(STUDY)
@@ -151,7 +151,7 @@ def _history_run(path: Path, out: Path, workers: int) -> tuple[float, str]:
 
 
 def bench_histories(count: int, ratio_count: int) -> None:
-    from isolation.batch.histories import MOTIONS_FOLDER
+    from isolation.app.batch.histories import MOTIONS_FOLDER
 
     with tempfile.TemporaryDirectory() as scratch:
         folder = Path(scratch)

@@ -4,8 +4,8 @@ Run: ``python -m benchmarks validation`` (or ``python benchmarks/bench_validatio
 
 A 100 x 100 grid over the invented demo study (friction-pendulum radius and
 friction of the first alternative) is loaded and validated as ``batch
---check --direct`` does (:func:`isolation.batch.load_batch`,
-:func:`isolation.batch.validate_plan` without model checks). Target: 10^4
+--check --direct`` does (:func:`isolation.app.batch.load_batch`,
+:func:`isolation.app.batch.validate_plan` without model checks). Target: 10^4
 variants in <= 5 s. The reference, in the same process, is the per-variant
 path every variant used to take (deep copy, full parse, full hash), timed
 over a sample and scaled to the same count; the ratio is reference / batch.
@@ -43,7 +43,7 @@ def _batch(folder: Path, side: int) -> Path:
 
 def _reference(plan, sample: int) -> float:
     """CPU seconds per variant of the old path: apply_overrides (deep copy), parse_study, hash of to_dict."""
-    from isolation.batch.check import variant_hash
+    from isolation.app.batch.check import variant_hash
     from isolation.study import apply_overrides, parse_study, read_study_mapping
 
     base = read_study_mapping(plan.study_file)
@@ -58,7 +58,7 @@ def _reference(plan, sample: int) -> float:
 
 def bench(variants: int = 10_000) -> dict:
     from isolation import units
-    from isolation.batch import load_batch, validate_plan
+    from isolation.app.batch import load_batch, validate_plan
 
     units.parse_quantity("1 m", "length", field="warm-up")  # the unit registry is built once per process
     side = max(1, round(variants ** 0.5))

@@ -13,3 +13,8 @@ GRAVITY = 9.80665
 """Standard acceleration of gravity. [m/s2]"""
 
 __all__ = ["__version__", "GRAVITY"]
+
+# Modules moved into folders by concern keep their old import paths.
+from isolation import _moved  # noqa: E402
+
+_moved.install()

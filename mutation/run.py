@@ -36,22 +36,22 @@ ROOT = Path(__file__).resolve().parents[1]
 SCRATCH = ROOT / ".mutation"
 
 MODULES: dict[str, tuple[str, ...]] = {
-    "design_asce7": ("tests/test_design.py", "tests/test_code_procedures.py"),
-    "design_eurocode": ("tests/test_design.py", "tests/test_code_procedures.py"),
-    "fixed_base": ("tests/test_design.py", "tests/test_code_procedures.py"),
-    "verdict_rules": ("tests/test_verdict.py",),
-    "verdict_site": ("tests/test_verdict.py",),
-    "verdict_sources": ("tests/test_verdict.py", "tests/test_code_procedures.py"),
-    "overturning": ("tests/test_code_procedures.py",),
-    "spectra": ("tests/test_spectra.py", "tests/test_design.py", "tests/test_code_procedures.py"),
-    "damping": ("tests/test_spectra.py", "tests/test_design.py"),
-    "design": ("tests/test_design.py", "tests/test_code_procedures.py"),
-    "bearings/backbone": ("tests/test_backbone.py", "tests/test_bearings_system.py"),
-    "bearings/friction": ("tests/test_bearings_friction.py",),
-    "bearings/rubber": ("tests/test_bearings_rubber.py",),
-    "bearings/system": ("tests/test_bearings_system.py",),
-    "newmark": ("tests/test_history.py", "tests/test_history_reference.py", "tests/test_history_isolators.py"),
-    "isolators": ("tests/test_history_isolators.py", "tests/test_history_reference.py"),
+    "codes/asce7": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "codes/eurocode": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "codes/asce7_fixed_base": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "verdict/rules": ("tests/verdict/test_verdict.py",),
+    "verdict/site": ("tests/verdict/test_verdict.py",),
+    "verdict/sources": ("tests/verdict/test_verdict.py", "tests/codes/test_code_procedures.py"),
+    "design/overturning": ("tests/codes/test_code_procedures.py",),
+    "site/spectra": ("tests/site/test_spectra.py", "tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "site/damping": ("tests/site/test_spectra.py", "tests/design/test_design.py"),
+    "design/single_mode": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "bearings/backbone": ("tests/bearings/test_backbone.py", "tests/bearings/test_bearings_system.py"),
+    "bearings/friction": ("tests/bearings/test_bearings_friction.py",),
+    "bearings/rubber": ("tests/bearings/test_bearings_rubber.py",),
+    "bearings/system": ("tests/bearings/test_bearings_system.py",),
+    "dynamics/newmark": ("tests/dynamics/test_history.py", "tests/dynamics/test_history_reference.py", "tests/dynamics/test_history_isolators.py"),
+    "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py"),
 }
 """Module of ``isolation/`` (without .py) -> the test files that check it."""
 

@@ -17,7 +17,7 @@ ARTEFACTS = Path(os.environ.get("ISOLATION_ARTEFACTS", Path(__file__).resolve().
 
 def require_browser() -> None:
     """Fail (CI) or skip when the system Chromium or the playwright package is missing."""
-    from isolation.explorer.browser import chromium_path
+    from isolation.app.explorer.browser import chromium_path
 
     missing = []
     if chromium_path() is None:

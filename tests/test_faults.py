@@ -21,14 +21,14 @@ from pathlib import Path
 
 import pytest
 
-from isolation.batch.execute import run_batch
-from isolation.batch.check import validate_plan
-from isolation.batch.plan import load_batch
-from isolation.batch.runners import VariantOutcome, VariantTask
-from isolation.cli import main as cli
+from isolation.app.batch.execute import run_batch
+from isolation.app.batch.check import validate_plan
+from isolation.app.batch.plan import load_batch
+from isolation.app.batch.runners import VariantOutcome, VariantTask
+from isolation.app.cli import main as cli
 from isolation.errors import InputError, RunError
 from isolation.files import read_input_text
-from isolation.records import (ABANDONED, RecordClash, clean_records, mark_stale_partials, new_run_id,
+from isolation.app.calc_records import (ABANDONED, RecordClash, clean_records, mark_stale_partials, new_run_id,
                                read_manifest, run_record, stale_items, verify_record)
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -53,7 +53,7 @@ def test_run_ids_of_one_second_differ():
 RUN_IN_CHILD = textwrap.dedent("""
     import json, sys
     from isolation.errors import InputError
-    from isolation.records import run_record
+    from isolation.app.calc_records import run_record
     run_id = sys.argv[3] or None
     try:
         outcome = run_record({demo!r}, sys.argv[1], pdf=False, notebook=sys.argv[2], run_id=run_id)
@@ -306,9 +306,9 @@ def test_out_naming_a_file_exits_2_for_run_and_batch(tmp_path, capsys):
 def test_interrupting_a_run_prints_one_line(tmp_path, which):
     code = textwrap.dedent(f"""
         import sys
-        from isolation import records
+        from isolation.app import calc_records as records
         records.WORKBOOK = records.Path({str(FIXTURES / "record_slow.ipynb")!r})
-        from isolation.cli import main
+        from isolation.app.cli import main
         sys.exit(main(["run", {str(DEMO)!r}, "--out", {str(tmp_path)!r}, "--no-pdf", "--run-id", "cut"]))
     """)
     child = subprocess.Popen([sys.executable, "-c", code], stdout=subprocess.PIPE, stderr=subprocess.PIPE,
@@ -365,7 +365,7 @@ def test_a_spectrum_file_that_is_a_pipe_is_refused(tmp_path, capsys):
     for key in ("sms", "sm1", "long_period"):
         mapping["site"].pop(key, None)
     mapping["site"]["spectrum_file"] = "spectrum.csv"
-    from isolation.records import to_toml
+    from isolation.app.calc_records import to_toml
 
     study.write_text(to_toml(mapping), encoding="utf-8")
     os.mkfifo(tmp_path / "spectrum.csv")

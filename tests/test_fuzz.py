@@ -24,10 +24,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from isolation.cli import main as cli
+from isolation.app.cli import main as cli
 from isolation.errors import InputError
 from isolation.motions.records_io import read_csv_accelerogram, read_text_accelerogram
-from isolation.records import to_toml
+from isolation.app.calc_records import to_toml
 from isolation.study import load_study
 from isolation.units import parse_quantity
 

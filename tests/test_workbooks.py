@@ -24,7 +24,7 @@ import nbformat
 import papermill as pm
 import pytest
 
-from isolation import report
+from isolation.output import report
 from tools import PDF_READERS, require_pdf_tools, require_tools
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -234,7 +234,7 @@ def test_feasibility_workbook_fails_loudly_on_a_bad_study(tmp_path):
 @pytest.fixture(scope="module")
 def eurocode_report(tmp_path_factory):
     """The demo on an EN 1998-1 Type 1 spectrum (ground B, a_g = 0.3 g), first alternative, quick run."""
-    from isolation.records import to_toml
+    from isolation.app.calc_records import to_toml
     from isolation.study import apply_overrides, read_study_mapping
 
     out = tmp_path_factory.mktemp("eurocode")

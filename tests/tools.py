@@ -9,7 +9,7 @@ import shutil
 
 import pytest
 
-from isolation import report
+from isolation.output import report
 
 PDF_READERS = ("pdftotext", "pdfinfo")
 

@@ -1,6 +1,6 @@
 """Yielding storeys of the plan model: drift map, bilinear update and hysteretic energy.
 
-A storey of :class:`isolation.plan_structure.PlanShearBuilding` carries an
+A storey of :class:`isolation.dynamics.plan_structure.PlanShearBuilding` carries an
 x and a y spring at its centre of rigidity ``(e_x, e_y)``.  Its drift there,
 ``d_x = du_x - e_y dtheta`` and ``d_y = du_y + e_x dtheta`` (``du`` the
 motion of the level above relative to the level below), is linear in the
@@ -12,7 +12,7 @@ V_y``); the time loops carry the departure from the elastic force,
 ``p = s - k d = q - k_p d``, as forces ``D p`` on the degrees of freedom
 (the transpose of the drift map: the work of ``p`` is ``p . dd``).  The two
 directions are uncoupled and the torsional spring is elastic (assumptions
-stated in :mod:`isolation.plan_structure`).
+stated in :mod:`isolation.dynamics.plan_structure`).
 
 Return map of the element (exact for a piecewise-linear law):
 ``q = clip(q_n + k_p (d - d_n), -f_p, f_p)``.  Energy it dissipates up to

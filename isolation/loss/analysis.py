@@ -7,7 +7,7 @@ Steps (:func:`run_loss`):
    fractions of it); the run's matched suite is scaled uniformly to each.
 2. One vectorised response-history run over all levels x records for the
    fixed base (:func:`fixed_base_building`) and every alternative with its
-   nominal isolator properties (:func:`isolation.history.run_cases`).
+   nominal isolator properties (:func:`isolation.dynamics.history.run_cases`).
 3. Per case and level, Monte Carlo losses (:mod:`isolation.loss.simulation`).
 4. Expected annual loss and downtime by integrating the loss-intensity curve
    over the hazard (:func:`expected_annual`), and the owner's economics.
@@ -140,24 +140,24 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
 def fixed_base_building(study, spectrum=None):
     """The fixed-base building whose losses isolation is compared with.
 
-    The code-designed yielding building of :func:`isolation.comparison.fixed_base_comparison`
+    The code-designed yielding building of :func:`isolation.performance.comparison.fixed_base_comparison`
     (storey strengths from the code's lateral force design times overstrength) unless the
     study asks for ``building.fixed_base_model = "elastic"``, then the elastic superstructure
-    of :func:`isolation.study_model.superstructure`. The one place to change the comparison
+    of :func:`isolation.study.assembly.superstructure`. The one place to change the comparison
     building of the loss study.
 
     Parameters
     ----------
     study : Study
     spectrum : site spectrum, optional
-        Default: :func:`isolation.study_model.site_spectrum`. [g]
+        Default: :func:`isolation.study.assembly.site_spectrum`. [g]
     """
-    from isolation.study_model import fixed_base_period, site_spectrum, superstructure
+    from isolation.study.assembly import fixed_base_period, site_spectrum, superstructure
 
     building = superstructure(study)
     if getattr(study.building, "fixed_base_model", "elastic") != "yielding":
         return building
-    from isolation.comparison import fixed_base_comparison
+    from isolation.performance.comparison import fixed_base_comparison
 
     spectrum = spectrum if spectrum is not None else site_spectrum(study)
     return fixed_base_comparison(study, spectrum, building, fixed_base_period(study)[0]).building
@@ -165,14 +165,14 @@ def fixed_base_building(study, spectrum=None):
 
 def isolated_building(study, report):
     """Superstructure above the isolators of one alternative for the loss study: yielding at the
-    strengths of its code design V_s (:func:`isolation.comparison.isolated_superstructure`) unless the
+    strengths of its code design V_s (:func:`isolation.performance.comparison.isolated_superstructure`) unless the
     study asks for an elastic comparison. ``report`` is the alternative's code report."""
-    from isolation.study_model import superstructure
+    from isolation.study.assembly import superstructure
 
     building = superstructure(study)
     if report is None or getattr(study.building, "fixed_base_model", "elastic") != "yielding":
         return building
-    from isolation.comparison import isolated_superstructure
+    from isolation.performance.comparison import isolated_superstructure
 
     return isolated_superstructure(study, report, building)[0]
 
@@ -384,7 +384,7 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         ``fixed`` (:func:`case_loss`), ``alternatives`` (name -> case loss plus
         ``economics``), ``levels``, ``hazard``, ``settings``, ``cautions``.
     """
-    from isolation.history import run_cases
+    from isolation.dynamics.history import run_cases
 
     inputs = inputs or getattr(study, "loss", None) or LossInputs()
     options = inputs.options

@@ -9,7 +9,7 @@ acceleration-sensitive group), with four damage states: slight, moderate,
 extensive, complete.
 
 Medians (demand at the threshold of each damage state) are those of
-:mod:`isolation.damage` (one table for the package):
+:mod:`isolation.performance.damage` (one table for the package):
 
 * structural: inter-storey drift ratios at the threshold of damage, by model
   building type, height class and design level, FEMA Multi-hazard Loss
@@ -102,7 +102,7 @@ ACCELERATION_DISPERSION = 0.6
 def component_fragilities(lateral_system: str, storeys: int, design_level: str = "high") -> dict:
     """Fragilities of the storey component groups of a building.
 
-    Medians from :func:`isolation.damage.damage_thresholds` (FEMA earthquake loss
+    Medians from :func:`isolation.performance.damage.damage_thresholds` (FEMA earthquake loss
     estimation technical manual MR5, Tables 5.9a/b, 5.11, 5.13; from memory), dispersions of
     this module (common practice).
 
@@ -122,7 +122,7 @@ def component_fragilities(lateral_system: str, storeys: int, design_level: str =
         ``acceleration_nonstructural`` (peak floor acceleration [g]): 4
         :class:`Fragility` each, slight..complete.
     """
-    from isolation.damage import damage_thresholds
+    from isolation.performance.damage import damage_thresholds
 
     medians = damage_thresholds(lateral_system, storeys, design_level)
     note = f"{medians.source}; type {medians.building_type}, {design_level} code"

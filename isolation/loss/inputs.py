@@ -126,7 +126,7 @@ def _cost(t) -> CostInputs | None:
     if table is None:
         defaults.append("bearing_cost")
     else:
-        from isolation.study_keys import BEARING_KEYS
+        from isolation.study.keys import BEARING_KEYS
 
         for kind in (*BEARING_KEYS, "other"):
             if kind not in table.mapping:

@@ -284,7 +284,7 @@ def matched_suite(
     ----------
     spectrum : object
         Anything with ``.sa(period, damping)`` returning spectral acceleration
-        (e.g. :class:`isolation.spectra.CodeSpectrum`). [g]
+        (e.g. :class:`isolation.site.spectra.CodeSpectrum`). [g]
     count : int
         Number of records, 1 to 200. [-]
     damping : float

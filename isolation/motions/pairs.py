@@ -103,7 +103,7 @@ def matched_pairs(
     Parameters
     ----------
     spectrum : object
-        Anything with ``.sa(period, damping)`` [g] (e.g. :class:`isolation.spectra.CodeSpectrum`).
+        Anything with ``.sa(period, damping)`` [g] (e.g. :class:`isolation.site.spectra.CodeSpectrum`).
     count : int
         Number of pairs, 1 to 100. [-]
     damping : float

@@ -15,9 +15,9 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from isolation import explore
-from isolation.overturning import grid_axial_loads
-from isolation.plan_study import layout_demands, torsion_factors
+from isolation.app.explorer import answers as explore
+from isolation.design.overturning import grid_axial_loads
+from isolation.study.plan import layout_demands, torsion_factors
 
 CHANGED = {"grid_along": 10, "plan_length": 60.0, "plan_width": 24.0, "eccentricity": 2.0, "bearing_count": 20}
 
@@ -38,9 +38,9 @@ def test_corner_bearing_gets_the_code_torsion_formula():
 
 @pytest.mark.parametrize("basis", ["asce7", "eurocode"])
 def test_explorer_layout_equals_the_core_for_a_changed_layout(tmp_path, basis):
-    from isolation.explorer.study_file import write_study
+    from isolation.app.explorer.study_file import write_study
     from isolation.study import load_study
-    from isolation.study_model import design_alternative, isolation_system, overturning_inputs, site_spectrum
+    from isolation.study.assembly import design_alternative, isolation_system, overturning_inputs, site_spectrum
 
     settings = explore.ExplorerSettings(basis=basis, **CHANGED)
     answer = explore.explore(settings)
@@ -102,7 +102,7 @@ def test_exported_grid_passes_the_study_check(tmp_path):
     import subprocess
     import sys
 
-    from isolation.explorer.study_file import write_study
+    from isolation.app.explorer.study_file import write_study
 
     path = write_study(explore.ExplorerSettings(**CHANGED), tmp_path / "grid.toml")
     assert "grid = [\n    10,\n    2,\n]" in path.read_text() or "grid = [10, 2]" in path.read_text()

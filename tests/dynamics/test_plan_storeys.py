@@ -24,10 +24,10 @@ import pytest
 from isolation import GRAVITY
 from isolation.bearings import FrictionPendulum, LeadRubber
 from isolation.dynamics.plan_storeys import storey_loop
-from isolation.history import run
-from isolation.plan_history import _integrate, run_plan
-from isolation.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
-from isolation.structure import IsolatedBuilding, ShearBuilding
+from isolation.dynamics.history import run
+from isolation.dynamics.plan_history import _integrate, run_plan
+from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
+from isolation.dynamics.structure import IsolatedBuilding, ShearBuilding
 
 MASSES, STIFFNESSES, HEIGHTS = [600.0] * 3, [9.0e5] * 3, [3.5] * 3
 YIELD = [2500.0, 2000.0, 1200.0]
@@ -138,7 +138,7 @@ def test_energy_balance_closes_with_yielding_storeys_and_torsion(bearing):
 
 def test_compiled_and_array_loops_agree_with_yielding_storeys():
     # Same equations (derived); each column converges on its own in the compiled loop.
-    from isolation import plan_kernel
+    from isolation.dynamics import plan_kernel
 
     if not plan_kernel.available:
         pytest.skip("numba is not installed: only the array loop exists")

@@ -1,0 +1,364 @@
+"""Run a batch's variants on a ``concurrent.futures`` executor and resume it.
+
+Executors: see :mod:`isolation.app.batch.executors` (local processes, a dask
+LocalCluster, or a dask cluster at a scheduler address; no scheduler of our own).
+
+Each variant becomes one :class:`VariantTask`; a runner (by default
+:func:`record_runner`, which writes a calculation record through
+:func:`isolation.app.calc_records.run_record`) turns it into a :class:`VariantOutcome`.
+Runners must be picklable top-level functions.
+
+The batch folder keeps ``batch.json``, the state of every variant (input
+hash, status, error, summary rows), rewritten atomically as variants finish
+(at most every :data:`STATE_INTERVAL` seconds, longer when the file is big)
+and at the end, and ``summary.csv``. Variants go to the workers a few at a
+time (twice the workers in flight), singly for records and in chunks for the
+direct sweep. A worker process that dies (killed, out of memory) fails only
+the variant that killed it: the others it had in hand run again, alone.
+Re-running a batch skips variants already done with the same input hash,
+keeps failed ones unless asked to retry them, and runs the rest. Ctrl-C
+cancels variants not yet started, lets running ones finish (a second Ctrl-C
+stops them), and leaves every completed record and the state intact.
+"""
+
+from __future__ import annotations
+
+import json
+import shutil
+import time
+import uuid
+from concurrent.futures import FIRST_COMPLETED, CancelledError, Executor, Future, wait
+from concurrent.futures.process import BrokenProcessPool
+from contextlib import ExitStack
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Callable
+
+from isolation.app.batch.executors import executor_for, open_executor, terminate
+from isolation.app.batch.plan import BatchPlan
+from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
+from isolation.app.batch.summary import write_summary
+from isolation.files import write_text_atomic
+
+__all__ = [
+    "BatchReport",
+    "run_batch",
+    "open_executor",
+    "STATE_FILE",
+]
+
+STATE_FILE = "batch.json"
+CHUNK_LIMIT = 50  # largest automatic chunk [variants]
+STATE_INTERVAL = 0.5  # shortest time between two state writes while running [s]
+
+
+@dataclass(frozen=True)
+class BatchReport:
+    """Counts of one batch invocation.
+
+    Parameters
+    ----------
+    out_dir : Path
+        Batch folder.
+    done, failed, not_run : tuple of str
+        Variant ids by final status (``not_run``: cancelled by an interrupt).
+    ran, reused : tuple of str
+        Variants run in this invocation and those taken from an earlier one.
+    interrupted : bool
+        True when Ctrl-C stopped the batch.
+    elapsed : float
+        Wall time. [s]
+    """
+
+    out_dir: Path
+    done: tuple = ()
+    failed: tuple = ()
+    not_run: tuple = ()
+    ran: tuple = ()
+    reused: tuple = ()
+    interrupted: bool = False
+    elapsed: float = 0.0
+
+    @property
+    def exit_code(self) -> int:
+        """0 all done, 1 some failed, 130 interrupted (shell convention for Ctrl-C)."""
+        if self.interrupted:
+            return 130
+        return 1 if (self.failed or self.not_run) else 0
+
+    def to_dict(self) -> dict:
+        return {
+            "out_dir": str(self.out_dir),
+            "done": list(self.done),
+            "failed": list(self.failed),
+            "not_run": list(self.not_run),
+            "ran": list(self.ran),
+            "reused": list(self.reused),
+            "interrupted": self.interrupted,
+            "elapsed": self.elapsed,
+        }
+
+
+def _load_state(out_dir: Path) -> dict:
+    path = out_dir / STATE_FILE
+    if not path.is_file():
+        return {}
+    try:
+        state = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, json.JSONDecodeError):
+        return {}
+    return state.get("variants", {}) if isinstance(state, dict) else {}
+
+
+def _write_state(out_dir: Path, plan: BatchPlan, entries: dict, settings: dict) -> None:
+    payload = {"batch": plan.to_dict(), "settings": settings, "variants": entries}
+    write_text_atomic(out_dir / STATE_FILE, json.dumps(payload, indent=1, sort_keys=False) + "\n")
+
+
+def _record_intact(out_dir: Path, entry: dict) -> bool:
+    record = entry.get("record")
+    if not record:
+        return True  # runners without records (direct evaluation) keep their rows in the state
+    from isolation.app.calc_records import verify_record
+
+    return verify_record(out_dir / record) is None  # every file present with the sha256 of its manifest
+
+
+def _remove_superseded(out_dir: Path, entry: dict) -> None:
+    """Delete the record of an earlier run of a variant that is about to run again.
+
+    Its input changed, it failed, or it was interrupted; the new run replaces
+    it. Only folders inside the batch folder are touched.
+    """
+    record = entry.get("record")
+    if not record:
+        return
+    folder = (out_dir / record).resolve()
+    if folder.is_dir() and out_dir in folder.parents:
+        shutil.rmtree(folder)
+
+
+def _summary_rows(plan: BatchPlan, entries: dict) -> list[dict]:
+    rows: list[dict] = []
+    for variant in plan.variants:
+        entry = entries.get(variant.variant_id, {})
+        status = entry.get("status", "not run")
+        status = status if status in ("done", "failed") else "not run"
+        base = {"variant": variant.variant_id, "status": status, **variant.overrides,
+                "error": entry.get("error"), "record": entry.get("record")}
+        results = entry.get("rows") or [{}]
+        for result in results if status == "done" else [{}]:
+            rows.append({**base, **result})
+    return rows
+
+
+def run_batch(
+    plan: BatchPlan,
+    out_dir: str | Path,
+    hashes: dict[str, str],
+    *,
+    executor: str | Executor = "local",
+    workers: int | None = None,
+    runner: Callable[[VariantTask], VariantOutcome] = record_runner,
+    retry_failed: bool = False,
+    pdf: bool | None = None,
+    quick: bool = False,
+    chunk: int | None = 1,
+    progress: bool = True,
+    settings: dict | None = None,
+    on_outcome: Callable[[VariantOutcome], None] | None = None,
+) -> BatchReport:
+    """Run every variant of a validated batch that is not already done.
+
+    Parameters
+    ----------
+    plan : BatchPlan
+        From :func:`isolation.app.batch.plan.load_batch`.
+    out_dir : str or Path
+        Batch folder (created when missing).
+    hashes : dict
+        Variant id -> input hash, from :func:`isolation.app.batch.plan.validate_plan`.
+    executor : str or Executor
+        ``"local"``, ``"local-cluster"``, a dask scheduler address, or an
+        open ``concurrent.futures.Executor`` (left open).
+    workers : int, optional
+        Worker processes for the local kinds (default: cores).
+    runner : callable
+        Picklable top-level function ``runner(task) -> VariantOutcome``.
+    retry_failed : bool
+        Run again variants that failed in an earlier invocation.
+    pdf : bool, optional
+        PDF report in each record (default: the batch file's ``pdf``, off).
+    quick : bool
+        Small motion suites (tests and trials only, never for a report);
+        fold it into ``hashes`` through the validation settings.
+    chunk : int or None
+        Variants handed to a worker at a time; None picks a size for many
+        short variants (the direct sweep: fewer round trips), at most
+        :data:`CHUNK_LIMIT`. [-]
+    progress : bool
+        Show a tqdm progress bar (done/failed/remaining, elapsed) on stderr.
+    settings : dict, optional
+        Run settings stored in the state file.
+    on_outcome : callable, optional
+        Called in this process with each outcome as it arrives.
+
+    Returns
+    -------
+    BatchReport
+    """
+    from tqdm.auto import tqdm
+
+    started = time.perf_counter()
+    out_dir = Path(out_dir).resolve()
+    settings = dict(settings or {})
+    use_pdf = plan.pdf if pdf is None else bool(pdf)
+    previous = _load_state(out_dir)
+    invocation = uuid.uuid4().hex
+    entries: dict[str, dict] = {}
+    tasks: list[VariantTask] = []
+    reused: list[str] = []
+    for variant in plan.variants:
+        key = variant.variant_id
+        entry = previous.get(key, {})
+        same_input = entry.get("input_hash") == hashes[key]
+        if same_input and entry.get("status") == "done" and _record_intact(out_dir, entry):
+            entries[key] = entry
+            reused.append(key)
+            continue
+        if same_input and entry.get("status") == "failed" and not retry_failed:
+            entries[key] = entry
+            reused.append(key)
+            continue
+        entries[key] = {"input_hash": hashes[key], "overrides": variant.overrides, "status": "pending",
+                        "superseded": entry.get("record")}
+        tasks.append(VariantTask(key, str(plan.study_file), plan.overrides_for(variant), str(out_dir), use_pdf,
+                                 hashes[key], quick, invocation))
+
+    ran: list[str] = []
+    interrupted = False
+    counts = {"done": 0, "failed": 0}
+    last_write = [0.0, STATE_INTERVAL]  # time of the last state write, interval to the next [s]
+    bar = None
+
+    def accept(outcome: VariantOutcome) -> None:
+        entry = entries[outcome.variant_id]
+        entry.update(status=outcome.status, rows=[dict(r) for r in outcome.rows], record=outcome.record,
+                     error=outcome.error, attempts=outcome.attempts, elapsed=round(outcome.elapsed, 3))
+        if outcome.status in counts:
+            counts[outcome.status] += 1
+            (ran if outcome.attempts else reused).append(outcome.variant_id)  # 0 attempts: record found complete
+        if time.perf_counter() - last_write[0] > last_write[1]:  # large sweeps: not after every variant
+            mark = time.perf_counter()
+            _write_state(out_dir, plan, entries, settings)
+            last_write[:] = [time.perf_counter(), max(STATE_INTERVAL, 20 * (time.perf_counter() - mark))]
+        bar.set_postfix(done=counts["done"], failed=counts["failed"], remaining=len(tasks) - bar.n - 1, refresh=False)
+        bar.update(1)
+
+    def outcomes_of(future: Future, chunk: list[VariantTask]) -> list[VariantOutcome]:
+        """Outcomes of a chunk; variants lost with a dead worker go back in the queue."""
+        try:
+            return list(future.result())
+        except KeyboardInterrupt:
+            raise
+        except BrokenProcessPool as error:
+            # A worker process died (killed, out of memory, crashed): every variant it had
+            # in hand fails with this. Each gets one more try, alone, on a fresh pool.
+            found = []
+            for task in chunk:
+                lost[task.variant_id] = lost.get(task.variant_id, 0) + 1
+                if lost[task.variant_id] == 1:
+                    queue.insert(0, [task])  # last in line
+                else:
+                    found.append(VariantOutcome(task.variant_id, "failed", attempts=2,
+                                                error=one_line(error) + " (its worker process died twice)"))
+            return found
+        except CancelledError as error:
+            return [VariantOutcome(t.variant_id, "failed", error=one_line(error)) for t in chunk]
+        except Exception as error:
+            return [VariantOutcome(t.variant_id, "failed", error=one_line(error)) for t in chunk]
+
+    pending: dict[Future, list[VariantTask]] = {}
+    queue: list[list[VariantTask]] = []  # chunks; pop() from the end: file order
+    lost: dict[str, int] = {}
+    with ExitStack() as stack:
+        pool, slots = stack.enter_context(executor_for(executor if tasks else None, workers))
+        size = chunk if chunk is not None else max(1, min(CHUNK_LIMIT, -(-len(tasks) // (4 * slots))))
+        queue = [tasks[i:i + size] for i in range(0, len(tasks), size)][::-1]
+        # the executor is up: now the batch folder is written
+        out_dir.mkdir(parents=True, exist_ok=True)
+        for entry in entries.values():
+            _remove_superseded(out_dir, {"record": entry.pop("superseded", None)})
+        _write_state(out_dir, plan, entries, settings)
+        bar = tqdm(total=len(tasks), unit="variant", desc=plan.name, disable=not progress or not tasks,
+                   dynamic_ncols=True)
+
+        def submit(part: list[VariantTask]) -> None:
+            nonlocal pool
+            try:
+                future = pool.submit(guarded_chunk, runner, part)
+            except BrokenProcessPool:
+                if not isinstance(executor, str):
+                    raise  # an executor we were given: its owner decides
+                pool = stack.enter_context(executor_for(executor, workers))[0]
+                future = pool.submit(guarded_chunk, runner, part)
+            pending[future] = part
+
+        def top_up() -> None:
+            # At most `slots` chunks handed to the executor at a time, so that Ctrl-C
+            # finds the rest not yet started. A variant that was in hand when a worker
+            # died runs again alone, so a second death is surely its own.
+            while len(pending) < slots and queue:
+                if queue[-1][0].variant_id in lost:
+                    if not pending:
+                        submit(queue.pop())
+                    return
+                submit(queue.pop())
+
+        try:
+            top_up()
+            while pending:
+                finished, _ = wait(list(pending), return_when=FIRST_COMPLETED)
+                for future in finished:
+                    found = outcomes_of(future, pending.pop(future))
+                    for outcome in found:
+                        if outcome.status in ("done", "failed"):
+                            accept(outcome)
+                            if on_outcome is not None:
+                                on_outcome(outcome)
+                    if any(outcome.status == "interrupted" for outcome in found):
+                        raise KeyboardInterrupt
+                top_up()
+        except KeyboardInterrupt:
+            interrupted = True
+            _stop(pool, pending, accept)
+        finally:
+            bar.close()
+
+    _write_state(out_dir, plan, entries, settings)
+    write_summary(_summary_rows(plan, entries), out_dir, plan.override_keys())
+    by_status = {s: tuple(k for k, e in entries.items() if e.get("status") == s) for s in ("done", "failed")}
+    not_run = tuple(k for k, e in entries.items() if e.get("status") not in ("done", "failed"))
+    return BatchReport(out_dir, by_status["done"], by_status["failed"], not_run, tuple(ran), tuple(reused),
+                       interrupted, time.perf_counter() - started)
+
+
+def _stop(pool: Executor, pending: dict[Future, list], accept: Callable[[VariantOutcome], None]) -> None:
+    """After Ctrl-C: cancel queued variants, let running ones finish and keep their outcomes."""
+    for future in list(pending):
+        if future.cancel():
+            pending.pop(future)
+    try:
+        while pending:
+            finished, _ = wait(list(pending), return_when=FIRST_COMPLETED)
+            for future in finished:
+                pending.pop(future)
+                try:
+                    found = future.result()
+                except BaseException:
+                    continue
+                for outcome in found:
+                    if outcome.status in ("done", "failed"):
+                        accept(outcome)
+    except KeyboardInterrupt:  # a second Ctrl-C: stop the running variants now
+        terminate(pool)

@@ -1,0 +1,502 @@
+"""History sweeps: response histories for every variant of a batch, no notebook per variant.
+
+``python -m isolation batch BATCH.toml --direct --histories`` designs every
+variant like the direct sweep (:mod:`isolation.app.batch.sweep`, array kernel)
+and then runs the isolated building for the lower and upper property sets of
+each alternative under one chosen suite of motions, as the study run does
+(:func:`isolation.study.runner.run_study`: same isolator laws, same suite-mean
+summary, same verdict on the response-history numbers), but without a
+notebook or record per variant.
+
+* **Motions, chosen once**: ``--motions SUITE.json`` (a suite written by
+  ``python -m isolation motions``), or else the base study's matched suite,
+  generated once into ``<batch folder>/motions/`` (the check range around the
+  base study's own periods; ``--quick`` gives the small trial suite).
+* **Fixed base once**: the superstructure on a fixed base under that suite is
+  run once in the main process (``motions/fixed_base.json``); a variant that
+  changes the building gets its own, once per worker process.
+* **Chunks of seconds**: a task is a few variants (:func:`history_chunk`),
+  whose cases run together in the ensemble engine; alternatives that do not
+  change between variants (the other bearing type of the study) are run once
+  per worker process.
+* **Where**: the local pool, a dask LocalCluster or a dask scheduler
+  (``--scheduler``); workers read the motions from the batch folder, so on a
+  remote cluster it must be on a file system the workers share.
+* **Progress and resume** come from the batch runner
+  (:func:`isolation.app.batch.execute.run_batch`): ``batch.json`` keeps every
+  finished variant; the input hash includes the motions, so a changed suite
+  runs the variants again. Interrupt with Ctrl-C, run the same command to go on.
+
+Rows carry the summary columns (``verdict_basis`` = ``response histories``)
+plus :data:`isolation.app.batch.summary.HISTORY_COLUMNS` for the design-space
+maps (:mod:`isolation.app.batch.maps`).
+
+Scope: screening of many alternatives for a feasibility study; the numbers
+rest on simplified models. Run the promising variants as full studies and
+have a licensed structural engineer check them against the local code.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import functools
+import hashlib
+import json
+import time
+from pathlib import Path
+from typing import Any, Mapping
+
+import numpy as np
+
+from isolation.app.batch.rows import rows_from_results
+from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
+from isolation.app.batch.sweep import (_alternative_key, _bounds_each, _context_key, fixed_base_elastic_shear,
+                                   variant_study)
+
+__all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
+           "history_chunk", "history_rows"]
+
+MOTIONS_FOLDER = "motions"
+SUITE_NAME = "suite"
+FIXED_FILE = "fixed_base.json"
+SOURCE_FILE = "source.json"
+RESPONSE_HISTORIES = "response histories"
+CASES = ("lower", "upper")
+TARGET_TASK = 4.0  # wall time a task should take on one worker [s]
+ENSEMBLE_LIMIT = 4  # alternatives stepped together in one engine call [-]
+# (8 cases x 7 records of 6000 steps: measured on the demo study, 4 gave the least CPU per
+# variant and about 70 MB over the worker's base; 24 took 1.5x the CPU and 570 MB)
+
+
+def history_chunk(count: int, workers: int, records: int, steps: int) -> int:
+    """Variants per task so that a task takes a few seconds.
+
+    Parameters
+    ----------
+    count : int
+        Variants to run. [-]
+    workers : int
+        Worker processes. [-]
+    records : int
+        Motions in the suite. [-]
+    steps : int
+        Time steps per motion. [-]
+
+    Returns
+    -------
+    int
+        Variants per task: about :data:`TARGET_TASK` seconds at 2 us per
+        record-step-case (the ensemble engine on one core, measured on this
+        project's demo study; cases of a task are stepped together, so more
+        per task is cheaper per case), and at most count/(2 max(workers, 2))
+        so every worker gets work (one worker gets the chunks two would, so
+        their timings compare).
+    """
+    per_variant = 2 * records * steps * 2e-6  # two bounds [s]
+    size = max(1, int(TARGET_TASK / max(per_variant, 1e-9)))
+    return max(1, min(size, -(-count // (2 * max(int(workers), 2)))))
+
+
+# --- motions and fixed base, once -------------------------------------------------------------
+
+
+def _structure_fingerprint(value) -> str:
+    """SHA-256 of a model object (or mapping) as plain JSON."""
+    from isolation.plain import plain
+
+    return hashlib.sha256(json.dumps(plain(value), sort_keys=True).encode("utf-8")).hexdigest()
+
+
+def _suite_hash(acceleration: np.ndarray, dt: float) -> str:
+    digest = hashlib.sha256(np.ascontiguousarray(acceleration, dtype=float).tobytes())
+    digest.update(repr(float(dt)).encode("ascii"))
+    return digest.hexdigest()
+
+
+def _read_suite(metadata: Path) -> tuple[np.ndarray, float]:
+    """(acceleration (records, steps) [g], dt [s]) of a written suite; shorter records padded with zeros."""
+    from isolation.motions.records_io import read_suite_records
+
+    records = read_suite_records(metadata)
+    if not records:
+        raise ValueError(f"motions = {str(metadata)!r} is not allowed: the suite lists no records")
+    steps = {round(r.dt, 12) for r in records}
+    if len(steps) != 1:
+        raise ValueError(f"motions = {str(metadata)!r} is not allowed: every record must have the same time step "
+                         f"(found {sorted(steps)} s)")
+    length = max(r.acceleration.size for r in records)
+    acc = np.zeros((len(records), length))
+    for i, record in enumerate(records):
+        acc[i, :record.acceleration.size] = record.acceleration
+    return acc, float(records[0].dt)
+
+
+def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = None, quick: bool = False) -> dict:
+    """Choose the motions of a history sweep and run the fixed base once.
+
+    Parameters
+    ----------
+    plan : isolation.app.batch.plan.BatchPlan
+        The batch; its base study (with the ``[common]`` overrides) gives the
+        superstructure and, without ``motions``, the matched suite.
+    out_dir : str or Path
+        Batch folder; ``motions/`` is written in it.
+    motions : str or Path, optional
+        Metadata file of a suite (``suite.json`` of ``python -m isolation
+        motions``) to use instead of the base study's matched suite.
+    quick : bool
+        Small matched suite (trials and tests only, never for a report).
+
+    Returns
+    -------
+    dict
+        Run settings: ``motions`` (what was used) and ``motions_hash``
+        (folded into every variant's input hash).
+
+    Raises
+    ------
+    isolation.errors.InputError
+        A motions file that cannot be read, or a time step too coarse for the
+        superstructure.
+    """
+    from isolation.study import assembly as model
+    from isolation.errors import InputError
+    from isolation.files import write_text_atomic
+    from isolation.motions.records_io import write_suite
+    from isolation.study.runner import export_suite
+
+    out = Path(out_dir).resolve()
+    folder = out / MOTIONS_FOLDER
+    study = variant_study(plan.study_file, dict(plan.common))
+    structure = model.superstructure(study)
+    source = {"motions": str(Path(motions).resolve()) if motions else "matched suite of the base study",
+              "quick": bool(quick) and not motions, "study": _structure_fingerprint(study.to_dict())}
+    metadata = folder / f"{SUITE_NAME}.json"
+    try:
+        previous = json.loads((folder / SOURCE_FILE).read_text(encoding="utf-8"))
+    except (OSError, json.JSONDecodeError):
+        previous = None
+    folder.mkdir(parents=True, exist_ok=True)
+    if previous != source or not metadata.is_file():
+        if motions:
+            try:
+                acc, dt = _read_suite(Path(motions))
+            except ValueError as error:
+                raise InputError(f"--motions: {' '.join(str(error).split())}") from None
+            write_suite(_Suite(acc, dt), folder, name=SUITE_NAME)
+        else:
+            export_suite(study, folder, quick=bool(quick))
+        write_text_atomic(folder / SOURCE_FILE, json.dumps(source, indent=1) + "\n")
+    acc, dt = _read_suite(metadata)
+    try:
+        model.check_study(dataclasses.replace(study, analysis=dataclasses.replace(study.analysis, time_step=dt)))
+    except ValueError as error:
+        raise InputError(f"motions time step: {' '.join(str(error).split())}") from None
+    spectrum = model.site_spectrum(study)
+    period, _ = model.fixed_base_period(study)
+    comparison = _comparison(study, spectrum, structure, period)
+    fixed = _fixed_runs(study, comparison, structure, acc, dt)
+    write_text_atomic(folder / FIXED_FILE, json.dumps({"structure": _structure_fingerprint(comparison.building),
+                                                       **fixed}) + "\n")
+    return {"motions": source["motions"], "motions_quick": source["quick"], "motions_hash": _suite_hash(acc, dt),
+            "records": int(acc.shape[0]), "steps": int(acc.shape[1]), "dt": dt}
+
+
+@dataclasses.dataclass(frozen=True)
+class _Suite:
+    """The least a suite needs for :func:`isolation.motions.records_io.write_suite`."""
+
+    acceleration: np.ndarray
+    dt: float
+
+    @property
+    def seeds(self):
+        return np.zeros(self.acceleration.shape[0], dtype=int)
+
+    def to_dict(self) -> dict:
+        return {"dt": self.dt, "count": int(self.acceleration.shape[0]), "source": "chosen records"}
+
+
+@functools.lru_cache(maxsize=4)
+def _motions(folder: str, modified: float) -> tuple:  # noqa: ARG001 - the file time keys the cache
+    acc, dt = _read_suite(Path(folder) / f"{SUITE_NAME}.json")
+    fixed = json.loads((Path(folder) / FIXED_FILE).read_text(encoding="utf-8"))
+    return acc, dt, fixed
+
+
+def _load(task: VariantTask) -> tuple:
+    folder = Path(task.out_dir) / MOTIONS_FOLDER
+    return _motions(str(folder), (folder / FIXED_FILE).stat().st_mtime)
+
+
+# --- the runs ---------------------------------------------------------------------------------
+
+_DONE: dict = {}  # (context, alternative, motions) -> judged alternative; this worker process
+_FIXED: dict = {}  # superstructure fingerprint -> fixed-base statistics; this worker process
+_CACHE_LIMIT = 256
+
+
+def history_rows(alternatives: list, shear: float) -> list[dict]:
+    """Summary rows (with :data:`isolation.app.batch.summary.HISTORY_COLUMNS`) of judged alternatives."""
+    rows = rows_from_results({"alternatives": alternatives}, shear, verdict_basis=RESPONSE_HISTORIES)
+    for row, alternative in zip(rows, alternatives):
+        summary = alternative["history"]
+        fixed = summary["floor_acceleration_fixed"]
+        row.update({
+            "history_displacement_lower_m": summary["isolator_displacement_lower"],
+            "history_displacement_upper_m": summary["isolator_displacement_upper"],
+            "history_displacement_torsion_m": summary["isolator_displacement_with_torsion"],
+            "floor_acceleration_fixed_g": fixed,
+            "floor_acceleration_lower_g": summary["floor_acceleration_lower"],
+            "floor_acceleration_upper_g": summary["floor_acceleration_upper"],
+            "floor_acceleration_reduction_lower": 1.0 - summary["floor_acceleration_lower"] / fixed,
+            "floor_acceleration_reduction_upper": 1.0 - summary["floor_acceleration_upper"] / fixed,
+            "drift_ratio_isolated": summary["drift_ratio_isolated"],
+        })
+    return rows
+
+
+def history_runner(task: VariantTask) -> VariantOutcome:
+    """Batch runner of a history sweep: one variant (see :func:`history_many`)."""
+    started = time.perf_counter()
+    found = _run([task])[0]
+    if isinstance(found, Exception):
+        raise found
+    return VariantOutcome(task.variant_id, "done", rows=tuple(found), elapsed=time.perf_counter() - started)
+
+
+def history_many(tasks: list) -> list:
+    """A history sweep of several variants in one worker call, their cases in one ensemble.
+
+    A variant whose study, design or history fails runs again alone through
+    :func:`isolation.app.batch.runners.guarded_call`, so its outcome names its own error.
+    """
+    started = time.perf_counter()
+    found = _run(tasks)
+    share = (time.perf_counter() - started) / max(len(tasks), 1)
+    return [guarded_call(history_runner, task) if isinstance(rows, Exception)
+            else VariantOutcome(task.variant_id, "done", rows=tuple(rows), elapsed=share)
+            for task, rows in zip(tasks, found)]
+
+
+history_runner.many = history_many  # type: ignore[attr-defined]  # chunks run together (runners.guarded_chunk)
+
+
+def _run(tasks: list) -> list:
+    """Rows per task, or the exception that stopped it."""
+    from isolation import GRAVITY
+    from isolation.study import assembly as model
+    from isolation.design.array_kernel import design_bounds_many
+
+    acc, dt, fixed_file = _load(tasks[0])
+    motion_key = _suite_hash(acc, dt)
+    contexts: dict = {}
+    prepared: list = []
+    todo: dict = {}
+    for task in tasks:
+        try:
+            study = variant_study(task.study_file, task.overrides)
+            ckey = _context_key(study)
+            context = contexts.get(ckey) if ckey is not None else None
+            if context is None:
+                spectrum = model.site_spectrum(study)
+                period, _ = model.fixed_base_period(study)
+                structure = model.superstructure(study)
+                comparison = _comparison(study, spectrum, structure, period)
+                fingerprint = _structure_fingerprint(comparison.building)
+                fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
+                context = {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
+                           "rule": "asce7" if study.basis == "asce7" else "eurocode",
+                           "comparison": comparison, "fixed": fixed_runs["statistics"],
+                           "fixed_indicators": fixed_runs["indicators"],
+                           "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),
+                           "base_mass": study.building.base_weight / GRAVITY,
+                           "shear": fixed_base_elastic_shear(spectrum, period, study.building.total_weight)}
+                if ckey is not None:
+                    contexts[ckey] = context
+            keys = []
+            for alternative in study.alternatives:
+                key = (context["key"], _alternative_key(alternative), motion_key)
+                if key not in _DONE and key not in todo:
+                    system = model.isolation_system(alternative)
+                    todo[key] = [alternative, system, system.property_sets(study.building.total_weight), context]
+                keys.append(key)
+            prepared.append((context, keys))
+        except Exception as error:  # noqa: BLE001 - reported per variant
+            prepared.append(error)
+
+    judged: dict = {}
+    by_context: dict = {}
+    for key, entry in todo.items():
+        by_context.setdefault(id(entry[3]), []).append(key)
+    for keys in by_context.values():
+        context = todo[keys[0]][3]
+        bounds = _bounds_each([todo[k][2] for k in keys], context["study"].building.total_weight, context,
+                              design_bounds_many)
+        designed = []
+        for key, found in zip(keys, bounds):
+            alternative, system, sets, _ = todo[key]
+            try:
+                if isinstance(found, Exception):
+                    raise found
+                design = model.design_alternative(context["study"], sets, system, context["spectrum"],
+                                                  context["period"], bounds=found)
+                isolators = {case: model.history_isolator(sets[case], found.results[case], system, case)
+                             for case in CASES}
+                designed.append((key, found, design, isolators))
+            except Exception as error:  # noqa: BLE001
+                judged[key] = error
+        for start in range(0, len(designed), ENSEMBLE_LIMIT):
+            part = designed[start:start + ENSEMBLE_LIMIT]
+            for (key, found, design, _), stats in zip(part, _histories(context, part, acc, dt)):
+                if isinstance(stats, Exception):
+                    judged[key] = stats
+                    continue
+                alternative, system, sets, _ = todo[key]
+                try:
+                    judged[key] = _judge(context, alternative, system, sets, found, design, stats)
+                except Exception as error:  # noqa: BLE001
+                    judged[key] = error
+    for key, value in judged.items():
+        if not isinstance(value, Exception):
+            if len(_DONE) >= _CACHE_LIMIT:
+                _DONE.pop(next(iter(_DONE)))
+            _DONE[key] = value
+    out = []
+    for entry in prepared:
+        if isinstance(entry, Exception):
+            out.append(entry)
+            continue
+        context, keys = entry
+        found = [judged[k] if k in judged else _DONE[k] for k in keys]
+        failed = next((f for f in found if isinstance(f, Exception)), None)
+        out.append(failed if failed is not None else history_rows(found, context["shear"]))
+    return out
+
+
+def _comparison(study, spectrum, structure, period):
+    """The code-designed fixed-base comparison building of a study (as the study run builds it)."""
+    from isolation.performance.comparison import fixed_base_comparison
+
+    return fixed_base_comparison(study, spectrum, structure, period)
+
+
+def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dict:
+    """Statistics of the comparison fixed base and indicators of it and of the elastic fixed base."""
+    from isolation.dynamics.history import run
+    from isolation.performance.comparison import response_indicators, thresholds_of
+    from isolation.plain import plain
+
+    thresholds = thresholds_of(study)
+    fixed = run(comparison.building, acc, dt)
+    elastic = run(structure, acc, dt) if comparison.yielding else fixed
+    strengths = comparison.design.yield_shears if comparison.yielding else None
+    return {"statistics": plain(fixed.statistics()),
+            "indicators": plain({"fixed": response_indicators(fixed, strengths, thresholds),
+                                 "fixed_elastic": response_indicators(elastic, None, thresholds)})}
+
+
+def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
+    """Fixed-base runs: the batch's when the building is the base study's, else run once here."""
+    if fingerprint == fixed_file.get("structure") and "indicators" in fixed_file:
+        return fixed_file
+    if fingerprint not in _FIXED:
+        _FIXED[fingerprint] = _fixed_runs(study, comparison, structure, acc, dt)
+    return _FIXED[fingerprint]
+
+
+def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
+    """(statistics per case, indicators per case, isolated storey design) per designed alternative of ``part``.
+
+    Alternatives whose superstructure above the isolators is the same (elastic, or yielding at the same
+    strengths) run in one engine call.
+    """
+    from isolation.performance.comparison import isolated_superstructure, response_indicators, thresholds_of
+    from isolation.dynamics.history import run_cases
+
+    study, structure = context["study"], context["structure"]
+    thresholds = thresholds_of(study)
+    above = []
+    for _, _, design, _ in part:
+        try:
+            above.append(isolated_superstructure(study, design[0], structure))
+        except Exception as error:  # noqa: BLE001 - reported per variant
+            above.append(error)
+    out: list = [None] * len(part)
+    groups: dict = {}
+    for i, item in enumerate(above):
+        if isinstance(item, Exception):
+            out[i] = item
+        else:
+            groups.setdefault(_structure_fingerprint(item[0]), []).append(i)
+    for members in groups.values():
+        building = above[members[0]][0]
+        isolators = {f"{i}:{case}": law for i in members for case, law in part[i][3].items()}
+        try:
+            results = run_cases(building, context["base_mass"], isolators, acc, dt, include_fixed=False)
+        except Exception as error:  # noqa: BLE001 - one case may be at fault: each alone
+            if len(members) == 1:
+                out[members[0]] = error
+                continue
+            for i in members:
+                out[i] = _histories(context, [part[i]], acc, dt)[0]
+            continue
+        comparison = context["comparison"]
+        for i in members:
+            design = above[i][1]
+            strengths = design.yield_shears if comparison.yielding else None
+            out[i] = ({case: results[f"{i}:{case}"].statistics() for case in CASES},
+                      {case: response_indicators(results[f"{i}:{case}"], strengths, thresholds) for case in CASES},
+                      design)
+    return out
+
+
+def _judge(context: dict, alternative, system, sets, bounds, design, histories) -> dict:
+    """The study run's verdict for one alternative from its designs and history statistics."""
+    from isolation.study import assembly as model
+    from isolation import verdict
+    from isolation.performance.comparison import comparison_summary
+    from isolation.plain import plain
+
+    stats, case_indicators, isolated_design = histories
+    report, quantities, permitted, reasons = design
+    study = context["study"]
+    checks = system.checks(quantities["total_displacement"])
+    results = bounds.results
+    torsion = quantities["total_displacement"] / quantities["displacement"]
+    summary = model.history_summary(stats, context["fixed"], torsion)
+    indicators = {**context["fixed_indicators"], **plain(case_indicators)}
+    summary.update(comparison_summary(indicators, context["comparison"].design, isolated_design))
+    strength = getattr(sets["lower"], "characteristic_strength", None)
+    if strength is None:
+        strength = model.history_isolator(sets["lower"], results["lower"]).characteristic_strength
+    quantities = dict(quantities, period_lower=results["lower"].period, period_upper=results["upper"].period,
+                      damping_lower=results["lower"].damping, damping_upper=results["upper"].damping,
+                      characteristic_strength=float(strength), displacement_capacity=system.displacement_capacity,
+                      moat=alternative.moat, fixed_base_period=context["period"])
+    figures = model.verdict_figures(study, context["spectrum"], alternative, quantities, summary, report, permitted,
+                                    reasons, checks, results, context["period"])
+    judged = verdict.assess(figures)
+    return {
+        "name": alternative.name,
+        "bounds": {name: {k: getattr(r, k) for k in ("displacement", "period", "damping", "base_shear")}
+                   for name, r in results.items()},
+        "quantities": quantities,
+        "figures": {"floor_acceleration_ratio": summary["floor_acceleration_ratio"]},
+        "verdict": {"outcome": judged.outcome},
+        "history": summary,
+    }
+
+
+def with_motions(hashes: Mapping[str, str], motions: Mapping[str, Any]) -> dict[str, str]:
+    """Variant input hashes that also identify the motions (a changed suite runs the variants again).
+
+    Parameters
+    ----------
+    hashes : mapping
+        Variant id -> input hash of the validated variant.
+    motions : mapping
+        What :func:`prepare_motions` returned.
+    """
+    return {key: hashlib.sha256(f"{value}:{motions['motions_hash']}".encode("ascii")).hexdigest()
+            for key, value in hashes.items()}

@@ -1,0 +1,600 @@
+"""Design-space maps from a batch summary: tables and matplotlib figures.
+
+Used by ``workbooks/design_space.ipynb``; plain functions over the rows of
+``summary.csv`` (see :func:`isolation.app.batch.summary.read_summary`).
+
+* base-shear reduction ``1 - V_isolated / V_fixed`` and isolator displacement
+  are read per bound: the lower-bound properties give the largest
+  displacement, the upper-bound properties the largest forces;
+* :func:`best_alternatives` keeps variants not dominated in (smaller lower-
+  bound displacement, larger upper-bound base-shear reduction), best verdict
+  first;
+* from a history sweep (``batch --direct --histories``): :func:`plot_history_maps`
+  contours the peak isolator displacement and the floor-acceleration
+  reduction over two varied keys for both bounds, hatches the variants that
+  are not feasible (:func:`feasible`) and stars :func:`best_history_alternatives`.
+
+Scope: a screening view for a feasibility study; the listed alternatives are
+candidates for a full study, checked by a licensed structural engineer
+against the local code.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Iterable
+
+from isolation.app.batch.summary import HISTORY_COLUMNS, RESULT_COLUMNS, TAIL_COLUMNS
+
+__all__ = [
+    "VERDICT_ORDER",
+    "VERDICT_COLOURS",
+    "completed_rows",
+    "reduction",
+    "pareto_front",
+    "best_alternatives",
+    "grid_keys",
+    "varies",
+    "plot_displacement_vs_reduction",
+    "plot_verdict_map",
+    "HISTORY_FIELDS",
+    "history_rows",
+    "grid_field",
+    "feasible",
+    "history_front",
+    "best_history_alternatives",
+    "plot_history_maps",
+    "best_history_table",
+    "key_label",
+    "reduction_text",
+    "variant_text",
+    "missing_summary_text",
+]
+
+VERDICT_ORDER = ("feasible", "feasible with conditions", "not recommended")
+VERDICT_COLOURS = {
+    "feasible": "#2a9d5c",
+    "feasible with conditions": "#e0a526",
+    "not recommended": "#c8423b",
+}
+OTHER_COLOUR = "#8c8c8c"
+MARKERS = ("o", "s", "^", "D", "v", "P")
+VERDICT_MARKERS = {"feasible": "o", "feasible with conditions": "s", "not recommended": "X"}
+"""Marker per verdict in the scatter (colour there is the property bound: isolation.output.plots.COLOURS)."""
+
+_KEY_NAMES = {  # last part of a key path -> (readable name, unit kind or unit)
+    "radius": ("curvature radius R", "length"), "friction": ("friction coefficient μ", "-"),
+    "radius_1": ("radius of dish 1 R1", "length"), "radius_2": ("radius of dish 2 R2", "length"),
+    "friction_1": ("friction of dish 1 μ1", "-"), "friction_2": ("friction of dish 2 μ2", "-"),
+    "outer_diameter": ("rubber diameter D_o", "length"), "lead_diameter": ("lead core diameter D_L", "length"),
+    "inner_diameter": ("inner hole diameter", "length"), "layer_thickness": ("rubber layer thickness t", "length"),
+    "layers": ("rubber layers N", "-"), "shear_modulus": ("rubber shear modulus G", "stress"),
+    "count": ("number of bearings", "-"), "axial_load": ("axial load per bearing", "force"),
+    "displacement_capacity": ("displacement capacity", "length"), "slider_height": ("slider height", "length"),
+    "lower": ("lower-bound property factor", "-"), "upper": ("upper-bound property factor", "-"),
+    "moat": ("moat width", "length"), "sms": ("S_MS", "g"), "sm1": ("S_M1", "g"), "s1": ("S_1", "g"),
+    "ag": ("a_g", "g"), "long_period": ("long-period transition T_L", "time"),
+    "fixed_base_period": ("fixed-base period T_fb", "time"), "plan_length": ("plan length", "length"),
+    "plan_width": ("plan width", "length"), "eccentricity": ("eccentricity", "length"),
+    "importance": ("importance factor", "-"), "response_modification": ("R of the fixed base", "-"),
+    "base_weight": ("base floor weight", "weight"), "storeys": ("storeys", "-"),
+    "base_shear": ("wind base shear", "force"),
+}
+RESULT_KEYS = {"variant", "status", *RESULT_COLUMNS, *HISTORY_COLUMNS, *TAIL_COLUMNS}
+
+
+def key_label(key: str, units: str = "SI") -> str:
+    """A varied key path as an engineer reads it, with its unit.
+
+    ``"alternative.0.bearings.0.radius"`` -> ``"curvature radius R [m] (alternative 1, bearings 1)"``.
+
+    Parameters
+    ----------
+    key : str
+        Dotted key path of a batch's ``[grid]`` or ``[[variant]]``.
+    units : str
+        "SI" or "US": the study's system, in which bare numbers are read.
+    """
+    from isolation.units import BARE_UNITS
+
+    parts = str(key).split(".")
+    name, kind = _KEY_NAMES.get(parts[-1], (parts[-1].replace("_", " "), "-"))
+    unit = BARE_UNITS.get(units, BARE_UNITS["SI"]).get(kind, kind)
+    where = []
+    if parts[0] == "alternative" and len(parts) > 2 and parts[1].isdigit():
+        where.append(f"alternative {int(parts[1]) + 1}")
+        if "bearings" in parts:
+            index = parts[parts.index("bearings") + 1]
+            if index.isdigit():
+                where.append(f"bearings {int(index) + 1}")
+    elif parts[0] in ("site", "building", "analysis", "wind") and len(parts) > 1:
+        where.append(parts[0])
+    return f"{name} [{unit}]" + (f" ({', '.join(where)})" if where else "")
+
+
+def reduction_text(share: float | None) -> str:
+    """Base-shear reduction as words that leave no doubt about its sign: "24 % below fixed base"."""
+    if share is None:
+        return "-"
+    if abs(share) < 0.005:
+        return "same as fixed base"
+    return f"{abs(share):.0%} {'below' if share > 0 else 'above'} fixed base"
+
+
+def variant_text(row: dict, total: int) -> str:
+    """Which variants a ranked row stands for (see :func:`best_alternatives`)."""
+    names = row.get("variants") or [row.get("variant")]
+    if len(names) <= 1:
+        return str(names[0])
+    if len(names) >= total:
+        return f"all {total} variants (not varied)"
+    return ", ".join(str(n) for n in names)
+
+
+def missing_summary_text(path) -> str:
+    """What to run when the batch summary a workbook reads is not there (markdown)."""
+    return (f"**No batch summary at `{path}`.** This workbook maps a batch that has run. Run one first, e.g.\n\n"
+            "    python -m isolation batch examples/demo_batch.toml --direct --out records/batches\n\n"
+            "(`--direct`: equivalent-linear sweep, seconds; without it every variant gets a full record), then set "
+            "`summary_path` to the batch's `summary.csv` (printed at the end of the batch) and run this workbook "
+            "again, e.g. with papermill: `-p summary_path records/batches/<batch>/summary.csv`.")
+
+
+def _number(value) -> float | None:
+    if isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value):
+        return float(value)
+    return None
+
+
+def completed_rows(rows: Iterable[dict]) -> list[dict]:
+    """Rows of variants that ran to the end, with a displacement and a shear ratio."""
+    keep = []
+    for row in rows:
+        if row.get("status") != "done":
+            continue
+        if _number(row.get("D_M_lower_m")) is None or _number(row.get("base_shear_ratio_upper")) is None:
+            continue
+        keep.append(row)
+    return keep
+
+
+def reduction(row: dict, bound: str = "upper") -> float | None:
+    """Base-shear reduction ``1 - V_isolated/V_fixed`` for one bound. [-]"""
+    ratio = _number(row.get(f"base_shear_ratio_{bound}"))
+    return None if ratio is None else 1.0 - ratio
+
+
+def verdict_rank(verdict) -> int:
+    """0 feasible, 1 with conditions, 2 not recommended, 3 anything else."""
+    return VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else len(VERDICT_ORDER)
+
+
+def pareto_front(rows: Iterable[dict]) -> list[dict]:
+    """Rows not dominated in (smaller ``D_M_lower_m``, larger upper-bound reduction).
+
+    A row is dominated when another row has a displacement no larger and a
+    reduction no smaller, one of them strictly.
+    """
+    rows = completed_rows(rows)
+    front = []
+    for row in rows:
+        d, r = row["D_M_lower_m"], reduction(row)
+        dominated = any(
+            (o["D_M_lower_m"] <= d and reduction(o) >= r) and (o["D_M_lower_m"] < d or reduction(o) > r)
+            for o in rows
+        )
+        if not dominated:
+            front.append(row)
+    return front
+
+
+def best_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
+    """The best variants: verdict first, then not dominated, then largest reduction.
+
+    Parameters
+    ----------
+    rows : iterable of dict
+        Summary rows.
+    top : int
+        How many to return. [-]
+
+    Returns
+    -------
+    list of dict
+        Rows of variants not judged "not recommended", ordered by verdict
+        (feasible first), whether they lie on the Pareto front, the upper-
+        bound base-shear reduction (largest first) and the lower-bound
+        displacement (smallest first). Rows with the same alternative and the
+        same numbers appear once, ``same_in`` counting the variants and
+        ``variants`` naming them (see :func:`variant_text`).
+    """
+    rows = [r for r in completed_rows(rows) if r.get("verdict") != "not recommended"]
+    rows = _distinct(rows)
+    front = {id(r) for r in pareto_front(rows)}
+    ordered = sorted(
+        rows,
+        key=lambda r: (verdict_rank(r.get("verdict")), id(r) not in front, -reduction(r), r["D_M_lower_m"]),
+    )
+    return ordered[: max(int(top), 0)]
+
+
+def _distinct(rows: list[dict]) -> list[dict]:
+    """One row per alternative and result: an alternative the varied keys do not touch
+    gives the same numbers in every variant; keep its first row, with ``same_in`` the
+    number of variants sharing it."""
+    kept: dict[tuple, dict] = {}
+    for row in rows:
+        key = (row.get("alternative"), row.get("verdict"),
+               *(round(float(row[c]), 9) if _number(row.get(c)) is not None else None
+                 for c in ("D_M_lower_m", "D_M_upper_m", "base_shear_ratio_lower", "base_shear_ratio_upper")))
+        if key in kept:
+            kept[key]["same_in"] += 1
+            kept[key]["variants"].append(row.get("variant"))
+        else:
+            kept[key] = dict(row, same_in=1, variants=[row.get("variant")])
+    return list(kept.values())
+
+
+def varies(rows: Iterable[dict], alternative) -> bool:
+    """True when the completed rows of ``alternative`` do not all give the same numbers."""
+    return len(_distinct([r for r in completed_rows(rows) if r.get("alternative") == alternative])) > 1
+
+
+def grid_keys(rows: Iterable[dict]) -> list[str]:
+    """Override columns (dotted key paths) that take more than one value."""
+    rows = list(rows)
+    if not rows:
+        return []
+    keys = [k for k in rows[0] if k not in RESULT_KEYS]
+    return [k for k in keys if len({repr(r.get(k)) for r in rows}) > 1]
+
+
+def plot_displacement_vs_reduction(rows: Iterable[dict], ax=None, label_variants: bool = True):
+    """Isolator displacement vs base-shear reduction, both bounds, each variant labelled.
+
+    Each variant is a grey segment from its upper-bound point (red: the
+    force-governing case) to its lower-bound point (blue: the displacement-
+    governing case), in the colours of :data:`isolation.output.plots.COLOURS`; the
+    marker is the verdict (circle feasible, square with conditions, cross not
+    recommended) and the label at the lower-bound point names the variant (and
+    the alternative when there are several). The vertical axis is the
+    reduction in per cent: above 0 the isolated shear is smaller than the
+    fixed-base one. Returns the matplotlib Axes.
+    """
+    import matplotlib.pyplot as plt
+    from matplotlib.lines import Line2D
+
+    from isolation.output.plots import COLOURS
+
+    rows = completed_rows(rows)
+    if ax is None:
+        _, ax = plt.subplots(figsize=(7.0, 4.8))
+    names = list(dict.fromkeys(r.get("alternative") for r in rows))
+    for row in rows:
+        marker = VERDICT_MARKERS.get(row.get("verdict"), "D")
+        lower = (row["D_M_lower_m"], reduction(row, "lower"))
+        upper = (_number(row.get("D_M_upper_m")), reduction(row, "upper"))
+        if None not in upper and None not in lower:
+            ax.plot([upper[0], lower[0]], [100 * upper[1], 100 * lower[1]], color="0.6", lw=1.0)
+        if None not in upper:
+            ax.plot(upper[0], 100 * upper[1], marker=marker, color=COLOURS["upper"], ls="none")
+        if None not in lower:
+            ax.plot(lower[0], 100 * lower[1], marker=marker, color=COLOURS["lower"], ls="none")
+            if label_variants and len(rows) <= 40:
+                text = str(row.get("variant")) + (f" ({row.get('alternative')})" if len(names) > 1 else "")
+                ax.annotate(text, (lower[0], 100 * lower[1]), xytext=(4, 3), textcoords="offset points",
+                            fontsize=6, color="0.25")
+    shares = [100 * reduction(r, b) for r in rows for b in ("lower", "upper") if reduction(r, b) is not None]
+    if shares and min(shares) < 10.0:  # near or below zero: show where isolation stops reducing the shear
+        ax.axhline(0.0, color="0.3", lw=0.8, ls=":")
+    ax.set_xlabel("isolator displacement D_M [m]")
+    ax.set_ylabel("base-shear reduction 1 - V_iso/V_fixed [%]\n(above 0: isolated shear smaller)")
+    ax.set_title("Design space: blue = lower bound, red = upper bound")
+    ax.grid(True, alpha=0.3)
+    handles = [Line2D([], [], color=COLOURS["lower"], marker="o", ls="none", label="lower bound"),
+               Line2D([], [], color=COLOURS["upper"], marker="o", ls="none", label="upper bound")]
+    handles += [Line2D([], [], color="black", marker=VERDICT_MARKERS[v], ls="none", label=v)
+                for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
+    ax.legend(handles=handles, loc="best", fontsize="small")
+    return ax
+
+
+def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str | None = None, ax=None, *,
+                     ranking: Iterable[dict] = (), units: str = "SI"):
+    """Grid map over two varied keys: cells shaded by verdict, labelled with D_M and reduction.
+
+    Parameters
+    ----------
+    rows : iterable of dict
+        Summary rows.
+    x_key, y_key : str
+        Override columns for the axes (dotted key paths; shown through :func:`key_label`).
+    alternative : str, optional
+        Alternative to map (default: the first one found).
+    ax : matplotlib Axes, optional
+    ranking : iterable of dict, optional
+        Rows of :func:`best_alternatives`: each ranked row of this alternative
+        puts "rank k" into the cell of its own variant(s).
+    units : str
+        "SI" or "US", the study's system (for the axis units).
+
+    Notes
+    -----
+    Grids larger than 2 x 2 with numeric axes also get contour lines of the
+    lower-bound displacement D_M (solid, in m) and of the base-shear reduction
+    (dashed, in %).
+
+    Returns
+    -------
+    matplotlib Axes
+    """
+    import matplotlib.pyplot as plt
+    import numpy as np
+    from matplotlib.patches import Patch, Rectangle
+
+    rows = [r for r in rows if r.get("status") == "done"]
+    alternative = alternative or (rows[0].get("alternative") if rows else None)
+    rows = [r for r in rows if r.get("alternative") == alternative]
+    xs = sorted({r[x_key] for r in rows}, key=_sort_key)
+    ys = sorted({r[y_key] for r in rows}, key=_sort_key)
+    ranks: dict = {}
+    for k, ranked in enumerate(ranking, 1):
+        if ranked.get("alternative") == alternative:
+            for name in ranked.get("variants") or [ranked.get("variant")]:
+                ranks.setdefault(name, k)
+    if ax is None:
+        _, ax = plt.subplots(figsize=(7.0, 4.8))
+    displacement = np.full((len(ys), len(xs)), np.nan)
+    share_grid = np.full((len(ys), len(xs)), np.nan)
+    for row in rows:
+        i, j = xs.index(row[x_key]), ys.index(row[y_key])
+        colour = VERDICT_COLOURS.get(row.get("verdict"), OTHER_COLOUR)
+        ax.add_patch(Rectangle((i - 0.5, j - 0.5), 1, 1, color=colour, alpha=0.55, lw=0))
+        share = reduction(row)
+        d = _number(row.get("D_M_lower_m"))
+        text = f"D {d:.2f} m" if d is not None else ""
+        if d is not None:
+            displacement[j, i] = d
+        if share is not None:
+            share_grid[j, i] = 100 * share
+            text += f"\nV {reduction_text(share)}"
+        if row.get("variant") in ranks:
+            text += f"\nrank {ranks[row.get('variant')]}"
+        ax.text(i, j, text, ha="center", va="center", fontsize="x-small")
+    numeric = all(isinstance(v, (int, float)) for v in xs + ys)
+    if numeric and len(xs) > 2 and len(ys) > 2:
+        gx, gy = np.meshgrid(range(len(xs)), range(len(ys)))
+        for grid, style, fmt in ((displacement, "-", "%.2f m"), (share_grid, "--", "%.0f %%")):
+            if np.isfinite(grid).sum() >= 4 and np.nanmax(grid) > np.nanmin(grid):
+                lines = ax.contour(gx, gy, np.ma.masked_invalid(grid), levels=5, colors="0.25",
+                                   linewidths=0.7, linestyles=style, alpha=0.7)
+                ax.clabel(lines, fmt=fmt, fontsize=6)
+    ax.set_xlim(-0.5, len(xs) - 0.5)
+    ax.set_ylim(-0.5, len(ys) - 0.5)
+    ax.set_xticks(range(len(xs)), [f"{x:g}" if isinstance(x, float) else str(x) for x in xs])
+    ax.set_yticks(range(len(ys)), [f"{y:g}" if isinstance(y, float) else str(y) for y in ys])
+    ax.set_xlabel(key_label(x_key, units))
+    ax.set_ylabel(key_label(y_key, units))
+    ax.set_title(f"{alternative}: verdict by variant (D = D_M lower bound, V = upper-bound base shear "
+                 "against fixed base)", fontsize="small")
+    present = [v for v in VERDICT_ORDER if any(r.get("verdict") == v for r in rows)]
+    ax.legend(handles=[Patch(color=VERDICT_COLOURS[v], alpha=0.55, label=v) for v in present],
+              loc="upper left", bbox_to_anchor=(1.01, 1.0), fontsize="small")
+    return ax
+
+
+def _sort_key(value):
+    return (0, value, "") if isinstance(value, (int, float)) else (1, 0.0, str(value))
+
+
+# --- maps from history sweeps (``batch --direct --histories``) ---------------------------------
+
+HISTORY_FIELDS = {
+    "history_displacement_lower_m": "peak isolator displacement, lower bound [m]",
+    "history_displacement_upper_m": "peak isolator displacement, upper bound [m]",
+    "floor_acceleration_reduction_lower": "floor-acceleration reduction, lower bound [-]",
+    "floor_acceleration_reduction_upper": "floor-acceleration reduction, upper bound [-]",
+}
+"""Columns mapped by :func:`plot_history_maps`, with their panel titles (suite means of peaks)."""
+
+
+def history_rows(rows: Iterable[dict]) -> list[dict]:
+    """Completed rows of a history sweep (with the history columns filled)."""
+    return [r for r in completed_rows(rows)
+            if all(_number(r.get(c)) is not None for c in ("history_displacement_lower_m",
+                                                           "floor_acceleration_reduction_lower",
+                                                           "floor_acceleration_reduction_upper"))]
+
+
+def grid_field(rows: Iterable[dict], x_key: str, y_key: str, column: str, alternative=None):
+    """Values of ``column`` on the grid of two varied keys.
+
+    Parameters
+    ----------
+    rows : iterable of dict
+        Summary rows.
+    x_key, y_key : str
+        Override columns (dotted key paths) spanning the grid.
+    column : str
+        Summary column to lay out (e.g. ``history_displacement_lower_m``).
+    alternative : str, optional
+        Alternative to take (default: the first one found).
+
+    Returns
+    -------
+    (xs, ys, values)
+        Sorted distinct values of each key and an array (len(ys), len(xs)) of
+        the column, NaN where no completed variant gives a number.
+    """
+    import numpy as np
+
+    rows = [r for r in rows if r.get("status") == "done"]
+    alternative = alternative if alternative is not None else (rows[0].get("alternative") if rows else None)
+    rows = [r for r in rows if r.get("alternative") == alternative]
+    xs = sorted({r[x_key] for r in rows}, key=_sort_key)
+    ys = sorted({r[y_key] for r in rows}, key=_sort_key)
+    values = np.full((len(ys), len(xs)), np.nan)
+    for row in rows:
+        number = _number(row.get(column))
+        if number is not None:
+            values[ys.index(row[y_key]), xs.index(row[x_key])] = number
+    return xs, ys, values
+
+
+def feasible(row: dict, *, torsion: bool = True) -> bool:
+    """A variant is feasible on the history numbers when its verdict is not "not recommended"
+    and its peak displacement (with torsion when ``torsion``) stays within the bearings' capacity."""
+    if row.get("verdict") == "not recommended":
+        return False
+    demand = _number(row.get("history_displacement_torsion_m" if torsion else "history_displacement_lower_m"))
+    capacity = _number(row.get("displacement_capacity_m"))
+    return demand is None or capacity is None or demand <= capacity
+
+
+def history_front(rows: Iterable[dict]) -> list[dict]:
+    """History rows not dominated in (smaller peak displacement with torsion, larger smaller-of-
+    the-two-bounds floor-acceleration reduction)."""
+    rows = history_rows(rows)
+
+    def point(r):
+        return (r["history_displacement_torsion_m"] if _number(r.get("history_displacement_torsion_m")) is not None
+                else r["history_displacement_lower_m"], _worst_reduction(r))
+
+    front = []
+    for row in rows:
+        d, a = point(row)
+        if not any(point(o)[0] <= d and point(o)[1] >= a and (point(o)[0] < d or point(o)[1] > a) for o in rows):
+            front.append(row)
+    return front
+
+
+def _worst_reduction(row: dict) -> float:
+    return min(row["floor_acceleration_reduction_lower"], row["floor_acceleration_reduction_upper"])
+
+
+def best_history_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
+    """The best variants of a history sweep.
+
+    Feasible variants (:func:`feasible`), ordered by verdict (feasible
+    first), whether they lie on :func:`history_front`, the floor-acceleration
+    reduction of the less favourable bound (largest first) and the peak
+    displacement with torsion (smallest first). An alternative the varied
+    keys leave unchanged appears once, ``same_in`` counting its variants.
+
+    Parameters
+    ----------
+    rows : iterable of dict
+        Summary rows of a history sweep.
+    top : int
+        How many to return. [-]
+
+    Returns
+    -------
+    list of dict
+    """
+    rows = [r for r in history_rows(rows) if feasible(r)]
+    kept: dict[tuple, dict] = {}
+    for row in rows:
+        key = (row.get("alternative"), row.get("verdict"),
+               *(round(float(row[c]), 9) for c in ("history_displacement_lower_m", "floor_acceleration_reduction_lower",
+                                                   "floor_acceleration_reduction_upper")))
+        if key in kept:
+            kept[key]["same_in"] += 1
+        else:
+            kept[key] = dict(row, same_in=1)
+    rows = list(kept.values())
+    front = {id(r) for r in history_front(rows)}
+    ordered = sorted(rows, key=lambda r: (verdict_rank(r.get("verdict")), id(r) not in front, -_worst_reduction(r),
+                                          r["history_displacement_lower_m"]))
+    return ordered[: max(int(top), 0)]
+
+
+def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=None, *, levels: int = 8):
+    """Design-space maps of a history sweep over two varied keys, both bounds.
+
+    Four panels: peak isolator displacement (lower and upper bound, suite
+    means) and floor-acceleration reduction ``1 - a_isolated / a_fixed``
+    (lower and upper bound), each as filled contours with labelled contour
+    lines; variants that are not feasible (:func:`feasible`: verdict "not
+    recommended" or displacement with torsion beyond the bearings' capacity)
+    are hatched and their region outlined; the best variants
+    (:func:`best_history_alternatives`, up to 3) are starred.
+
+    Parameters
+    ----------
+    rows : iterable of dict
+        Summary rows of a history sweep.
+    x_key, y_key : str
+        Override columns on the axes (dotted key paths), each with 2 or more values.
+    alternative : str, optional
+        Alternative to map (default: the first one found).
+    levels : int
+        Contour levels per panel. [-]
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+    """
+    import numpy as np
+    from matplotlib.figure import Figure
+
+    rows = list(rows)
+    done = history_rows(rows)
+    alternative = alternative if alternative is not None else (done[0].get("alternative") if done else None)
+    mine = [r for r in done if r.get("alternative") == alternative]
+    xs, ys, _ = grid_field(mine, x_key, y_key, "history_displacement_lower_m", alternative)
+    if len(xs) < 2 or len(ys) < 2 or not all(isinstance(v, (int, float)) for v in (*xs, *ys)):
+        raise ValueError(f"x_key = {x_key!r}, y_key = {y_key!r} are not allowed: each must take 2 or more "
+                         f"numeric values among the completed history rows of {alternative!r}")
+    ok = np.zeros((len(ys), len(xs)))
+    for row in mine:
+        ok[ys.index(row[y_key]), xs.index(row[x_key])] = 1.0 if feasible(row) else 0.0
+    best = [r for r in best_history_alternatives(mine, top=3)]
+    fig = Figure(figsize=(10.0, 7.5), layout="constrained")
+    axes = fig.subplots(2, 2, sharex=True, sharey=True)
+    gx, gy = np.meshgrid(np.asarray(xs, dtype=float), np.asarray(ys, dtype=float))
+    for ax, (column, title) in zip(axes.ravel(), HISTORY_FIELDS.items()):
+        _, _, values = grid_field(mine, x_key, y_key, column, alternative)
+        cmap = "viridis_r" if column.startswith("history_displacement") else "viridis"
+        if np.isfinite(values).sum() >= 4 and np.nanmax(values) > np.nanmin(values):
+            filled = ax.contourf(gx, gy, np.ma.masked_invalid(values), levels=levels, cmap=cmap)
+            lines = ax.contour(gx, gy, np.ma.masked_invalid(values), levels=filled.levels, colors="k",
+                               linewidths=0.5)
+            ax.clabel(lines, fontsize="x-small", fmt="%.2f")
+            fig.colorbar(filled, ax=ax, shrink=0.9)
+        else:
+            ax.scatter(gx, gy, c=np.nan_to_num(values), cmap=cmap)
+        if (ok < 0.5).any():
+            ax.contourf(gx, gy, ok, levels=[-0.5, 0.5], colors="none", hatches=["////"])
+            if (ok > 0.5).any():
+                ax.contour(gx, gy, ok, levels=[0.5], colors="#c8423b", linewidths=1.5)
+        for row in best:
+            ax.plot(row[x_key], row[y_key], marker="*", color="white", mec="black", ms=12, ls="none")
+        ax.set_title(title, fontsize="medium")
+    for ax in axes[-1]:
+        ax.set_xlabel(x_key)
+    for ax in axes[:, 0]:
+        ax.set_ylabel(y_key)
+    fig.suptitle(f"{alternative}: response-history design space (hatched: not feasible; stars: best variants)")
+    return fig
+
+
+def best_history_table(rows: Iterable[dict], top: int = 5) -> str:
+    """:func:`best_history_alternatives` as a Markdown table (for the design-space workbook)."""
+    best = best_history_alternatives(rows, top=top)
+    if not best:
+        return "No variant qualifies on the response-history numbers: every completed variant is not feasible."
+    lines = ["| rank | variant | alternative | verdict | peak displacement lower / upper [m] "
+             "| with torsion [m] | capacity [m] | floor-acceleration reduction lower / upper [-] | same in variants |",
+             "|" + "---|" * 9]
+    for rank, row in enumerate(best, 1):
+        capacity = _number(row.get("displacement_capacity_m"))
+        torsion = _number(row.get("history_displacement_torsion_m"))
+        upper = _number(row.get("history_displacement_upper_m"))
+        lines.append(
+            f"| {rank} | {row['variant']} | {row['alternative']} | {row['verdict']} | "
+            f"{row['history_displacement_lower_m']:.3f} / {'-' if upper is None else f'{upper:.3f}'} | "
+            f"{'-' if torsion is None else f'{torsion:.3f}'} | {'-' if capacity is None else f'{capacity:.2f}'} | "
+            f"{row['floor_acceleration_reduction_lower']:.2f} / {row['floor_acceleration_reduction_upper']:.2f} | "
+            f"{row['same_in']} |")
+    return "\n".join(lines)

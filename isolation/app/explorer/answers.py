@@ -1,0 +1,547 @@
+"""Quick explorer: bearing, site and building settings in, the code's answer out.
+
+The callbacks of the live explorer (``python -m isolation explore``,
+``workbooks/explore.ipynb``) are plain functions here, so they are tested
+without a browser:
+
+* :func:`explore` - settings to an :class:`ExplorerAnswer`: lower, nominal
+  and upper property sets, D_M, D_TM, moat, base shears, bearing checks, code
+  applicability checks and plausibility warnings;
+* :func:`summary_table`, :func:`summary_html`, :func:`quantities_html`,
+  :func:`layout_html`, :func:`checks_html`, :func:`warnings_html` - the answer as tables
+  (the layout table: bearing grid, the code's torsion displacement at each bearing and the
+  axial-load range under overturning, from :func:`isolation.study.plan.layout_demands`);
+* :func:`comparison_table` / :func:`comparison_html` - a pinned alternative
+  beside the current one;
+* :func:`trade_off` - displacement against base shear while one bearing
+  parameter is swept;
+* :func:`plot_series` - the numbers the live plots draw; :func:`explorer_figure`
+  the same as a static matplotlib figure;
+* :func:`update` - answer, HTML and figure in one call;
+* :func:`isolation.app.explorer.study_file.study_toml` - the alternative as a study file.
+
+:func:`build_explorer` wires ipywidgets and bqplot to these
+(:mod:`isolation.app.explorer.live`); it holds no logic.
+
+The explorer writes its settings as a study (:mod:`isolation.app.explorer.study_file`)
+and answers through the same functions as ``python -m isolation run``
+(:func:`isolation.study.parse_study`, :func:`isolation.study.assembly.design_alternative`,
+ASCE/SEI 7-16 Ch. 17 ELF or EN 1998-1 §10.9 simplified analysis). Scope:
+concept-stage screening, not design; a licensed engineer checks every number
+against the local code.
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field
+from typing import Any, Mapping
+
+import numpy as np
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.figure import Figure
+
+from isolation import validate
+from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
+from isolation.app.explorer.tables import (_force, _length, checks_html, comparison_html, comparison_table,
+                                       layout_html, quantities_html, summary_html, summary_table, warnings_html)
+from isolation.output.plots import COLOURS, masing_loop
+
+__all__ = [
+    "BEARING_TYPES",
+    "CASES",
+    "SCOPE",
+    "TRADE_OFF_PARAMETERS",
+    "ExplorerSettings",
+    "ExplorerAnswer",
+    "TradeOff",
+    "explore",
+    "summary_table",
+    "summary_html",
+    "quantities_html",
+    "layout_html",
+    "checks_html",
+    "warnings_html",
+    "comparison_table",
+    "comparison_html",
+    "trade_off",
+    "plot_series",
+    "explorer_figure",
+    "update",
+    "build_explorer",
+]
+
+CASES = ("lower", "nominal", "upper")
+"""Property sets, in the order shown."""
+
+SCOPE = ("Screening for a feasibility study, not construction design. Single-mode equivalent-linear "
+         "answer of the chosen code basis; all bearings alike and equally loaded; weight shared equally by "
+         "the base floor and the storeys. Verify every number against the local code with a licensed "
+         "structural engineer.")
+"""Scope and cautions shown on the explorer page."""
+
+TRADE_OFF_PARAMETERS = {
+    "friction pendulum": ("friction", "radius"),
+    "double concave": ("friction", "radius"),
+    "lead rubber": ("lead_diameter", "layers"),
+    "high-damping rubber": ("layers", "outer_diameter"),
+}
+"""Parameters the trade-off curve may sweep, per bearing type (double concave: both dishes alike)."""
+
+_CONTROL = {c.field: c for c in CONTROLS}
+
+
+@dataclass(frozen=True)
+class ExplorerSettings:
+    """Everything the explorer's controls set (internal units).
+
+    Parameters
+    ----------
+    bearing_type : str
+        One of :data:`BEARING_TYPES`.
+    weight : float
+        Seismic weight on the isolation plane, > 0. [kN]
+    bearing_count : int
+        Number of identical bearings, >= 1. [-]
+    grid_along : int
+        Bearings along the plan length, a divisor of ``bearing_count`` (the rest across the width),
+        or 0 for the grid of nearly square bays (:func:`isolation.study.plan.default_grid`). [-]
+    radius, friction : float
+        Friction pendulum: radius of curvature [m] and coefficient of friction [-].
+    radius_1, friction_1, radius_2, friction_2 : float
+        Double concave: radius [m] and friction [-] of the lower and upper dish.
+    outer_diameter : float
+        Lead rubber and high-damping rubber: bonded rubber diameter, > 0. [m]
+    lead_diameter : float
+        Lead rubber: lead core diameter, in (0, outer_diameter). [m]
+    layer_thickness : float
+        Rubber bearings: one rubber layer, > 0. [m]
+    layers : int
+        Rubber bearings: number of rubber layers, >= 1. [-]
+    shear_modulus : float
+        Lead rubber: rubber shear modulus, > 0. [kPa]
+    displacement_capacity : float
+        Displacement the bearing allows (double concave: both dishes together), > 0. [m]
+    basis : str
+        Code basis, "asce7" (ASCE/SEI 7-16 Ch. 17) or "eurocode" (EN 1998-1 §10). [-]
+    sms, sm1 : float
+        ASCE 7: MCE_R spectral accelerations S_MS and S_M1, > 0. [g]
+    long_period : float
+        ASCE 7: long-period transition T_L. [s]
+    s1 : float
+        ASCE 7: mapped S_1, for the limits of the ELF procedure (§17.4.1), >= 0. [g]
+    site_class : str
+        ASCE 7: site class "A"-"F". [-]
+    ag : float
+        Eurocode: design ground acceleration on type A ground a_g, > 0. [g]
+    ground_type : str
+        Eurocode: ground type "A"-"E". [-]
+    lower_factor : float
+        Property modification factor for the lower bound, in (0, 1]. [-]
+    upper_factor : float
+        Property modification factor for the upper bound, >= 1. [-]
+    fixed_base_period : float
+        Period of the building on a fixed base, > 0. [s]
+    storeys : int
+        Storeys above the isolation plane, >= 1. [-]
+    storey_height : float
+        Height of every storey. [m]
+    plan_length, plan_width : float
+        Plan dimensions, length the longer. [m]
+    eccentricity : float
+        Actual eccentricity of mass and stiffness, >= 0 (5 % accidental is added). [m]
+    response_modification : float
+        R (ASCE 7) or q (Eurocode) of the fixed-base design, >= 1. [-]
+    units : str
+        "SI" or "US": what the controls, tables and plots show. [-]
+    """
+
+    bearing_type: str = "friction pendulum"
+    weight: float = 40_000.0
+    bearing_count: int = 20
+    grid_along: int = 0
+    radius: float = 3.0
+    friction: float = 0.06
+    radius_1: float = 2.0
+    friction_1: float = 0.05
+    radius_2: float = 2.0
+    friction_2: float = 0.05
+    outer_diameter: float = 0.8
+    lead_diameter: float = 0.16
+    layer_thickness: float = 0.01
+    layers: int = 20
+    shear_modulus: float = 400.0
+    displacement_capacity: float = 0.8
+    basis: str = "asce7"
+    sms: float = 1.5
+    sm1: float = 0.75
+    long_period: float = 8.0
+    s1: float = 0.5
+    site_class: str = "D"
+    ag: float = 0.3
+    ground_type: str = "B"
+    lower_factor: float = 0.85
+    upper_factor: float = 1.3
+    fixed_base_period: float = 0.5
+    storeys: int = 4
+    storey_height: float = 4.0
+    plan_length: float = 40.0
+    plan_width: float = 30.0
+    eccentricity: float = 0.0
+    response_modification: float = 6.0
+    units: str = "SI"
+
+    def __post_init__(self) -> None:
+        validate.one_of("bearing_type", self.bearing_type, BEARING_TYPES)
+        validate.one_of("basis", self.basis, BASES)
+        validate.one_of("units", self.units, ("SI", "US"))
+        validate.positive("weight", self.weight, "kN")
+        for name in ("bearing_count", "layers", "storeys"):
+            value = getattr(self, name)
+            if isinstance(value, bool) or not isinstance(value, (int, np.integer, float)) \
+                    or int(value) != value or value < 1:
+                raise ValueError(f"{name} = {value!r} is not allowed: must be a whole number >= 1")
+            object.__setattr__(self, name, int(value))
+        along = self.grid_along
+        if isinstance(along, bool) or not isinstance(along, (int, np.integer, float)) or int(along) != along \
+                or along < 0 or (along and self.bearing_count % int(along)):
+            divisors = [d for d in range(1, self.bearing_count + 1) if self.bearing_count % d == 0]
+            raise ValueError(f"grid_along = {along!r} is not allowed: must be 0 (nearly square bays) or a divisor of "
+                             f"the number of bearings {self.bearing_count} ({', '.join(map(str, divisors))})")
+        object.__setattr__(self, "grid_along", int(along))
+        for name in ("friction", "friction_1", "friction_2"):
+            validate.in_range(name, getattr(self, name), 0.0, 0.3, "-", low_inclusive=False)
+        for name in ("radius", "radius_1", "radius_2", "outer_diameter", "lead_diameter", "layer_thickness",
+                     "shear_modulus", "displacement_capacity", "sms", "sm1", "s1", "long_period", "ag",
+                     "storey_height", "plan_length", "plan_width"):
+            validate.positive(name, getattr(self, name), _unit(name))
+        validate.non_negative("eccentricity", self.eccentricity, "m")
+        validate.in_range("response_modification", self.response_modification, 1.0, 8.0, "-")
+        validate.in_range("lower_factor", self.lower_factor, 0.0, 1.0, "-", low_inclusive=False)
+        validate.in_range("upper_factor", self.upper_factor, 1.0, 10.0, "-")
+        validate.positive("fixed_base_period", self.fixed_base_period, "s")
+        validate.one_of("site_class", self.site_class, CHOICES["site_class"][0])
+        validate.one_of("ground_type", self.ground_type, CHOICES["ground_type"][0])
+        if self.bearing_type == "lead rubber" and self.lead_diameter >= self.outer_diameter:
+            raise ValueError(f"lead_diameter = {self.lead_diameter!r} is not allowed: must be less than "
+                             f"outer_diameter = {self.outer_diameter!r} [m]")
+
+    def study(self):
+        """These settings as a validated :class:`isolation.study.Study` (see :mod:`isolation.app.explorer.study_file`)."""
+        from isolation.app.explorer.study_file import STUDY_FIELDS, study_mapping
+        from isolation.study import StudyError, parse_study
+
+        try:
+            return parse_study(study_mapping(self), "<explorer>")
+        except StudyError as error:
+            raise ValueError(_explorer_names(error.problems, STUDY_FIELDS)) from None
+
+    def spectrum(self):
+        """The site spectrum (ASCE/SEI 7-16 §11.4.6 MCE_R or EN 1998-1 §3.2.2.2 elastic)."""
+        if self.basis == "asce7":
+            from isolation.site.spectra import CodeSpectrum
+            return CodeSpectrum(self.sms, self.sm1, self.long_period)
+        from isolation.study.assembly import site_spectrum
+        return site_spectrum(self.study())
+
+    def system(self):
+        """The isolation plane: all bearings alike, equal shares of the weight."""
+        from isolation.study.assembly import isolation_system
+        return isolation_system(self.study().alternatives[0])
+
+
+def _unit(name: str) -> str:
+    control = _CONTROL.get(name)
+    return unit_name(control.kind, "SI") if control else "-"
+
+
+def _explorer_names(problems: list[str], names: Mapping[str, str]) -> str:
+    """Study key paths in messages -> the explorer's field names."""
+    out = []
+    for problem in problems:
+        for path, name in sorted(names.items(), key=lambda item: -len(item[0])):
+            problem = problem.replace(path, name)
+        for prefix in ("alternative[0].bearings[0].", "alternative[0].", "building.", "site."):
+            problem = problem.replace(prefix, "")
+        out.append(problem)
+    return "; ".join(out)
+
+
+@dataclass(frozen=True)
+class ExplorerAnswer:
+    """The explorer's answer.
+
+    Attributes
+    ----------
+    settings : ExplorerSettings
+    results : dict
+        :class:`isolation.design.EquivalentLinearResult` by property set.
+    backbones : dict
+        Whole-plane backbones by property set.
+    quantities : dict
+        ``displacement`` D_M [m], ``total_displacement`` D_TM [m], ``moat`` [m],
+        ``isolation_shear`` V_b [kN], ``superstructure_shear`` V_s [kN],
+        ``fixed_base_shear`` [kN], ``shear_ratio`` V_s/V_fb [-].
+    checks : tuple of Check
+        Bearing checks at D_TM (strain, buckling, capacity, tension, restoring force).
+    applicability : tuple of Check
+        Conditions of the code's simplified procedure.
+    warnings : tuple of str
+        Plausibility warnings (:func:`isolation.app.explorer.advice.plausibility`).
+    spectrum : spectrum object
+        The site spectrum. [g]
+    layout : isolation.study.plan.LayoutDemands
+        Per-bearing displacement and axial-load range of the bearing grid; its extremes are also
+        in ``quantities``: ``bearing_displacement_max`` [m], ``bearing_axial_min``,
+        ``bearing_axial_max`` [kN] and ``bearings_in_tension`` [-].
+    """
+
+    settings: ExplorerSettings
+    results: dict
+    backbones: dict
+    quantities: dict = field(default_factory=dict)
+    checks: tuple = ()
+    applicability: tuple = ()
+    warnings: tuple = ()
+    spectrum: Any = None
+    layout: Any = None
+
+    @property
+    def period_shift(self) -> float:
+        """Nominal effective period over the fixed-base period. [-]"""
+        return self.results["nominal"].period / self.settings.fixed_base_period
+
+    @property
+    def shear_reduction(self) -> float:
+        """Upper-bound base shear coefficient over the fixed-base Sa(T_fb, 5 %). [-]"""
+        spectrum = self.spectrum or self.settings.spectrum()
+        fixed = float(spectrum.sa(self.settings.fixed_base_period, 0.05))
+        return (self.results["upper"].base_shear / self.settings.weight) / fixed
+
+    @property
+    def failed(self) -> tuple:
+        """Names of the bearing checks that fail."""
+        return tuple(c.name for c in self.checks if not c.passed)
+
+    def to_dict(self) -> dict:
+        from isolation.plain import plain
+        return {"settings": asdict(self.settings),
+                "results": {k: v.to_dict() for k, v in self.results.items()},
+                "quantities": plain(self.quantities), "checks": [c.to_dict() for c in self.checks],
+                "applicability": [c.to_dict() for c in self.applicability], "warnings": list(self.warnings),
+                "period_shift": self.period_shift, "shear_reduction": self.shear_reduction}
+
+
+def _settings(settings, values: Mapping[str, Any]) -> ExplorerSettings:
+    base = settings if isinstance(settings, ExplorerSettings) else ExplorerSettings(**dict(settings or {}))
+    unknown = sorted(set(values) - set(ExplorerSettings.__dataclass_fields__))
+    if unknown:
+        allowed = ", ".join(ExplorerSettings.__dataclass_fields__)
+        raise ValueError(f"setting = {unknown[0]!r} is not allowed: must be one of {allowed}")
+    return ExplorerSettings(**{**asdict(base), **values})
+
+
+def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **values: Any) -> ExplorerAnswer:
+    """The code's single-mode answer for the lower, nominal and upper property sets.
+
+    Parameters
+    ----------
+    settings : ExplorerSettings or mapping, optional
+        Starting settings (default :class:`ExplorerSettings`).
+    **values
+        Settings to change, by field name (see :class:`ExplorerSettings`).
+
+    Raises
+    ------
+    ValueError
+        Naming the setting, its value and what is allowed.
+    isolation.errors.RunError
+        When the equivalent-linear iteration finds no answer.
+    """
+    from isolation.app.explorer.advice import plausibility
+    from isolation.study.assembly import design_alternative, isolation_system, site_spectrum
+    from isolation.study.plan import layout_demands
+
+    chosen = _settings(settings, values)
+    study = chosen.study()
+    spectrum = site_spectrum(study)
+    try:
+        system = isolation_system(study.alternatives[0])
+    except ValueError as error:
+        raise ValueError(_explorer_names([str(error)], {})) from None
+    backbones = system.property_sets(study.building.total_weight)
+    report, q, _, _ = design_alternative(study, backbones, system, spectrum, chosen.fixed_base_period)
+    quantities = dict(q)
+    try:
+        quantities["moat"] = report.value("moat")
+    except KeyError:  # EN 1998-1 gives no moat rule here: D plus the same 50 mm clearance (common practice)
+        quantities["moat"] = q["total_displacement"] + 0.05
+    checks = tuple(system.checks(q["total_displacement"]))
+    layout = layout_demands(study, study.alternatives[0], report, spectrum)
+    quantities.update(bearing_displacement_max=float(layout.displacement.max()),
+                      bearing_axial_min=float(layout.axial_min.min()),
+                      bearing_axial_max=float(layout.axial_max.max()), bearings_in_tension=layout.in_tension)
+    answer = ExplorerAnswer(chosen, dict(report.bounds.results), backbones, quantities, checks,
+                            tuple(report.applicability), (), spectrum, layout)
+    return ExplorerAnswer(chosen, answer.results, backbones, quantities, checks, answer.applicability,
+                          tuple(plausibility(answer)), spectrum, layout)
+
+
+# --- trade-off -----------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class TradeOff:
+    """Displacement against base shear while one bearing parameter is swept.
+
+    Attributes
+    ----------
+    parameter : str
+        The swept setting (see :data:`TRADE_OFF_PARAMETERS`).
+    values : ndarray
+        Its values, increasing, the current one among them. [SI unit of the setting]
+    total_displacement : ndarray
+        D_TM at each value (NaN where no answer). [m]
+    base_shear_coefficient : ndarray
+        Upper-bound V_b/W at each value (NaN where no answer). [-]
+    """
+
+    parameter: str
+    values: np.ndarray
+    total_displacement: np.ndarray
+    base_shear_coefficient: np.ndarray
+
+
+def _swept(settings: ExplorerSettings, parameter: str, value: float) -> dict:
+    if settings.bearing_type == "double concave" and parameter in ("friction", "radius"):
+        return {f"{parameter}_1": value, f"{parameter}_2": value}
+    return {parameter: int(round(value)) if _CONTROL[parameter].integer else value}
+
+
+def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: int = 9) -> TradeOff:
+    """Sweep one bearing parameter over its control's range and answer at each value.
+
+    Parameters
+    ----------
+    settings : ExplorerSettings
+        Everything else stays as set.
+    parameter : str, optional
+        One of ``TRADE_OFF_PARAMETERS[settings.bearing_type]``; default the first.
+    count : int
+        Number of values spread over the range, >= 2; the current value is added. [-]
+    """
+    from isolation.errors import RunError
+
+    allowed = TRADE_OFF_PARAMETERS[settings.bearing_type]
+    parameter = parameter or allowed[0]
+    validate.one_of("parameter", parameter, allowed)
+    if isinstance(count, bool) or int(count) != count or count < 2:
+        raise ValueError(f"count = {count!r} is not allowed: must be a whole number >= 2")
+    key = f"{parameter}_1" if settings.bearing_type == "double concave" and parameter != "layers" else parameter
+    control = _CONTROL[key]
+    high = control.high
+    if parameter == "lead_diameter":  # a core wider than half the bearing is not made (common practice)
+        high = min(high, 0.5 * settings.outer_diameter)
+    current = float(getattr(settings, key))
+    values = np.unique(np.append(np.linspace(control.low, high, int(count)), current))
+    if control.integer:
+        values = np.unique(np.round(values))
+    displacement = np.full(values.shape, np.nan)
+    shear = np.full(values.shape, np.nan)
+    for i, value in enumerate(values):
+        try:
+            answer = explore(settings, **_swept(settings, parameter, float(value)))
+        except (ValueError, RunError):
+            continue
+        displacement[i] = answer.quantities["total_displacement"]
+        shear[i] = answer.results["upper"].base_shear / settings.weight
+    return TradeOff(parameter, values, displacement, shear)
+
+
+# --- plots ---------------------------------------------------------------------------------------
+
+
+def plot_series(answer: ExplorerAnswer, points: int = 160) -> dict:
+    """The numbers the live plots draw, in the display units of ``answer.settings.units``.
+
+    Returns a mapping with ``periods`` [s] and ``sa_5`` [g] (the 5 %-damped
+    spectrum), and per property set ``damped[case]`` (Sa at that set's
+    effective damping [g], the curve its isolated point sits on),
+    ``point[case]`` ((T_eff [s], Sa [g])), ``loop[case]`` ((displacement,
+    force) of the loop at D), plus ``fixed`` ((T_fb, Sa(T_fb, 5 %))),
+    ``total_displacement`` (D_TM), ``capacity`` and the units ``length`` and
+    ``force`` used.
+    """
+    s = answer.settings
+    spectrum = answer.spectrum or s.spectrum()
+    longest = max(r.period for r in answer.results.values())
+    periods = np.linspace(0.0, max(4.0, 1.25 * longest), points)
+    scale_d = _length(1.0, s.units)[0]
+    scale_f = _force(1.0, s.units)[0]
+    series: dict[str, Any] = {"periods": periods, "sa_5": np.asarray(spectrum.sa(periods, 0.05), dtype=float),
+                              "damped": {}, "point": {}, "loop": {},
+                              "length": _length(1.0, s.units)[1], "force": _force(1.0, s.units)[1]}
+    for case, r in answer.results.items():
+        series["damped"][case] = np.asarray(spectrum.sa(periods, r.damping), dtype=float)
+        series["point"][case] = (float(r.period), float(spectrum.sa(r.period, r.damping)))
+        x, f = masing_loop(answer.backbones[case], r.displacement)
+        series["loop"][case] = (np.asarray(x) * scale_d, np.asarray(f) * scale_f)
+    t_fb = s.fixed_base_period
+    series["fixed"] = (t_fb, float(spectrum.sa(t_fb, 0.05)))
+    series["total_displacement"] = answer.quantities["total_displacement"] * scale_d
+    series["capacity"] = s.displacement_capacity * scale_d
+    return series
+
+
+def explorer_figure(answer: ExplorerAnswer) -> Figure:
+    """Spectra with the fixed-base and isolated points beside the loops at D (static matplotlib)."""
+    series = plot_series(answer)
+    fig = Figure(figsize=(9.0, 3.4), layout="constrained")
+    FigureCanvasAgg(fig)
+    left, right = fig.subplots(1, 2)
+    left.plot(series["periods"], series["sa_5"], color="k", lw=1.5, label="5 % damping")
+    t_fb, sa_fb = series["fixed"]
+    left.plot([t_fb], [sa_fb], "o", color=COLOURS["fixed"], label=f"fixed base {t_fb:.2f} s")
+    for case, r in answer.results.items():
+        colour = COLOURS[case]
+        left.plot(series["periods"], series["damped"][case], color=colour, lw=0.8, ls="--")
+        left.plot(*series["point"][case], "s", color=colour,
+                  label=f"{case} {r.period:.2f} s, β = {100 * r.damping:.0f} %")
+        x, f = series["loop"][case]
+        d, unit = _length(r.displacement, answer.settings.units)
+        right.plot(x, f, color=colour, lw=1.3, label=f"{case}: D = {d:.0f} {unit}")
+    left.set_xlabel("Period T [s]")
+    left.set_ylabel("Sa [g]")
+    right.set_xlabel(f"Displacement [{series['length']}]")
+    right.set_ylabel(f"Force, isolation plane [{series['force']}]")
+    for ax in (left, right):
+        ax.grid(alpha=0.3)
+        ax.legend(fontsize=7)
+    return fig
+
+
+def update(values: Mapping[str, Any]) -> tuple[ExplorerAnswer, str, Figure]:
+    """Settings to (answer, HTML summary, static figure).
+
+    Parameters
+    ----------
+    values : mapping
+        Settings by field name of :class:`ExplorerSettings`.
+    """
+    answer = explore(**dict(values))
+    return answer, summary_html(answer), explorer_figure(answer)
+
+
+def build_explorer(settings: ExplorerSettings | None = None):
+    """The live explorer (ipywidgets and bqplot); see :func:`isolation.app.explorer.live.build`.
+
+    Returns
+    -------
+    ipywidgets.VBox
+        The explorer; ``controls`` maps field names to their numeric entries
+        (or choice widgets), ``sliders`` to the sliders, ``summary``,
+        ``quantities``, ``bearing_layout``, ``checks``, ``warnings`` and ``message`` are HTML
+        widgets, ``figures`` the bqplot figures, ``state`` the current
+        settings, answer and pinned answer.
+    """
+    from isolation.app.explorer.live import build
+    return build(settings or ExplorerSettings())

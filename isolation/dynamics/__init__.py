@@ -1,0 +1,1 @@
+"""Dynamics: structural models (planar and plan), the response-history engine, isolator force laws, energy and response measures."""

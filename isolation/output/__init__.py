@@ -1,0 +1,1 @@
+"""Output: figures (`plots`), tables (`tables`), the report exporters (`report`, `typeset`)."""

@@ -1,0 +1,1 @@
+"""The site: code spectra (`spectra`) and damping rules (`damping`)."""

@@ -1,0 +1,418 @@
+"""Bidirectional response histories of a study's alternatives on the plan model.
+
+What a study asks for with ``[analysis] bidirectional = true``:
+
+* the plan superstructure: the planar shear building's floor masses, storey
+  stiffnesses and heights in both directions (the study gives one lateral
+  system, taken alike along the length and the width: an assumption stated in
+  the report), plan ``plan_length x plan_width`` with the centre of rigidity
+  ``eccentricity`` from the centre of mass along the length;
+* bearings on a grid over the plan (``grid`` of the alternative, or the grid
+  of the bearing count closest to the plan proportions), groups in the order
+  given, gravity loads in proportion to each group's axial load;
+* the accidental eccentricity as a mass offset of 5 % of the plan dimension
+  in each direction, four sign combinations run (ASCE/SEI 7-16 §12.8.4.2 and
+  §17.5.3.3 / EN 1998-1 §4.3.2(1); from memory);
+* lower and upper property sets, every pair of the matched suite of pairs;
+* storey strengths: the same code-designed storey yield shears as the planar
+  comparison (:mod:`isolation.performance.comparison`: the isolated superstructure's from
+  V_s, the fixed base's from its equivalent-lateral-force design, times the
+  overstrength), in x and in y alike, with the study's hardening and P-delta;
+  each storey's x and y springs are bilinear with kinematic hardening and
+  uncoupled (:mod:`isolation.dynamics.plan_structure`; a Clough storey law of the
+  planar model is run as bilinear here, stated in the results); the
+  code-designed fixed base runs under the same pairs and offsets.
+
+The total displacement from the histories is the suite mean of the largest
+bearing's peak resultant displacement, the largest over property sets and
+eccentricities.  The code's lower limit on response-history results applies:
+on an ASCE/SEI 7 basis the total displacement is not taken below 80 % of the
+single-mode D_TM (ASCE/SEI 7-16 §17.6.3.4 with Table 17.6-1 in 7-10 terms;
+from memory); EN 1998-1 §10.9 sets no such limit.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from isolation import GRAVITY
+from isolation.dynamics.plan_history import run_plan_cases
+from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
+
+__all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
+           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional", "fixed_base_summary", "LayoutDemands", "layout_demands",
+           "torsion_factors"]
+
+#: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code basis.
+HISTORY_LOWER_LIMIT = {"asce7": 0.8, "eurocode": 0.0}
+
+#: Accidental eccentricity as a fraction of the plan dimension (both codes; from memory).
+ACCIDENTAL_ECCENTRICITY = 0.05
+
+
+def default_grid(count: int, length: float, width: float) -> tuple:
+    """Bearings along the length and the width whose product is ``count`` and spacing closest to square.
+
+    Parameters
+    ----------
+    count : int
+        Number of bearings, >= 1. [-]
+    length, width : float
+        Plan dimensions. [m]
+
+    Returns
+    -------
+    tuple of int
+    """
+    best, score = (count, 1), math.inf
+    for along in range(1, count + 1):
+        if count % along:
+            continue
+        across = count // along
+        spacing_l = length / max(along - 1, 1)
+        spacing_w = width / max(across - 1, 1)
+        value = abs(math.log(spacing_l / spacing_w))
+        if value < score - 1e-12:
+            best, score = (along, across), value
+    return best
+
+
+def plan_superstructure(planar, building) -> PlanShearBuilding:
+    """The planar superstructure on the study's plan (same storeys and strengths in both directions).
+
+    Parameters
+    ----------
+    planar : isolation.dynamics.structure.ShearBuilding
+        The study's planar superstructure; its storey yield shears (if any), hardening and P-delta
+        are given to the x and the y springs alike. [-]
+    building : isolation.study.inputs.Building
+        The study's building (plan_length, plan_width, eccentricity [m]). [-]
+    """
+    shears = getattr(planar, "yield_shears", None)
+    return PlanShearBuilding(planar.masses, planar.stiffnesses, planar.stiffnesses, planar.heights,
+                             plan=(building.plan_length, building.plan_width),
+                             rigidity_offset=(building.eccentricity, 0.0), damping=planar.damping,
+                             yield_shears_x=shears, yield_shears_y=shears,
+                             hardening=getattr(planar, "hardening", 0.0), p_delta=getattr(planar, "p_delta", False))
+
+
+def _reduced(result):
+    """The storey arrays of one plan result, without its histories."""
+    from types import SimpleNamespace
+
+    return SimpleNamespace(ductility=result.ductility, residual_drift=result.residual_drift,
+                           peak_drift_ratio=result.peak_drift_ratio, hysteretic_energy=result.hysteretic_energy)
+
+
+def _storeys(results) -> dict:
+    """Storey indicators of plan results: suite means per storey, the worst over the results given."""
+    ductility = np.array([np.nanmean(r.ductility, axis=0) for r in results])  # (runs, storeys, 2)
+    residual = np.array([r.residual_drift.mean(axis=0) for r in results])
+    drift = np.array([r.peak_drift_ratio.mean(axis=0) for r in results])
+    yielding = bool(np.isfinite(ductility).any())
+    worst_ductility = np.max(ductility, axis=0) if yielding else None
+    return {
+        "yielding": yielding,
+        "ductility_x": None if worst_ductility is None else worst_ductility[:, 0].tolist(),
+        "ductility_y": None if worst_ductility is None else worst_ductility[:, 1].tolist(),
+        "ductility_max": None if worst_ductility is None else float(worst_ductility.max()),
+        "residual_drift_x": np.max(residual, axis=0)[:, 0].tolist(),
+        "residual_drift_y": np.max(residual, axis=0)[:, 1].tolist(),
+        "residual_drift_max": float(residual.max()),
+        "drift_ratio": np.max(drift, axis=0).tolist(),
+        "drift_ratio_max": float(drift.max()),
+        "hysteretic_energy_kNm": float(max(r.hysteretic_energy.mean() for r in results)),
+    }
+
+
+def fixed_base_summary(study, planar, pairs) -> dict:
+    """The code-designed fixed-base building on the plan model under the pairs, the four eccentricities.
+
+    Parameters
+    ----------
+    study : isolation.study_inputs.Study
+        The study (building plan and eccentricity). [-]
+    planar : isolation.structure.ShearBuilding
+        The fixed-base comparison building (yielding unless the study asks for elastic). [-]
+    pairs : isolation.motions.MatchedPairs
+        Matched component pairs. [g]
+
+    Returns
+    -------
+    dict
+        Storey indicators (suite means, worst over the eccentricities): ``ductility_x``,
+        ``ductility_y`` (None when elastic), ``residual_drift_x``/``_y``, ``drift_ratio`` (resultant
+        at the plan corners) per storey and their largest values. [-]
+    """
+    from isolation.dynamics.plan_history import run_plan
+
+    superstructure = plan_superstructure(planar, study.building)
+    results = [_reduced(run_plan(superstructure.shifted(offset), pairs.acceleration, pairs.dt))
+               for offset in _offsets(study.building)]
+    out = _storeys(results)
+    out["storey_law"] = _law(planar)
+    return out
+
+
+def _law(planar) -> str:
+    if getattr(planar, "yield_shears", None) is None:
+        return "elastic"
+    hysteresis = getattr(planar, "hysteresis", "bilinear")
+    note = "" if hysteresis == "bilinear" else f" (the planar model's {hysteresis} law run as bilinear)"
+    return f"bilinear, kinematic hardening {planar.hardening:g}, x and y uncoupled{note}"
+
+
+def plan_bearings(system, case: str, displacement: float) -> tuple:
+    """One law object per bearing of an isolation system for a property case, with its gravity load.
+
+    Sliders keep their own law (friction scaled by the case's factor; forces follow the axial load);
+    other bearings use one bearing's backbone under the case's stiffness and strength factors, or,
+    for amplitude-dependent rubber, the equivalent bilinear at ``displacement`` [m].
+
+    Returns
+    -------
+    tuple of (list of bearing laws, list of axial loads [kN])
+    """
+    from isolation.bearings import Bilinear, MultiLinear
+    from isolation.bearings.damping_rubber import equivalent_bilinear
+
+    laws, loads = [], []
+    for group in system.groups:
+        factors = group.factors or system.factors
+        if group.is_sliding:
+            law = group.bearing.with_friction_factor(factors.friction.factor(case))
+        else:
+            whole = group.backbone(case, system.factors)
+            if isinstance(whole, (Bilinear, MultiLinear)):
+                law = whole.times(1.0 / group.count)
+            else:
+                law = equivalent_bilinear(whole.effective_stiffness(displacement) / group.count,
+                                          whole.effective_damping(displacement), displacement, 10.0)
+        laws += [law] * group.count
+        loads += [group.axial_load] * group.count
+    return laws, loads
+
+
+def _offsets(building) -> list:
+    ex = ACCIDENTAL_ECCENTRICITY * building.plan_length
+    ey = ACCIDENTAL_ECCENTRICITY * building.plan_width
+    return [(sx * ex, sy * ey) for sx in (1.0, -1.0) for sy in (1.0, -1.0)]
+
+
+def bidirectional_summary(study, alternative, system, structure, base_mass: float, pairs, design_total: float,
+                          design_displacement: float, fixed_base: dict | None = None) -> dict:
+    """Run one alternative's plan model under the pairs and summarise it for the results and the verdict.
+
+    Parameters
+    ----------
+    study : isolation.study.inputs.Study
+        The study (building plan, basis). [-]
+    alternative : isolation.study.inputs.Alternative
+        Bearing groups and optional grid. [-]
+    system : isolation.bearings.IsolationSystem
+        The alternative's isolation system. [-]
+    structure : isolation.dynamics.structure.ShearBuilding
+        Planar superstructure above the isolators, with its storey strengths when yielding
+        (:func:`isolation.performance.comparison.isolated_superstructure`). [-]
+    base_mass : float
+        Mass of the isolation-plane floor. [t]
+    pairs : isolation.motions.MatchedPairs
+        Matched component pairs. [g]
+    design_total : float
+        Single-mode total displacement D_TM. [m]
+    design_displacement : float
+        Single-mode displacement D_M (for equivalent bilinear rubber). [m]
+    fixed_base : dict, optional
+        :func:`fixed_base_summary` of the study, copied into the result as ``fixed_base``. [-]
+
+    Returns
+    -------
+    dict
+        Plain numbers: history and code D_TM, the limit applied, the governing value, torsional
+        amplification, axial load extremes and uplift, per-bearing demand, one orbit.
+    """
+    building = study.building
+    superstructure = plan_superstructure(structure, building)
+    count = sum(g.count for g in system.groups)
+    grid = alternative.grid or default_grid(count, building.plan_length, building.plan_width)
+    positions = bearing_grid((building.plan_length, building.plan_width), grid)
+    weight = (base_mass + superstructure.total_mass) * GRAVITY
+    cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
+    peaks, axial_min, axial_max, centre, uplift, amplification, runs = [], [], [], [], 0, [], []
+    worst = (-1.0, None)
+    for offset in _offsets(building):
+        buildings = []
+        for case in ("lower", "upper"):
+            laws, loads = cases[case]
+            share = np.asarray(loads) * weight / float(np.sum(loads))
+            buildings.append(PlanIsolatedBuilding(superstructure, base_mass, laws, positions,
+                                                  gravity_loads=tuple(share), mass_offset=offset))
+        for result in run_plan_cases(buildings, pairs.acceleration, pairs.dt):
+            runs.append(_reduced(result))
+            peaks.append(result.bearing_displacement_peak.mean(axis=0))
+            axial_min.append(result.bearing_axial_force[..., 0].min(axis=0))
+            axial_max.append(result.bearing_axial_force[..., 1].max(axis=0))
+            centre.append(float(np.sqrt((result.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean()))
+            amplification.append(float(result.torsional_amplification.mean()))
+            uplift = max(uplift, int((result.uplift_steps > 0).any(axis=0).sum()))
+            corner = int(np.argmax(result.bearing_displacement_peak.max(axis=0)))
+            record = int(np.argmax(result.bearing_displacement_peak[:, corner]))
+            if result.bearing_displacement_peak[record, corner] > worst[0]:
+                step = max(1, result.isolator_displacement.shape[-1] // 2000)
+                worst = (float(result.bearing_displacement_peak[record, corner]), {
+                    "bearing": corner, "record": record,
+                    "centre": result.isolator_displacement[record, :, ::step].tolist(),
+                    "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
+    peaks = np.max(peaks, axis=0)
+    history_total = float(peaks.max())
+    limit = HISTORY_LOWER_LIMIT.get(study.basis, 0.0)
+    gravity = np.asarray(cases["lower"][1]) * weight / float(np.sum(cases["lower"][1]))
+    lowest = np.min(axial_min, axis=0)
+    capacity = getattr(system, "displacement_capacity", None)
+    return {
+        "grid": list(grid),
+        "positions_m": positions.tolist(),
+        "pair_check": pairs.check().to_dict(),
+        "total_displacement_history": history_total,
+        "total_displacement_code": float(design_total),
+        "lower_limit_factor": limit,
+        "total_displacement_governing": max(history_total, limit * float(design_total)),
+        "limit_governs": limit * float(design_total) > history_total,
+        "centre_displacement_history": max(centre),
+        "torsional_amplification": max(amplification),
+        "bearing_peak_displacement_m": peaks.tolist(),
+        "bearing_axial_min_kN": lowest.tolist(),
+        "bearing_axial_max_kN": np.max(axial_max, axis=0).tolist(),
+        "gravity_load_kN": gravity.tolist(),
+        "uplift_ratio": float(np.max((gravity - lowest) / gravity)),
+        "uplifted_bearings": uplift,
+        "displacement_capacity": capacity,
+        "orbit": worst[1],
+        "eccentricities_m": [list(o) for o in _offsets(building)],
+        "storeys": dict(_storeys(runs), storey_law=_law(structure)),
+        "fixed_base": fixed_base,
+    }
+
+
+def with_bidirectional(figures, summary: dict):
+    """Verdict figures with the bidirectional results: governing D_TM, history D_TM and the uplift ratio.
+
+    Parameters
+    ----------
+    figures : isolation.verdict.Figures
+        Figures of the single-mode procedure and the planar histories. [-]
+    summary : dict
+        :func:`bidirectional_summary`. [-]
+    """
+    from dataclasses import replace
+
+    return replace(figures, total_displacement=summary["total_displacement_governing"],
+                   history_displacement=summary["total_displacement_history"],
+                   uplift_ratio=summary["uplift_ratio"])
+
+
+def torsion_factors(positions, plan, eccentricity: float, total_eccentricity: float) -> np.ndarray:
+    """Displacement of each bearing over that of the centre of rigidity, by the code's torsion formula.
+
+    The distance of bearing i from the centre of rigidity along the plan length is taken as
+    ``y_i = |x_i| + eccentricity`` (the worse side), so the corner bearing gets the code's corner
+    value: ASCE/SEI 7-16 Eq. 17.5-3, ``1 + y_i 12 e / (b^2 + d^2)`` (P_T = 1, as the study's code
+    report); EN 1998-1 §10.9.3, ``1 + e_tot y_i / r^2`` with ``r^2 = (L^2 + B^2)/12`` (both from
+    memory; the two are the same formula).
+
+    Parameters
+    ----------
+    positions : array_like
+        (n, 2) bearing positions relative to the centre of mass (x along the length). [m]
+    plan : tuple of float
+        (length, width). [m]
+    eccentricity : float
+        Actual eccentricity of the centre of rigidity. [m]
+    total_eccentricity : float
+        Eccentricity with the 5 % accidental part (the report's e or e_tot). [m]
+    """
+    pos = np.asarray(positions, dtype=float)
+    length, width = plan
+    y = np.abs(pos[:, 0]) + eccentricity
+    return 1.0 + y * 12.0 * total_eccentricity / (length**2 + width**2)
+
+
+@dataclass(frozen=True)
+class LayoutDemands:
+    """Per-bearing answers of one alternative's layout from the code's single-mode procedure.
+
+    Attributes
+    ----------
+    grid : tuple of int
+        Bearings along the length and across the width. [-]
+    positions : ndarray (n, 2)
+        Bearing positions relative to the centre of mass. [m]
+    displacement : ndarray (n,)
+        Displacement of each bearing: the centre-of-rigidity displacement (D_M, or gamma_x d_dc)
+        times :func:`torsion_factors`. [m]
+    gravity : ndarray (n,)
+        Gravity axial load of each bearing. [kN]
+    axial_min, axial_max : ndarray (n,)
+        Smallest and largest axial load under overturning (:func:`isolation.overturning.grid_axial_loads`). [kN]
+    spacing : tuple of float
+        Bay size along the length and across the width (the plan dimension where one line). [m]
+    """
+
+    grid: tuple
+    positions: np.ndarray
+    displacement: np.ndarray
+    gravity: np.ndarray
+    axial_min: np.ndarray
+    axial_max: np.ndarray
+    spacing: tuple
+
+    @property
+    def in_tension(self) -> int:
+        """Bearings whose smallest axial load is below zero. [-]"""
+        return int((self.axial_min < 0.0).sum())
+
+    def to_dict(self) -> dict:
+        return {"grid": list(self.grid), "positions_m": self.positions.tolist(),
+                "displacement_m": self.displacement.tolist(), "gravity_kN": self.gravity.tolist(),
+                "axial_min_kN": self.axial_min.tolist(), "axial_max_kN": self.axial_max.tolist(),
+                "spacing_m": list(self.spacing), "in_tension": self.in_tension}
+
+
+def layout_demands(study, alternative, report, spectrum) -> LayoutDemands:
+    """Per-bearing displacement and axial-load range of an alternative's layout (single-mode answer).
+
+    Parameters
+    ----------
+    study : isolation.study_inputs.Study
+        The study (plan, eccentricity, basis). [-]
+    alternative : isolation.study_inputs.Alternative
+        Bearing groups (counts, axial loads) and optional ``grid``; default grid :func:`default_grid`. [-]
+    report : code report
+        The alternative's ASCE 7 ELF or EN 1998-1 report (:func:`isolation.study.assembly.design_alternative`). [-]
+    spectrum : spectrum object
+        The site spectrum (vertical earthquake of the load combination). [g]
+    """
+    from isolation.design.overturning import grid_axial_loads
+    from isolation.study.assembly import overturning_inputs
+
+    b = study.building
+    plan = (b.plan_length, b.plan_width)
+    count = sum(spec.count for spec in alternative.bearings)
+    grid = tuple(alternative.grid or default_grid(count, *plan))
+    positions = bearing_grid(plan, grid)
+    loads = np.concatenate([np.full(spec.count, float(spec.axial_load)) for spec in alternative.bearings])
+    gravity = loads * b.total_weight / loads.sum()
+    if study.basis == "asce7":
+        centre, total = report.value("D_M"), report.value("e")
+    else:
+        centre = report.value("gamma_x") * report.value("d_dc")
+        total = report.value("e_tot")
+    displacement = centre * torsion_factors(positions, plan, b.eccentricity, total)
+    shear, height, factor, vertical, _ = overturning_inputs(study, spectrum, report)
+    low, high = grid_axial_loads(shear * height, positions, gravity, gravity_factor=factor,
+                                 vertical_fraction=vertical)
+    spacing = tuple(float(d / (n - 1)) if n > 1 else float(d) for d, n in zip(plan, grid))
+    return LayoutDemands(grid, positions, displacement, gravity, low, high, spacing)
