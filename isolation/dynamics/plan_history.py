@@ -292,10 +292,12 @@ def _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical):
     energy = np.zeros((cols, 6))
     storey_q = np.zeros((cols, ns))
     drift_map = np.ascontiguousarray(springs.drift_map)
+    kd = np.ascontiguousarray(k_inv @ drift_map)
     failed = plan_kernel.plan_loop(
         dt, m, c, k_inv, m @ r, g, pos, heights, floor_mass, gravity, vert, vertical is not None, slider,
         k0, q_fast, q_drop, rate, inv_y, strength, inv_ey, tolerance, _MAX_ITERATIONS, isolated, springs.yielding,
-        drift_map, np.ascontiguousarray(k_inv @ drift_map), springs.plastic_stiffness, springs.plastic_strength,
+        drift_map, kd, np.ascontiguousarray(drift_map.T @ k_inv[:, :3]), np.ascontiguousarray(drift_map.T @ kd),
+        springs.plastic_stiffness, springs.plastic_strength,
         springs.tolerance, u, acc, force, axial_min, axial_max, uplift, energy, storey_q)
     if failed:
         what = "storey" if springs.yielding else "isolator"

@@ -107,13 +107,10 @@ def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_f
     return f0, f1, f2
 
 
-def _storeys_python(trial, drift_map, kp, fp, q_c, d_c, q_t, p_t):
-    """Trial element forces q_t and departures p_t of the storey springs at displacement ``trial``."""
-    nd, ns = drift_map.shape
-    for l in range(ns):
-        d = 0.0
-        for j in range(nd):
-            d += trial[j] * drift_map[j, l]
+def _storeys_python(drift, kp, fp, q_c, d_c, q_t, p_t):
+    """Trial element forces q_t and departures p_t of the storey springs at ``drift``."""
+    for l in range(drift.shape[0]):
+        d = drift[l]
         q = q_c[l] + kp[l] * (d - d_c[l])
         if q > fp[l]:
             q = fp[l]
@@ -125,6 +122,7 @@ def _storeys_python(trial, drift_map, kp, fp, q_c, d_c, q_t, p_t):
 
 def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, has_vert, slider, k0, q_fast,
                q_drop, rate, inv_y, strength, inv_ey, tolerance, max_iterations, isolated, yielding, drift_map, kd,
+               dkb, dkd,
                kp, fp, tol_storey, u_out, a_out, force_out, axial_min, axial_max, uplift, energy, storey_q):
     cols, _, steps = g.shape
     nd = m.shape[0]
@@ -168,6 +166,8 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
     q_t = np.zeros(ns)
     p_t = np.zeros(ns)
     p_it = np.zeros(ns)
+    d_lin = np.zeros(ns)
+    drift = np.zeros(ns)
     for col in range(cols):
         u[:] = 0.0
         v[:] = 0.0
@@ -228,45 +228,69 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
             f1 = 0.0
             f2 = 0.0
             if yielding:
-                # fixed point on the base motion and the storeys' departures together
-                for j in range(nd):
-                    s = u_lin[j] - force[0] * k_inv[0, j] - force[1] * k_inv[1, j] - force[2] * k_inv[2, j]
-                    for l in range(ns):
-                        s -= p_c[l] * kd[j, l]
-                    trial[j] = s
+                # outer fixed point on the bearing forces; inside it, the storeys' departures with the
+                # bearing forces held, on the condensed drift equations d = D'u_lin - dkb f - dkd p
+                # (no bearing law evaluated, ns x ns work), each to its own tolerance
                 for l in range(ns):
                     p_it[l] = p_c[l]
+                    s = 0.0
+                    for j in range(nd):
+                        s += u_lin[j] * drift_map[j, l]
+                    d_lin[l] = s
                 f0 = force[0]
                 f1 = force[1]
                 f2 = force[2]
                 converged = False
                 for _ in range(max_iterations):
-                    if isolated:
-                        f0, f1, f2 = _bearings(col, trial, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast,
-                                               q_drop, rate, inv_y, strength, inv_ey, c2, False, uplift, axial_min,
-                                               axial_max)
-                    _storeys(trial, drift_map, kp, fp, q_c, d_c, q_t, p_t)
-                    moved = 0.0
-                    for l in range(ns):
-                        moved = max(moved, abs(p_t[l] - p_it[l]))
-                        p_it[l] = p_t[l]
-                    change = 0.0
-                    for j in range(nd):
-                        s = u_lin[j] - f0 * k_inv[0, j] - f1 * k_inv[1, j] - f2 * k_inv[2, j]
+                    settled = False
+                    for _inner in range(max_iterations):
                         for l in range(ns):
-                            s -= p_it[l] * kd[j, l]
-                        if isolated and j < 3:
-                            change = max(change, abs(s - trial[j]) * (rmax if j == 2 else 1.0))
-                        trial[j] = s
-                    if change <= tolerance and moved <= tol_storey:
+                            s = d_lin[l] - f0 * dkb[l, 0] - f1 * dkb[l, 1] - f2 * dkb[l, 2]
+                            for m_ in range(ns):
+                                s -= dkd[l, m_] * p_it[m_]
+                            drift[l] = s
+                        _storeys(drift, kp, fp, q_c, d_c, q_t, p_t)
+                        moved = 0.0
+                        for l in range(ns):
+                            moved = max(moved, abs(p_t[l] - p_it[l]))
+                            p_it[l] = p_t[l]
+                        if moved <= tol_storey:
+                            settled = True
+                            break
+                    if not settled:
+                        break
+                    if not isolated:
+                        converged = True
+                        break
+                    for i in range(3):
+                        s = u_lin[i] - f0 * k_inv[0, i] - f1 * k_inv[1, i] - f2 * k_inv[2, i]
+                        for l in range(ns):
+                            s -= p_it[l] * kd[i, l]
+                        ub[i] = s
+                    f0, f1, f2 = _bearings(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast,
+                                           q_drop, rate, inv_y, strength, inv_ey, c2, False, uplift, axial_min,
+                                           axial_max)
+                    change = 0.0
+                    for i in range(3):
+                        s = u_lin[i] - f0 * k_inv[0, i] - f1 * k_inv[1, i] - f2 * k_inv[2, i]
+                        for l in range(ns):
+                            s -= p_it[l] * kd[i, l]
+                        change = max(change, abs(s - ub[i]) * (rmax if i == 2 else 1.0))
+                        ub[i] = s
+                    if change <= tolerance:
                         converged = True
                         break
                 if not converged:
                     return n + 1
                 if isolated:
-                    f0, f1, f2 = _bearings(col, trial, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop,
+                    f0, f1, f2 = _bearings(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop,
                                            rate, inv_y, strength, inv_ey, c2, True, uplift, axial_min, axial_max)
-                _storeys(trial, drift_map, kp, fp, q_c, d_c, q_t, p_t)
+                for l in range(ns):
+                    s = d_lin[l] - f0 * dkb[l, 0] - f1 * dkb[l, 1] - f2 * dkb[l, 2]
+                    for m_ in range(ns):
+                        s -= dkd[l, m_] * p_it[m_]
+                    drift[l] = s
+                _storeys(drift, kp, fp, q_c, d_c, q_t, p_t)
                 for j in range(nd):
                     s = u_lin[j] - f0 * k_inv[0, j] - f1 * k_inv[1, j] - f2 * k_inv[2, j]
                     for l in range(ns):
