@@ -133,7 +133,7 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
             screenshot(page, shots, "03-warning-and-export")
 
             # The bearing layout: a grid of 10 x 2 and an eccentricity change the per-bearing answers, which
-            # stay the core's (isolation.study.plan.layout_demands through isolation.app.explorer.answers).
+            # stay the core's (isolation.study.layout.layout_demands through isolation.app.explorer.answers).
             for field, value, key in (("grid_along", "10", "bearing_axial_min"),
                                       ("eccentricity", "2", "bearing_displacement_max")):
                 old = _value(page, key)

@@ -17,7 +17,7 @@ import pytest
 
 from isolation.app.explorer import answers as explore
 from isolation.design.overturning import grid_axial_loads
-from isolation.study.plan import layout_demands, torsion_factors
+from isolation.study.layout import layout_demands, torsion_factors
 
 CHANGED = {"grid_along": 10, "plan_length": 60.0, "plan_width": 24.0, "eccentricity": 2.0, "bearing_count": 20}
 

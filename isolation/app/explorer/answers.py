@@ -10,7 +10,7 @@ without a browser:
 * :func:`summary_table`, :func:`summary_html`, :func:`quantities_html`,
   :func:`layout_html`, :func:`checks_html`, :func:`warnings_html` - the answer as tables
   (the layout table: bearing grid, the code's torsion displacement at each bearing and the
-  axial-load range under overturning, from :func:`isolation.study.plan.layout_demands`);
+  axial-load range under overturning, from :func:`isolation.study.layout.layout_demands`);
 * :func:`comparison_table` / :func:`comparison_html` - a pinned alternative
   beside the current one;
 * :func:`trade_off` - displacement against base shear while one bearing
@@ -289,7 +289,7 @@ class ExplorerAnswer:
         Plausibility warnings (:func:`isolation.app.explorer.advice.plausibility`).
     spectrum : spectrum object
         The site spectrum. [g]
-    layout : isolation.study.plan.LayoutDemands
+    layout : isolation.study.layout.LayoutDemands
         Per-bearing displacement and axial-load range of the bearing grid; its extremes are also
         in ``quantities``: ``bearing_displacement_max`` [m], ``bearing_axial_min``,
         ``bearing_axial_max`` [kN] and ``bearings_in_tension`` [-].
@@ -359,7 +359,7 @@ def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **valu
     """
     from isolation.app.explorer.advice import plausibility
     from isolation.study.assembly import design_alternative, isolation_system, site_spectrum
-    from isolation.study.plan import layout_demands
+    from isolation.study.layout import layout_demands
 
     chosen = _settings(settings, values)
     study = chosen.study()
