@@ -77,11 +77,12 @@ def main() -> None:
               f"{elastic_seconds:.2f} s; planar engine on the x components {planar:.2f} s; ratio plan/planar "
               f"{seconds / planar:.1f}")
         summary = results[1].summary()
+        base = fixed.summary()
         print(f"  nominal: D_TM from histories {summary['total_displacement_m']:.3f} m, centre "
               f"{summary['centre_displacement_m']:.3f} m, torsional amplification "
-              f"{summary['torsional_amplification']:.3f}, storey ductility {summary.get('ductility', float('nan')):.2f}, "
+              f"{summary['torsional_amplification']:.3f}, storey ductility {summary.get('ductility', np.nan):.2f}, "
               f"energy error {summary['energy_error']:.1e}; fixed base: peak drift "
-              f"{fixed.summary()['peak_drift_ratio']:.4f}, ductility {fixed.summary().get('ductility', float('nan')):.2f}")
+              f"{base['peak_drift_ratio']:.4f}, ductility {base.get('ductility', np.nan):.2f}")
     peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
     print(f"peak memory (ru_maxrss): {peak:.0f} MiB (target <= 1024 MiB)")
 

@@ -114,7 +114,9 @@ def test_live_explorer_layout_table_follows_the_grid_control():
     import re
 
     box = explore.build_explorer()
-    cells = lambda text: {k: float(v) for k, v in re.findall(r'data-key="([^"]+)" data-value="([^"]+)"', text)}  # noqa: E731
+    def cells(text):
+        return {k: float(v) for k, v in re.findall(r'data-key="([^"]+)" data-value="([^"]+)"', text)}
+
     assert cells(box.bearing_layout.value)["grid_along"] == 5.0
     box.controls["grid_along"].value = 20
     expected = explore.explore(grid_along=20)
