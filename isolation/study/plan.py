@@ -107,7 +107,7 @@ def _reduced(result):
 
 def _storeys(results) -> dict:
     """Storey indicators of plan results: suite means per storey, the worst over the results given."""
-    ductility = np.array([np.nanmean(r.ductility, axis=0) for r in results])  # (runs, storeys, 2)
+    ductility = np.array([r.ductility.mean(axis=0) for r in results])  # (runs, storeys, 2); NaN where elastic
     residual = np.array([r.residual_drift.mean(axis=0) for r in results])
     drift = np.array([r.peak_drift_ratio.mean(axis=0) for r in results])
     yielding = bool(np.isfinite(ductility).any())

@@ -151,3 +151,25 @@ def test_plan_superstructure_carries_the_planar_strengths_in_both_directions():
     assert plan.yield_shears_x == plan.yield_shears_y == planar.yield_shears
     assert (plan.hardening, plan.p_delta) == (0.03, True)
     assert not plan_superstructure(planar.with_strengths(None, p_delta=False), study.building).yielding
+
+
+def test_fixed_base_summary_reports_ductility_only_when_storeys_yield():
+    # The plan fixed base under a pair: yielding storeys give ductility in x and y, elastic ones none.
+    import types
+
+    import numpy as np
+
+    from isolation.dynamics.structure import ShearBuilding
+    from isolation.study.plan import fixed_base_summary
+
+    study = load_study(DEMO)
+    rng = np.random.default_rng(1)
+    steps = 1200
+    envelope = np.sin(np.pi * np.arange(steps) / steps) ** 2
+    pairs = types.SimpleNamespace(acceleration=rng.normal(0.0, 0.3, (1, 2, steps)) * envelope, dt=0.005)
+    planar = ShearBuilding([800.0] * 3, [6.0e5] * 3, [3.5] * 3)
+    elastic = fixed_base_summary(study, planar, pairs)
+    assert not elastic["yielding"] and elastic["ductility_x"] is None and elastic["storey_law"] == "elastic"
+    weak = fixed_base_summary(study, planar.with_strengths([400.0, 300.0, 200.0], hardening=0.05), pairs)
+    assert weak["yielding"] and min(weak["ductility_x"]) > 1.0 and min(weak["ductility_y"]) > 1.0
+    assert weak["residual_drift_max"] > elastic["residual_drift_max"]
