@@ -5,7 +5,7 @@ VENV := .venv
 PY := $(VENV)/bin/python
 STAMP := $(VENV)/.installed-stamp
 
-.PHONY: demo test bench mutation tex clean-venv
+.PHONY: demo lint test bench mutation tex clean-venv
 
 $(STAMP): pyproject.toml
 	test -x $(PY) || $(PYTHON) -m venv $(VENV)
@@ -17,7 +17,13 @@ $(STAMP): pyproject.toml
 demo: $(STAMP)
 	$(PY) -m isolation demo
 
-test: $(STAMP)
+# Static checks: ruff (pyflakes, pycodestyle, import order, bugbear) over the repository,
+# mypy over the package; settings in pyproject.toml.
+lint: $(STAMP)
+	$(VENV)/bin/ruff check .
+	$(PY) -m mypy
+
+test: lint
 	$(PY) -m pytest -q
 
 bench: $(STAMP)

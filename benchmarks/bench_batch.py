@@ -104,8 +104,10 @@ def bench_sweep(count: int) -> None:
         two = _timed_command([str(path), "--direct", "--workers", "2", "--out", str(folder / "two")])
     print(f"direct sweep, {total} variants x {alternatives} alternatives (equivalent linear, 3 property sets each):")
     print(f"  reference, parsed studies, this process: {reference:7.1f} variants/s")
-    print(f"  batch --direct, 1 worker : {total / one:7.1f} variants/s  ratio {total / one / reference:.2f} to reference")
-    print(f"  batch --direct, 2 workers: {total / two:7.1f} variants/s  ratio {total / two / reference:.2f} to reference, "
+    print(f"  batch --direct, 1 worker : {total / one:7.1f} variants/s  ratio {total / one / reference:.2f} to "
+          "reference")
+    print(f"  batch --direct, 2 workers: {total / two:7.1f} variants/s  ratio {total / two / reference:.2f} to "
+          "reference, "
           f"{one / two:.2f} to 1 worker")
     print("  (the batch command's wall time: validating every variant, the runs, batch.json and summary.csv)")
 

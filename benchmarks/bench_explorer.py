@@ -38,7 +38,8 @@ _LISTEN = """() => {
   }
   for (const selector of ['.iso-figure-spectrum', '.iso-figure-loops']) {
     new MutationObserver(() => window.__iso.marks.push(performance.now()))
-      .observe(document.querySelector(selector), {subtree: true, attributes: true, childList: true, characterData: true});
+      .observe(document.querySelector(selector),
+               {subtree: true, attributes: true, childList: true, characterData: true});
   }
 }"""
 

@@ -172,7 +172,8 @@ def main() -> None:
                                  ("friction pendulum, 5 yielding storeys (Clough, P-delta)",
                                   yielding_building("clough"), friction_bounds())):
         run_cases(frame, BASE_MASS, bounds, motions, DT)  # warm-up (and compilation on first use)
-        wall, cpu, results = _best_of(3, lambda: run_cases(frame, BASE_MASS, bounds, motions, DT))
+        wall, cpu, results = _best_of(3, lambda frame=frame,
+                                      bounds=bounds: run_cases(frame, BASE_MASS, bounds, motions, DT))
         cpu_by_label[label] = cpu
         peaks = {case: round(float(r.peaks()["isolator_displacement"].mean()), 4) for case, r in results.items()
                  if r.isolated}

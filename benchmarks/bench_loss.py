@@ -27,8 +27,8 @@ TARGET_RATIO = 2.0
 
 
 def main() -> None:
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     study = load_study(STUDY)
     run_study(study, quick=True, loss=True)  # warm-up: imports, caches

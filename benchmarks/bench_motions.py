@@ -28,7 +28,6 @@ import eqsig.sdof  # noqa: E402
 from scipy.signal import lsim  # noqa: E402
 
 from isolation import GRAVITY  # noqa: E402
-
 from isolation.motions import matched_suite, response_spectrum  # noqa: E402
 from isolation.site.spectra import CodeSpectrum  # noqa: E402
 
@@ -48,10 +47,12 @@ def _lsim_spectrum(records: np.ndarray, dt: float, periods: np.ndarray, damping:
 
 def main() -> int:
     spectrum = CodeSpectrum(sms=1.5, sm1=0.9)  # invented high-seismicity site [g]
-    matched_suite(spectrum, count=1, duration=10.0, dt=0.01, period_range=(0.1, 2.0), significant_duration=3.0, progress=False)  # warm-up
+    matched_suite(spectrum, count=1, duration=10.0, dt=0.01, period_range=(0.1, 2.0), significant_duration=3.0,
+                  progress=False)  # warm-up
 
     start, cpu_start = time.perf_counter(), time.process_time()
-    suite = matched_suite(spectrum, count=11, duration=40.0, dt=0.005, seed=0, isolated_period=(2.8, 3.6), progress=False)
+    suite = matched_suite(spectrum, count=11, duration=40.0, dt=0.005, seed=0, isolated_period=(2.8, 3.6),
+                          progress=False)
     matching_time = time.perf_counter() - start
     matching_cpu = time.process_time() - cpu_start
     report = suite.check()

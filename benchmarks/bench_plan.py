@@ -25,8 +25,8 @@ import time  # noqa: E402
 import numpy as np  # noqa: E402
 
 from benchmarks.bench_history import BASE_MASS, DT, building, synthetic_motions, yielding_building  # noqa: E402
-from isolation.dynamics import plan_kernel  # noqa: E402
 from isolation.bearings import FrictionPendulum, LeadRubber  # noqa: E402
+from isolation.dynamics import plan_kernel  # noqa: E402
 from isolation.dynamics.history import run_cases  # noqa: E402
 from isolation.dynamics.plan_history import run_plan, run_plan_cases  # noqa: E402
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid  # noqa: E402

@@ -61,8 +61,8 @@ def _typst_split(notebook: Path) -> tuple[float, float]:
 
 
 def main() -> None:
-    from isolation.output import report
     from isolation.app.calc_records import run_record
+    from isolation.output import report
 
     folder = Path(tempfile.mkdtemp(prefix="bench_report_"))
     try:

@@ -51,8 +51,8 @@ def _peak_bytes(who: int) -> int:
 def main() -> None:
     from isolation.app.calc_records import run_record
     from isolation.output.report import missing_tools
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     missing = missing_tools()
     if missing:

@@ -60,9 +60,9 @@ def _batch(folder: Path, radii, frictions, name: str) -> Path:
 
 
 def bench_kernel(side: int) -> None:
-    from isolation.study import assembly as model
     from isolation.design import design_bounds
     from isolation.design.array_kernel import design_bounds_many
+    from isolation.study import assembly as model
     from isolation.study import load_study
 
     study = load_study(STUDY)
@@ -91,7 +91,8 @@ def bench_kernel(side: int) -> None:
                 for i in range(reference_count) for c in ("lower", "nominal", "upper"))
     print(f"array kernel, {count} variants x 3 property sets (friction pendulum, demo study), one core:")
     print(f"  scalar design_bounds (reference): {scalar_rate:10.0f} variants/s")
-    print(f"  design_bounds_many             : {count / elapsed:10.0f} variants/s  ratio {count / elapsed / scalar_rate:.0f} "
+    print(f"  design_bounds_many             : {count / elapsed:10.0f} variants/s  ratio "
+          f"{count / elapsed / scalar_rate:.0f} "
           f"(aim >= 20,000 variants/s); largest relative difference in D {worst:.1e}")
     print(f"  CPU time {cpu:.3f} s: {count / cpu:10.0f} variants per CPU second (what a free core gives)")
     print(f"  ({_load()})")
@@ -169,9 +170,10 @@ def bench_histories(count: int, ratio_count: int) -> None:
             full_count = len(radii) * len(frictions)
             full, line_full = _history_run(_batch(folder, radii, frictions, "histories-full"), folder / "full", 2)
     small_count = side * side
-    print(f"history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
-          f"alternative is the same in every variant, run once per worker):")
-    print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  {line_one}")
+    print("history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
+          "alternative is the same in every variant, run once per worker):")
+    print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  "
+          f"{line_one}")
     print(f"  {small_count} variants, 2 workers: {two:7.1f} s  {small_count / two:6.2f} variants/s  "
           f"ratio {one / two:.2f} (aim >= 1.8)  {line_two}")
     if full_count:

@@ -43,14 +43,16 @@ MODULES: dict[str, tuple[str, ...]] = {
     "verdict/site": ("tests/verdict/test_verdict.py",),
     "verdict/sources": ("tests/verdict/test_verdict.py", "tests/codes/test_code_procedures.py"),
     "design/overturning": ("tests/codes/test_code_procedures.py",),
-    "site/spectra": ("tests/site/test_spectra.py", "tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
+    "site/spectra": ("tests/site/test_spectra.py", "tests/design/test_design.py",
+                     "tests/codes/test_code_procedures.py"),
     "site/damping": ("tests/site/test_spectra.py", "tests/design/test_design.py"),
     "design/single_mode": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
     "bearings/backbone": ("tests/bearings/test_backbone.py", "tests/bearings/test_bearings_system.py"),
     "bearings/friction": ("tests/bearings/test_bearings_friction.py",),
     "bearings/rubber": ("tests/bearings/test_bearings_rubber.py",),
     "bearings/system": ("tests/bearings/test_bearings_system.py",),
-    "dynamics/newmark": ("tests/dynamics/test_history.py", "tests/dynamics/test_history_reference.py", "tests/dynamics/test_history_isolators.py"),
+    "dynamics/newmark": ("tests/dynamics/test_history.py", "tests/dynamics/test_history_reference.py",
+                         "tests/dynamics/test_history_isolators.py"),
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py"),
 }
 """Module of ``isolation/`` (without .py) -> the test files that check it."""

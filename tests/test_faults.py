@@ -21,15 +21,24 @@ from pathlib import Path
 
 import pytest
 
-from isolation.app.batch.execute import run_batch
 from isolation.app.batch.check import validate_plan
+from isolation.app.batch.execute import run_batch
 from isolation.app.batch.plan import load_batch
 from isolation.app.batch.runners import VariantOutcome, VariantTask
+from isolation.app.calc_records import (
+    ABANDONED,
+    RecordClash,
+    clean_records,
+    mark_stale_partials,
+    new_run_id,
+    read_manifest,
+    run_record,
+    stale_items,
+    verify_record,
+)
 from isolation.app.cli import main as cli
 from isolation.errors import InputError, RunError
 from isolation.files import read_input_text
-from isolation.app.calc_records import (ABANDONED, RecordClash, clean_records, mark_stale_partials, new_run_id,
-                               read_manifest, run_record, stale_items, verify_record)
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "examples" / "demo_study.toml"

@@ -24,10 +24,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from isolation.app.calc_records import to_toml
 from isolation.app.cli import main as cli
 from isolation.errors import InputError
 from isolation.motions.records_io import read_csv_accelerogram, read_text_accelerogram
-from isolation.app.calc_records import to_toml
 from isolation.study import load_study
 from isolation.units import parse_quantity
 
@@ -333,7 +333,7 @@ def test_csv_accelerograms_fuzzed(tmp_path):
         lines = good.splitlines()
         lines[i + 1] = lines[i + 1].split(",")[0] + ",12.5"      # 12.5 g: beyond the plausibility limit
         cases.append((f"12.5g@{i}", "\n".join(lines) + "\n", False))
-    for number, (name, text, ok) in enumerate(cases):
+    for number, (_name, text, ok) in enumerate(cases):
         path = tmp_path / f"record{number:03d}.csv"
         path.write_text(text, encoding="utf-8")
         with deadline(5.0):

@@ -115,10 +115,12 @@ def test_feasibility_workbook_writes_results_json(feasibility_run):
     # Every section of the report is there, in order.
     headings = [line for c in nb.cells if c.cell_type == "markdown" for line in c.source.splitlines()
                 if line.startswith("# ")]
-    assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions", "# Site spectrum and period shift",
+    assert headings == ["# Summary", "# Scope and cautions", "# Basis and assumptions",
+                        "# Site spectrum and period shift",
                         "# Isolation system and bearing checks", "# Equivalent-linear results for both bounds",
                         "# Motion suite", "# Response-history comparison",
-                        "# Against the code-designed fixed-base building", "# Verdict", "# Cautions"]
+                        "# Against the code-designed fixed-base building", "# Verdict", "# Cautions",
+                        "# Appendix: code clauses used"]
     captions = [o.metadata["image/png"].get("caption", "") for o in _outputs(nb, "image/png")]
     assert all(captions) and len(captions) >= 6 + 6 * len(names)
 
@@ -209,6 +211,20 @@ def test_pdf_opens_with_a_summary_matching_the_results_json(feasibility_pdf):
 
 
 @pytest.mark.slow
+def test_pdf_appendix_prints_the_clause_table(feasibility_pdf):
+    from isolation.codes.clauses import CLAUSES
+
+    _, text, _ = feasibility_pdf
+    start = text.index("Appendix: code clauses used", text.index("Cautions"))
+    appendix = text[start:]
+    assert "Code clauses the tool uses" in appendix  # the captioned table
+    # Its first and last rows (the table is long and runs over pages: code, clause, subject's first words).
+    assert (CLAUSES[0].clause, CLAUSES[-1].clause) == ("§17.4.1", "(no article)")
+    assert "ASCE 7-10 §17.4.1 Selection of analysis" in appendix
+    assert "AASHTO (no article) Elastomeric isolators:" in appendix
+    assert "re-read" in appendix and "from memory" in appendix
+
+
 def test_pdf_shows_no_code_and_keeps_the_cautions(feasibility_pdf):
     _, text, _ = feasibility_pdf
     for code in ("import ", "display(", "results.alternatives", "plots.", "tables.", "study_path",
@@ -219,7 +235,8 @@ def test_pdf_shows_no_code_and_keeps_the_cautions(feasibility_pdf):
     assert "Quick run." in text  # a quick run says so in the report
     assert "Figure 1:" in text and "Table 1:" in text
     # issue 10: the report states how friction is regularised in the response histories
-    assert re.search(r"Friction law, Friction pendulum: (Friction regularised|No friction regularisation|Sharp friction)", text)
+    assert re.search(r"Friction law, Friction pendulum: (Friction regularised|No friction regularisation|Sharp "
+                     r"friction)", text)
 
 
 @pytest.mark.slow

@@ -196,7 +196,7 @@ def _git_commit() -> tuple[str | None, bool | None]:
 def _versions() -> dict:
     from importlib import metadata
 
-    found = {}
+    found: dict[str, str | None] = {}
     for name in LIBRARIES:
         try:
             found[name] = metadata.version(name)
@@ -290,7 +290,7 @@ RECORD_SPACE_MB = 30.0
 """Free space a record needs, a generous estimate (executed workbook with figures, report) [MB]."""
 
 
-def _space_error(error: OSError, folder: Path) -> str:
+def _space_error(error: BaseException, folder: Path) -> str:
     """A one-line message for a full disk naming the path, the space needed and the space free."""
     try:
         free = shutil.disk_usage(folder if folder.exists() else folder.parent).free / 1e6
@@ -355,7 +355,7 @@ def mark_stale_partials(parent: str | Path) -> list[Path]:
     list of Path
         The folders marked.
     """
-    marked = []
+    marked: list[Path] = []
     folder = Path(parent)
     if not folder.is_dir():
         return marked

@@ -21,6 +21,7 @@ import argparse
 import contextlib
 import sys
 from pathlib import Path
+from typing import NoReturn
 
 from isolation.errors import InputError, RunError
 
@@ -35,7 +36,7 @@ SCOPE_NOTE = ("Feasibility study only, not construction design: verify against t
 class _Parser(argparse.ArgumentParser):
     """argparse that reports usage errors as one line and exit code 2."""
 
-    def error(self, message: str) -> None:  # noqa: D401 - argparse hook
+    def error(self, message: str) -> NoReturn:  # noqa: D401 - argparse hook
         raise InputError(f"{self.prog}: {message} (see --help)")
 
 
@@ -144,8 +145,8 @@ def _say(message: str) -> None:
 
 
 def _check(args) -> int:
-    from isolation.study.runner import check_study
     from isolation.study import load_study
+    from isolation.study.runner import check_study
 
     study = load_study(args.study, overrides=_overrides(args.set))
     check_study(study)
@@ -216,8 +217,8 @@ def _run(args) -> int:
 
 
 def _motions(args) -> int:
-    from isolation.study.runner import export_suite
     from isolation.study import load_study
+    from isolation.study.runner import export_suite
 
     _out_folder(args.out)
     study = load_study(args.study)

@@ -11,7 +11,6 @@ from isolation.bearings.damping_rubber import (
 from isolation.bearings.double_concave import DoubleConcave
 from isolation.bearings.friction import FrictionPendulum
 from isolation.bearings.rubber import LeadRubber
-from isolation.bearings.triple_pendulum import TripleFrictionPendulum
 from isolation.bearings.system import (
     BearingGroup,
     CombinedBackbone,
@@ -19,6 +18,7 @@ from isolation.bearings.system import (
     PropertyBound,
     PropertyFactors,
 )
+from isolation.bearings.triple_pendulum import TripleFrictionPendulum
 
 __all__ = [
     "Bilinear", "MultiLinear",

@@ -147,8 +147,8 @@ class _Backbone:
 
     def parallel(self, *others: "_Backbone") -> "MultiLinear":
         """Combine with other backbones acting side by side (forces add)."""
-        k0, ks, fs = self.elements()
-        ks, fs = list(ks), list(fs)
+        k0, own_ks, own_fs = self.elements()
+        ks, fs = list(own_ks), list(own_fs)
         for other in others:
             o0, oks, ofs = other.elements()
             k0 += o0

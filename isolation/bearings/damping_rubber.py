@@ -194,7 +194,8 @@ class HighDampingRubber(_Elastomer):
                            validate.positive("reference_strain", self.reference_strain, "-"))
         ratio = validate.finite("stiffness_ratio", self.stiffness_ratio, "-")
         if ratio <= 1.0:
-            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 [-]")
+            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 "
+                             "[-]")
         object.__setattr__(self, "stiffness_ratio", ratio)
         most = max_bilinear_damping(ratio)
         top = max(compound.dampings)
@@ -209,6 +210,7 @@ class HighDampingRubber(_Elastomer):
     @property
     def shear_modulus(self) -> float:
         """G at the reference strain, used for the vertical checks. [kPa]"""
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         return self.compound.shear_modulus_at(self.reference_strain)
 
     def _strain(self, displacement):
@@ -287,6 +289,7 @@ class HighDampingRubber(_Elastomer):
         return out
 
     def to_dict(self) -> dict:
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         out = {"kind": "high_damping_rubber", "inner_diameter": self.inner_diameter,
                "compound": self.compound.to_dict(), "reference_strain": self.reference_strain,
                "stiffness_ratio": self.stiffness_ratio}

@@ -21,7 +21,11 @@ import numpy as np
 from isolation import GRAVITY, validate
 from isolation.bearings.backbone import Bilinear, MultiLinear
 from isolation.bearings.friction import (
-    DEFAULT_SLIDER_YIELD_DISPLACEMENT, _friction, _optional_positive, _slider_bilinear, _weight,
+    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
+    _friction,
+    _optional_positive,
+    _slider_bilinear,
+    _weight,
 )
 
 __all__ = ["DoubleConcave"]

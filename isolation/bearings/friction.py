@@ -197,6 +197,7 @@ class FrictionPendulum:
             results must stay below 1. [-]
         """
         f = validate.positive("friction factor", factor)
+        assert self.friction_slow is not None  # None is replaced by friction in __post_init__
         return FrictionPendulum(self.radius, self.friction * f, slider_height=self.slider_height,
                                 displacement_capacity=self.displacement_capacity,
                                 friction_slow=self.friction_slow * f,

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -49,7 +50,23 @@ def _optional_weight(weight) -> None:
 class _Elastomer:
     """Geometry and vertical mechanics shared by the laminated bearings."""
 
-    _inner_face_free = False
+    # Fields of the dataclasses built on this class.
+    outer_diameter: float
+    layer_thickness: float
+    layers: int
+    bulk_modulus: float
+    shim_thickness: float
+    end_plate_thickness: float
+    displacement_capacity: float | None
+
+    if TYPE_CHECKING:
+        @property
+        def shear_modulus(self) -> float:
+            """Shear modulus of the rubber (a field or a strain-dependent property). [kPa]"""
+
+    @property
+    def _inner_face_free(self) -> bool:
+        return False
 
     def _check_geometry(self, inner_name: str, inner, inner_minimum_allowed: str) -> None:
         do = validate.positive("outer_diameter", self.outer_diameter, "m")
@@ -246,7 +263,8 @@ class LeadRubber(_Elastomer):
             object.__setattr__(self, name, value)
         ratio = validate.finite("stiffness_ratio", self.stiffness_ratio, "-")
         if ratio <= 1.0:
-            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 [-]")
+            raise ValueError(f"stiffness_ratio = {self.stiffness_ratio!r} is not allowed: must be a finite number > 1 "
+                             "[-]")
         object.__setattr__(self, "stiffness_ratio", ratio)
 
     @property

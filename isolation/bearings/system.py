@@ -155,6 +155,8 @@ class PropertyFactors:
 
 _SLIDERS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum)
 _BEARINGS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum, LeadRubber, HighDampingRubber)
+_Bearing = FrictionPendulum | DoubleConcave | TripleFrictionPendulum | LeadRubber | HighDampingRubber
+"""Any one bearing type a :class:`BearingGroup` accepts."""
 
 
 @dataclass(frozen=True)
@@ -181,7 +183,7 @@ class BearingGroup:
         Factors for this group; default: the system's.
     """
 
-    bearing: object
+    bearing: _Bearing
     count: int
     axial_load: float
     name: str | None = None
@@ -345,8 +347,8 @@ class IsolationSystem:
     @property
     def displacement_capacity(self) -> float | None:
         """Smallest displacement capacity over the groups that state one, or None. [m]"""
-        caps = [getattr(g.bearing, "displacement_capacity", None) for g in self.groups]
-        caps = [c for c in caps if c is not None]
+        stated = [getattr(g.bearing, "displacement_capacity", None) for g in self.groups]
+        caps = [float(c) for c in stated if c is not None]
         return min(caps) if caps else None
 
     def label(self, index: int) -> str:
@@ -418,6 +420,7 @@ class IsolationSystem:
         return out
 
     def to_dict(self) -> dict:
+        assert self.factors is not None  # None is replaced by PropertyFactors.unqualified() in __post_init__
         return {"groups": [g.to_dict() for g in self.groups], "factors": self.factors.to_dict(),
                 "weight": self.weight, "is_sliding": self.is_sliding,
                 "displacement_capacity": self.displacement_capacity}

@@ -48,7 +48,10 @@ import numpy as np
 from isolation import GRAVITY, validate
 from isolation.bearings.backbone import MultiLinear
 from isolation.bearings.friction import (
-    DEFAULT_SLIDER_YIELD_DISPLACEMENT, _friction, _optional_positive, _weight,
+    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
+    _friction,
+    _optional_positive,
+    _weight,
 )
 
 __all__ = ["TripleFrictionPendulum"]

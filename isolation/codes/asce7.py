@@ -26,8 +26,8 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.bearings.checks import Check
-from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 from isolation.codes.asce7_fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
+from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
 
 __all__ = [
     "Item",
@@ -135,7 +135,8 @@ class ElfBuilding(_ToDict):
             set_(name, validate.positive(name, getattr(self, name), unit))
         for name, unit in (("eccentricity", "m"), ("wind_base_shear", "kN"), ("s1", "g"), ("moat_clearance", "m")):
             set_(name, validate.non_negative(name, getattr(self, name), unit))
-        for name, unit, check in (("corner_distance", "m", validate.non_negative), ("fixed_base_period", "s", validate.positive),
+        for name, unit, check in (("corner_distance", "m", validate.non_negative),
+                                  ("fixed_base_period", "s", validate.positive),
                                   ("activation_force", "kN", validate.positive), ("height", "m", validate.positive)):
             if getattr(self, name) is not None:
                 set_(name, check(name, getattr(self, name), unit))
@@ -276,7 +277,8 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
              f"property set '{bounds.displacement_governs}'"),
         Item("effective period at D_M", "T_M", low.period, "s", f"{ASCE} Eq. 17.5-2"),
         Item("effective damping at D_M", "beta_M", low.damping, "-", "Naeim & Kelly (1999): EDC/(2 pi K_eff D^2)"),
-        Item("damping coefficient", "B_M", low.damping_coefficient, "-", f"{ASCE} Table 17.5-1" if low.rule == "asce7" else low.rule),
+        Item("damping coefficient", "B_M", low.damping_coefficient, "-",
+             f"{ASCE} Table 17.5-1" if low.rule == "asce7" else low.rule),
         Item("effective stiffness at D_M", "k_M", low.stiffness, "kN/m", f"{ASCE} §17.5.3"),
     ]
     # Torsion (Eqs. 17.5-3/-4); P_T taken <= 1.0 (from memory, verify).
@@ -286,10 +288,12 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     raw = d_m * (1.0 + y / p_t**2 * 12.0 * e / (b**2 + dwidth**2))
     d_tm = max(raw, 1.15 * d_m)
     items += [
-        Item("eccentricity incl. 5 % accidental", "e", e, "m", f"{ASCE} §17.5.3.3 (accidental 5 % of the longest plan dimension)"),
+        Item("eccentricity incl. 5 % accidental", "e", e, "m",
+             f"{ASCE} §17.5.3.3 (accidental 5 % of the longest plan dimension)"),
         Item("total maximum displacement", "D_TM", d_tm, "m", f"{ASCE} Eq. 17.5-3, >= 1.15 D_M",
              "1.15 D_M floor governs" if d_tm > raw else f"y = {y:.3g} m, P_T = {p_t:.3g} (taken <= 1.0, from memory)"),
-        Item("moat width", "moat", d_tm + building.moat_clearance, "m", f"{ASCE} §17.2 (separation from fixed obstructions >= D_TM; clause from memory)",
+        Item("moat width", "moat", d_tm + building.moat_clearance, "m",
+             f"{ASCE} §17.2 (separation from fixed obstructions >= D_TM; clause from memory)",
              f"D_TM plus {building.moat_clearance:g} m clearance (common practice)"),
     ]
     # Forces from the force-governing set.
@@ -300,7 +304,8 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     v_st = v_b * (w_s / w) ** exponent
     r_i = min(max(3.0 / 8.0 * building.response_modification, 1.0), 2.0)
     items += [
-        Item("isolation-system shear", "V_b", v_b, "kN", f"{ASCE} §17.5.4.1 (k_M D_M)", f"property set '{bounds.force_governs}'"),
+        Item("isolation-system shear", "V_b", v_b, "kN", f"{ASCE} §17.5.4.1 (k_M D_M)",
+             f"property set '{bounds.force_governs}'"),
         Item("unreduced superstructure shear", "V_st", v_st, "kN",
              f"{ASCE} §17.5.4.2, V_b (W_s/W)^(1 - {factor} beta_M), exponent {exponent:.3f}"
              + (" (1 - 3.5 beta_M replaces 1 - 2.5 beta_M for a system with an abruptly initiated "
@@ -310,6 +315,7 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     ]
     t_fb = building.fixed_base_period or approximate_period(building.structural_height, building.frame)
     at_tm = fixed_base_shear(spectrum, w_s, r_i, period=up.period, importance=ISOLATED_IMPORTANCE, s1=building.s1)
+    activation: float | None
     if building.activation_force is not None:
         activation, activation_note = building.activation_force, "given"
     else:
@@ -336,7 +342,8 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     share = wx * hx**k_exp / np.sum(wx * hx**k_exp)
     forces = share * v_s
     items += [
-        Item("fixed-base period", "T_fb", t_fb, "s", "given" if building.fixed_base_period else f"{ASCE} Eq. 12.8-7 (T_a)"),
+        Item("fixed-base period", "T_fb", t_fb, "s",
+             "given" if building.fixed_base_period else f"{ASCE} Eq. 12.8-7 (T_a)"),
         Item("distribution exponent", "k", k_exp, "-", f"{ASCE} §17.5.5 (14 beta_M T_fb, from memory)"),
         Item("force at base level", "F_1", f_1, "kN", f"{ASCE} §17.5.5 ((V_b - V_st)/R_I, from memory)"),
     ]
@@ -364,8 +371,10 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
                                   height=building.structural_height, frame=building.frame,
                                   importance=building.importance, s1=building.s1)
     items += [
-        Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs, comparison.period_source),
-        Item("ratio isolated/fixed-base design shear", "V_s/V_fb", v_s / comparison.base_shear, "-", "V_s over §12.8 V"),
+        Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs,
+             comparison.period_source),
+        Item("ratio isolated/fixed-base design shear", "V_s/V_fb", v_s / comparison.base_shear, "-",
+             "V_s over §12.8 V"),
     ]
     return ElfReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(applicability),
                      checks=tuple(checks), storey_forces=storeys, fixed_base=comparison, warnings=tuple(warnings),
@@ -393,7 +402,8 @@ def _elf_applicability(bounds, property_sets, building, t_fb) -> list[Check]:
         Check("longest effective period T_M", t_long, 5.0, t_long <= 5.0, "s", src),
         Check("shortest T_M over 3 T_fb", t_short / t_fb, 3.0, t_short > 3.0 * t_fb, "-", src),
         Check("largest effective damping beta_M", beta_max, 0.30, beta_max <= 0.30, "-", src),
-        Check("barred structural irregularity (1 = present)", float(building.irregular), 0.0, not building.irregular, "-", src),
+        Check("barred structural irregularity (1 = present)", float(building.irregular), 0.0, not building.irregular,
+              "-", src),
     ]
     for name, r in results.items():
         system, d = property_sets[name], r.displacement

@@ -232,7 +232,8 @@ def fixed_base_shear(
     t_a = approximate_period(height, frame) if height is not None else None
     if period is None:
         if t_a is None:
-            raise ValueError("period = None is not allowed without height: give the fixed-base period [s] or the height [m]")
+            raise ValueError("period = None is not allowed without height: give the fixed-base period [s] or the "
+                             "height [m]")
         t, how = t_a, f"approximate T_a = C_t h^x, {frame} (ASCE/SEI 7-16 Eq. 12.8-7)"
     else:
         t, how = validate.positive("period", period, "s"), "given"

@@ -82,7 +82,8 @@ def eurocode_approximate_period(height: float, frame: str = "other") -> float:
     return _EC8_CT[frame] * h**0.75
 
 
-def eurocode_design_spectrum(spectrum: EurocodeSpectrum, period: float, behaviour_factor: float, lower_bound: float = 0.2) -> float:
+def eurocode_design_spectrum(spectrum: EurocodeSpectrum, period: float, behaviour_factor: float,
+                             lower_bound: float = 0.2) -> float:
     """Design spectrum S_d(T) for elastic analysis (EN 1998-1 §3.2.2.5, Eqs. 3.13-3.16).
 
     Parameters
@@ -303,10 +304,12 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     v_s = shear * w_s / building.weight / building.isolated_behaviour_factor
     items = [
         Item("design displacement of the stiffness centre", "d_dc", d_dc, "m",
-             f"{EC8} §10.9.2: M Se(T_eff, xi_eff)/K_eff,min (from memory)", f"property set '{bounds.displacement_governs}'"),
+             f"{EC8} §10.9.2: M Se(T_eff, xi_eff)/K_eff,min (from memory)",
+             f"property set '{bounds.displacement_governs}'"),
         Item("effective period", "T_eff", low.period, "s", f"{EC8} §10.9.2: 2 pi sqrt(M/K_eff)"),
         Item("effective damping", "xi_eff", low.damping, "-", f"{EC8} §10.5: sum E_D/(2 pi K_eff d_dc^2)"),
-        Item("damping correction factor", "eta", float(eurocode_eta(low.damping)), "-", f"{EC8} §3.2.2.2 Eq. 3.6, >= 0.55"),
+        Item("damping correction factor", "eta", float(eurocode_eta(low.damping)), "-",
+             f"{EC8} §3.2.2.2 Eq. 3.6, >= 0.55"),
         Item("effective stiffness (minimum)", "K_eff,min", low.stiffness, "kN/m", f"{EC8} §10.9.2"),
         Item("total eccentricity incl. 5 % accidental", "e_tot", e_tot, "m", f"{EC8} §4.3.2 (0.05 L)"),
         Item("torsional amplification at the corner isolator", "delta", delta, "-",
@@ -314,7 +317,8 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
         Item("displacement amplification", "gamma_x", building.displacement_amplification, "-",
              f"{EC8} §10.3(2), recommended 1.2 (from memory)"),
         Item("isolator design displacement", "d_d", d_design, "m", "gamma_x delta d_dc"),
-        Item("elastic base shear (maximum)", "V", shear, "kN", f"{EC8} §10.9.2: K_eff,max d_dc", f"property set '{bounds.force_governs}'"),
+        Item("elastic base shear (maximum)", "V", shear, "kN", f"{EC8} §10.9.2: K_eff,max d_dc",
+             f"property set '{bounds.force_governs}'"),
         Item("isolated superstructure design shear", "V_s", v_s, "kN",
              f"{EC8} §10.10(5): V (W_s/W)/q, q <= 1.5 (from memory)",
              f"W_s = {w_s:.6g} kN above the isolation plane, q = {building.isolated_behaviour_factor:g}"),
@@ -338,12 +342,14 @@ def _applicability(bounds, property_sets, building) -> list[Check]:
     t_f = building.superstructure_period
     beta_max = max(r.damping for r in bounds.results.values())
     checks = [
-        Check("shortest T_eff over the superstructure period T_f", min(periods) / t_f, 3.0, min(periods) >= 3.0 * t_f, "-", src),
+        Check("shortest T_eff over the superstructure period T_f", min(periods) / t_f, 3.0, min(periods) >= 3.0 * t_f,
+              "-", src),
         Check("longest effective period T_eff", max(periods), 3.0, max(periods) <= 3.0, "s", src),
         Check(f"largest effective damping xi_eff ({_LINEAR})", beta_max, 0.30, beta_max <= 0.30, "-",
               f"{EC8} §10.9.1(5) (from memory)"),
         Check("largest plan dimension", building.plan_length, 50.0, building.plan_length <= 50.0, "m", src),
-        Check("superstructure regular and symmetric (0 = no)", float(building.regular), 1.0, building.regular, "-", src),
+        Check("superstructure regular and symmetric (0 = no)", float(building.regular), 1.0, building.regular, "-",
+              src),
     ]
     if building.fault_distance is not None:
         checks.append(Check("distance to an active fault (Ms >= 6.5)", building.fault_distance, 15.0,

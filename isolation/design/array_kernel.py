@@ -210,7 +210,8 @@ class EquivalentLinearArrays:
         out = []
         for j, i in enumerate(chosen):
             history = self.histories[i] if self.histories is not None else ()
-            out.append(EquivalentLinearResult(*(column[j] for column in columns), rule=self.rule,
+            leading = {name: column[j] for name, column in zip(_RESULT_FIELDS, columns)}
+            out.append(EquivalentLinearResult(**leading, rule=self.rule,
                                               iterations=iterations[j], converged=True, method=methods[j],
                                               history=history))
         return out
@@ -269,7 +270,7 @@ def equivalent_linear_many(
     if isinstance(max_iterations, bool) or not isinstance(max_iterations, (int, np.integer)) or max_iterations < 1:
         raise ValueError(f"max_iterations = {max_iterations!r} is not allowed: must be an integer >= 1")
     t0 = validate.positive("initial_period", initial_period, "s")
-    options = dict(tolerance=tol, max_iterations=int(max_iterations), initial_period=t0)
+    options: dict[str, Any] = dict(tolerance=tol, max_iterations=int(max_iterations), initial_period=t0)
     low, high = spectrum.period_range
     t0 = min(max(t0, low + 1e-3 * (high - low)), high)
     d0 = GRAVITY * float(spectrum.sa(t0, 0.05)) * t0**2 / (4.0 * math.pi**2)
@@ -306,8 +307,8 @@ def equivalent_linear_many(
         nxt = GRAVITY * sa5 * period**2 / (_FOUR_PI2 * b)
         return ok, period, beta, b, k, sa5, nxt
 
-    for key, index in groups.items():
-        index = np.asarray(index)
+    for key, members in groups.items():
+        index = np.asarray(members)
         sample = [systems[i] for i in index]
         model = _Elements(sample) if key[0] == "elements" else _Rubber(sample)
         rows = np.arange(index.size)

@@ -150,7 +150,7 @@ def bearing_uplift(shear: float, height: float, bearings: Iterable[tuple[int, fl
     if not groups or count < 2:
         raise ValueError(f"bearings = {groups!r} is not allowed: must hold at least 2 bearings")
     moment = v * h
-    worst = None
+    worst: tuple[float, int, float] | None = None
     for across, along in ((width, length), (length, width)):
         rows = grid_rows(count, across, along)
         per_row = count / rows
@@ -159,6 +159,7 @@ def bearing_uplift(shear: float, height: float, bearings: Iterable[tuple[int, fl
         load = moment * (across / 2.0) / arm2
         if worst is None or load > worst[0]:
             worst = (load, rows, across / 2.0)
+    assert worst is not None  # set on the first of the two directions
     load, rows, edge = worst
     tributary = min(p for _, p in groups)
     net = (g - ev) * tributary

@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, fields
-from typing import Any, Mapping
+from typing import Any, ClassVar, Mapping
 
 import numpy as np
 from scipy.optimize import brentq
@@ -45,6 +45,8 @@ __all__ = [
 
 
 class _ToDict:
+    __dataclass_fields__: ClassVar[dict[str, Any]]  # the subclasses are dataclasses
+
     def to_dict(self) -> dict:
         # NaN and infinity stay floats here; the study results turn them into None.
         return {f.name: plain(getattr(self, f.name), keep_nonfinite=True) for f in fields(self)}
@@ -182,9 +184,11 @@ def equivalent_linear(
     RunError
         No converged displacement inside the spectrum's period range.
     """
-    if not (callable(getattr(system, "effective_stiffness", None)) and callable(getattr(system, "effective_damping", None))):
+    if not (callable(getattr(system, "effective_stiffness", None))
+            and callable(getattr(system, "effective_damping", None))):
         raise ValueError(
-            f"system = {system!r} is not allowed: must provide effective_stiffness(d) [kN/m] and effective_damping(d) [-]"
+            f"system = {system!r} is not allowed: must provide effective_stiffness(d) [kN/m] and effective_damping(d) "
+            "[-]"
         )
     w = validate.positive("weight", weight, "kN")
     chosen = getattr(spectrum, "rule", "asce7") if rule is None else rule
@@ -235,7 +239,8 @@ def equivalent_linear(
     last = ", ".join(f"{h[0]:.4g}" for h in history[-4:])
     last = f" (last trial displacements {last} m)" if last else ""
     reason = (f"; the effective period reached T = {outside[0][1]:.4g} s at D = {outside[0][0]:.4g} m, outside the "
-              f"spectrum's period range [{low:g}, {high:g}] s (extend the spectrum or stiffen the system)") if outside else ""
+              f"spectrum's period range [{low:g}, {high:g}] s (extend the spectrum or stiffen the system)"
+              ) if outside else ""
     raise RunError(
         f"equivalent_linear did not converge: {len(history)} iterations{last} "
         f"and no bracketed root of D = g Sa T^2/(4 pi^2 B) between 1e-6 and 50 m{reason}"
@@ -281,7 +286,8 @@ class BoundsResult(_ToDict):
         return self.results[self.force_governs]
 
 
-def design_bounds(property_sets: Mapping[str, Any], weight: float, spectrum, rule: str | None = "asce7", **options) -> BoundsResult:
+def design_bounds(property_sets: Mapping[str, Any], weight: float, spectrum, rule: str | None = "asce7",
+                  **options) -> BoundsResult:
     """Run :func:`equivalent_linear` for every property set in one call.
 
     Parameters
@@ -298,8 +304,10 @@ def design_bounds(property_sets: Mapping[str, Any], weight: float, spectrum, rul
         ``tolerance``, ``max_iterations``, ``initial_period`` of :func:`equivalent_linear`.
     """
     if not isinstance(property_sets, Mapping) or not property_sets:
-        raise ValueError(f"property_sets = {property_sets!r} is not allowed: must be a non-empty mapping name -> system")
-    results = {str(name): equivalent_linear(system, weight, spectrum, rule, **options) for name, system in property_sets.items()}
+        raise ValueError(f"property_sets = {property_sets!r} is not allowed: "
+                         "must be a non-empty mapping name -> system")
+    results = {str(name): equivalent_linear(system, weight, spectrum, rule, **options)
+               for name, system in property_sets.items()}
     by_displacement = max(results, key=lambda n: results[n].displacement)
     by_force = max(results, key=lambda n: results[n].base_shear)
     return BoundsResult(results=results, displacement_governs=by_displacement, force_governs=by_force)

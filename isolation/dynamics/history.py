@@ -29,16 +29,29 @@ by less than 0.6 % at T_min/30; displacements, drifts and shears by less than
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING, overload
 
 import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.dynamics.energy import COMPONENTS, balance_error
-from isolation.dynamics.isolators import (FRICTION_LAWS, BoucWen, ElasticPlasticLaw, SharpFrictionLaw, SmoothLaw,
-                                 describe, friction_regularisation, isolator_law)
+from isolation.dynamics.isolators import (
+    FRICTION_LAWS,
+    BoucWen,
+    ElasticPlasticLaw,
+    SharpFrictionLaw,
+    SmoothLaw,
+    describe,
+    friction_regularisation,
+    isolator_law,
+)
 from isolation.dynamics.newmark import simulate, substeps
 from isolation.dynamics.response import HistoryResult, suite_statistics
 from isolation.dynamics.structure import IsolatedBuilding, ShearBuilding, linear_isolated_matrices
+
+if TYPE_CHECKING:
+    from isolation.dynamics.plan_history import PlanHistoryResult
+    from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding
 
 __all__ = ["run", "run_cases", "suite_statistics", "BoucWen", "HistoryResult", "DT_FRACTION"]
 
@@ -74,7 +87,12 @@ def _isolated_periods(superstructure: ShearBuilding, base_mass: float, stiffness
         return np.where(w2 > 0.0, 2.0 * math.pi / np.sqrt(np.maximum(w2, 1e-300)), np.inf)
 
 
-def run(building, acceleration, dt, *, friction_law="smooth") -> HistoryResult:
+@overload
+def run(building: PlanShearBuilding | PlanIsolatedBuilding, acceleration, dt, *,
+        friction_law: str = ...) -> PlanHistoryResult: ...
+@overload
+def run(building: ShearBuilding | IsolatedBuilding, acceleration, dt, *, friction_law: str = ...) -> HistoryResult: ...
+def run(building, acceleration, dt, *, friction_law="smooth") -> HistoryResult | PlanHistoryResult:
     """Response history of one building to one motion or a suite.
 
     Conventions

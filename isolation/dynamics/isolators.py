@@ -258,14 +258,14 @@ def isolator_law(isolator, weight: float, friction_law: str = "smooth"):
         b = isolator.bilinear
         q = b.characteristic_strength
         return SmoothLaw(b.post_yield_stiffness, q, q, 0.0, b.yield_displacement, isolator.beta)
-    if isinstance(isolator, FrictionPendulum) and friction_law == "sharp":
-        return SharpFrictionLaw(weight / isolator.effective_radius, isolator.friction * weight,
-                                isolator.friction_slow * weight, isolator.rate_parameter,
-                                isolator.yield_displacement)
     if isinstance(isolator, FrictionPendulum):
+        slow = isolator.friction_slow
+        assert slow is not None  # FrictionPendulum sets it to friction when not given
+        if friction_law == "sharp":
+            return SharpFrictionLaw(weight / isolator.effective_radius, isolator.friction * weight,
+                                    slow * weight, isolator.rate_parameter, isolator.yield_displacement)
         return SmoothLaw(weight / isolator.effective_radius, isolator.friction * weight,
-                         isolator.friction_slow * weight, isolator.rate_parameter,
-                         isolator.yield_displacement, 0.5)
+                         slow * weight, isolator.rate_parameter, isolator.yield_displacement, 0.5)
     if isinstance(isolator, DoubleConcave):
         return isolator_law(isolator.backbone(weight), weight)
     bilinear = getattr(isolator, "bilinear", None)

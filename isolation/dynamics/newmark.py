@@ -41,8 +41,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from isolation.errors import RunError
 from isolation.dynamics.isolators import SmoothColumns
+from isolation.errors import RunError
 
 __all__ = ["integrate", "simulate", "kernel_module", "compiled_available", "substeps"]
 
@@ -352,6 +352,8 @@ def kernel_module(compiled: bool | None = None):
         import numba
 
         spec = importlib.util.spec_from_file_location("isolation._kernel_compiled", kernel.__file__)
+        if spec is None or spec.loader is None:
+            raise ImportError(f"cannot load the compiled kernel from {kernel.__file__}")
         module = importlib.util.module_from_spec(spec)
         sys.modules[spec.name] = module  # numba's cache finds the module by name when it loads
         spec.loader.exec_module(module)

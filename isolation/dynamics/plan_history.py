@@ -113,19 +113,22 @@ class PlanHistoryResult:
     @property
     def total_displacement(self) -> np.ndarray:
         """Peak displacement of the most displaced bearing per record (D_TM from histories). [m]"""
+        assert self.bearing_displacement_peak is not None, "a fixed-base case has no bearings"
         return self.bearing_displacement_peak.max(axis=1)
 
     @property
     def torsional_amplification(self) -> np.ndarray:
         """Peak displacement of the most displaced bearing over the peak at the centre of mass, per record. [-]"""
+        assert self.isolator_displacement is not None, "a fixed-base case has no bearings"
         centre = np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1)
         return self.total_displacement / centre
 
     def bearing_orbit(self, index: int) -> np.ndarray:
         """Displacement orbit of bearing ``index``: (records, 2, steps) [m]."""
+        u, rotation = self.isolator_displacement, self.base_rotation
+        assert self.positions is not None and u is not None and rotation is not None, "fixed base: no bearings"
         px, py = self.positions[index]
-        u = self.isolator_displacement
-        return np.stack([u[:, 0] - py * self.base_rotation, u[:, 1] + px * self.base_rotation], axis=1)
+        return np.stack([u[:, 0] - py * rotation, u[:, 1] + px * rotation], axis=1)
 
     def summary(self) -> dict:
         """Suite means of the headline quantities (plain JSON types)."""
@@ -140,9 +143,12 @@ class PlanHistoryResult:
         if self.residual_drift is not None:
             out["residual_drift_ratio"] = self.residual_drift.max(axis=(1, 2)).mean().item()
         if self.bearing_displacement_peak is not None:
+            assert (self.isolator_displacement is not None and self.bearing_axial_force is not None
+                    and self.uplift_steps is not None)  # written with the bearing peaks
             out.update({
                 "total_displacement_m": self.total_displacement.mean().item(),
-                "centre_displacement_m": np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean().item(),
+                "centre_displacement_m":
+                    np.sqrt((self.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean().item(),
                 "torsional_amplification": self.torsional_amplification.mean().item(),
                 "axial_min_kN": self.bearing_axial_force[..., 0].min().item(),
                 "axial_max_kN": self.bearing_axial_force[..., 1].max().item(),
@@ -218,14 +224,17 @@ def run_plan_cases(buildings, acceleration, dt, *, vertical=None) -> list:
         raise ValueError("buildings = [] is not allowed: give at least one building")
     isolated = isinstance(buildings[0], PlanIsolatedBuilding)
     for b in buildings:
-        if isolated and not isinstance(b, PlanIsolatedBuilding) or not isolated and not isinstance(b, PlanShearBuilding):
-            raise ValueError(f"building = {b!r} is not allowed: cases must all be PlanIsolatedBuilding or one PlanShearBuilding")
+        if (isolated and not isinstance(b, PlanIsolatedBuilding)
+                or not isolated and not isinstance(b, PlanShearBuilding)):
+            raise ValueError(f"building = {b!r} is not allowed: cases must all be PlanIsolatedBuilding or one "
+                             "PlanShearBuilding")
     if not isolated and len(buildings) != 1:
         raise ValueError("a fixed-base plan building runs as one case")
     first = buildings[0]
     if isolated:
         for b in buildings[1:]:
-            if b.superstructure != first.superstructure or b.base_mass != first.base_mass or not np.array_equal(b.positions, first.positions):
+            if (b.superstructure != first.superstructure or b.base_mass != first.base_mass
+                    or not np.array_equal(b.positions, first.positions)):
                 raise ValueError("cases integrated together must share superstructure, base mass and bearing positions")
         m, k, c = first.matrices()
         structure = first.superstructure
@@ -440,7 +449,8 @@ def _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical):
                 if change[:, :2].max() <= tolerance and change[:, 2].max() * twist <= tolerance:
                     break
             else:
-                raise RuntimeError(f"plan isolator iteration did not converge at step {n + 1} (t = {(n + 1) * dt:.4g} s)")
+                raise RuntimeError(f"plan isolator iteration did not converge at step {n + 1} "
+                                   f"(t = {(n + 1) * dt:.4g} s)")
             force_b, z, p, d_prev, vb_prev = bearing_forces(ub, z, p)
             u_next = u_lin - force_b @ k_inv_base
         else:

@@ -16,13 +16,14 @@ not bit for bit.  Without numba the array version runs.
 from __future__ import annotations
 
 import math
+from typing import Callable
 
 import numpy as np
 
 try:  # numba is optional: the array version is the fallback
     from numba import njit
 except ImportError:  # pragma: no cover - exercised where numba is missing
-    njit = None
+    njit = None  # type: ignore[assignment]  # the optional import's stand-in
 
 __all__ = ["available", "plan_loop", "isolated_loop"]
 
@@ -31,8 +32,8 @@ available = njit is not None
 _EDGE = 1.0 - 1e-15
 
 
-def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength, inv_ey,
-              c2, commit, uplift, axial_min, axial_max):
+def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop, rate, inv_y, strength,
+                     inv_ey, c2, commit, uplift, axial_min, axial_max):
     """Resultant bearing forces (x, y, moment) for base motion ``ub``; with ``commit`` the states advance."""
     nb = pos.shape[0]
     ne = strength.shape[2]
@@ -109,15 +110,15 @@ def _bearings_python(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_f
 
 def _storeys_python(drift, kp, fp, q_c, d_c, q_t, p_t):
     """Trial element forces q_t and departures p_t of the storey springs at ``drift``."""
-    for l in range(drift.shape[0]):
-        d = drift[l]
-        q = q_c[l] + kp[l] * (d - d_c[l])
-        if q > fp[l]:
-            q = fp[l]
-        elif q < -fp[l]:
-            q = -fp[l]
-        q_t[l] = q
-        p_t[l] = q - kp[l] * d
+    for sp in range(drift.shape[0]):
+        d = drift[sp]
+        q = q_c[sp] + kp[sp] * (d - d_c[sp])
+        if q > fp[sp]:
+            q = fp[sp]
+        elif q < -fp[sp]:
+            q = -fp[sp]
+        q_t[sp] = q
+        p_t[sp] = q - kp[sp] * d
 
 
 def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, has_vert, slider, k0, q_fast,
@@ -151,7 +152,6 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
     v_next = np.zeros(nd)
     tmp = np.zeros(nd)
     tmp2 = np.zeros(nd)
-    trial = np.zeros(nd)
     z = np.zeros((nb, 2))
     p = np.zeros((nb, ne, 2))
     d_prev = np.zeros((nb, 2))
@@ -200,13 +200,13 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 tmp2[j] = c2 * u[j] + v[j]
             for j in range(nd):
                 s = -(mr[j, 0] * g0 + mr[j, 1] * g1)
-                for l in range(nd):
-                    s += m[j, l] * tmp[l] + c[j, l] * tmp2[l]
+                for q in range(nd):
+                    s += m[j, q] * tmp[q] + c[j, q] * tmp2[q]
                 rhs[j] = s
             for j in range(nd):
                 s = 0.0
-                for l in range(nd):
-                    s += rhs[l] * k_inv[l, j]
+                for q in range(nd):
+                    s += rhs[q] * k_inv[q, j]
                 u_lin[j] = s
             if isolated:
                 # overturning moment of the previous step's inertial forces
@@ -231,12 +231,12 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 # outer fixed point on the bearing forces; inside it, the storeys' departures with the
                 # bearing forces held, on the condensed drift equations d = D'u_lin - dkb f - dkd p
                 # (no bearing law evaluated, ns x ns work), each to its own tolerance
-                for l in range(ns):
-                    p_it[l] = p_c[l]
+                for sp in range(ns):
+                    p_it[sp] = p_c[sp]
                     s = 0.0
                     for j in range(nd):
-                        s += u_lin[j] * drift_map[j, l]
-                    d_lin[l] = s
+                        s += u_lin[j] * drift_map[j, sp]
+                    d_lin[sp] = s
                 f0 = force[0]
                 f1 = force[1]
                 f2 = force[2]
@@ -244,16 +244,16 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 for _ in range(max_iterations):
                     settled = False
                     for _inner in range(max_iterations):
-                        for l in range(ns):
-                            s = d_lin[l] - f0 * dkb[l, 0] - f1 * dkb[l, 1] - f2 * dkb[l, 2]
+                        for sp in range(ns):
+                            s = d_lin[sp] - f0 * dkb[sp, 0] - f1 * dkb[sp, 1] - f2 * dkb[sp, 2]
                             for m_ in range(ns):
-                                s -= dkd[l, m_] * p_it[m_]
-                            drift[l] = s
+                                s -= dkd[sp, m_] * p_it[m_]
+                            drift[sp] = s
                         _storeys(drift, kp, fp, q_c, d_c, q_t, p_t)
                         moved = 0.0
-                        for l in range(ns):
-                            moved = max(moved, abs(p_t[l] - p_it[l]))
-                            p_it[l] = p_t[l]
+                        for sp in range(ns):
+                            moved = max(moved, abs(p_t[sp] - p_it[sp]))
+                            p_it[sp] = p_t[sp]
                         if moved <= tol_storey:
                             settled = True
                             break
@@ -264,8 +264,8 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                         break
                     for i in range(3):
                         s = u_lin[i] - f0 * k_inv[0, i] - f1 * k_inv[1, i] - f2 * k_inv[2, i]
-                        for l in range(ns):
-                            s -= p_it[l] * kd[i, l]
+                        for sp in range(ns):
+                            s -= p_it[sp] * kd[i, sp]
                         ub[i] = s
                     f0, f1, f2 = _bearings(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast,
                                            q_drop, rate, inv_y, strength, inv_ey, c2, False, uplift, axial_min,
@@ -273,8 +273,8 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                     change = 0.0
                     for i in range(3):
                         s = u_lin[i] - f0 * k_inv[0, i] - f1 * k_inv[1, i] - f2 * k_inv[2, i]
-                        for l in range(ns):
-                            s -= p_it[l] * kd[i, l]
+                        for sp in range(ns):
+                            s -= p_it[sp] * kd[i, sp]
                         change = max(change, abs(s - ub[i]) * (rmax if i == 2 else 1.0))
                         ub[i] = s
                     if change <= tolerance:
@@ -285,30 +285,30 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 if isolated:
                     f0, f1, f2 = _bearings(col, ub, pos, d_prev, vb_prev, z, p, axial, slider, k0, q_fast, q_drop,
                                            rate, inv_y, strength, inv_ey, c2, True, uplift, axial_min, axial_max)
-                for l in range(ns):
-                    s = d_lin[l] - f0 * dkb[l, 0] - f1 * dkb[l, 1] - f2 * dkb[l, 2]
+                for sp in range(ns):
+                    s = d_lin[sp] - f0 * dkb[sp, 0] - f1 * dkb[sp, 1] - f2 * dkb[sp, 2]
                     for m_ in range(ns):
-                        s -= dkd[l, m_] * p_it[m_]
-                    drift[l] = s
+                        s -= dkd[sp, m_] * p_it[m_]
+                    drift[sp] = s
                 _storeys(drift, kp, fp, q_c, d_c, q_t, p_t)
                 for j in range(nd):
                     s = u_lin[j] - f0 * k_inv[0, j] - f1 * k_inv[1, j] - f2 * k_inv[2, j]
-                    for l in range(ns):
-                        s -= p_t[l] * kd[j, l]
+                    for sp in range(ns):
+                        s -= p_t[sp] * kd[j, sp]
                     u_next[j] = s
-                for l in range(ns):
+                for sp in range(ns):
                     d = 0.0
                     for j in range(nd):
-                        d += u_next[j] * drift_map[j, l]
-                    e_storey += 0.5 * (p_c[l] + p_t[l]) * (d - d_c[l])
-                    q_c[l] = q_t[l]
-                    p_c[l] = p_t[l]
-                    d_c[l] = d
+                        d += u_next[j] * drift_map[j, sp]
+                    e_storey += 0.5 * (p_c[sp] + p_t[sp]) * (d - d_c[sp])
+                    q_c[sp] = q_t[sp]
+                    p_c[sp] = p_t[sp]
+                    d_c[sp] = d
             elif isolated:
                 for i in range(3):
                     s = u_lin[i]
-                    for l in range(3):
-                        s -= force[l] * k_inv[l, i]
+                    for sp in range(3):
+                        s -= force[sp] * k_inv[sp, i]
                     ub[i] = s
                 converged = False
                 for _ in range(max_iterations):
@@ -350,8 +350,8 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 w = v[j] + v_next[j]
                 s_in += w * (mr[j, 0] * (g[col, 0, n] + g0) + mr[j, 1] * (g[col, 1, n] + g1))
                 t2 = 0.0
-                for l in range(nd):
-                    t2 += c[j, l] * (v[l] + v_next[l])
+                for q in range(nd):
+                    t2 += c[j, q] * (v[q] + v_next[q])
                 s_damp += w * t2
             e_in -= 0.25 * dt * s_in
             e_damp += 0.25 * dt * s_damp
@@ -371,15 +371,19 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
         energy[col, 3] = peak_in
         kinetic = 0.0
         for j in range(nd):
-            for l in range(nd):
-                kinetic += 0.5 * v[j] * m[j, l] * v[l]
+            for q in range(nd):
+                kinetic += 0.5 * v[j] * m[j, q] * v[q]
         energy[col, 4] = kinetic
         energy[col, 5] = e_storey
-        for l in range(ns):
-            storey_q[col, l] = q_c[l]
+        for sp in range(ns):
+            storey_q[col, sp] = q_c[sp]
     return 0
 
 
+_bearings: Callable[..., tuple[float, float, float]]
+_storeys: Callable[..., None]
+plan_loop: Callable[..., int] | None
+isolated_loop: Callable[..., int] | None
 if available:
     _bearings = njit(cache=True)(_bearings_python)
     _storeys = njit(cache=True)(_storeys_python)

@@ -56,6 +56,7 @@ stiffness).  The damping matrix comes from the elastic stiffness without it.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
@@ -256,6 +257,7 @@ class PlanShearBuilding:
     def storey_stiffness(self, i: int) -> np.ndarray:
         """3 x 3 stiffness of storey ``i`` on the relative motion of its two levels. [kN/m, kN, kN m]"""
         t = _storey_transform(self.rigidity_offset)
+        assert self.torsional_stiffnesses is not None  # a tuple after __post_init__
         return t.T @ np.diag([self.stiffnesses_x[i], self.stiffnesses_y[i], self.torsional_stiffnesses[i]]) @ t
 
     def stiffness_matrix(self) -> np.ndarray:
@@ -300,6 +302,7 @@ class PlanShearBuilding:
         return replace(self, rigidity_offset=(ex - mx, ey - my))
 
     def to_dict(self) -> dict:
+        assert self.torsional_stiffnesses is not None  # a tuple after __post_init__
         return {
             "kind": "plan_shear_building",
             "masses": list(self.masses),
@@ -368,7 +371,7 @@ class PlanIsolatedBuilding:
 
     superstructure: PlanShearBuilding
     base_mass: float
-    bearings: object
+    bearings: Any  # one bearing or a sequence of them; a tuple after __post_init__
     positions: np.ndarray
     gravity_loads: tuple | None = None
     mass_offset: tuple = field(default=(0.0, 0.0))
@@ -442,6 +445,7 @@ class PlanIsolatedBuilding:
     def to_dict(self) -> dict:
         from isolation.dynamics.isolators import describe
 
+        assert self.gravity_loads is not None  # a tuple after __post_init__
         return {
             "kind": "plan_isolated_building",
             "superstructure": self.superstructure.to_dict(),

@@ -10,11 +10,12 @@ import io
 import json
 from dataclasses import dataclass, field, fields
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
-from isolation.files import write_bytes_atomic
 from isolation.dynamics.oscillator import response_spectrum
+from isolation.files import write_bytes_atomic
 
 __all__ = ["HistoryResult", "suite_statistics"]
 
@@ -173,7 +174,8 @@ class HistoryResult:
             out["ductility"] = self.ductility
             out["residual_drift_ratio"] = self.residual_drift
             out["shear_strength_ratio"] = self.shear_strength_ratio
-        if self.isolated:
+        if self.isolator_displacement is not None:  # isolated
+            assert self.isolator_force is not None  # written with the isolator displacement
             out["isolator_displacement"] = np.max(np.abs(self.isolator_displacement), axis=1)
             out["residual_displacement"] = np.abs(self.isolator_displacement[:, -1])
             out["isolator_force"] = np.max(np.abs(self.isolator_force), axis=1)
@@ -187,7 +189,8 @@ class HistoryResult:
     @property
     def residual_displacement(self) -> np.ndarray | None:
         """|Isolator displacement| at the end of each record (records,). [m]"""
-        return np.abs(self.isolator_displacement[:, -1]) if self.isolated else None
+        u = self.isolator_displacement
+        return np.abs(u[:, -1]) if u is not None else None
 
     def statistics(self) -> dict:
         """Suite statistics of the peaks: name -> {"per_record", "mean", "max"} (plain lists/floats)."""
@@ -275,7 +278,7 @@ class HistoryResult:
         with np.load(Path(path), allow_pickle=False) as data:
             meta = json.loads(str(data["meta"]))
             energy = {k[len("energy_"):]: data[k] for k in data.files if k.startswith("energy_")}
-            kwargs = {name: (data[name] if name in data.files else None) for name in _ARRAYS}
+            kwargs: dict[str, Any] = {name: (data[name] if name in data.files else None) for name in _ARRAYS}
         names = {f.name for f in fields(cls)}
         return cls(case=meta["case"], dt=float(meta["dt"]), energy=energy, model=meta["model"],
                    notes=tuple(meta.get("notes", ())),

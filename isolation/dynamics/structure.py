@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 import scipy.linalg
@@ -31,7 +32,8 @@ import scipy.linalg
 from isolation import GRAVITY, validate
 from isolation.dynamics.isolators import describe, isolator_law
 
-__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES", "PlanShearBuilding", "PlanIsolatedBuilding"]
+__all__ = ["ShearBuilding", "IsolatedBuilding", "ModalProperties", "HYSTERESES", "PlanShearBuilding",
+           "PlanIsolatedBuilding"]
 
 HYSTERESES = ("bilinear", "clough")
 """Storey laws of a yielding ShearBuilding (see its ``hysteresis`` parameter)."""
@@ -235,7 +237,7 @@ class ShearBuilding:
             shape = validate.positive_array("profile", profile, "-")
             if shape.shape != masses.shape:
                 raise ValueError(f"profile has {shape.size} entries: must have one per storey ({n})")
-        trial = cls(masses, shape, heights, damping, damping_model=damping_model)
+        trial = cls(masses, tuple(shape), heights, damping, damping_model=damping_model)
         scale = (trial.modal().periods[0] / period) ** 2
         return cls(masses, shape * scale, heights, damping, yield_shears, hardening, p_delta,
                    damping_model=damping_model, hysteresis=hysteresis)
@@ -345,7 +347,8 @@ class ShearBuilding:
         """
         import dataclasses
 
-        changes = {"yield_shears": None if yield_shears is None else tuple(np.atleast_1d(yield_shears).tolist())}
+        changes: dict[str, Any] = {
+            "yield_shears": None if yield_shears is None else tuple(np.atleast_1d(yield_shears).tolist())}
         if hardening is not None:
             changes["hardening"] = hardening
         if p_delta is not None:
@@ -378,8 +381,9 @@ class ShearBuilding:
             raise ValueError("storey_loop is not available for a rigid building (no storey springs)")
         if not isinstance(storey, (int, np.integer)) or not 0 <= storey < self.storeys:
             raise ValueError(f"storey = {storey!r} is not allowed: must be an integer in [0, {self.storeys - 1}]")
+        assert self.stiffnesses is not None  # a tuple after __post_init__
         k = self.stiffnesses[storey]
-        if not self.yielding:
+        if self.yield_shears is None:  # elastic storeys
             return k * d
         fy = self.yield_shears[storey]
         kind = {"bilinear": kernel.STOREY_BILINEAR, "clough": kernel.STOREY_CLOUGH}[self.hysteresis]
@@ -454,7 +458,7 @@ class ShearBuilding:
         out = {
             "kind": "shear_building",
             "masses": list(self.masses),
-            "stiffnesses": list(self.stiffnesses),
+            "stiffnesses": list(self.stiffnesses or ()),
             "heights": list(self.heights),
             "damping": self.damping,
             "damping_model": self.damping_model,

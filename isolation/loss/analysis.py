@@ -24,10 +24,8 @@ import numpy as np
 
 from isolation.loss import costs as _costs
 from isolation.loss.consequences import occupancy as _occupancy
-from isolation.loss.fragility import (IRREPARABLE, collapse_fragility, collapse_probability_at_mce,
-                                      component_fragilities)
-from isolation.loss.hazard import (DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard,
-                                   rate_from_probability)
+from isolation.loss.fragility import IRREPARABLE, collapse_fragility, collapse_probability_at_mce, component_fragilities
+from isolation.loss.hazard import DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard, rate_from_probability
 from isolation.loss.inputs import LossInputs
 from isolation.loss.simulation import PERCENTILES, Demands, LossModel, simulate, summarise
 
@@ -40,7 +38,8 @@ LOW_END = 0.5
 its hazard intervals at an intensity with negligible loss, from memory)."""
 
 CAUTIONS = (
-    "Order-of-magnitude screening from storey-based damage functions (FEMA earthquake loss estimation manual) and a short "
+    "Order-of-magnitude screening from storey-based damage functions (FEMA earthquake loss estimation manual) and a "
+    "short "
     "matched suite, not a component-by-component loss assessment.",
     "Costs are to be confirmed by a cost consultant; defaults are invented demo values.",
     "Not an insurance estimate; expected annual values depend strongly on the assumed hazard curve.",
@@ -111,7 +110,7 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
         reference = float(np.asarray(spectrum.sa(h.period)).ravel()[0])
         x = [sa / reference for sa, _ in h.points]
         rates = [rate for _, rate in h.points]
-        curve = HazardCurve(x, rates)
+        curve = HazardCurve(tuple(x), tuple(rates))
         hazard = curve.power_law() if h.fit == "power_law" else curve
         basis = (f"site hazard curve, Sa({h.period:g} s) points divided by the site spectrum's "
                  f"{reference:.3g} g; " + ("least-squares power law" if h.fit == "power_law"

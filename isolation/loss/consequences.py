@@ -57,7 +57,8 @@ class Occupancy:
         return {k: getattr(self, k) for k in self.__dataclass_fields__}
 
 
-_SOURCE = ("FEMA Multi-hazard Loss Estimation Methodology, Earthquake Model, Technical Manual (MR5, 2010) Tables 15.2, 15.3, 15.4 (repair cost ratios), "
+_SOURCE = ("FEMA Multi-hazard Loss Estimation Methodology, Earthquake Model, Technical Manual (MR5, 2010) Tables 15.2, "
+           "15.3, 15.4 (repair cost ratios), "
            "Chapter 15 repair and recovery time tables; from memory, not re-read")
 
 OCCUPANCIES = {

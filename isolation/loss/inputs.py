@@ -24,6 +24,7 @@ has the slope k = 3; see :mod:`isolation.loss.hazard`), or ``points = [[Sa, rate
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 from isolation.loss.consequences import OCCUPANCIES
 from isolation.loss.costs import DEMO_BEARING_COST, CostInputs
@@ -80,9 +81,10 @@ MONEY_MAX = 1e13
 """Largest amount accepted for any cost input, in the study's currency (common practice: a plausibility
 limit, far above any single building's cost in any currency unit in use)."""
 
-_COST_FIELDS = ("currency", "replacement_cost_per_area", "contents_value", "lost_use_per_day", "bearing_cost",
-                "isolation_plane_per_area", "moat_per_length", "utilities", "design_and_testing",
-                "superstructure_saving", "design_life", "discount_rate")
+_COST_FIELDS: tuple[str, ...] = (
+    "currency", "replacement_cost_per_area", "contents_value", "lost_use_per_day", "bearing_cost",
+    "isolation_plane_per_area", "moat_per_length", "utilities", "design_and_testing",
+    "superstructure_saving", "design_life", "discount_rate")
 
 
 def _money(t, key, default, *, kind=None):
@@ -98,7 +100,8 @@ def _cost(t) -> CostInputs | None:
     base = CostInputs()
     if t is None:
         return CostInputs(defaults=_COST_FIELDS)
-    values, defaults = {}, []
+    values: dict[str, Any] = {}
+    defaults: list[str] = []
     currency = t.text("currency", required=False, default=None)
     values["currency"] = currency or base.currency
     if currency is None:
@@ -121,7 +124,7 @@ def _cost(t) -> CostInputs | None:
         if key not in t.mapping:
             defaults.append(key)
         values[key] = t.number(key, low=low, high=high, unit=unit, required=False, default=getattr(base, key))
-    bearing = dict(DEMO_BEARING_COST)
+    bearing: dict[str, tuple[float, ...]] = dict(DEMO_BEARING_COST)
     table = t.table("bearing_cost", required=False)
     if table is None:
         defaults.append("bearing_cost")

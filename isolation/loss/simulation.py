@@ -253,7 +253,7 @@ def simulate(model: LossModel, demands: Demands, intensity: float, *, samples: i
 
 def summarise(realisations: dict) -> dict:
     """Mean and 10/50/90 % values of loss, repair days and downtime; collapse and irreparable rates."""
-    out = {}
+    out: dict[str, float | dict[str, float]] = {}
     for name in ("loss", "repair_days", "downtime_days"):
         values = realisations[name]
         bands = np.percentile(values, PERCENTILES)

@@ -40,6 +40,10 @@ from isolation.motions.measures import (
     significant_duration,
     velocity,
 )
+from isolation.motions.pair_io import RecordedPair, read_pair
+from isolation.motions.pair_spectra import component_correlation, rotd100_spectrum, rotd_spectrum, srss_spectrum
+from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs, PairCheck
+from isolation.motions.pairs import matched_pairs
 from isolation.motions.records_io import (
     FORMAT_NAME,
     Accelerogram,
@@ -49,10 +53,6 @@ from isolation.motions.records_io import (
     read_text_accelerogram,
     write_suite,
 )
-from isolation.motions.pair_spectra import component_correlation, rotd100_spectrum, rotd_spectrum, srss_spectrum
-from isolation.motions.pair_io import RecordedPair, read_pair
-from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs, PairCheck
-from isolation.motions.pairs import matched_pairs
 from isolation.motions.spectrum import ResponseSpectra, log_periods, response_spectra, response_spectrum
 from isolation.motions.suite import (
     BASELINE_TOLERANCE,

@@ -109,12 +109,14 @@ def _band(spectrum, dt, duration, period_range, isolated_period, rule):
     else:
         pair = finite_array("period_range", period_range, "s")
         if pair.shape != (2,) or not 0 < pair[0] < pair[1]:
-            raise ValueError(f"period_range = {period_range!r} is not allowed: must be (Tmin, Tmax) with 0 < Tmin < Tmax [s]")
+            raise ValueError(f"period_range = {period_range!r} is not allowed: must be (Tmin, Tmax) with 0 < Tmin < "
+                             "Tmax [s]")
         low, high = float(pair[0]), float(pair[1])
         if low < 4.0 * dt:
             raise ValueError(f"period_range = {period_range!r} is not allowed: Tmin must be >= 4 dt = {4 * dt:g} [s]")
         if high > duration / 3.0:
-            raise ValueError(f"period_range = {period_range!r} is not allowed: Tmax must be <= duration / 3 = {duration / 3:g} [s]")
+            raise ValueError(f"period_range = {period_range!r} is not allowed: Tmax must be <= duration / 3 = "
+                             f"{duration / 3:g} [s]")
     if lows is None:
         check = (low, high)
     elif rule == "asce7":

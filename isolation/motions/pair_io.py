@@ -39,7 +39,8 @@ class RecordedPair:
         return float(component_correlation(self.acceleration))
 
 
-def read_pair(path: Any, units: str | None = None, *, second: Any = None, columns: tuple = (1, 2), time_column: int = 0) -> RecordedPair:
+def read_pair(path: Any, units: str | None = None, *, second: Any = None, columns: tuple = (1, 2),
+              time_column: int = 0) -> RecordedPair:
     """Read a recorded pair: two files (one component each) or one CSV with two acceleration columns.
 
     Parameters

@@ -6,6 +6,7 @@ Rules per basis are in :data:`PAIR_RULES` (sources in :mod:`isolation.motions.pa
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TypedDict
 
 import numpy as np
 
@@ -15,8 +16,17 @@ from isolation.motions.suite import BASELINE_TOLERANCE
 
 __all__ = ["MatchedPairs", "PairCheck", "PAIR_RULES", "PAIR_BAND"]
 
+class PairRule(TypedDict):
+    """Suite rules for pairs under one basis."""
+
+    spectrum: str  # "RotD100" or "SRSS"
+    required: float  # required suite-mean ratio to the target [-]
+    goal: float  # matching goal [-]
+    range: tuple[float, float]  # check range factors on (T_low, T_high) [-]
+
+
 #: Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors on (T_low, T_high).
-PAIR_RULES = {
+PAIR_RULES: dict[str, PairRule] = {
     "asce7": {"spectrum": "RotD100", "required": 1.10, "goal": 1.15, "range": (0.75, 1.25)},
     "eurocode": {"spectrum": "SRSS", "required": 1.30, "goal": 1.40, "range": (0.2, 1.5)},
 }
@@ -200,7 +210,8 @@ class MatchedPairs:
             band=band,
             lowest_ratio=tuple(float(v) for v in ratios.min(axis=1)),
             highest_ratio=tuple(float(v) for v in ratios.max(axis=1)),
-            within_band=tuple(bool(lo >= band[0] and hi <= band[1]) for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
+            within_band=tuple(bool(lo >= band[0] and hi <= band[1])
+                              for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
             correlation=tuple(float(c) for c in self.correlation),
             baseline_ok=tuple(
                 bool(v <= BASELINE_TOLERANCE["velocity"] and d <= BASELINE_TOLERANCE["displacement"])

@@ -236,7 +236,8 @@ def _declared_units(units: Any, header: list[str], file: Path) -> str:
     return one_of("units", units, ACCELERATION_UNITS)
 
 
-def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | None = None, count: int | None = None) -> Accelerogram:
+def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | None = None,
+                           count: int | None = None) -> Accelerogram:
     """Read header lines stating the time step (and count), then values.
 
     Parameters
@@ -288,7 +289,8 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
         step = positive(f"{file}: line {header_step[0]}: time step", header_step[1], "s")
         step = _step_checked(file, f"line {header_step[0]}", step)
         if dt is not None and abs(positive("dt", dt, "s") - step) > 1e-9 * step:
-            raise ValueError(f"dt = {dt!r} is not allowed: header line {header_step[0]} of {file} states dt = {step:g} [s]")
+            raise ValueError(f"dt = {dt!r} is not allowed: header line {header_step[0]} of {file} states dt = {step:g} "
+                             "[s]")
     else:
         step = _step_checked(file, "argument dt", positive("dt", dt, "s"))
     factor = ACCELERATION_UNITS[declared] / ACCELERATION_UNITS["g"]
@@ -307,7 +309,8 @@ def read_text_accelerogram(path: Any, units: str | None = None, *, dt: float | N
                     "must be a number"
                 ) from None
             if not np.isfinite(value):
-                raise ValueError(f"{file}: line {number + 1}, value {position + 1} = {token!r} is not allowed: must be finite")
+                raise ValueError(f"{file}: line {number + 1}, value {position + 1} = {token!r} is not allowed: must be "
+                                 "finite")
             _plausible(file, number + 1, f"value {position + 1}", value, factor)
             values.append(value)
     expected = header_count[1] if header_count is not None else count
@@ -364,7 +367,8 @@ def read_csv_accelerogram(path: Any, units: str, *, time_column: int = 0, accele
             try:
                 value = _number(fields[column])
             except ValueError:
-                raise ValueError(f"{file}: line {number}, {name} = {fields[column]!r} is not allowed: must be a number") from None
+                raise ValueError(f"{file}: line {number}, {name} = {fields[column]!r} is not allowed: "
+                                 "must be a number") from None
             if not np.isfinite(value):
                 raise ValueError(f"{file}: line {number}, {name} = {fields[column]!r} is not allowed: must be finite")
             if name == "acceleration":
@@ -503,5 +507,6 @@ def read_suite_records(metadata_path: Any) -> list[Accelerogram]:
     except json.JSONDecodeError as error:
         raise ValueError(f"{file}: line {error.lineno}: not valid JSON ({error.msg})") from None
     if metadata.get("format") != FORMAT_NAME or not isinstance(metadata.get("files"), list):
-        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a 'files' list")
+        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a "
+                         "'files' list")
     return [read_text_accelerogram(file.parent / name) for name in metadata["files"]]

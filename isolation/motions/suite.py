@@ -302,7 +302,8 @@ class MatchedSuite:
 
     def measures(self) -> list:
         """Intensity measures of every record (PGA [g], PGV [m/s], PGD [m], Arias [m/s], D5-95 [s], CAV [m/s])."""
-        return intensity_measures(self.acceleration, self.dt)
+        out = intensity_measures(self.acceleration, self.dt)
+        return out if isinstance(out, list) else [out]
 
     def to_dict(self, include_acceleration: bool = False) -> dict:
         """Plain JSON types: settings, seeds, spectra, tolerance report and measures.

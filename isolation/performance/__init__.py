@@ -1,1 +1,2 @@
-"""Fixed-base comparison: code-designed storey strengths (`strength`), damage-state medians (`damage`) and the yielding comparison (`comparison`)."""
+"""Fixed-base comparison: code-designed storey strengths (`strength`), damage-state medians (`damage`) and the
+yielding comparison (`comparison`)."""

@@ -22,9 +22,16 @@ from typing import Any
 import numpy as np
 
 from isolation.performance.damage import damage_state, damage_thresholds
+from isolation.performance.strength import (
+    DriftCheck,
+    StoreyDesign,
+    SystemFactors,
+    code_drift_check,
+    fixed_base_design,
+    isolated_design,
+    system_factors,
+)
 from isolation.plain import plain
-from isolation.performance.strength import (DriftCheck, StoreyDesign, SystemFactors, code_drift_check, fixed_base_design,
-                                isolated_design, system_factors)
 
 __all__ = ["FixedBaseComparison", "fixed_base_comparison", "isolated_superstructure", "with_strengths",
            "response_indicators", "comparison_summary", "thresholds_of"]

@@ -482,7 +482,8 @@ class TabulatedSpectrum(_Spectrum):
         }
 
 
-_KINDS = {"code": CodeSpectrum, "eurocode": EurocodeSpectrum, "tabulated": TabulatedSpectrum}
+_KINDS: dict[str, type[CodeSpectrum | EurocodeSpectrum | TabulatedSpectrum]] = {
+    "code": CodeSpectrum, "eurocode": EurocodeSpectrum, "tabulated": TabulatedSpectrum}
 
 
 def spectrum_from_dict(mapping: Mapping[str, Any]):

@@ -24,8 +24,8 @@ import numpy as np
 
 from isolation import GRAVITY
 from isolation import verdict as _verdict
-from isolation.verdict.sources import drift_limit as _drift_limit
 from isolation.study import Alternative, Study
+from isolation.verdict.sources import drift_limit as _drift_limit
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
            "bearing_uplift_check", "overturning_inputs",
@@ -62,15 +62,26 @@ def site_spectrum(study: Study):
     if site.spectrum_periods:
         return TabulatedSpectrum(site.spectrum_periods, site.spectrum_values, rule=rule)
     if study.basis == "asce7":
+        assert site.sms is not None and site.sm1 is not None and site.long_period is not None  # required by the parse
         return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period)
+    assert site.ag is not None and site.ground_type is not None and site.spectrum_type is not None  # as above
     return EurocodeSpectrum(site.ag, ground=site.ground_type, spectrum_type=site.spectrum_type,
                             importance=study.building.importance, max_period=EUROCODE_MAX_PERIOD)
 
 
 def isolation_system(alternative: Alternative):
     """Bearing groups and property factors of one alternative."""
-    from isolation.bearings import (BearingGroup, DoubleConcave, FrictionPendulum, HighDampingRubber,
-                                    IsolationSystem, LeadRubber, PropertyFactors, TripleFrictionPendulum)
+    from isolation.bearings import (
+        BearingGroup,
+        DoubleConcave,
+        FrictionPendulum,
+        HighDampingRubber,
+        IsolationSystem,
+        LeadRubber,
+        PropertyBound,
+        PropertyFactors,
+        TripleFrictionPendulum,
+    )
 
     kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
              "triple_pendulum": TripleFrictionPendulum,
@@ -81,7 +92,7 @@ def isolation_system(alternative: Alternative):
         bearing = kinds[spec.type](**properties)
         groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
                                    name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
-    bound = (alternative.lower_factor, alternative.upper_factor)
+    bound = PropertyBound(alternative.lower_factor, alternative.upper_factor)
     return IsolationSystem(tuple(groups), PropertyFactors(stiffness=bound, strength=bound, friction=bound))
 
 
@@ -129,6 +140,7 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, 
         if s1 is None:
             from isolation.codes.asce7_fixed_base import design_values
             s1 = study.site.sm1 if study.site.sm1 is not None else 1.5 * design_values(spectrum)[1]
+        assert study.site.site_class is not None  # required for ASCE 7 by the parse
         elf = ElfBuilding(base_weight=b.base_weight, floor_weights=b.floor_weights, floor_elevations=elevations,
                           plan_length=b.plan_length, plan_width=b.plan_width,
                           response_modification=b.response_modification, eccentricity=b.eccentricity,
@@ -149,17 +161,17 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, 
                           superstructure_period=t_fb, plan_length=b.plan_length,
                           plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
                           behaviour_factor=b.response_modification)
-    report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
+    ec_report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
     names = {"displacement": "d_dc", "total_displacement": "d_d", "isolation_shear": "V",
              "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
-    quantities = {}
+    quantities: dict[str, float | None] = {}
     for key, symbol in names.items():
         try:
-            quantities[key] = report.value(symbol)
+            quantities[key] = ec_report.value(symbol)
         except KeyError:
             quantities[key] = None
-    reasons = tuple(c.name for c in report.applicability if not c.passed)
-    return report, quantities, report.simplified_permitted, reasons
+    reasons = tuple(c.name for c in ec_report.applicability if not c.passed)
+    return ec_report, quantities, ec_report.simplified_permitted, reasons
 
 
 def history_isolator(backbone, result, system=None, case: str = "nominal"):
@@ -187,7 +199,7 @@ def history_isolator(backbone, result, system=None, case: str = "nominal"):
     from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
     from isolation.bearings.damping_rubber import equivalent_bilinear
 
-    groups = getattr(system, "groups", ())
+    groups: tuple = getattr(system, "groups", ())
     if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
         bearing = groups[0].bearing
         if bearing.friction_slow != bearing.friction:
@@ -377,9 +389,9 @@ def _check_time_step(study: Study, structure) -> None:
     """The engine sub-steps a motion whose step exceeds T_min/10 (ground motion interpolated inside the
     step); only a building so stiff that it would need more than :data:`MAX_SUBSTEPS` sub-steps per
     sample of analysis.time_step is refused, naming the building keys."""
-    from isolation.errors import InputError
     from isolation.dynamics.history import DT_FRACTION
     from isolation.dynamics.newmark import substeps
+    from isolation.errors import InputError
 
     shortest = float(np.min(structure.modal().periods))
     needed = substeps(study.analysis.time_step, shortest, DT_FRACTION)
@@ -487,7 +499,8 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
         characteristic_strength=strength, elf_permitted=permitted,
         elf_reasons=tuple(reasons), failed_checks=tuple(c.name for c in checks if not c.passed),
         effective_damping=max(r.damping for r in bounds.values()), units=study.units,
-        ductility_isolated=summary.get("ductility_isolated"), residual_drift_isolated=summary.get("residual_drift_isolated"),
+        ductility_isolated=summary.get("ductility_isolated"),
+        residual_drift_isolated=summary.get("residual_drift_isolated"),
         ductility_fixed=summary.get("ductility_fixed"), residual_drift_fixed=summary.get("residual_drift_fixed"),
         fixed_base_period_source=period_source,
         nominal_period=bounds["nominal"].period if "nominal" in bounds else None,

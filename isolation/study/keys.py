@@ -13,8 +13,8 @@ from __future__ import annotations
 import math
 import unicodedata
 from dataclasses import dataclass
-from functools import lru_cache
 from datetime import date as _date
+from functools import lru_cache
 from typing import Any, Mapping
 
 from isolation import units as _units

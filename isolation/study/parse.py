@@ -70,11 +70,9 @@ from typing import Any, Mapping
 
 from isolation.errors import InputError
 from isolation.files import read_input_text
-from isolation.study.inputs import (Alternative, Analysis, BearingSpec, Building, Project, Site, Study,
-                                    StudyError)
+from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site, Study, StudyError
 from isolation.study.keys import BEARING_KEYS, Problems, Reader
-from isolation.study.sections import (LATERAL_SYSTEMS, _alternatives, _analysis, _basis, _building, _project,
-                                      _site)
+from isolation.study.sections import LATERAL_SYSTEMS, _alternatives, _analysis, _basis, _building, _project, _site
 
 __all__ = [
     "Study",
@@ -273,7 +271,7 @@ def _parse(mapping: Mapping[str, Any], source: str, base_dir: Path, cache: dict 
         sub = Reader({key: value} if present else {}, "", local, system)
         table = sub.array_of_tables(key) if array else sub.table(key, required=required)
         result = build(table)
-        if memo is not None:
+        if cache is not None and memo is not None:
             cache[memo] = (result, tuple(local.items))
         problems.items.extend(local.items)
         return result
@@ -313,13 +311,13 @@ def _loss_tables(mapping, reader, problems, basis: str, system: str, cache: dict
     reader.known.update(_LOSS_KEYS)
     part = {key: mapping[key] for key in _LOSS_KEYS if key in mapping}
     memo = ("loss tables", basis, system, repr(part)) if cache is not None else None
-    if memo is not None and memo in cache:
+    if cache is not None and memo is not None and memo in cache:
         result, found = cache[memo]
         problems.items.extend(found)
         return result
     local = Problems()
     result = read_loss_tables(Reader(part, "", local, system), basis)
-    if memo is not None:
+    if cache is not None and memo is not None:
         cache[memo] = (result, tuple(local.items))
     problems.items.extend(local.items)
     return result
@@ -329,7 +327,8 @@ def _cached_alternatives(tables, total_weight, system: str, cache: dict | None) 
     """_alternatives, each alternative's table read once per distinct content (with ``cache``)."""
     if cache is None or not tables:
         return _alternatives(tables, total_weight)
-    found, names = [], set()
+    found: list = []
+    names: set[str] = set()
     for t in tables:
         memo = ("alternative", t.path, system, total_weight, repr(t.mapping))
         hit = cache.get(memo)

@@ -240,7 +240,7 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
     weight = (base_mass + superstructure.total_mass) * GRAVITY
     cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
     peaks, axial_min, axial_max, centre, uplift, amplification, runs = [], [], [], [], 0, [], []
-    worst = (-1.0, None)
+    worst: tuple[float, dict | None] = (-1.0, None)
     for offset in _offsets(building):
         buildings = []
         for case in ("lower", "upper"):

@@ -40,12 +40,20 @@ from isolation import verdict as _verdict
 from isolation.errors import RunError
 from isolation.files import write_text_atomic
 from isolation.plain import plain
-from isolation.study.plan import bidirectional_summary, fixed_base_summary, with_bidirectional
 from isolation.study import Study
-from isolation.study.assembly import (EUROCODE_SPECTRUM_NOTE, check_study, design_alternative, fixed_base_period,
-                                   history_isolator, history_summary, isolation_system, site_spectrum,
-                                   superstructure,
-                                   verdict_figures)
+from isolation.study.assembly import (
+    EUROCODE_SPECTRUM_NOTE,
+    check_study,
+    design_alternative,
+    fixed_base_period,
+    history_isolator,
+    history_summary,
+    isolation_system,
+    site_spectrum,
+    superstructure,
+    verdict_figures,
+)
+from isolation.study.plan import bidirectional_summary, fixed_base_summary, with_bidirectional
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
@@ -186,7 +194,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     """
     a = study.analysis
     rule = "eurocode" if study.basis == "eurocode" else "asce7"
-    options = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
+    options: dict[str, Any] = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
     # record for short records so the envelope keeps its rise and decay (common practice).
@@ -244,7 +252,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         When a step fails for a valid study (no convergence, a model the
         engine refuses, ...); the message names the alternative and the step.
     """
-    from isolation.dynamics.history import run as run_history, run_cases
+    from isolation.dynamics.history import run as run_history
+    from isolation.dynamics.history import run_cases
 
     started = time.perf_counter()
     timings: dict[str, float] = {}
@@ -269,8 +278,13 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
     lower_periods = [d[3].bounds.results["lower"].period for d in designs]
     structure = superstructure(study)
     check_study(study)
-    from isolation.performance.comparison import (comparison_summary, fixed_base_comparison, isolated_superstructure,
-                                      response_indicators, thresholds_of)
+    from isolation.performance.comparison import (
+        comparison_summary,
+        fixed_base_comparison,
+        isolated_superstructure,
+        response_indicators,
+        thresholds_of,
+    )
     try:
         comparison = fixed_base_comparison(study, spectrum, structure, t_fb)
     except ValueError as error:
@@ -390,7 +404,8 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         suite=plain(suite_data),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
-        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure, "comparison": comparison,
+        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure,
+              "comparison": comparison,
               "histories": live_histories, "designs": live_reports},
 
         loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),

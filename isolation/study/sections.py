@@ -94,7 +94,8 @@ def _read_spectrum_table(path: Path, key: str, problems: Problems):
         problems.add(f"{error}; must name an existing CSV file (relative to the study file) with columns "
                      "period [s], Sa [g]")
         return None
-    periods, values = [], []
+    periods: list[float] = []
+    values: list[float] = []
     for number, row in enumerate(csv.reader(lines), 1):
         if not row or not "".join(row).strip() or row[0].lstrip().startswith("#"):
             continue
@@ -359,7 +360,8 @@ def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
         pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
     elif kind == "triple_pendulum":
         pairs = [("slider_height_outer", "radius_outer", "m"), ("slider_height_inner", "radius_inner", "m"),
-                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"), ("friction_1", "friction_4", "-")]
+                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"),
+                 ("friction_1", "friction_4", "-")]
     elif kind == "lead_rubber":
         pairs = [("lead_diameter", "outer_diameter", "m")]
     elif kind == "high_damping_rubber":

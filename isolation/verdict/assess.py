@@ -24,10 +24,22 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass
 from typing import Any, Mapping
 
-from isolation.verdict.rules import (Reason, base_shear_reduction, bearing_checks, design_shear,
-                                     displacement_capacity, displacement_size, effective_damping,
-                                     elf_applicability, floor_acceleration_reduction, isolated_period,
-                                     moat_clearance, period_shift, storey_drift, uplift)
+from isolation.verdict.rules import (
+    Reason,
+    base_shear_reduction,
+    bearing_checks,
+    design_shear,
+    displacement_capacity,
+    displacement_size,
+    effective_damping,
+    elf_applicability,
+    floor_acceleration_reduction,
+    isolated_period,
+    moat_clearance,
+    period_shift,
+    storey_drift,
+    uplift,
+)
 from isolation.verdict.site import near_fault, site_suitability, slenderness, spectral_benefit, wind
 from isolation.verdict.yielding import superstructure_yielding
 

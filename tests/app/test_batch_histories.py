@@ -42,8 +42,8 @@ def sweep(path: Path, out: Path, **options):
 
 
 def test_base_variant_matches_the_study_run_under_the_same_suite(tmp_path):
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     out = tmp_path / "out"
     report = sweep(make_batch(tmp_path, radii=(2.5,), frictions=(0.05, 0.08)), out, workers=1)

@@ -12,8 +12,15 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from isolation.app.batch.maps import (best_history_alternatives, best_history_table, feasible, grid_field,
-                                  history_front, history_rows, plot_history_maps)
+from isolation.app.batch.maps import (
+    best_history_alternatives,
+    best_history_table,
+    feasible,
+    grid_field,
+    history_front,
+    history_rows,
+    plot_history_maps,
+)
 
 X, Y = "alternative.0.bearings.0.radius", "alternative.0.bearings.0.friction"
 
@@ -100,6 +107,7 @@ def test_design_space_workbook_shows_history_maps(tmp_path):
     assert pictures == 3  # scatter, verdict map, history maps (one alternative, varied)
     cell = next(c for c in notebook["cells"] if c.get("id") == "history-maps")
     assert sum("image/png" in o.get("data", {}) for o in cell["outputs"]) == 1
-    table = "".join("".join(o["data"]["text/markdown"]) for o in cell["outputs"] if "text/markdown" in o.get("data", {}))
+    table = "".join("".join(o["data"]["text/markdown"]) for o in cell["outputs"]
+                    if "text/markdown" in o.get("data", {}))
     best = best_history_alternatives(read_summary(out))
     assert ("peak displacement lower / upper" in table) == bool(best)

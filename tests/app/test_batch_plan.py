@@ -6,13 +6,13 @@ values themselves are validated by isolation.study. Expected values are
 written out by hand from the batch files below, not produced by the code.
 """
 
-from pathlib import Path
 import shutil
+from pathlib import Path
 
 import pytest
 
-from isolation.app.batch.command import main
 from isolation.app.batch.check import validate_plan
+from isolation.app.batch.command import main
 from isolation.app.batch.plan import load_batch
 from isolation.errors import InputError
 
@@ -51,7 +51,8 @@ study = "study.toml"
 
 def test_unquoted_dotted_keys_mean_the_same(tmp_path):
     quoted = load_batch(write_batch(tmp_path, f'[batch]\nstudy = "study.toml"\n[grid]\n"{RADIUS}" = [2.0, 3.0]\n'))
-    bare = load_batch(write_batch(tmp_path, f'[batch]\nstudy = "study.toml"\n[grid]\n{RADIUS} = [2.0, 3.0]\n', "b.toml"))
+    bare = load_batch(write_batch(tmp_path, f'[batch]\nstudy = "study.toml"\n[grid]\n{RADIUS} = [2.0, 3.0]\n',
+                                  "b.toml"))
     assert [v.overrides for v in quoted.variants] == [v.overrides for v in bare.variants]
 
 
@@ -199,7 +200,8 @@ def test_grid_ids_stay_distinct_as_folder_names(tmp_path):
     assert len(set(ids)) == 4 and ids == ["grid-0001", "grid-0002", "grid-0003", "grid-0004"]
     path = write_batch(tmp_path, '[batch]\nstudy = "study.toml"\n[grid]\n"building.eccentricity" = [-1.0, 1.0]\n')
     assert [v.variant_id for v in load_batch(path).variants] == ["eccentricity-m1", "eccentricity-1"]
-    path = write_batch(tmp_path, '[batch]\nstudy = "study.toml"\n[[variant]]\nid = "Soft Site"\nsite.site_class = "D"\n')
+    path = write_batch(tmp_path,
+                       '[batch]\nstudy = "study.toml"\n[[variant]]\nid = "Soft Site"\nsite.site_class = "D"\n')
     with pytest.raises(InputError, match="e.g. 'soft-site'"):
         load_batch(path)
 

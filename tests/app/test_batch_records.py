@@ -109,7 +109,8 @@ def _state(out: Path) -> dict:
 def test_ctrl_c_stops_cleanly_and_the_batch_resumes(tmp_path):
     shutil.copy(FIXTURES / "study.toml", tmp_path / "study.toml")
     batch = tmp_path / "six_batch.toml"
-    batch.write_text(f'[batch]\nstudy = "study.toml"\n[grid]\n"{RADIUS}" = [2.0, 3.0]\n"{FRICTION}" = [0.04, 0.05, 0.06]\n')
+    batch.write_text(f'[batch]\nstudy = "study.toml"\n[grid]\n"{RADIUS}" = [2.0, 3.0]\n"{FRICTION}" = [0.04, 0.05, '
+                     '0.06]\n')
     out = tmp_path / "out"
     script = tmp_path / "stoppable.py"
     script.write_text(STOPPABLE.format(tests=str(Path(__file__).parent), batch=str(batch), out=str(out)))

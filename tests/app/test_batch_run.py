@@ -17,8 +17,8 @@ from pathlib import Path
 
 import pytest
 
-from isolation.app.batch.execute import STATE_FILE, run_batch
 from isolation.app.batch.check import validate_plan
+from isolation.app.batch.execute import STATE_FILE, run_batch
 from isolation.app.batch.plan import load_batch
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
 from isolation.app.batch.summary import read_summary
@@ -137,7 +137,8 @@ def test_bad_variant_fails_alone_then_rerun_skips_and_retries_on_request(tmp_pat
 def test_variant_that_kills_its_worker_fails_alone(tmp_path):
     shutil.copy(FIXTURES / "study.toml", tmp_path / "study.toml")
     path = tmp_path / "deadly_batch.toml"
-    path.write_text(f'[batch]\nstudy = "study.toml"\n[grid]\n"{RADIUS}" = [2.0, 7.0, 3.0]\n"{FRICTION}" = [0.04, 0.06]\n')
+    path.write_text(f'[batch]\nstudy = "study.toml"\n[grid]\n"{RADIUS}" = [2.0, 7.0, 3.0]\n"{FRICTION}" = [0.04, '
+                    '0.06]\n')
     report = run(path, tmp_path / "out")
     # the two radius-7 variants kill their worker; those in hand at the time run again,
     # alone, on a fresh pool: only the culprits fail

@@ -15,8 +15,7 @@ import pytest
 from isolation.app.batch.check import validate_plan
 from isolation.app.batch.plan import load_batch
 from isolation.app.batch.runners import VariantTask, guarded_chunk
-from isolation.app.batch.sweep import (design_rows, design_rows_many, sweep_runner, validate_direct,
-                                   variant_study)
+from isolation.app.batch.sweep import design_rows, design_rows_many, sweep_runner, validate_direct, variant_study
 from isolation.errors import InputError
 from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
 

@@ -121,7 +121,7 @@ def test_run_writes_the_record(tmp_path, monkeypatch, capsys):
     assert code == 0, err
     lines = out.splitlines()
     assert lines[0].startswith(f"record: {tmp_path}")
-    assert [l for l in lines if l.startswith("verdict: ")][0].startswith("verdict: Friction pendulum: ")
+    assert [line for line in lines if line.startswith("verdict: ")][0].startswith("verdict: Friction pendulum: ")
     record = Path(lines[0].split(": ", 1)[1])
     assert json.loads((record / "manifest.json").read_text())["overrides"] == {"project.revision": "C"}
 
@@ -134,9 +134,9 @@ def test_default_engine_makes_a_pdf_without_tex(tmp_path, monkeypatch, capsys):
     monkeypatch.setattr(isolation.output.report, "missing_tools", lambda: ["xelatex", "pandoc"])
     code, out, err = call(["run", str(DEMO), "--out", str(tmp_path), "--quick"], capsys)
     assert code == 0, err
-    report = Path([l for l in out.splitlines() if l.startswith("report: ")][0].split(": ", 1)[1])
+    report = Path([line for line in out.splitlines() if line.startswith("report: ")][0].split(": ", 1)[1])
     assert report.name == "report.pdf" and report.read_bytes().startswith(b"%PDF")
-    assert not [l for l in err.splitlines() if l.startswith("note: ")]
+    assert not [line for line in err.splitlines() if line.startswith("note: ")]
 
 
 def test_missing_tex_gives_html_and_says_what_to_install(tmp_path, monkeypatch, capsys):
@@ -147,9 +147,9 @@ def test_missing_tex_gives_html_and_says_what_to_install(tmp_path, monkeypatch, 
     monkeypatch.setattr(isolation.output.report, "missing_tools", lambda: ["xelatex"])
     code, out, err = call(["run", str(DEMO), "--out", str(tmp_path), "--quick", "--engine", "latex"], capsys)
     assert code == 0, err
-    report = Path([l for l in out.splitlines() if l.startswith("report: ")][0].split(": ", 1)[1])
+    report = Path([line for line in out.splitlines() if line.startswith("report: ")][0].split(": ", 1)[1])
     assert report.name == "report.html" and report.is_file()
-    notes = [l for l in err.splitlines() if l.startswith("note: ")]
+    notes = [line for line in err.splitlines() if line.startswith("note: ")]
     assert len(notes) == 1 and "xelatex" in notes[0] and "texlive-xetex" in notes[0]
     assert json.loads((report.parent / "manifest.json").read_text())["report"] == "report.html"
 

@@ -19,8 +19,16 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import pytest  # noqa: E402
 
-from isolation.app.batch.maps import (best_alternatives, completed_rows, key_label, missing_summary_text,  # noqa: E402
-                                  plot_displacement_vs_reduction, plot_verdict_map, reduction_text, variant_text)
+from isolation.app.batch.maps import (  # noqa: E402
+    best_alternatives,
+    completed_rows,
+    key_label,
+    missing_summary_text,
+    plot_displacement_vs_reduction,
+    plot_verdict_map,
+    reduction_text,
+    variant_text,
+)
 from isolation.app.batch.summary import read_summary  # noqa: E402
 from isolation.output.plots import COLOURS  # noqa: E402
 

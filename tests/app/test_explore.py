@@ -100,7 +100,7 @@ def test_update_returns_html_and_figure():
     lower = answer.results["lower"].displacement
     assert f'data-key="lower-D" data-value="{lower!r}">{1000 * lower:.0f}</td>' in text
     assert "not design" in text
-    loop = next(l for l in figure.axes[1].get_lines() if l.get_label().startswith("upper"))
+    loop = next(line for line in figure.axes[1].get_lines() if line.get_label().startswith("upper"))
     assert max(loop.get_xdata()) == pytest.approx(1000 * answer.results["upper"].displacement)
     assert _cells(text)["upper-D"] == answer.results["upper"].displacement
 

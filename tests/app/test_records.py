@@ -17,9 +17,15 @@ from pathlib import Path
 
 import pytest
 
+from isolation.app.calc_records import (
+    read_manifest,
+    render_record,
+    run_record,
+    sanitise_name,
+    study_input_hash,
+    to_toml,
+)
 from isolation.errors import InputError
-from isolation.app.calc_records import (read_manifest, render_record, run_record, sanitise_name, study_input_hash,
-                               to_toml)
 from isolation.study import apply_overrides
 from tools import require_tools
 

@@ -68,7 +68,8 @@ def test_saving_elsewhere_keeps_outputs(manager, tmp_path):
 
 def test_install_enables_the_extension(tmp_path):
     path = workbook_saving.install(tmp_path)
-    assert json.loads(path.read_text()) == {"ServerApp": {"jpserver_extensions": {"isolation.app.workbook_saving": True}}}
+    assert json.loads(path.read_text()) == {
+        "ServerApp": {"jpserver_extensions": {"isolation.app.workbook_saving": True}}}
     assert path.relative_to(tmp_path).as_posix() == "etc/jupyter/jupyter_server_config.d/isolation.json"
 
 

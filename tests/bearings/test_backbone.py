@@ -4,16 +4,18 @@ Sources
 -------
 - Naeim, F. & Kelly, J. M. (1999), Design of Seismic Isolated Structures, ch. 2:
   K_eff = K_d + Q_d/D, EDC = 4 Q_d (D - D_y), beta_eff = EDC/(2 pi K_eff D^2).
-- ../shared/reference/isolation-formulas.md section 3 (friction pendulum check,
-  derived arithmetic): W = 1000 kN, R = 2.235 m, mu = 0.06, D = 0.40 m ->
-  K_eff = 597.4 kN/m, beta_eff = 0.1598 (rigid-plastic idealisation).
+- Friction pendulum, derived arithmetic from Zayas, Low & Mahin (1990) and Naeim &
+  Kelly (1999): W = 1000 kN, R = 2.235 m, mu = 0.06, D = 0.40 m -> K_eff = W/R +
+  mu W/D = 447.4 + 150.0 = 597.4 kN/m, beta_eff = (2/pi) mu/(mu + D/R) = 0.1598
+  (rigid-plastic idealisation).
 """
 
 import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import Bilinear, MultiLinear
 
@@ -68,8 +70,10 @@ def test_scaled_applies_property_factors():
     "kwargs, field",
     [
         (dict(elastic_stiffness=-1.0, post_yield_stiffness=0.0, characteristic_strength=1.0), "elastic_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0), "post_yield_stiffness"),
-        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0), "characteristic_strength"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=float("nan"), characteristic_strength=1.0),
+         "post_yield_stiffness"),
+        (dict(elastic_stiffness=10.0, post_yield_stiffness=1.0, characteristic_strength=-5.0),
+         "characteristic_strength"),
         (dict(elastic_stiffness=10.0, post_yield_stiffness=20.0, characteristic_strength=1.0), "post_yield_stiffness"),
     ],
 )

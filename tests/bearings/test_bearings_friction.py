@@ -5,9 +5,9 @@ Sources
 - Zayas, Low & Mahin (1990); Naeim & Kelly (1999): F = (W/R) u + mu W sgn(v),
   K_eff = W/R + mu W/D, beta_eff = (2/pi) mu/(mu + D/R), T = 2 pi sqrt(R/g),
   articulated slider R_eff = R - h.
-- ../shared/reference/isolation-formulas.md section 3, derived check: W = 1000 kN,
-  R = 2.235 m, mu = 0.06, D = 0.40 m -> T = 3.000 s, K_eff = 597.4 kN/m,
-  T_eff = 2.596 s, beta_eff = 0.1598 (rigid-plastic).
+- Derived arithmetic from those formulas: W = 1000 kN, R = 2.235 m, mu = 0.06,
+  D = 0.40 m -> T = 3.000 s, K_eff = 597.4 kN/m, T_eff = 2.596 s, beta_eff = 0.1598
+  (rigid-plastic).
 - Constantinou, Mokha & Reinhorn (1990): mu(v) = mu_fast - (mu_fast - mu_slow) exp(-a |v|).
 - Fenz & Constantinou (2006): double concave regimes I and II, u* = (mu2 - mu1) R_eff1,
   unloading: surface of lower friction reverses after a force change 2 mu1 W,
@@ -19,7 +19,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation import GRAVITY
 from isolation.bearings import Bilinear, DoubleConcave, FrictionPendulum, MultiLinear
@@ -29,7 +30,7 @@ TINY = 1e-7  # yield displacement small enough to stand for rigid-plastic slidin
 
 # --- single concave ------------------------------------------------------------------
 def test_reference_derived_check_values():
-    # isolation-formulas.md section 3 [derived]: T 3.000 s, K_eff 597.4, T_eff 2.596, beta 0.1598.
+    # [derived] from the formulas of Zayas, Low & Mahin (1990): T 3.000 s, K_eff 597.4, T_eff 2.596, beta 0.1598.
     fp = FrictionPendulum(2.235, 0.06)
     w, d = 1000.0, 0.40
     b = fp.bilinear(w)

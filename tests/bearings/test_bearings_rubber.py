@@ -17,13 +17,18 @@ Sources
 
 import math
 
-import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
-from isolation.bearings import HighDampingRubber, LeadRubber, RubberCompound, TYPICAL_COMPOUND
+from isolation.bearings import TYPICAL_COMPOUND, HighDampingRubber, LeadRubber, RubberCompound
 from isolation.bearings.checks import (
-    buckling_load, compression_modulus, overlap_area, overlap_ratio, rotation_strain, shape_factor,
+    buckling_load,
+    compression_modulus,
+    overlap_area,
+    overlap_ratio,
+    rotation_strain,
+    shape_factor,
 )
 from isolation.bearings.damping_rubber import equivalent_bilinear
 
@@ -122,7 +127,7 @@ def test_strain_checks_by_hand():
     p, pmax, d, theta = 2000.0, 3000.0, 0.3, 0.005
     checks = {c.name: c for c in lrb.checks(p, d, axial_load_max=pmax, axial_load_min=-200.0,
                                             rotation=theta)}
-    area, g, s, tr = 0.4712389, 400.0, 18.75, 0.2
+    area, g, s = 0.4712389, 400.0, 18.75
     # gamma_c = 6 S eps_c with eps_c = P/(A E_c), E_c = 6 G S^2 (Kelly & Konstantinidis 2011)
     eps_c = p / (area * 6 * g * s**2)
     assert checks["compression strain"].value == pytest.approx(6 * s * eps_c, rel=1e-6)
@@ -224,7 +229,7 @@ def test_equivalent_bilinear_refuses_damping_beyond_a_bilinear_loop():
 
 def test_typical_compound_is_marked_common_practice():
     assert "common practice" in TYPICAL_COMPOUND.source
-    # G 0.4-1.4 MPa and damping 10-20 % (isolation-formulas.md §3 high-damping rubber, common practice)
+    # G 0.4-1.4 MPa and damping 10-20 % (high-damping rubber compounds, common practice)
     assert all(400.0 <= g <= 1400.0 for g in TYPICAL_COMPOUND.shear_moduli)
     assert all(0.10 <= b <= 0.20 for b in TYPICAL_COMPOUND.dampings)
 

@@ -15,11 +15,21 @@ import json
 import math
 
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import (
-    BearingGroup, Bilinear, CombinedBackbone, DoubleConcave, FrictionPendulum, HighDampingRubber,
-    IsolationSystem, LeadRubber, MultiLinear, PropertyBound, PropertyFactors,
+    BearingGroup,
+    Bilinear,
+    CombinedBackbone,
+    DoubleConcave,
+    FrictionPendulum,
+    HighDampingRubber,
+    IsolationSystem,
+    LeadRubber,
+    MultiLinear,
+    PropertyBound,
+    PropertyFactors,
 )
 
 FP = FrictionPendulum(2.235, 0.06, displacement_capacity=0.5)
@@ -101,7 +111,8 @@ def test_high_damping_group_gives_a_combined_backbone():
     d = 0.25
     k_fp = 10 * FP.bilinear(1000.0).effective_stiffness(d)
     k_hdr = 4 * HDR.effective_stiffness(d)
-    edc = 10 * FP.bilinear(1000.0).loop_energy(d) + 4 * 2 * math.pi * HDR.effective_damping(d) * HDR.effective_stiffness(d) * d**2
+    edc = (10 * FP.bilinear(1000.0).loop_energy(d)
+           + 4 * 2 * math.pi * HDR.effective_damping(d) * HDR.effective_stiffness(d) * d**2)
     assert plane.effective_stiffness(d) == pytest.approx(k_fp + k_hdr)
     assert plane.effective_damping(d) == pytest.approx(edc / (2 * math.pi * (k_fp + k_hdr) * d**2))
 

@@ -17,7 +17,8 @@ Sources
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation.bearings import MultiLinear, TripleFrictionPendulum
 from isolation.dynamics.isolators import imposed_force
@@ -114,8 +115,8 @@ def test_bad_values_name_the_field(field, kwargs):
 
 def test_study_file_with_a_triple_pendulum_runs(tmp_path):
     # The bearing type is reachable from a study file and runs through design and histories.
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     text = open("examples/demo_study.toml").read()
     start = text.index('type = "friction_pendulum"')

@@ -7,18 +7,16 @@ has no single source.
 """
 
 import math
-
-import numpy as np
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from isolation.bearings import Bilinear
 from isolation.codes.asce7 import ElfBuilding, activation_force, asce7_elf
-from isolation.codes.eurocode import EurocodeBuilding, eurocode_approximate_period, eurocode_simplified
 from isolation.codes.asce7_fixed_base import approximate_period
-from isolation.design.overturning import (asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction,
-                                   grid_rows)
+from isolation.codes.eurocode import EurocodeBuilding, eurocode_approximate_period, eurocode_simplified
+from isolation.design.overturning import asce7_vertical_fraction, bearing_uplift, eurocode_vertical_fraction, grid_rows
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum
 from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
 from isolation.study.assembly import fixed_base_period
@@ -395,8 +393,8 @@ EXPECTED_LEVEL = {
 
 @pytest.fixture(scope="module")
 def demo_results():
-    from isolation.study.runner import run_study
     from isolation.study import load_study
+    from isolation.study.runner import run_study
 
     return run_study(load_study(DEMO), quick=True)
 
@@ -672,7 +670,8 @@ def test_every_elf_item_by_hand():
     units = {i.symbol: i.unit for i in report.quantities}
     assert units["D_M"] == "m" and units["V_s"] == "kN" and units["k_M"] == "kN/m" and units["T_M"] == "s"
     sources = {i.symbol: i.source for i in report.quantities}
-    assert "Table 17.5-1" in sources["B_M"] and "Eq. 17.5-1" in sources["D_M"] and "§17.5.4.3" in sources["V_s,min,wind"]
+    assert "Table 17.5-1" in sources["B_M"] and "Eq. 17.5-1" in sources["D_M"]
+    assert "§17.5.4.3" in sources["V_s,min,wind"]
     assert sources["T_fb"] == "given"
     names = {i.symbol: i.name for i in report.quantities}
     assert names["B_M"] == "damping coefficient" and names["V_s"] == "superstructure design shear"
@@ -699,7 +698,8 @@ def test_activation_force_of_a_multilinear_plane():
 
 @pytest.mark.parametrize("changes, words", [
     # Brief rule: bad input names the field, the value and what is allowed, with its unit.
-    (dict(floor_elevations=(4.0, 4.0, 12.0)), r"floor_elevations = \[4\.0, 4\.0, 12\.0\] is not allowed: must increase"),
+    (dict(floor_elevations=(4.0, 4.0, 12.0)),
+     r"floor_elevations = \[4\.0, 4\.0, 12\.0\] is not allowed: must increase"),
     (dict(plan_length=-1.0), r"plan_length = -1\.0 is not allowed: .* \[m\]"),
     (dict(plan_width=0.0), r"plan_width = 0\.0 is not allowed: .* \[m\]"),
     (dict(response_modification=0.0), r"response_modification = 0\.0 is not allowed: .* \[-\]"),
@@ -784,7 +784,8 @@ def test_applicability_checks_quote_value_limit_and_source():
     by_name = {c.name.split(",")[0].split(" (")[0]: c for c in report.applicability}
     site = [c for c in report.applicability if c.name.startswith("site class")][0]
     assert (site.value, site.limit, site.passed) == (3.0, 3.0, True)   # D is the fourth class
-    expected = {"storeys above the isolation interface": (3.0, 4.0), "height above the isolation interface": (12.0, 19.8),
+    expected = {"storeys above the isolation interface": (3.0, 4.0),
+                "height above the isolation interface": (12.0, 19.8),
                 "longest effective period T_M": (3.0, 5.0), "shortest T_M over 3 T_fb": (6.0, 3.0),
                 "largest effective damping beta_M": (0.2, 0.30)}
     for name, (value, limit) in expected.items():
@@ -928,7 +929,11 @@ def test_eurocode_building_keeps_its_values():
 
 def test_eurocode_design_spectrum_ranges():
     # EN 1998-1 §3.2.2.5 covers 0-4 s (the elastic spectrum's range, §3.2.2.2); q >= 1 here up to 10.
-    from isolation.codes.eurocode import eurocode_approximate_period, eurocode_design_spectrum, eurocode_fixed_base_shear
+    from isolation.codes.eurocode import (
+        eurocode_approximate_period,
+        eurocode_design_spectrum,
+        eurocode_fixed_base_shear,
+    )
     spectrum = EurocodeSpectrum(0.3, "C")
     assert eurocode_design_spectrum(spectrum, 4.0, 10.0) == pytest.approx(0.06)
     with pytest.raises(ValueError, match=r"period = 4\.5 is not allowed: .* \[s\]"):

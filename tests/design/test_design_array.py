@@ -12,8 +12,16 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from isolation.bearings import (BearingGroup, Bilinear, DoubleConcave, FrictionPendulum, HighDampingRubber,
-                                IsolationSystem, LeadRubber, PropertyFactors)
+from isolation.bearings import (
+    BearingGroup,
+    Bilinear,
+    DoubleConcave,
+    FrictionPendulum,
+    HighDampingRubber,
+    IsolationSystem,
+    LeadRubber,
+    PropertyFactors,
+)
 from isolation.design import design_bounds, equivalent_linear
 from isolation.design.array_kernel import design_bounds_many, equivalent_linear_many, supports
 from isolation.errors import RunError

@@ -12,7 +12,7 @@ Sources
   by 2 mu g/w^2 every half cycle (4 mu g/w^2 per cycle) and the period is
   unchanged (Chopra, free vibration with Coulomb damping); a friction
   pendulum: 2 mu R per half cycle, period 2 pi sqrt(R/g)
-  (../shared/reference/motions-and-dynamics.md section 4).
+  (the Coulomb result with the pendulum stiffness W/R, derived).
 - Newmark average acceleration: period elongation ~ (pi^2/3)(dt/T)^2
   (Chopra, table of numerical errors) bounds the tolerances used.
 """
@@ -117,7 +117,8 @@ def test_coulomb_friction_with_spring_decays_linearly():
 
 
 def test_friction_pendulum_free_vibration_decay_and_period():
-    # Friction pendulum: 4 mu R per cycle, T = 2 pi sqrt(R/g) (reference section 4).
+    # Friction pendulum: 4 mu R per cycle, T = 2 pi sqrt(R/g) (Chopra, Dynamics of Structures, ch. 2,
+    # Coulomb friction, with k = W/R, derived).
     radius, mu = 2.0, 0.03
     slider = FrictionPendulum(radius, mu, yield_displacement=1e-4)
     building = IsolatedBuilding(ShearBuilding.rigid_block(900.0), 100.0, slider)
@@ -214,8 +215,8 @@ def test_run_cases_refuses_reserved_and_unknown_inputs():
 def test_convergence_failure_names_time_case_and_record(monkeypatch):
     # A Newton iteration allowed too few iterations must fail loudly, never silently.
     import isolation.dynamics.newmark as newmark
-    from isolation.errors import RunError
     from isolation.dynamics.history import run_cases
+    from isolation.errors import RunError
 
     monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
     t = np.arange(0.0, 2.0, 0.005)

@@ -19,6 +19,8 @@ import math
 import numpy as np
 import pytest
 import scipy.integrate
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from isolation import GRAVITY
 from isolation.bearings import Bilinear, DoubleConcave, FrictionPendulum, LeadRubber, MultiLinear
@@ -147,15 +149,12 @@ def test_bouc_wen_refuses_bad_parameters():
         BoucWen(Bilinear(1e4, 1e3, 0.0))
 
 
-from hypothesis import given, settings, strategies as st  # noqa: E402
-
-
 @settings(max_examples=15, deadline=None)
 @given(strength=st.floats(0.02, 0.15), period=st.floats(1.5, 4.0), pga=st.floats(0.05, 0.6),
        smooth=st.booleans())
 def test_energy_balance_closes_for_any_bilinear(strength, period, pga, smooth):
     # Uang & Bertero (1990) balance; with Newmark's average acceleration the trapezoid
-    # accumulation closes to the equilibrium tolerance (Chopra; reference section 3).
+    # accumulation closes to the equilibrium tolerance (Chopra, Dynamics of Structures, from memory).
     superstructure = ShearBuilding.from_period(0.3, [200.0, 200.0], [3.0, 3.0])
     total = superstructure.total_mass + 200.0
     kd = total * (2 * math.pi / period) ** 2

@@ -193,7 +193,8 @@ def _halved(acc, dt):
 @pytest.mark.parametrize("kind", ["lead_rubber", "friction"])
 def test_halving_dt_changes_peaks_by_less_than_one_percent(kind):
     # Common practice / Chopra: a converged step size changes peaks by < 1 % when halved.
-    # T_min = 0.074 s from the uniform-chain closed form (reference §4): 0.5 s x sin(pi/22)/sin(9 pi/22);
+    # T_min = 0.074 s from the uniform-chain closed form (eigenvalues of the tridiagonal chain, derived):
+    # 0.5 s x sin(pi/22)/sin(9 pi/22);
     # dt = 0.005 s is about T_min/15.
     b = five_storey()
     isolators = bounds_lead_rubber(b.total_mass + 600) if kind == "lead_rubber" else bounds_friction()
@@ -213,7 +214,7 @@ def test_halving_dt_changes_peaks_by_less_than_one_percent(kind):
 
 
 def test_halving_dt_changes_floor_accelerations_by_less_than_one_percent_at_t_min_over_30():
-    # Common practice (reference section 3: dt <= T_min/20): floor accelerations converge more slowly.
+    # Common practice (dt <= T_min/20, no single source): floor accelerations converge more slowly.
     b = five_storey()
     dt = 0.0025
     acc = _halved(noise_motion(seconds=10.0, dt=0.005, records=2), 0.005)

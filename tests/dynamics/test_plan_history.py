@@ -93,7 +93,8 @@ def test_mass_offset_twists_the_plan_both_signs_alike():
 def test_energy_balance_closes():
     # Source: Newmark average acceleration energy balance (Chopra 4th ed.; from memory); < 1 % asked.
     motion = _motion(records=1)
-    result = run_plan(_plan_building(PENDULUM, offset=(1.2, 0.8)), np.stack([motion, 0.7 * motion[:, ::-1]], axis=1), DT)
+    result = run_plan(_plan_building(PENDULUM, offset=(1.2, 0.8)), np.stack([motion, 0.7 * motion[:, ::-1]], axis=1),
+                      DT)
     assert result.energy_error.max() < 1e-8
 
 
@@ -195,7 +196,8 @@ def test_bad_positions_and_acceleration_are_refused():
 def test_public_names_of_the_plan_model():
     # The names that outside checks call (issue: bidirectional isolation): history.run takes a plan building
     # with (records, 2, steps) input and returns per-bearing peaks and axial extremes.
-    from isolation.dynamics.structure import PlanIsolatedBuilding as Isolated, PlanShearBuilding as Shear
+    from isolation.dynamics.structure import PlanIsolatedBuilding as Isolated
+    from isolation.dynamics.structure import PlanShearBuilding as Shear
 
     building = Isolated(Shear(MASSES, STIFFNESSES, STIFFNESSES, HEIGHTS, plan=PLAN), 700.0, PENDULUM,
                         bearing_grid(PLAN, (3, 2)))
@@ -210,8 +212,7 @@ def test_public_names_of_the_plan_model():
 def test_compiled_and_array_loops_agree():
     # Source: the same equations (derived); each column converges on its own in the compiled loop, so the
     # histories agree to the iteration tolerance (1e-9 of the yield displacement), not bit for bit.
-    from isolation.dynamics import plan_history
-    from isolation.dynamics import plan_kernel
+    from isolation.dynamics import plan_history, plan_kernel
 
     if not plan_kernel.available:
         pytest.skip("numba is not installed: only the array loop exists")

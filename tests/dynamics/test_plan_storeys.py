@@ -23,9 +23,9 @@ import pytest
 
 from isolation import GRAVITY
 from isolation.bearings import FrictionPendulum, LeadRubber
-from isolation.dynamics.plan_storeys import storey_loop
 from isolation.dynamics.history import run
 from isolation.dynamics.plan_history import _integrate, run_plan
+from isolation.dynamics.plan_storeys import storey_loop
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
 from isolation.dynamics.structure import IsolatedBuilding, ShearBuilding
 

@@ -3,9 +3,9 @@
 Sources
 -------
 - Uniform fixed-base shear building, N storeys of mass m and stiffness k:
-  w_j = 2 sqrt(k/m) sin((2j - 1) pi / (2 (2N + 1)))  [closed form; see
-  ../shared/reference/motions-and-dynamics.md section 4; Chopra, Dynamics of
-  Structures, shear-beam chain].
+  w_j = 2 sqrt(k/m) sin((2j - 1) pi / (2 (2N + 1)))  [closed form of the
+  fixed-free spring-mass chain's tridiagonal eigenproblem, derived; Chopra,
+  Dynamics of Structures, shear-beam chain].
 - Two-degree-of-freedom isolated building (Kelly 1997, Earthquake-Resistant
   Design with Rubber, ch. 3; Naeim & Kelly 1999): gamma = m/(m + m_b),
   eps = (w_b/w_s)^2, w_b^2 = k_b/(m + m_b), w_s^2 = k_s/m; exact frequencies

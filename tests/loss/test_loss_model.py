@@ -17,14 +17,24 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from scipy import stats
 
-from isolation.loss import (OCCUPANCIES, CostInputs, Demands, Fragility, LossModel, annuity_factor,
-                            net_present_value, payback_years, simulate)
+from isolation.loss import (
+    OCCUPANCIES,
+    CostInputs,
+    Demands,
+    Fragility,
+    LossModel,
+    annuity_factor,
+    net_present_value,
+    payback_years,
+    simulate,
+)
 from isolation.loss.consequences import CONTENTS_RATIOS, occupancy
 from isolation.loss.costs import bearing_size_class, isolation_cost, superstructure_saving
-from isolation.loss.fragility import (IRREPARABLE, collapse_fragility, collapse_probability_at_mce,
-                                      component_fragilities)
+from isolation.loss.fragility import IRREPARABLE, collapse_fragility, collapse_probability_at_mce, component_fragilities
 from isolation.loss.simulation import summarise
 
 
@@ -234,9 +244,6 @@ def test_isolation_cost_items_by_hand():
 def test_bad_costs_name_the_field(field, value):
     with pytest.raises(ValueError, match=rf"{field}.* is not allowed"):
         CostInputs(**{field: value})
-
-
-from hypothesis import given, settings, strategies as st  # noqa: E402
 
 
 @settings(max_examples=30, deadline=None)

@@ -7,11 +7,10 @@ from pathlib import Path
 
 import pytest
 
-from isolation.output import plots
-from isolation.output import tables
-from isolation.study.runner import run_study
-from isolation.study import apply_overrides, parse_study, read_study_mapping
+from isolation.output import plots, tables
 from isolation.output.tables.loss import money
+from isolation.study import apply_overrides, parse_study, read_study_mapping
+from isolation.study.runner import run_study
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = ROOT / "examples" / "demo_study.toml"

@@ -11,8 +11,8 @@ import numpy as np
 import pytest
 
 from isolation.app.cli import main
-from isolation.study.runner import StudyResults, run_study
 from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
+from isolation.study.runner import StudyResults, run_study
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = ROOT / "examples" / "demo_study.toml"

@@ -18,9 +18,9 @@ from isolation.motions import (
     read_csv_accelerogram,
     read_suite_records,
     read_text_accelerogram,
+    records_io,
     write_suite,
 )
-from isolation.motions import records_io
 from isolation.site.spectra import CodeSpectrum
 
 STANDARD_GRAVITY = 9.80665  # m/s2, CGPM 1901 definition (outside source)
@@ -109,7 +109,8 @@ def test_missing_file_and_conflicting_time_step(tmp_path):
 @pytest.fixture(scope="module")
 def tiny_suite():
     spectrum = CodeSpectrum(sms=0.9, sm1=0.45)  # invented site values [g]
-    return matched_suite(spectrum, count=2, duration=10.0, dt=0.02, seed=3, period_range=(0.1, 2.0), significant_duration=3.0, progress=False)
+    return matched_suite(spectrum, count=2, duration=10.0, dt=0.02, seed=3, period_range=(0.1, 2.0),
+                         significant_duration=3.0, progress=False)
 
 
 def test_write_then_read_back(tmp_path, tiny_suite):

@@ -73,7 +73,8 @@ def _assert_tolerances(suite, spectrum, required_mean):
 
 @pytest.fixture(scope="module")
 def small_suite():
-    return matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=5, period_range=(0.1, 4.0), significant_duration=7.0, progress=False)
+    return matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=5, period_range=(0.1, 4.0),
+                         significant_duration=7.0, progress=False)
 
 
 def test_small_suite_meets_band_and_asce_mean(small_suite):
@@ -97,13 +98,15 @@ def test_realistic_suite_of_seven_meets_tolerances():
 def test_eurocode_rule_with_plain_stand_in_spectrum():
     # Sources: eqsig spectra; mean >= 90 % (EN 1998-1 §3.2.3.1.2); any object with .sa() is accepted.
     spectrum = PlainSpectrum()
-    suite = matched_suite(spectrum, count=3, duration=20.0, dt=0.01, seed=9, period_range=(0.1, 3.0), rule="eurocode", significant_duration=7.0, progress=False)
+    suite = matched_suite(spectrum, count=3, duration=20.0, dt=0.01, seed=9, period_range=(0.1, 3.0), rule="eurocode",
+                          significant_duration=7.0, progress=False)
     _assert_tolerances(suite, spectrum, 0.90)
 
 
 def test_other_damping_is_matched_to_that_damping():
     # Source: eqsig spectra at 10 % damping against the spectrum's own 10 % ordinates.
-    suite = matched_suite(SITE, count=2, damping=0.10, duration=20.0, dt=0.01, seed=2, period_range=(0.1, 4.0), significant_duration=7.0, progress=False)
+    suite = matched_suite(SITE, count=2, damping=0.10, duration=20.0, dt=0.01, seed=2, period_range=(0.1, 4.0),
+                          significant_duration=7.0, progress=False)
     _assert_tolerances(suite, SITE, 1.10)
 
 
@@ -126,11 +129,13 @@ def test_baseline_of_small_suite(small_suite):
 
 def test_same_seed_same_suite_and_different_seed_differs(small_suite):
     # Source: reproducibility requirement of issue 3 (numpy SeedSequence / default_rng are portable).
-    again = matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=5, period_range=(0.1, 4.0), significant_duration=7.0, progress=False)
+    again = matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=5, period_range=(0.1, 4.0),
+                          significant_duration=7.0, progress=False)
     assert np.array_equal(again.acceleration, small_suite.acceleration)
     assert again.seeds == small_suite.seeds
     assert len(set(small_suite.seeds)) == 3
-    other = matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=6, period_range=(0.1, 4.0), significant_duration=7.0, progress=False)
+    other = matched_suite(SITE, count=3, duration=20.0, dt=0.01, seed=6, period_range=(0.1, 4.0),
+                          significant_duration=7.0, progress=False)
     assert other.seeds != small_suite.seeds
     assert np.abs(other.acceleration - small_suite.acceleration).max() > 0.05
 
@@ -156,7 +161,8 @@ def test_suite_object_is_frozen_and_serialisable(small_suite):
 
 def test_headless_run_is_quiet(capsys):
     # Source: issue 3 (progress bar only when interactive).
-    matched_suite(SITE, count=1, duration=10.0, dt=0.02, seed=0, period_range=(0.1, 2.0), significant_duration=3.0, max_iterations=2)
+    matched_suite(SITE, count=1, duration=10.0, dt=0.02, seed=0, period_range=(0.1, 2.0), significant_duration=3.0,
+                  max_iterations=2)
     captured = capsys.readouterr()
     assert captured.err == "" and captured.out == ""
 
@@ -189,14 +195,15 @@ def test_bad_input_names_the_field(arguments, field):
 
 def test_progress_bar_when_asked(capsys):
     # Source: issue 3 (tqdm progress bar on suite generation when interactive).
-    matched_suite(SITE, count=1, duration=10.0, dt=0.02, seed=0, period_range=(0.1, 2.0), significant_duration=3.0, max_iterations=2, progress=True)
+    matched_suite(SITE, count=1, duration=10.0, dt=0.02, seed=0, period_range=(0.1, 2.0), significant_duration=3.0,
+                  max_iterations=2, progress=True)
     assert "matching suite" in capsys.readouterr().err
 
 
 def test_envelope_significant_duration_and_magnitude_scaling():
     # Sources: D5-95 of e(t)^2 by scipy.integrate.cumulative_trapezoid (Trifunac & Brady 1975 definition);
     # typical D5-95 ranges on rock: Mw 6.5 -> 7-12 s, 7.0 -> 10-16 s, 7.5 -> 14-22 s
-    # (from memory, after Kempton & Stewart 2006, as in shared/reference/motions-and-dynamics.md).
+    # (from memory, after Kempton & Stewart 2006, Earthquake Spectra 22(4), 985-1013).
     time = np.arange(0, 60.0, 0.01)
     envelope = intensity_envelope(time, 12.0)
     energy = cumulative_trapezoid(envelope**2, time, initial=0.0)
@@ -230,6 +237,7 @@ def test_wavelet_step_removes_a_local_misfit():
 
 def test_optional_wavelet_stage_runs_and_meets_tolerances():
     # Sources as for the small suite (eqsig spectra, band, ASCE mean).
-    suite = matched_suite(SITE, count=2, duration=20.0, dt=0.01, seed=4, period_range=(0.1, 4.0), significant_duration=7.0, refinements=4, progress=False)
+    suite = matched_suite(SITE, count=2, duration=20.0, dt=0.01, seed=4, period_range=(0.1, 4.0),
+                          significant_duration=7.0, refinements=4, progress=False)
     _assert_tolerances(suite, SITE, 1.10)
     _assert_no_drift(suite)

@@ -45,7 +45,8 @@ def test_arias_intensity_of_sine():
 def test_cav_of_sine():
     # Source: closed form CAV = 2 A T / pi (int |sin| over whole cycles).
     record, _ = _sine()
-    assert cumulative_absolute_velocity(record, DT) == pytest.approx(2 * AMPLITUDE_G * GRAVITY * LENGTH / np.pi, rel=1e-5)
+    assert cumulative_absolute_velocity(record, DT) == pytest.approx(2 * AMPLITUDE_G * GRAVITY * LENGTH / np.pi,
+                                                                     rel=1e-5)
 
 
 def test_pgv_pgd_pga_of_sine():

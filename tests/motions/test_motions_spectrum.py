@@ -121,7 +121,7 @@ def test_undamped_absolute_equals_pseudo_acceleration():
 
 
 def test_absolute_exceeds_pseudo_at_long_period_with_high_damping():
-    # Source: shared/reference/motions-and-dynamics.md §2 and Chopra ch. 6 (from memory): SA and PSA
+    # Source: Chopra, Dynamics of Structures, ch. 6 (from memory): SA and PSA
     # differ at long periods with high damping, SA above PSA.
     record, dt = _record()
     result = response_spectra(record, dt, [5.0], 0.3)

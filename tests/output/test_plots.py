@@ -12,8 +12,8 @@ import numpy as np
 import pytest
 from matplotlib.figure import Figure
 
-from isolation.output import plots
 from isolation.bearings import Bilinear
+from isolation.output import plots
 from isolation.site.spectra import CodeSpectrum
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # ISO/IEC 15948 §5.2

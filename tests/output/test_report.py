@@ -21,11 +21,11 @@ import pytest
 from matplotlib.figure import Figure
 from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook, new_output
 
-from isolation.output import report
-from tools import PDF_READERS, require_pdf_tools, require_tools
 from isolation.errors import RunError
+from isolation.output import report
 from isolation.output.plots import captioned
 from isolation.output.tables import Table
+from tools import PDF_READERS, require_pdf_tools, require_tools
 
 CODE_MARKER = "import_secret_marker_xyz"
 PRINTED = "PRINTED_CONSOLE_TEXT"
@@ -93,7 +93,7 @@ def _text(pdf) -> str:
 
 def _page_size(pdf) -> tuple[float, float]:
     info = subprocess.run(["pdfinfo", str(pdf)], capture_output=True, text=True, check=True).stdout
-    line = next(l for l in info.splitlines() if l.startswith("Page size:"))
+    line = next(text for text in info.splitlines() if text.startswith("Page size:"))
     parts = line.split()
     return float(parts[2]), float(parts[4])
 
@@ -287,4 +287,5 @@ def test_missing_or_broken_notebook_is_refused(tmp_path):
 def test_install_hint_names_the_debian_packages():
     hint = report.install_hint(["xelatex"])
     assert "xelatex" in hint
-    assert "apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra pandoc" in hint
+    assert ("apt-get install texlive-xetex texlive-fonts-recommended texlive-plain-generic texlive-latex-extra "
+            "pandoc") in hint

@@ -22,8 +22,8 @@ from IPython.core.formatters import DisplayFormatter
 from matplotlib.figure import Figure
 from nbformat.v4 import new_code_cell, new_markdown_cell, new_notebook, new_output
 
-from isolation.output import report
 from isolation.errors import RunError
+from isolation.output import report
 from isolation.output.plots import captioned
 from isolation.output.tables import TYPST_MIME, Table
 from isolation.output.typeset import FontCoverageWarning, build_document, compile_pdf, markdown_to_typst, tex_math

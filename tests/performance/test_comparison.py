@@ -18,11 +18,10 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from isolation.output import plots, tables
 from isolation.performance.comparison import fixed_base_comparison, isolated_superstructure
-from isolation.study.runner import fixed_base_period, run_study, site_spectrum, superstructure
 from isolation.study import load_study, parse_study, read_study_mapping
-from isolation.output import plots
-from isolation.output import tables
+from isolation.study.runner import fixed_base_period, run_study, site_spectrum, superstructure
 
 ROOT = Path(__file__).resolve().parents[2]
 DEMO = ROOT / "examples" / "demo_study.toml"
@@ -92,7 +91,8 @@ def test_run_compares_with_the_yielding_fixed_base(demo):
     assert np.all(peak_elastic[0] > 2.0 * strengths[0])
     peak_yielding = fixed.peaks()["storey_shear"].mean(axis=0)
     assert peak_yielding[0] < 0.6 * peak_elastic[0]
-    assert fixed.peaks()["floor_acceleration"].mean(axis=0).max() < elastic.peaks()["floor_acceleration"].mean(axis=0).max()
+    assert (fixed.peaks()["floor_acceleration"].mean(axis=0).max()
+            < elastic.peaks()["floor_acceleration"].mean(axis=0).max())
     drift = fixed.peaks()["drift"].mean(axis=0)
     assert np.all(peak_yielding < strengths + hardening * k * drift + 0.35 * strengths)  # damping forces on top
     json.dumps(demo.to_dict(), allow_nan=False)

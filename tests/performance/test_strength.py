@@ -24,11 +24,18 @@ import math
 import numpy as np
 import pytest
 
-from isolation.performance.damage import STATES, building_type, damage_state, damage_thresholds
-from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum
-from isolation.performance.strength import (allowable_drift, asce7_distribution, code_drift_check, eurocode_distribution,
-                                fixed_base_design, isolated_design, system_factors)
 from isolation.dynamics.structure import ShearBuilding
+from isolation.performance.damage import STATES, building_type, damage_state, damage_thresholds
+from isolation.performance.strength import (
+    allowable_drift,
+    asce7_distribution,
+    code_drift_check,
+    eurocode_distribution,
+    fixed_base_design,
+    isolated_design,
+    system_factors,
+)
+from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum
 
 G = 9.80665
 

@@ -1,7 +1,7 @@
 """Tests of isolation.site.spectra against the standards' formulas and tables.
 
 Sources named beside each check. "[derived]" marks arithmetic worked by hand
-from the published formula (see shared reference isolation-formulas.md §1).
+from the published formula named beside it.
 """
 
 import json
@@ -57,7 +57,7 @@ def test_code_spectrum_from_design_values_round_trip():
 
 
 def test_sd_gives_reference_displacement():
-    # [derived] shared reference §2: S_M1 0.9, T 3 s, beta 20 % (B_M 1.5)
+    # [derived] ASCE/SEI 7-16 Eq. 17.5-1 with Table 17.5-1: S_M1 0.9, T 3 s, beta 20 % (B_M 1.5)
     # -> D = g 0.9/3/1.5 * 9/(4 pi^2) = 0.4471 m.
     spectrum = CodeSpectrum(1.5, 0.9)
     assert spectrum.sa(3.0, 0.20) == pytest.approx(0.200, rel=1e-12)
@@ -283,7 +283,8 @@ def test_code_spectrum_finite_and_positive(sms, ratio, long_period, period, damp
 
 
 @settings(max_examples=50, deadline=None)
-@given(t1=st.floats(0.6, 10.0), t2=st.floats(0.6, 10.0), ground=st.sampled_from(list("ABCDE")), kind=st.sampled_from([1, 2]))
+@given(t1=st.floats(0.6, 10.0), t2=st.floats(0.6, 10.0), ground=st.sampled_from(list("ABCDE")),
+       kind=st.sampled_from([1, 2]))
 def test_eurocode_falls_beyond_plateau(t1, t2, ground, kind):
     # Property of EN 1998-1 §3.2.2.2: beyond T_C the ordinate never increases (also across
     # 4 s into the extended 1/T^2 branch).

@@ -12,13 +12,12 @@ from __future__ import annotations
 
 import dataclasses
 import json
+import tomllib
 
 import pytest
 
-from isolation.study.plan import ACCIDENTAL_ECCENTRICITY, HISTORY_LOWER_LIMIT, default_grid
-import tomllib
-
 from isolation.study import StudyError, load_study, parse_study
+from isolation.study.plan import ACCIDENTAL_ECCENTRICITY, HISTORY_LOWER_LIMIT, default_grid
 
 DEMO = "examples/demo_study.toml"
 
@@ -104,8 +103,7 @@ def test_bidirectional_study_end_to_end(tmp_path):
                                                        b["bearing_axial_max_kN"]))
     assert results.suite["pairs"]["pair_spectrum"] == "RotD100"
     # the report's table and figures are made from these results
-    from isolation.output import plots
-    from isolation.output import tables
+    from isolation.output import plots, tables
 
     table = tables.bidirectional_table(results.alternatives[0])
     governing = results.alternatives[0].history["bidirectional"]["total_displacement_governing"]
@@ -118,7 +116,8 @@ def test_bidirectional_study_end_to_end(tmp_path):
     assert plots.pairs_figure(results.live["pairs"]).axes
     path = results.save(tmp_path / "results.json")
     again = load_results(path)
-    assert again.alternatives[0].history["bidirectional"]["grid"] == results.alternatives[0].history["bidirectional"]["grid"]
+    assert (again.alternatives[0].history["bidirectional"]["grid"]
+            == results.alternatives[0].history["bidirectional"]["grid"])
     json.loads(path.read_text())
 
 
@@ -141,8 +140,8 @@ def test_batch_overrides_vary_the_layout(tmp_path):
 def test_plan_superstructure_carries_the_planar_strengths_in_both_directions():
     # The plan model's storeys take the planar comparison building's yield shears, hardening and P-delta
     # in x and in y alike (one lateral system given by the study: an assumption stated in the table).
-    from isolation.study.plan import plan_superstructure
     from isolation.dynamics.structure import ShearBuilding
+    from isolation.study.plan import plan_superstructure
 
     study = load_study(DEMO)
     planar = ShearBuilding([500.0] * 3, [4.0e5] * 3, [3.5] * 3, yield_shears=[3000.0, 2400.0, 1400.0],

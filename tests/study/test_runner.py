@@ -20,8 +20,8 @@ import pytest
 
 from isolation import GRAVITY
 from isolation.errors import InputError, RunError
-from isolation.study.runner import StudyResults, load_results, run_study, superstructure
 from isolation.study import apply_overrides, load_study, parse_study, read_study_mapping
+from isolation.study.runner import StudyResults, load_results, run_study, superstructure
 from isolation.verdict import NOT_RECOMMENDED, OUTCOMES
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -29,7 +29,8 @@ DEMO = ROOT / "examples" / "demo_study.toml"
 SOFT = ROOT / "examples" / "soft_site_study.toml"
 US = ROOT / "examples" / "pendulum_vs_rubber_study.toml"
 
-B_TABLE = ([0.02, 0.05, 0.10, 0.20, 0.30, 0.40, 0.50], [0.8, 1.0, 1.2, 1.5, 1.7, 1.9, 2.0])  # ASCE/SEI 7-16 Table 17.5-1
+B_TABLE = ([0.02, 0.05, 0.10, 0.20, 0.30, 0.40, 0.50],
+           [0.8, 1.0, 1.2, 1.5, 1.7, 1.9, 2.0])  # ASCE/SEI 7-16 Table 17.5-1
 
 
 def b_m(beta):
@@ -173,7 +174,8 @@ def test_tabulated_spectrum_gives_the_code_answer(tmp_path):
     sa = np.where(periods < t0, sms * (0.4 + 0.6 * periods / t0),
                   np.where(periods <= ts, sms, np.where(periods <= tl, sm1 / np.maximum(periods, 1e-9),
                                                         sm1 * tl / np.maximum(periods, 1e-9) ** 2)))
-    (tmp_path / "site.csv").write_text("period_s,sa_g\n" + "\n".join(f"{float(t)!r},{float(a)!r}" for t, a in zip(periods, sa)))
+    (tmp_path / "site.csv").write_text("period_s,sa_g\n"
+                                       + "\n".join(f"{float(t)!r},{float(a)!r}" for t, a in zip(periods, sa)))
     mapping = read_study_mapping(DEMO)
     for key in ("sms", "sm1", "long_period"):
         del mapping["site"][key]
@@ -305,8 +307,8 @@ def test_rate_dependent_friction_pendulum_runs_with_its_velocity_law(demo):
     # exp(-a|v|) (Constantinou, Mokha & Reinhorn 1990) in the response histories, its friction
     # scaled by the lower/upper factors of the study (0.85 / 1.25 in the demo; derived arithmetic).
     from isolation.bearings import FrictionPendulum
-    from isolation.study.runner import _history_isolator
     from isolation.study.assembly import isolation_system
+    from isolation.study.runner import _history_isolator
 
     mapping = apply_overrides(read_study_mapping(DEMO), {"alternative.0.bearings.0.friction_slow": 0.03})
     study = parse_study(mapping, source=str(DEMO), base_dir=DEMO.parent)

@@ -3,7 +3,7 @@
 Limits and where they come from (the same sources the module cites):
 * T_M > 3 T_fb and T_M <= 5 s, beta_M <= 30 %: ASCE/SEI 7-16 §17.4.1 (from memory).
 * Isolated period 2-4(5) s, T_M >= 3 T_fb, height/width <= 3, soft sites a
-  poor fit: common practice (rules of thumb in shared/reference/isolation-formulas.md §4).
+  poor fit: common practice (rules of thumb of isolation design, no single source).
 * Moat >= D_TM: ASCE/SEI 7-16 §17.2.6 (from memory).
 * Drift 0.015 h_sx with the ELF procedure: ASCE/SEI 7-16 §17.5.6 (from memory).
 * Wind must not yield the isolation plane: ASCE/SEI 7-16 §17.2.4.3 (from memory).
@@ -63,7 +63,7 @@ def test_period_shift_is_an_elf_note(isolated, fixed, met):
 @pytest.mark.parametrize("period, level", [(1.8, "condition"), (1.99, "condition"), (2.0, "ok"), (5.0, "ok"),
                                            (5.01, "note"), (5.5, "note")])
 def test_isolated_period_band(period, level):
-    # 2-5 s band: common practice (shared reference isolation-formulas.md §4, rules of thumb).
+    # 2-5 s band: common practice (rule of thumb of isolation design, no single source).
     reason = v.isolated_period(period, bound="nominal")
     assert reason.level == level and "nominal properties" in reason.message
 
@@ -98,7 +98,8 @@ def test_unknown_capacity_and_moat_are_conditions():
     assert result.outcome == v.CONDITIONAL
 
 
-@pytest.mark.parametrize("d_tm, level", [(0.6, "ok"), (0.8, "ok"), (0.81, "condition"), (1.2, "condition"), (1.25, "against")])
+@pytest.mark.parametrize("d_tm, level",
+                         [(0.6, "ok"), (0.8, "ok"), (0.81, "condition"), (1.2, "condition"), (1.25, "against")])
 def test_displacement_size(d_tm, level):
     # Practical limits of moats and utility joints: common practice.
     assert v.displacement_size(d_tm).level == level
@@ -110,7 +111,8 @@ def test_narrow_moat_is_a_condition():
     assert v.moat_clearance(0.50, 0.50).level == "ok"   # equal to D_TM meets ">= D_TM"
 
 
-@pytest.mark.parametrize("ratio, level", [(0.69, "ok"), (0.7, "condition"), (0.99, "condition"), (1.0, "against"), (1.3, "against")])
+@pytest.mark.parametrize("ratio, level",
+                         [(0.69, "ok"), (0.7, "condition"), (0.99, "condition"), (1.0, "against"), (1.3, "against")])
 def test_base_shear_reduction(ratio, level):
     r = v.base_shear_reduction(ratio)
     assert r.level == level and f"{ratio:.0%}" in r.message
@@ -144,7 +146,7 @@ def test_uplift_is_a_condition_only_in_tension(ratio, level):
 
 @pytest.mark.parametrize("ratio, level", [(2.0, "ok"), (3.0, "ok"), (3.01, "condition"), (3.5, "condition")])
 def test_slenderness_boundary(ratio, level):
-    # H/B above 3: a poor fit for isolation (common practice, shared reference §4 rules of thumb).
+    # H/B above 3: a poor fit for isolation (common practice, rule of thumb with no single source).
     assert v.slenderness(ratio).level == level
 
 
@@ -342,7 +344,8 @@ ASCE = "ASCE/SEI 7-16"
 EC8 = "EN 1998-1"
 RULE_TABLE = [
     # call, topic, level, value, limit, unit, source contains, message contains
-    (lambda: v.isolated_period(1.8, bound="upper"), "isolated period", "condition", 1.8, 2.0, "s", "common practice", "softer"),
+    (lambda: v.isolated_period(1.8, bound="upper"), "isolated period", "condition", 1.8, 2.0, "s", "common practice",
+     "softer"),
     (lambda: v.isolated_period(5.5), "isolated period", "note", 5.5, 5.0, "s", ASCE, "ELF procedure is not permitted"),
     (lambda: v.isolated_period(5.5, basis="eurocode"), "isolated period", "note", 5.5, 5.0, "s", "common practice",
      "exceeds 5 s: wind"),

@@ -16,10 +16,10 @@ Scope: feasibility studies, not construction design; every result must be
 checked against the local code by a licensed structural engineer.
 """
 
+from isolation.app.batch.check import validate_plan
 from isolation.app.batch.command import main
 from isolation.app.batch.execute import BatchReport, run_batch
 from isolation.app.batch.executors import open_executor
-from isolation.app.batch.check import validate_plan
 from isolation.app.batch.plan import BatchPlan, Variant, load_batch
 from isolation.app.batch.runners import VariantOutcome, VariantTask, record_runner
 from isolation.app.batch.summary import read_summary, write_summary

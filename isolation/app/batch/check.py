@@ -76,7 +76,7 @@ def check_variants(study_file: str, items: list, settings: Mapping | None = None
 
     path = Path(study_file)
     base = study_module.read_study_mapping(path)
-    found = []
+    found: list[tuple[str, str | None, str | None]] = []
     pieces: dict = {}
     studies = study_module.parse_variants(base, (overrides for _, overrides in items), source=path.name,
                                           base_dir=path.parent)

@@ -40,7 +40,8 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     )
     parser.add_argument("batch_file", metavar="BATCH.toml", help="batch file naming the base study and its variants")
     parser.add_argument("--out", metavar="DIR", help=f"batch folder (default: {DEFAULT_ROOT}/<batch name>)")
-    parser.add_argument("--workers", type=int, metavar="N", help="worker processes on this machine (default: cores; a --scheduler cluster has its own)")
+    parser.add_argument("--workers", type=int, metavar="N",
+                        help="worker processes on this machine (default: cores; a --scheduler cluster has its own)")
     where = parser.add_mutually_exclusive_group()
     where.add_argument("--scheduler", metavar="ADDRESS", help="run on the dask cluster at this scheduler address")
     where.add_argument("--local-cluster", action="store_true", help="run on a dask LocalCluster on this machine")
@@ -128,10 +129,11 @@ def _run(args: argparse.Namespace) -> int:
     settings = {"mode": mode, "quick": bool(args.quick) and not args.direct}
     executor = args.scheduler or ("local-cluster" if args.local_cluster else "local")
     if args.direct:  # key-by-key validation of bearing-property grids (same rules, same hashes)
-        from isolation.app.batch.sweep import validate_direct as validate
+        from isolation.app.batch.sweep import validate_direct
+
+        validate = validate_direct
     else:
-        def validate(plan, settings, executor=None):
-            return validate_plan(plan, settings=settings, executor=executor, model_checks=True)
+        validate = validate_plan  # with the model checks (its default)
     if args.check or len(plan.variants) < CHUNK_FROM:
         hashes = validate(plan, settings)
         if args.check:

@@ -32,7 +32,7 @@ from concurrent.futures.process import BrokenProcessPool
 from contextlib import ExitStack
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Callable
+from typing import Any, Callable
 
 from isolation.app.batch.executors import executor_for, open_executor, terminate
 from isolation.app.batch.plan import BatchPlan
@@ -239,7 +239,7 @@ def run_batch(
     interrupted = False
     counts = {"done": 0, "failed": 0}
     last_write = [0.0, STATE_INTERVAL]  # time of the last state write, interval to the next [s]
-    bar = None
+    bar: Any = None  # a tqdm bar once the executor is up
 
     def accept(outcome: VariantOutcome) -> None:
         entry = entries[outcome.variant_id]

@@ -50,8 +50,13 @@ import numpy as np
 
 from isolation.app.batch.rows import rows_from_results
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
-from isolation.app.batch.sweep import (_alternative_key, _bounds_each, _context_key, fixed_base_elastic_shear,
-                                   variant_study)
+from isolation.app.batch.sweep import (
+    _alternative_key,
+    _bounds_each,
+    _context_key,
+    fixed_base_elastic_shear,
+    variant_study,
+)
 
 __all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
            "history_chunk", "history_rows"]
@@ -159,10 +164,10 @@ def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = N
         A motions file that cannot be read, or a time step too coarse for the
         superstructure.
     """
-    from isolation.study import assembly as model
     from isolation.errors import InputError
     from isolation.files import write_text_atomic
     from isolation.motions.records_io import write_suite
+    from isolation.study import assembly as model
     from isolation.study.runner import export_suite
 
     out = Path(out_dir).resolve()
@@ -285,8 +290,8 @@ history_runner.many = history_many  # type: ignore[attr-defined]  # chunks run t
 def _run(tasks: list) -> list:
     """Rows per task, or the exception that stopped it."""
     from isolation import GRAVITY
-    from isolation.study import assembly as model
     from isolation.design.array_kernel import design_bounds_many
+    from isolation.study import assembly as model
 
     acc, dt, fixed_file = _load(tasks[0])
     motion_key = _suite_hash(acc, dt)
@@ -362,7 +367,7 @@ def _run(tasks: list) -> list:
             if len(_DONE) >= _CACHE_LIMIT:
                 _DONE.pop(next(iter(_DONE)))
             _DONE[key] = value
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
@@ -396,7 +401,8 @@ def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dic
                                  "fixed_elastic": response_indicators(elastic, None, thresholds)})}
 
 
-def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray, dt: float) -> dict:
+def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray,
+           dt: float) -> Mapping:
     """Fixed-base runs: the batch's when the building is the base study's, else run once here."""
     if fingerprint == fixed_file.get("structure") and "indicators" in fixed_file:
         return fixed_file
@@ -411,8 +417,8 @@ def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
     Alternatives whose superstructure above the isolators is the same (elastic, or yielding at the same
     strengths) run in one engine call.
     """
-    from isolation.performance.comparison import isolated_superstructure, response_indicators, thresholds_of
     from isolation.dynamics.history import run_cases
+    from isolation.performance.comparison import isolated_superstructure, response_indicators, thresholds_of
 
     study, structure = context["study"], context["structure"]
     thresholds = thresholds_of(study)
@@ -453,10 +459,10 @@ def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
 
 def _judge(context: dict, alternative, system, sets, bounds, design, histories) -> dict:
     """The study run's verdict for one alternative from its designs and history statistics."""
-    from isolation.study import assembly as model
     from isolation import verdict
     from isolation.performance.comparison import comparison_summary
     from isolation.plain import plain
+    from isolation.study import assembly as model
 
     stats, case_indicators, isolated_design = histories
     report, quantities, permitted, reasons = design

@@ -164,6 +164,13 @@ def reduction(row: dict, bound: str = "upper") -> float | None:
     return None if ratio is None else 1.0 - ratio
 
 
+def _completed_reduction(row: dict) -> float:
+    """Upper-bound :func:`reduction` of a row from :func:`completed_rows` (which all have one). [-]"""
+    share = reduction(row)
+    assert share is not None
+    return share
+
+
 def verdict_rank(verdict) -> int:
     """0 feasible, 1 with conditions, 2 not recommended, 3 anything else."""
     return VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else len(VERDICT_ORDER)
@@ -178,9 +185,10 @@ def pareto_front(rows: Iterable[dict]) -> list[dict]:
     rows = completed_rows(rows)
     front = []
     for row in rows:
-        d, r = row["D_M_lower_m"], reduction(row)
+        d, r = row["D_M_lower_m"], _completed_reduction(row)
         dominated = any(
-            (o["D_M_lower_m"] <= d and reduction(o) >= r) and (o["D_M_lower_m"] < d or reduction(o) > r)
+            (o["D_M_lower_m"] <= d and _completed_reduction(o) >= r)
+            and (o["D_M_lower_m"] < d or _completed_reduction(o) > r)
             for o in rows
         )
         if not dominated:
@@ -213,7 +221,7 @@ def best_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
     front = {id(r) for r in pareto_front(rows)}
     ordered = sorted(
         rows,
-        key=lambda r: (verdict_rank(r.get("verdict")), id(r) not in front, -reduction(r), r["D_M_lower_m"]),
+        key=lambda r: (verdict_rank(r.get("verdict")), id(r) not in front, -_completed_reduction(r), r["D_M_lower_m"]),
     )
     return ordered[: max(int(top), 0)]
 
@@ -271,20 +279,20 @@ def plot_displacement_vs_reduction(rows: Iterable[dict], ax=None, label_variants
         _, ax = plt.subplots(figsize=(7.0, 4.8))
     names = list(dict.fromkeys(r.get("alternative") for r in rows))
     for row in rows:
-        marker = VERDICT_MARKERS.get(row.get("verdict"), "D")
-        lower = (row["D_M_lower_m"], reduction(row, "lower"))
-        upper = (_number(row.get("D_M_upper_m")), reduction(row, "upper"))
-        if None not in upper and None not in lower:
-            ax.plot([upper[0], lower[0]], [100 * upper[1], 100 * lower[1]], color="0.6", lw=1.0)
-        if None not in upper:
-            ax.plot(upper[0], 100 * upper[1], marker=marker, color=COLOURS["upper"], ls="none")
-        if None not in lower:
-            ax.plot(lower[0], 100 * lower[1], marker=marker, color=COLOURS["lower"], ls="none")
+        marker = VERDICT_MARKERS.get(row.get("verdict", ""), "D")
+        d_lower, r_lower = row["D_M_lower_m"], reduction(row, "lower")
+        d_upper, r_upper = _number(row.get("D_M_upper_m")), reduction(row, "upper")
+        if d_upper is not None and r_upper is not None and r_lower is not None:
+            ax.plot([d_upper, d_lower], [100 * r_upper, 100 * r_lower], color="0.6", lw=1.0)
+        if d_upper is not None and r_upper is not None:
+            ax.plot(d_upper, 100 * r_upper, marker=marker, color=COLOURS["upper"], ls="none")
+        if r_lower is not None:
+            ax.plot(d_lower, 100 * r_lower, marker=marker, color=COLOURS["lower"], ls="none")
             if label_variants and len(rows) <= 40:
                 text = str(row.get("variant")) + (f" ({row.get('alternative')})" if len(names) > 1 else "")
-                ax.annotate(text, (lower[0], 100 * lower[1]), xytext=(4, 3), textcoords="offset points",
+                ax.annotate(text, (d_lower, 100 * r_lower), xytext=(4, 3), textcoords="offset points",
                             fontsize=6, color="0.25")
-    shares = [100 * reduction(r, b) for r in rows for b in ("lower", "upper") if reduction(r, b) is not None]
+    shares = [100 * share for r in rows for b in ("lower", "upper") if (share := reduction(r, b)) is not None]
     if shares and min(shares) < 10.0:  # near or below zero: show where isolation stops reducing the shear
         ax.axhline(0.0, color="0.3", lw=0.8, ls=":")
     ax.set_xlabel("isolator displacement D_M [m]")
@@ -348,7 +356,7 @@ def plot_verdict_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: 
     share_grid = np.full((len(ys), len(xs)), np.nan)
     for row in rows:
         i, j = xs.index(row[x_key]), ys.index(row[y_key])
-        colour = VERDICT_COLOURS.get(row.get("verdict"), OTHER_COLOUR)
+        colour = VERDICT_COLOURS.get(row.get("verdict", ""), OTHER_COLOUR)
         ax.add_patch(Rectangle((i - 0.5, j - 0.5), 1, 1, color=colour, alpha=0.55, lw=0))
         share = reduction(row)
         d = _number(row.get("D_M_lower_m"))

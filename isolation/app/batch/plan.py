@@ -36,7 +36,6 @@ import io
 import itertools
 import math
 import re
-import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
@@ -285,7 +284,8 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
     study = head.get("study")
     study_file = batch_file
     if not isinstance(study, str) or not study.strip():
-        problems.append(f"batch.study = {study!r} is not allowed: must be the path of a study file relative to the batch file")
+        problems.append(f"batch.study = {study!r} is not allowed: must be the path of a study file relative to the "
+                        "batch file")
     else:
         study_file = (batch_file.parent / study).resolve()
         if not study_file.exists():
@@ -342,11 +342,13 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
         overrides = flatten(entry)
         if not overrides:
             problems.append(f"variant {number} has no overrides; allowed: dotted key paths into the study")
-        variants.append(Variant(given if given is not None else f"variant-{number:02d}", overrides, f"variant {number}"))
+        variants.append(Variant(given if given is not None else f"variant-{number:02d}", overrides,
+                                f"variant {number}"))
 
     if table is not None:
         if not isinstance(table, str):
-            problems.append(f"batch.table = {table!r} is not allowed: must be a CSV file path relative to the batch file")
+            problems.append(f"batch.table = {table!r} is not allowed: must be a CSV file path relative to the batch "
+                            "file")
         else:
             for number, (given, overrides, origin) in enumerate(table_rows or (), start=1):
                 if not overrides:
@@ -364,10 +366,12 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
         if not isinstance(variant.variant_id, str) or safe_name(variant.variant_id) != variant.variant_id:
             problems.append(
                 f"{variant.origin}: id = {variant.variant_id!r} is not allowed: must be a folder name of "
-                f"lower-case letters, digits, '.', '_', '-' (at most {ID_LIMIT}), e.g. {safe_name(str(variant.variant_id))!r}"
+                f"lower-case letters, digits, '.', '_', '-' (at most {ID_LIMIT}), e.g. "
+                f"{safe_name(str(variant.variant_id))!r}"
             )
         elif variant.variant_id in seen:
-            problems.append(f"{variant.origin}: id = {variant.variant_id!r} is not allowed: already used by {seen[variant.variant_id]}")
+            problems.append(f"{variant.origin}: id = {variant.variant_id!r} is not allowed: already used by "
+                            f"{seen[variant.variant_id]}")
         else:
             seen[variant.variant_id] = variant.origin
         checked.append(variant)

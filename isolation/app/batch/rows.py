@@ -129,8 +129,8 @@ def _loss_columns(loss: Mapping[str, Any], results: Mapping[str, Any]) -> dict:
 
 def rows_from_record(record_dir: str | Path) -> list[dict]:
     """Summary rows of a completed record (its ``results.json`` and study as run)."""
-    from isolation.study.runner import fixed_base_period, site_spectrum
     from isolation.study import load_study
+    from isolation.study.runner import fixed_base_period, site_spectrum
 
     record = Path(record_dir)
     results = json.loads((record / "results.json").read_text(encoding="utf-8"))

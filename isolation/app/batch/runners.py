@@ -121,7 +121,7 @@ def one_line(error: BaseException) -> str:
 
 def is_kernel_start_error(text: str | None) -> bool:
     """True when ``text`` is a Jupyter kernel failing to start (a race worth one retry)."""
-    return bool(text) and any(marker in text for marker in KERNEL_START_MARKERS)
+    return text is not None and any(marker in text for marker in KERNEL_START_MARKERS)
 
 
 def record_runner(task: VariantTask) -> VariantOutcome:
@@ -160,13 +160,13 @@ def record_runner(task: VariantTask) -> VariantOutcome:
                                   elapsed=time.perf_counter() - started)
         record_dir = Path(outcome.path)
         status = getattr(outcome, "status", "done")
-        error = getattr(outcome, "error", None)
-        if status != "done" and attempts == 1 and is_kernel_start_error(error):
+        problem = getattr(outcome, "error", None)
+        if status != "done" and attempts == 1 and is_kernel_start_error(problem):
             continue
         relative = os.path.relpath(record_dir, out_dir)
         rows = rows_from_record(record_dir) if status == "done" else ()
         return VariantOutcome(task.variant_id, "done" if status == "done" else "failed", tuple(rows), relative,
-                              None if status == "done" else (" ".join(str(error).split()) or "failed"),
+                              None if status == "done" else (" ".join(str(problem).split()) or "failed"),
                               attempts, time.perf_counter() - started)
 
 

@@ -53,7 +53,7 @@ import csv
 import io
 import math
 from pathlib import Path
-from typing import Any, Iterable, Mapping
+from typing import Any, Iterable, Mapping, Sequence
 
 from isolation.files import write_bytes_atomic, write_text_atomic
 
@@ -158,7 +158,7 @@ def _cell(value: Any) -> Any:
     return value
 
 
-def write_summary(rows: list[Mapping], out_dir: Path, override_keys: Iterable[str]) -> list[Path]:
+def write_summary(rows: Sequence[Mapping], out_dir: Path, override_keys: Iterable[str]) -> list[Path]:
     """Write ``summary.csv`` (and ``summary.parquet`` with pyarrow) in ``out_dir``.
 
     Parameters

@@ -72,7 +72,6 @@ def design_rows(study) -> list[dict]:
         One row per alternative (columns of :mod:`isolation.app.batch.summary`).
     """
     from isolation.study import assembly as model
-    from isolation import verdict
 
     spectrum = model.site_spectrum(study)
     period, _ = model.fixed_base_period(study)
@@ -83,7 +82,6 @@ def design_rows(study) -> list[dict]:
         sets = system.property_sets(weight)
         report, quantities, permitted, reasons = model.design_alternative(study, sets, system, spectrum, period)
         checks = system.checks(quantities["total_displacement"])
-        bounds = report.bounds.results
         alternatives.append(_judged(study, spectrum, period, alternative, system, sets, report, quantities,
                                     permitted, reasons, checks))
     shear = fixed_base_elastic_shear(spectrum, period, weight)
@@ -96,8 +94,8 @@ _BOUND_KEYS = ("displacement", "period", "damping", "base_shear")
 def _judged(study, spectrum, period, alternative, system, sets, report, quantities, permitted, reasons,
             checks) -> dict:
     """One alternative's row input: bounds, quantities and the verdict on the equivalent-linear numbers."""
-    from isolation.study import assembly as model
     from isolation import verdict
+    from isolation.study import assembly as model
 
     bounds = report.bounds.results
     strength = getattr(sets["lower"], "characteristic_strength", None)
@@ -127,7 +125,8 @@ def sweep_runner(task: VariantTask) -> VariantOutcome:
 
 # --- many variants at once ---------------------------------------------------------------
 
-_FAST_KEY = re.compile(r"^alternative\.(\d+)\.(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
+_FAST_KEY = re.compile(r"^alternative\.(\d+)\."
+                       r"(?:bearings\.(\d+)\.([a-z_0-9]+)|property_factors\.(lower|upper)|(moat))$")
 _FIXED_BEARING_KEYS = ("type", "count", "axial_load")  # change shares or the model: the full parse
 
 
@@ -175,7 +174,7 @@ def _apply_fast(base, fast: dict, source: str):
     alternatives = list(base.alternatives)
     bearing_changes: dict[tuple[int, int], dict] = {}
     other: dict[int, dict] = {}
-    for key, (match, value) in fast.items():
+    for match, value in fast.values():
         i = int(match.group(1))
         if i >= len(alternatives):
             return None
@@ -290,8 +289,8 @@ def design_rows_many(studies: list) -> list:
         Per study its list of rows, or the exception its design raised
         (:func:`design_rows` raises the same one).
     """
-    from isolation.study import assembly as model
     from isolation.design.array_kernel import design_bounds_many
+    from isolation.study import assembly as model
 
     contexts: dict = {}
     prepared: list = []  # per study: (context, [(alternative, key)]) or an exception
@@ -340,7 +339,7 @@ def design_rows_many(studies: list) -> list:
                                       report, quantities, permitted, reasons, checks)
             except Exception as error:  # noqa: BLE001
                 judged[key] = error
-    out = []
+    out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
@@ -410,9 +409,8 @@ def check_direct(study_file: str, items: list, settings: Mapping | None = None) 
     list of (str, str or None, str or None)
         Variant id, input hash (None when invalid), one-line problem (None when valid).
     """
-    from isolation.app.batch.check import variant_hash
 
-    found = []
+    found: list[tuple[str, str | None, str | None]] = []
     parts: dict = {}
     for variant_id, overrides in items:
         try:
@@ -459,7 +457,7 @@ def _study_dict(study, parts: dict) -> dict:
 
     shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)
     key = tuple(map(id, shared))
-    entry = parts.get(key)
+    entry: tuple | None = parts.get(key)
     if entry is None or any(a is not b for a, b in zip(entry[0], shared)):
         whole = study.to_dict()
         entry = (shared, {k: v for k, v in whole.items() if k != "alternatives"}, {})

@@ -42,8 +42,18 @@ from matplotlib.figure import Figure
 
 from isolation import validate
 from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
-from isolation.app.explorer.tables import (_force, _length, checks_html, comparison_html, comparison_table,
-                                       layout_html, quantities_html, summary_html, summary_table, warnings_html)
+from isolation.app.explorer.tables import (
+    _force,
+    _length,
+    checks_html,
+    comparison_html,
+    comparison_table,
+    layout_html,
+    quantities_html,
+    summary_html,
+    summary_table,
+    warnings_html,
+)
 from isolation.output.plots import COLOURS, masing_loop
 
 __all__ = [
@@ -226,7 +236,8 @@ class ExplorerSettings:
                              f"outer_diameter = {self.outer_diameter!r} [m]")
 
     def study(self):
-        """These settings as a validated :class:`isolation.study.Study` (see :mod:`isolation.app.explorer.study_file`)."""
+        """These settings as a validated :class:`isolation.study.Study`
+        (see :mod:`isolation.app.explorer.study_file`)."""
         from isolation.app.explorer.study_file import STUDY_FIELDS, study_mapping
         from isolation.study import StudyError, parse_study
 

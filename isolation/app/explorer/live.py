@@ -19,8 +19,17 @@ from typing import Any
 import numpy as np
 
 from isolation.app.explorer import answers as ex
-from isolation.app.explorer.controls import (BASES, BEARING_TYPES, CHOICES, CONTROLS, GROUPS, from_display, to_display,
-                                         unit_factor, unit_name)
+from isolation.app.explorer.controls import (
+    BASES,
+    BEARING_TYPES,
+    CHOICES,
+    CONTROLS,
+    GROUPS,
+    from_display,
+    to_display,
+    unit_factor,
+    unit_name,
+)
 from isolation.output.plots import COLOURS
 
 __all__ = ["build"]
@@ -290,7 +299,7 @@ class _Explorer:
         """Show every control in the other unit system; values rounded to 6 digits become the settings."""
         self.suspend = True
         try:
-            values = {"units": system}
+            values: dict[str, Any] = {"units": system}
             for c in CONTROLS:
                 entry, slider = self.entries[c.field], self.sliders[c.field]
                 shown = to_display(getattr(self.settings, c.field), c.kind, system)
@@ -389,7 +398,7 @@ class _Explorer:
         visible_pin = pinned is not None
         self.spectrum_marks["pinned"].visible = visible_pin
         self.trade_marks["pinned"].visible = visible_pin
-        if visible_pin:
+        if pinned is not None:
             pin = ex.plot_series(pinned)
             with self.spectrum_marks["pinned"].hold_sync():
                 self.spectrum_marks["pinned"].x = [pin["point"][c][0] for c in ex.CASES]

@@ -138,10 +138,10 @@ _HEADER = """\
 
 def _time_step(settings) -> float:
     """analysis.time_step that resolves the superstructure (dt <= T_min/20, 0.001-0.005 s). [s]"""
+    import numpy as np
+
     from isolation.study import parse_study
     from isolation.study.assembly import superstructure
-
-    import numpy as np
 
     study = parse_study(study_mapping(settings), "<explorer>")
     shortest = float(np.min(superstructure(study).modal().periods))

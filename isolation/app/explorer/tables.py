@@ -211,7 +211,7 @@ def comparison_table(pinned, current) -> Table:
     if pinned.settings.units != current.settings.units:  # show both in the current system
         settings = type(pinned.settings)(**{**asdict(pinned.settings), "units": current.settings.units})
         a = _comparison_rows(type(pinned)(**{**pinned.__dict__, "settings": settings}))
-    rows = []
+    rows: list[tuple[str, str | float, str | float, str]] = []
     for key in b:
         x, y = a[key][0], b[key][0]
         if isinstance(x, str) or isinstance(y, str):

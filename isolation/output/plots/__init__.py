@@ -24,15 +24,31 @@ motion suite), :mod:`~isolation.output.plots.history` (response histories),
 """
 
 from isolation.output.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned
-from isolation.output.plots.design import (equivalent_linear_bounds, force_displacement, masing_loop, site_spectrum,
-                                    suite_figure, suite_match)
+from isolation.output.plots.design import (
+                                    equivalent_linear_bounds,
+                                    force_displacement,
+                                    masing_loop,
+                                    site_spectrum,
+                                    suite_figure,
+                                    suite_match,
+)
+from isolation.output.plots.history import (
+                                    base_shear_comparison,
+                                    displacement_histories,
+                                    energy_stack,
+                                    floor_spectra,
+                                    history_base_shear,
+                                    history_displacements,
+                                    history_energy,
+                                    history_floor_spectra,
+                                    history_loops,
+                                    history_profiles,
+                                    hysteresis_loops,
+                                    storey_profiles,
+)
 from isolation.output.plots.loss import loss_curves
-from isolation.output.plots.history import (base_shear_comparison, displacement_histories, energy_stack,
-                                     floor_spectra, history_base_shear, history_displacements, history_energy,
-                                     history_floor_spectra, history_loops, history_profiles, hysteresis_loops,
-                                     storey_profiles)
-from isolation.output.plots.yielding import yielding_profiles
 from isolation.output.plots.plan import bearing_orbits, pairs_figure, plan_demand
+from isolation.output.plots.yielding import yielding_profiles
 
 __all__ = [
     "bearing_orbits",

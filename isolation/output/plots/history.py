@@ -11,6 +11,7 @@ from typing import Any, Mapping, Sequence
 
 import numpy as np
 from matplotlib.figure import Figure
+from numpy.typing import ArrayLike
 
 from isolation.output.plots.common import SERIES_COLOURS, _colour, _figure, axis_unit
 
@@ -48,7 +49,8 @@ def displacement_histories(
     fig, ax = _figure(3.0)
     for index, row in enumerate(series):
         name = labels[index] if labels is not None else f"record {index + 1}"
-        ax.plot(time, length(row), lw=0.7, color=SERIES_COLOURS[index % len(SERIES_COLOURS)], label=name if len(series) <= 11 else None)
+        ax.plot(time, length(row), lw=0.7, color=SERIES_COLOURS[index % len(SERIES_COLOURS)],
+                label=name if len(series) <= 11 else None)
     for value, text, style in ((design_displacement, "equivalent-linear D", "--"), (capacity, "capacity", "-")):
         if value is not None:
             for sign in (1, -1):
@@ -89,9 +91,9 @@ def base_shear_comparison(values: Mapping[str, float], *, reference: str | None 
 
 
 def storey_profiles(
-    heights: Sequence[float],
-    drift_ratios: Mapping[str, Sequence[float]],
-    floor_accelerations: Mapping[str, Sequence[float]],
+    heights: ArrayLike,
+    drift_ratios: Mapping[str, ArrayLike],
+    floor_accelerations: Mapping[str, ArrayLike],
     *,
     units: str = "SI",
 ) -> Figure:
@@ -106,7 +108,8 @@ def storey_profiles(
     floor_accelerations : mapping
         Peak floor acceleration by case, one per level including the base. [g]
     units : str
-        Display unit system, "SI" or "US" (heights in m or ft; drift ratio and acceleration are unitless or g); inputs stay in SI.
+        Display unit system, "SI" or "US" (heights in m or ft; drift ratio and acceleration are unitless or g);
+        inputs stay in SI.
     """
     height = axis_unit("height", units)
     levels = height(heights)
@@ -129,7 +132,7 @@ def storey_profiles(
     return fig
 
 
-def floor_spectra(periods: Sequence[float], spectra: Mapping[str, Sequence[float]], *, damping: float = 0.05) -> Figure:
+def floor_spectra(periods: ArrayLike, spectra: Mapping[str, ArrayLike], *, damping: float = 0.05) -> Figure:
     """Floor response spectra (e.g. roof, fixed base vs isolated).
 
     Parameters
@@ -223,7 +226,10 @@ def history_profiles(results: Mapping[str, Any], *, units: str = "SI") -> Figure
     peak base-slab acceleration (isolated), suite means. [g] ``units``: "SI" or
     "US", the display system of the heights.
     """
-    drifts, accelerations, levels = {}, {}, None
+    if not results:
+        raise ValueError(f"results = {dict(results)!r} is not allowed: must hold at least one case")
+    drifts, accelerations = {}, {}
+    levels = _levels(next(iter(results.values())))
     for case, result in results.items():
         peaks = result.peaks()
         levels = _levels(result)

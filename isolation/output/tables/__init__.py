@@ -21,15 +21,37 @@ generic builders), :mod:`~isolation.output.tables.results` (tables of a study's 
 :mod:`~isolation.output.tables.yielding` (comparison with the code-designed yielding fixed base).
 """
 
-from isolation.output.tables.results import (alternatives_table, bidirectional_table, bounds_table, code_quantities_table,
-                                      comparison_table, display_quantity, history_table, inputs_table,
-                                      pairs_table, suite_table, verdict_table)
-from isolation.output.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.output.tables.loss import loss_table, loss_text
+from isolation.output.tables.results import (
+                                      alternatives_table,
+                                      bidirectional_table,
+                                      bounds_table,
+                                      code_quantities_table,
+                                      comparison_table,
+                                      display_quantity,
+                                      history_table,
+                                      inputs_table,
+                                      pairs_table,
+                                      suite_table,
+                                      verdict_table,
+)
+from isolation.output.tables.summary import code_symbols, preferred_alternative, summary_table, summary_text
 from isolation.output.tables.symbols import latex_text, markdown_text
-from isolation.output.tables.yielding import damage_table, fixed_base_design_table, fixed_base_label, yielding_response_table
-from isolation.output.tables.table import (TYPST_MIME, Table, checks_table, escape_latex, format_number, in_study_units,
-                                    key_value_table)
+from isolation.output.tables.table import (
+                                      TYPST_MIME,
+                                      Table,
+                                      checks_table,
+                                      escape_latex,
+                                      format_number,
+                                      in_study_units,
+                                      key_value_table,
+)
+from isolation.output.tables.yielding import (
+                                      damage_table,
+                                      fixed_base_design_table,
+                                      fixed_base_label,
+                                      yielding_response_table,
+)
 
 __all__ = [
     "bidirectional_table",

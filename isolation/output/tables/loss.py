@@ -130,7 +130,8 @@ def loss_text(results: Any) -> str:
         f"Losses at {len(info['levels'])} intensities ({', '.join(f'{x:.2g}' for x in info['levels'])} x the "
         f"site spectrum), {settings.get('records', '?')} records each, {settings.get('samples', '?')} Monte Carlo "
         f"realisations per intensity (seed {settings.get('seed', '?')}); {settings.get('occupancy', '')} "
-        "occupancy, storey-based damage and repair data of FEMA's earthquake loss estimation technical manual (Multi-hazard Loss Estimation Methodology, MR5, 2010); "
+        "occupancy, storey-based damage and repair data of FEMA's earthquake loss estimation technical manual "
+        "(Multi-hazard Loss Estimation Methodology, MR5, 2010); "
         "irreparability from residual drift (FEMA P-58-1, 2012); collapse from the code's target collapse "
         "probability at MCE_R (ASCE/SEI 7-16 Commentary C.1.3.1b) and, for isolated buildings, isolator "
         "displacement (times the torsion factor of the code design) beyond the bearing capacity or the moat.",

@@ -52,7 +52,8 @@ def inputs_table(results: Any) -> Table:
             rows.append((label, site[key], unit))
     if site.get("long_period") is not None:
         rows.append(("T_L (long-period transition)", site["long_period"], "s"))
-    for key, label in (("site_class", "Site class"), ("ground_type", "Ground type"), ("spectrum_type", "Spectrum type")):
+    for key, label in (("site_class", "Site class"), ("ground_type", "Ground type"),
+                       ("spectrum_type", "Spectrum type")):
         if site.get(key) is not None:
             rows.append((label, site[key], ""))
     if site.get("spectrum_file"):
@@ -299,7 +300,8 @@ def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
         return None if value is None else _display(value, kind, system)[0]
 
     rows = (
-        (f"D_TM from the histories (largest bearing, suite mean) [{length}]", show(b["total_displacement_history"], "length")),
+        (f"D_TM from the histories (largest bearing, suite mean) [{length}]",
+         show(b["total_displacement_history"], "length")),
         (f"D_TM of the single-mode procedure [{length}]", show(b["total_displacement_code"], "length")),
         ("Lower limit on history results [x single-mode D_TM]", b["lower_limit_factor"]),
         (f"D_TM used by the verdict [{length}]", show(b["total_displacement_governing"], "length")),
@@ -313,7 +315,8 @@ def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
     law = (b.get("storeys") or {}).get("storey_law", "elastic")
     notes = (f"Plan model: {b['grid'][0]} x {b['grid'][1]} bearings, accidental eccentricity 5 % of the plan "
              f"dimensions, four sign combinations, lower and upper properties; storeys alike in both directions "
-             f"(assumption), storey law {law}, torsion elastic. Pairs matched by their {check['spectrum']} spectra: suite mean lowest "
+             f"(assumption), storey law {law}, torsion elastic. Pairs matched by their {check['spectrum']} spectra: "
+             f"suite mean lowest "
              f"{check['lowest_mean_ratio']:.3f} of the target, required {check['required_mean_ratio']:.2f}; "
              f"component correlation at most {max(abs(p['correlation']) for p in check['pairs']):.2f}.")
     return Table(columns=("Bidirectional response", "Value"), rows=rows,

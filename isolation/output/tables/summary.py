@@ -143,10 +143,10 @@ def summary_text(results: Any) -> str:
     alternatives = list(_part(results, "alternatives"))
     best = preferred_alternative(results)
     if best is None:
-        reasons = "; ".join(f"**{_name(a)}**: {_deciding(a)[0]['message']}" if _deciding(a) else f"**{_name(a)}**"
-                            for a in alternatives)
+        each = "; ".join(f"**{_name(a)}**: {_deciding(a)[0]['message']}" if _deciding(a) else f"**{_name(a)}**"
+                         for a in alternatives)
         sentences = [f"None of the {len(alternatives)} alternatives studied is recommended as designed.",
-                     f"The main reason against each: {reasons}."]
+                     f"The main reason against each: {each}."]
         return markdown_text(" ".join(sentences))
 
     outcome = _outcome(best)

@@ -50,7 +50,8 @@ _LATEX_SPECIALS = {
 }
 
 TYPST_MIME = "text/x-typst"
-"""Output type of Typst markup (a table or figure as a complete ``#figure``), read by :mod:`isolation.output.typeset`."""
+"""Output type of Typst markup (a table or figure as a complete ``#figure``), read by
+:mod:`isolation.output.typeset`."""
 
 _LABEL = re.compile(r"^[A-Za-z][A-Za-z0-9_-]*$")
 _TYPST_ALIGN = {"l": "left", "r": "right", "c": "center", "p": "left"}
@@ -126,7 +127,7 @@ class Table:
     align : str, optional
         One alignment letter per column: "l", "r", "c", or "p" for a text
         column that wraps (the "p" columns share the width left over);
-        default: first column left, the rest right.
+        default (empty): first column left, the rest right.
     digits : int
         Significant figures of numeric cells. [-]
     notes : str
@@ -149,7 +150,7 @@ class Table:
     columns: tuple[str, ...]
     rows: tuple[tuple[Any, ...], ...]
     caption: str = ""
-    align: str | None = None
+    align: str = ""
     digits: int = 3
     notes: str = ""
     label: str = ""

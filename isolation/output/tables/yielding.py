@@ -104,12 +104,15 @@ def yielding_response_table(alternative: Any, system: str = "SI") -> Table:
     ]
     return Table(columns=("Largest over the storeys",) + tuple(label for _, label in cases),
                  rows=tuple(rows), align="l" + "r" * len(cases),
-                 caption=f"Isolated building against the code-designed fixed-base building, {_part(alternative, 'name')}",
-                 notes="Suite means of the peaks, the largest storey or floor. Fixed base, code design: storeys yield at the design storey shear times the system "
+                 caption="Isolated building against the code-designed fixed-base building, "
+                         f"{_part(alternative, 'name')}",
+                 notes="Suite means of the peaks, the largest storey or floor. Fixed base, code design: storeys yield "
+                       "at the design storey shear times the system "
                        "overstrength (bilinear, P-delta). Isolated: the superstructure yields at its own design "
                        "shear V_s times the same overstrength. The elastic fixed base (unreduced, never yields) "
                        "is a second view only. Ductility: peak storey drift over yield drift; '--' where the "
-                       "storeys stay elastic or the quantity does not apply. Residual drift: at the end of each record.")
+                       "storeys stay elastic or the quantity does not apply. Residual drift: at the end of each "
+                       "record.")
 
 
 def damage_table(results: Any, alternative: Any) -> Table:

@@ -18,8 +18,14 @@ Modules: :mod:`~isolation.output.typeset.markup` (markdown and TeX math to Typst
 template ``report.typ``.
 """
 
-from isolation.output.typeset.document import (PAPER_SIZES, TEMPLATE_FILE, FontCoverageWarning, TypstDocument,
-                                        build_document, compile_pdf)
+from isolation.output.typeset.document import (
+    PAPER_SIZES,
+    TEMPLATE_FILE,
+    FontCoverageWarning,
+    TypstDocument,
+    build_document,
+    compile_pdf,
+)
 from isolation.output.typeset.markup import markdown_to_typst, tex_math
 
 __all__ = [

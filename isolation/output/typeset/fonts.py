@@ -42,6 +42,8 @@ def font_dirs() -> tuple[Path, ...]:
             module = importlib.import_module(name)
         except ImportError:
             continue
+        if module.__file__ is None:  # a namespace package has no folder of its own
+            continue
         folder = Path(module.__file__).resolve().parent
         if any(p.suffix.lower() in _FONT_SUFFIXES for p in folder.iterdir()):
             found.append(folder)
@@ -130,6 +132,7 @@ def replace_uncovered(text: str) -> tuple[str, list[str]]:
     if not missing:
         return text, []
     table = {ord(ch): f"(U+{ord(ch):04X})" for ch in missing}
-    notes = [f"U+{ord(ch):04X} {unicodedata.name(ch, 'control character' if unicodedata.category(ch) == 'Cc' else 'unnamed character')}"
+    notes = [f"U+{ord(ch):04X} "
+             f"{unicodedata.name(ch, 'control character' if unicodedata.category(ch) == 'Cc' else 'unnamed character')}"
              for ch in missing]
     return text.translate(table), notes

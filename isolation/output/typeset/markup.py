@@ -21,7 +21,7 @@ from __future__ import annotations
 
 import re
 from functools import lru_cache
-from typing import Iterable
+from typing import Iterable, Sequence
 
 from isolation.output.tables.symbols import escape_typst
 
@@ -271,11 +271,13 @@ class _Writer:
         return joined
 
     def table(self, token: dict) -> str:
-        head, rows, aligns = [], [], []
+        head: list[str] = []
+        rows: list[list[str]] = []
+        aligns: list[str] = []
         for part in token.get("children", []):
             if part["type"] == "table_head":
                 head = [self.cell(cell) for cell in part.get("children", [])]
-                aligns = [_ALIGN.get(cell.get("attrs", {}).get("align")) for cell in part.get("children", [])]
+                aligns = [_ALIGN.get(cell.get("attrs", {}).get("align"), "left") for cell in part.get("children", [])]
             elif part["type"] == "table_body":
                 for row in part.get("children", []):
                     rows.append([self.cell(cell) for cell in row.get("children", [])])
@@ -296,7 +298,7 @@ class _Writer:
         return self.inlines(cell.get("children", []))
 
     # inlines ----------------------------------------------------------------
-    def inlines(self, tokens: list[dict]) -> str:
+    def inlines(self, tokens: Sequence[dict]) -> str:
         return "".join(self.inline(token) for token in tokens)
 
     def inline(self, token: dict) -> str:
