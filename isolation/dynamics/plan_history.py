@@ -12,6 +12,17 @@ bearing yield displacement, so the converged step is the implicit Newmark
 step (unconditionally stable) and unidirectional input reproduces the
 planar engine (:mod:`isolation.dynamics.history`) to the same tolerance.
 
+Yielding storeys (:mod:`isolation.dynamics.plan_storeys`): the x and y
+springs at each storey's centre of rigidity carry their departure from the
+elastic force, ``p = s - k d``, as forces ``D p`` on the degrees of freedom
+(``u = u_lin - K_hat^-1 (P_b + D p)``), found by fixed-point iteration
+together with the bearing forces to 1e-10 of the largest storey strength
+(each pass changes ``p`` by about ``(omega dt)^2 / 4`` of the previous
+change, as in the planar engine); P-delta is part of the linear stiffness.
+The compiled loop iterates the storeys on the condensed drift equations
+inside the bearing iteration; the array loop iterates both at once; they
+agree to the tolerances.
+
 Axial loads: gravity (tributary share given with the building) plus the
 overturning moment of the superstructure's inertial forces at the isolation
 plane, distributed over the bearings as on a rigid base
@@ -20,8 +31,8 @@ step; optional vertical ground acceleration scales the gravity share by
 ``1 + a_v``.  Sliders carry no tension: while ``N <= 0`` a slider's force is
 zero (uplift is counted and reported).
 
-Energy: input, kinetic, damping, superstructure strain and bearing work,
-summed with the trapezoidal rule (exact for the average-acceleration
+Energy: input, kinetic, damping, superstructure strain, bearing work and the
+work of the storeys' departures, summed with the trapezoidal rule (exact for the average-acceleration
 scheme on the linear part); :attr:`PlanHistoryResult.energy_error`.
 """
 
