@@ -18,7 +18,7 @@ Return map of the element (exact for a piecewise-linear law):
 ``q = clip(q_n + k_p (d - d_n), -f_p, f_p)``.  Energy it dissipates up to
 a state: the work of the spring ``W = int s dd`` less the energy it stores,
 ``alpha k d^2 / 2 + q^2 / (2 k_p)`` (Chopra, Dynamics of Structures, 4th ed.,
-§7.9, energy dissipated by yielding; from memory).
+section 7.9, energy dissipated by yielding; from memory).
 """
 
 from __future__ import annotations
