@@ -280,6 +280,8 @@ def _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical):
     nd = m.shape[0]
     r = _influence(nd // 3)
     g = np.ascontiguousarray(np.tile(ground, (cases, 1, 1)))
+    if np.count_nonzero(m - np.diag(np.diag(m))):
+        raise ValueError("the compiled plan loop needs a diagonal mass matrix (lumped masses and inertias)")
     k_inv = np.linalg.inv(k + (2.0 / dt) * c + (4.0 / dt**2) * m)
     springs = storey_springs(structure, 1 if isolated else 0)
     ns = springs.drift_map.shape[1]

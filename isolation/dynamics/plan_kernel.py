@@ -200,8 +200,9 @@ def _plan_loop(dt, m, c, k_inv, mr, g, pos, heights, floor_mass, gravity, vert, 
                 tmp2[j] = c2 * u[j] + v[j]
             for j in range(nd):
                 s = -(mr[j, 0] * g0 + mr[j, 1] * g1)
+                s += m[j, j] * tmp[j]  # M is diagonal (lumped masses and inertias; checked by the caller)
                 for q in range(nd):
-                    s += m[j, q] * tmp[q] + c[j, q] * tmp2[q]
+                    s += c[j, q] * tmp2[q]
                 rhs[j] = s
             for j in range(nd):
                 s = 0.0
