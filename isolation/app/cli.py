@@ -50,6 +50,20 @@ def _parser() -> argparse.ArgumentParser:
     parser.add_argument("--version", action="version", version=f"isolation {__version__}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
 
+    _add_run(commands)
+    _add_check(commands)
+    _add_motions(commands)
+    _add_render(commands)
+    _add_demo(commands)
+    _add_explore(commands)
+    _add_records(commands)
+    commands.add_parser("batch", help="run many study variants (see: batch --help)", add_help=False,
+                        description="Run a batch of study variants.")
+    return parser
+
+
+def _add_run(commands) -> None:
+    """``run``: a study into a calculation record with its report."""
     run = commands.add_parser("run", help="run a study into a calculation record with its report",
                               description="Run a study file end to end: design, motion suite, "
                               "response histories, verdict, executed workbook and report, written "
@@ -69,12 +83,18 @@ def _parser() -> argparse.ArgumentParser:
                      help="override one study key, e.g. --set site.sms=1.2 or "
                           "--set 'alternative.0.bearings.0.radius=\"3 m\"' (TOML value)")
 
+
+def _add_check(commands) -> None:
+    """``check``: validate a study file only."""
     check = commands.add_parser("check", help="validate a study file only",
                                 description="Validate a study file and list every problem found.")
     check.add_argument("study", metavar="STUDY.toml", help="the study file")
     check.add_argument("--set", metavar="KEY=VALUE", action="append", default=[],
                        help="override one study key before checking (TOML value)")
 
+
+def _add_motions(commands) -> None:
+    """``motions``: generate and export the study's matched suite."""
     motions = commands.add_parser("motions", help="generate and export the study's matched motion suite",
                                   description="Generate the suite of spectrum-matched motions the "
                                   "study would use and export it to DIR.")
@@ -82,6 +102,9 @@ def _parser() -> argparse.ArgumentParser:
     motions.add_argument("--out", metavar="DIR", required=True, help="folder for the exported motions")
     motions.add_argument("--quick", action="store_true", help="small suite and short motions")
 
+
+def _add_render(commands) -> None:
+    """``render``: the report of an existing record."""
     render = commands.add_parser("render", help="write the report of an existing record",
                                  description="Render the report (PDF, or HTML without TeX) of a "
                                  "calculation record from its executed workbook.")
@@ -89,6 +112,9 @@ def _parser() -> argparse.ArgumentParser:
     render.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
     _engine_option(render)
 
+
+def _add_demo(commands) -> None:
+    """``demo``: the invented demo study into records/."""
     demo = commands.add_parser("demo", help="run the invented demo study into records/",
                                description="Run examples/demo_study.toml into records/ and print "
                                "where the report is and the verdict.")
@@ -96,6 +122,9 @@ def _parser() -> argparse.ArgumentParser:
     demo.add_argument("--paper", choices=("a4", "letter"), default="a4", help="paper size of the PDF")
     _engine_option(demo)
 
+
+def _add_explore(commands) -> None:
+    """``explore``: serve the live explorer."""
     explore = commands.add_parser("explore", help="serve the live explorer on 127.0.0.1 and print its URL",
                                   description="Serve the live explorer (bearing, site and building settings "
                                   "in, the code's answer out) as a stand-alone page with Voila on 127.0.0.1, "
@@ -103,6 +132,9 @@ def _parser() -> argparse.ArgumentParser:
     explore.add_argument("--port", type=int, default=None, metavar="N",
                          help="TCP port on 127.0.0.1 (default: a free one)")
 
+
+def _add_records(commands) -> None:
+    """``records``: list or remove stale partial records."""
     records = commands.add_parser(
         "records", help="list or remove stale partial records and leftover temporary folders",
         description="List what runs that ended without a record left behind under DIR: hidden "
@@ -111,10 +143,6 @@ def _parser() -> argparse.ArgumentParser:
                     "folders are marked failed. With --clean they are removed; records are never touched.")
     records.add_argument("--out", metavar="DIR", default="records", help="records folder (default: records)")
     records.add_argument("--clean", action="store_true", help="remove what is listed")
-
-    commands.add_parser("batch", help="run many study variants (see: batch --help)", add_help=False,
-                        description="Run a batch of study variants.")
-    return parser
 
 
 def _engine_option(parser: argparse.ArgumentParser) -> None:

@@ -6,7 +6,8 @@ loss estimation technical manual), its edition, the clause, what it covers as th
 uses it, whether its text was re-read from a published source for this table ("re-read",
 the note names the source) or not ("from memory"), and the files that cite it.
 :data:`CLAUSES` holds them all (rows in :mod:`isolation.codes.clause_rows`);
-:func:`find_clause` looks one up and :func:`clause_table` prints them for the report.
+:func:`find_clause` looks one up and :func:`isolation.output.tables.clause_table` prints them for the
+report (the output layer sits above the codes; ``clause_table`` is still answered here).
 
 Every citation in the package's strings, docstrings, comments and workbooks has a row
 here (``tests/codes/test_clauses.py`` reads them with
@@ -21,12 +22,11 @@ one against the governing code and its national annex.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Iterable
 
 from isolation.codes.citations import DEFAULT_EDITIONS, Citation
 from isolation.codes.clause_rows import ROWS
 
-__all__ = ["Clause", "CLAUSES", "STATUSES", "find_clause", "clause_table", "check_rows"]
+__all__ = ["Clause", "CLAUSES", "STATUSES", "find_clause", "check_rows"]
 
 STATUSES = ("re-read", "from memory")
 """Allowed :attr:`Clause.status` values."""
@@ -150,43 +150,6 @@ def _module_name(path: str) -> str:
     return path[:-3] if path.endswith(".py") else path
 
 
-def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-clauses"):
-    """The clause table as an :class:`isolation.tables.Table` for the report's appendix.
-
-    Parameters
-    ----------
-    clauses : iterable of Clause, optional
-        Rows to show; default: all of :data:`CLAUSES`.
-    label : str
-        Table label for cross-references. [-]
-
-    Returns
-    -------
-    isolation.tables.Table
-        Columns: code, clause, subject, status, used in; the notes list the texts re-read.
-    """
-    from isolation.tables import Table  # the table layer sits above the codes
-
-    rows = list(CLAUSES if clauses is None else clauses)
-    sources = sorted({c.note for c in rows if c.status == "re-read" and c.note})
-    memory = sum(c.status == "from memory" for c in rows)
-    notes = (f"{len(rows)} clauses; {len(rows) - memory} re-read from a published text for this table, {memory} "
-             "from memory (not re-read: check each against the governing code, its edition and national annex). "
-             "Texts read: " + " | ".join(sources) + ". Used in: package modules (folder/module) and workbooks. "
-             + _LONG
-             if sources else f"{len(rows)} clauses, all from memory (not re-read: check each against the "
-             "governing code, its edition and national annex). " + _LONG)
-    return Table(
-        columns=("Code", "Clause", "Subject", "Status", "Used in"),
-        rows=[(_short_name(c.document, c.edition), c.clause, c.title, c.status,
-               ", ".join(_module_name(p) for p in c.used_in)) for c in rows],
-        caption="Code clauses the tool uses, whether each was re-read for this table, and where it uses them",
-        align="llplp",
-        notes=notes,
-        label=label,
-    )
-
-
 def check_rows(root=None) -> list[str]:
     """What the clause rows miss against the package's citations, as lines to act on.
 
@@ -216,7 +179,18 @@ def check_rows(root=None) -> list[str]:
     return out
 
 
+def __getattr__(name: str):
+    """``clause_table`` moved to :mod:`isolation.output.tables.clauses` (the table layer sits above the
+    codes); the name is still answered here, loaded only when asked for."""
+    if name == "clause_table":
+        from isolation.output.tables.clauses import clause_table
+
+        return clause_table
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
+
 if __name__ == "__main__":  # python -m isolation.codes.clauses: what to change in clause_rows.py
     problems = check_rows()
     print("\n".join(problems) if problems else f"clause table complete: {len(CLAUSES)} rows")
     raise SystemExit(1 if problems else 0)
+

@@ -18,12 +18,10 @@ study; not an insurance estimate and not a cost plan.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
-from isolation.loss import costs as _costs
 from isolation.loss.consequences import occupancy as _occupancy
+from isolation.loss.economics import _premium, economics
 from isolation.loss.fragility import IRREPARABLE, collapse_fragility, collapse_probability_at_mce, component_fragilities
 from isolation.loss.hazard import DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard, rate_from_probability
 from isolation.loss.inputs import LossInputs
@@ -136,44 +134,41 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
     return hazard, {"basis": basis, "model": hazard.to_dict()}
 
 
-def fixed_base_building(study, spectrum=None):
+def fixed_base_building(study, spectrum, superstructure, period: float):
     """The fixed-base building whose losses isolation is compared with.
 
     The code-designed yielding building of :func:`isolation.performance.comparison.fixed_base_comparison`
     (storey strengths from the code's lateral force design times overstrength) unless the
     study asks for ``building.fixed_base_model = "elastic"``, then the elastic superstructure
-    of :func:`isolation.study.assembly.superstructure`. The one place to change the comparison
-    building of the loss study.
+    itself. The one place to change the comparison building of the loss study.
 
     Parameters
     ----------
     study : Study
-    spectrum : site spectrum, optional
-        Default: :func:`isolation.study.assembly.site_spectrum`. [g]
+    spectrum : site spectrum
+        The study's site spectrum (:func:`isolation.study.assembly.site_spectrum`). [g]
+    superstructure : ShearBuilding
+        The elastic fixed-base model (:func:`isolation.study.assembly.superstructure`). [t, kN/m, m]
+    period : float
+        Fixed-base period T_fb (:func:`isolation.study.assembly.fixed_base_period`). [s]
     """
-    from isolation.study.assembly import fixed_base_period, site_spectrum, superstructure
-
-    building = superstructure(study)
     if getattr(study.building, "fixed_base_model", "elastic") != "yielding":
-        return building
+        return superstructure
     from isolation.performance.comparison import fixed_base_comparison
 
-    spectrum = spectrum if spectrum is not None else site_spectrum(study)
-    return fixed_base_comparison(study, spectrum, building, fixed_base_period(study)[0]).building
+    return fixed_base_comparison(study, spectrum, superstructure, period).building
 
 
-def isolated_building(study, report):
+def isolated_building(study, report, superstructure):
     """Superstructure above the isolators of one alternative for the loss study: yielding at the
     strengths of its code design V_s (:func:`isolation.performance.comparison.isolated_superstructure`) unless the
-    study asks for an elastic comparison. ``report`` is the alternative's code report."""
-    from isolation.study.assembly import superstructure
-
-    building = superstructure(study)
+    study asks for an elastic comparison. ``report`` is the alternative's code report, ``superstructure``
+    the elastic model (:func:`isolation.study.assembly.superstructure`)."""
     if report is None or getattr(study.building, "fixed_base_model", "elastic") != "yielding":
-        return building
+        return superstructure
     from isolation.performance.comparison import isolated_superstructure
 
-    return isolated_superstructure(study, report, building)[0]
+    return isolated_superstructure(study, report, superstructure)[0]
 
 
 def _residual_drift_ratio(result, window: float | None = None) -> np.ndarray:
@@ -294,68 +289,8 @@ def case_loss(model: LossModel, demands: list, levels, hazard, *, samples: int, 
     return out
 
 
-def economics(fixed: dict, isolated: dict, premium: dict, cost) -> dict:
-    """Owner's economics of one alternative against the fixed base.
-
-    Parameters
-    ----------
-    fixed, isolated : dict
-        :func:`case_loss` results.
-    premium : dict
-        ``isolation_cost`` [currency], ``superstructure_saving`` [currency].
-    cost : CostInputs
-
-    Returns
-    -------
-    dict
-        ``net_premium`` [currency], ``annual_benefit`` [currency/year],
-        ``payback_years`` [year] (None when never), ``net_present_value``
-        [currency], and ``bands`` (p10/p50/p90 pairing the same percentile of
-        the fixed and isolated loss curves: an indication, not a confidence
-        interval).
-    """
-    net = premium["isolation_cost"] - premium["superstructure_saving"]
-
-    def figures(fixed_loss, iso_loss, fixed_days, iso_days):
-        benefit = (fixed_loss - iso_loss) + (fixed_days - iso_days) * cost.lost_use_per_day
-        payback = _costs.payback_years(benefit, net)
-        return {"annual_benefit": benefit,
-                "payback_years": None if math.isinf(payback) else payback,
-                "net_present_value": _costs.net_present_value(benefit, net, cost.discount_rate, cost.design_life)}
-
-    out = {"net_premium": net, **premium}
-    out.update(figures(fixed["expected_annual_loss"], isolated["expected_annual_loss"],
-                       fixed["expected_annual_downtime"], isolated["expected_annual_downtime"]))
-    out["bands"] = {}
-    for stat in ("p10", "p50", "p90"):
-        out["bands"][stat] = figures(fixed["expected_annual_loss_bands"][stat],
-                                     isolated["expected_annual_loss_bands"][stat],
-                                     fixed["expected_annual_downtime_bands"][stat],
-                                     isolated["expected_annual_downtime_bands"][stat])
-    return out
-
-
-def _premium(study, alternative, system, quantities, inputs: LossInputs, model: LossModel) -> dict:
-    b = study.building
-    groups = []
-    for spec in alternative.bearings:
-        props = spec.properties
-        capacity = props.get("displacement_capacity")
-        if capacity is None and "displacement_capacity_1" in props and "displacement_capacity_2" in props:
-            capacity = props["displacement_capacity_1"] + props["displacement_capacity_2"]
-        groups.append((spec.type, spec.count, capacity))
-    plan = b.plan_length * b.plan_width
-    perimeter = 2.0 * (b.plan_length + b.plan_width)
-    items = _costs.isolation_cost(groups, inputs.cost, plan, perimeter)
-    structural_cost = model.occupancy.structural_share * model.replacement_cost
-    ratio = float(quantities["shear_ratio"])
-    saving = _costs.superstructure_saving(inputs.cost, structural_cost, ratio)
-    return {"isolation_cost": items["total"], "isolation_cost_items": items, "superstructure_saving": saving,
-            "structural_cost": structural_cost, "design_shear_ratio": ratio}
-
-
 def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, inputs: LossInputs | None = None, *,
-             fixed_building=None) -> dict:
+             superstructure, fixed_building=None, fixed_base_period: float | None = None) -> dict:
     """Loss analysis of the fixed base and every alternative of a study.
 
     Parameters
@@ -373,9 +308,13 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         yielding superstructure, :func:`isolated_building`).
     inputs : LossInputs, optional
         Default: ``study.loss`` or all defaults.
+    superstructure : ShearBuilding
+        The elastic fixed-base model (:func:`isolation.study.assembly.superstructure`). [t, kN/m, m]
     fixed_building : ShearBuilding, optional
         The fixed-base comparison building the run already built; default
-        :func:`fixed_base_building`.
+        :func:`fixed_base_building` at ``fixed_base_period``.
+    fixed_base_period : float, optional
+        T_fb [s]; needed only without ``fixed_building``.
 
     Returns
     -------
@@ -391,9 +330,12 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
     levels = tuple(options.levels)
     acc = np.asarray(suite.acceleration, dtype=float)
     stacked = np.concatenate([level * acc for level in levels], axis=0)
-    fixed_building = fixed_building if fixed_building is not None else fixed_base_building(study, spectrum)
+    if fixed_building is None:
+        if fixed_base_period is None:
+            raise ValueError("fixed_base_period = None is not allowed without fixed_building: give T_fb [s] > 0")
+        fixed_building = fixed_base_building(study, spectrum, superstructure, fixed_base_period)
     results = run_cases(fixed_building, base_mass, {}, stacked, suite.dt, include_fixed=True)
-    supers = [isolated_building(study, item[4] if len(item) > 4 else None) for item in alternatives]
+    supers = [isolated_building(study, item[4] if len(item) > 4 else None, superstructure) for item in alternatives]
     if all(b == supers[0] for b in supers):  # one vectorised run for all alternatives
         if supers:
             isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}

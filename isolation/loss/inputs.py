@@ -96,7 +96,7 @@ def _money(t, key, default, *, kind=None):
     return (default, True) if value is None and key not in t.mapping else (value, False)
 
 
-def _cost(t) -> CostInputs | None:
+def _cost(t, bearing_kinds: tuple = ()) -> CostInputs | None:
     base = CostInputs()
     if t is None:
         return CostInputs(defaults=_COST_FIELDS)
@@ -129,9 +129,7 @@ def _cost(t) -> CostInputs | None:
     if table is None:
         defaults.append("bearing_cost")
     else:
-        from isolation.study.keys import BEARING_KEYS
-
-        for kind in (*BEARING_KEYS, "other"):
+        for kind in (*bearing_kinds, "other"):
             if kind not in table.mapping:
                 table.known.add(kind)
                 continue
@@ -236,8 +234,11 @@ def _options(t, basis: str = "asce7") -> LossOptions | None:
     return LossOptions(**values)
 
 
-def read_loss_tables(reader, basis: str = "asce7") -> LossInputs | None:
+def read_loss_tables(reader, basis: str = "asce7", bearing_kinds=None) -> LossInputs | None:
     """Read ``[cost]``, ``[hazard]`` and ``[loss]`` from a study's root reader.
+
+    ``bearing_kinds`` names the bearing types ``cost.bearing_cost`` may price (besides
+    ``"other"``); default: those of :data:`isolation.loss.costs.DEMO_BEARING_COST`.
 
     ``basis`` ("asce7" or "eurocode") fixes the design and top levels the
     intensity levels must span (2/3 and 1 x MCE_R, or 1 and 1.5 x the design action).
@@ -245,7 +246,8 @@ def read_loss_tables(reader, basis: str = "asce7") -> LossInputs | None:
     Problems go to the reader's shared problem list; returns None when any
     table failed.
     """
-    cost = _cost(reader.table("cost", required=False))
+    kinds = tuple(bearing_kinds) if bearing_kinds is not None else tuple(k for k in DEMO_BEARING_COST if k != "other")
+    cost = _cost(reader.table("cost", required=False), kinds)
     hazard = _hazard(reader.table("hazard", required=False))
     options = _options(reader.table("loss", required=False), basis)
     if cost is None or hazard is None or options is None:

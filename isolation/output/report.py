@@ -26,7 +26,6 @@ from __future__ import annotations
 import copy
 import datetime as _dt
 import os
-import re
 import shutil
 import subprocess
 import tempfile
@@ -36,6 +35,7 @@ from typing import Any, Mapping
 
 from isolation.errors import RunError
 from isolation.files import write_bytes_atomic
+from isolation.output.report_html import _SCOPE_HTML, _md_cell, _render_html  # noqa: F401 - its own module
 from isolation.validate import one_of
 
 __all__ = [
@@ -370,43 +370,3 @@ def _first_tex_error(build_dir: Path, stdout: str) -> str:
     return " / ".join(tail) or "no log"
 
 
-_SCOPE_HTML = (
-    "**Scope and cautions.** This report is a **feasibility study** made at concept stage to "
-    "judge whether seismic base isolation suits the building and site described. It is **not "
-    "a construction design** and must not be used for construction, procurement or permit "
-    "submission. Its numbers come from simplified models, invented or preliminary input and "
-    "the assumptions stated inside. Every number must be verified against the building code "
-    "in force at the site and by a **licensed structural engineer** before any decision relies on it."
-)
-
-
-def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
-    from nbconvert import HTMLExporter
-
-    labels = {
-        "project": "Project", "client": "Client", "date": "Date", "revision": "Revision",
-        "prepared_by": "Prepared by", "checked_by": "Checked by",
-    }
-    rows = "\n".join(
-        f"| {label} | {_md_cell(fields.get(key, ''))} |" for key, label in labels.items()
-    )
-    front = _nbformat().v4.new_markdown_cell(
-        f"# {_md_cell(fields['title'])}\n\n| | |\n|---|---|\n{rows}\n\n> {_SCOPE_HTML}\n"
-    )
-    nb.cells.insert(0, front)
-    _caption_figures_as_text(nb)
-    exporter = HTMLExporter(
-        template_name="lab",
-        exclude_input=True,
-        exclude_input_prompt=True,
-        exclude_output_prompt=True,
-        embed_images=True,
-    )
-    body, _ = exporter.from_notebook_node(nb, resources={"metadata": {"name": fields["title"]}})
-    html = target / "report.html"
-    write_bytes_atomic(html, body.encode("utf-8"))
-    return html
-
-
-def _md_cell(text: str) -> str:
-    return re.sub(r"([|\\*_`])", r"\\\1", str(text))

@@ -38,9 +38,9 @@ __all__ = ["FixedBaseComparison", "fixed_base_comparison", "isolated_superstruct
 
 def _frame(lateral_system: str) -> str:
     """Frame type of :data:`isolation.codes.asce7_fixed_base.FRAME_TYPES` for a study's lateral system."""
-    from isolation.study.assembly import _FRAMES
+    from isolation.codes.lateral_systems import FRAMES
 
-    return _FRAMES.get(lateral_system, "other")
+    return FRAMES.get(lateral_system, "other")
 
 
 @dataclass(frozen=True)

@@ -62,17 +62,22 @@ re-exports the public names of the others.
 
 from __future__ import annotations
 
-import copy
-import re
-import tomllib
 from pathlib import Path
 from typing import Any, Mapping
 
 from isolation.errors import InputError
-from isolation.files import read_input_text
 from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site, Study, StudyError
 from isolation.study.keys import BEARING_KEYS, Problems, Reader
+from isolation.study.overrides import _own, apply_overrides, overlay  # noqa: F401 - re-exported
 from isolation.study.sections import LATERAL_SYSTEMS, _alternatives, _analysis, _basis, _building, _project, _site
+from isolation.study.toml_text import (  # noqa: F401 - re-exported
+    NESTING_LIMIT,
+    STUDY_LIMIT,
+    _bracket_depth,
+    _nesting,
+    parse_toml,
+    read_study_mapping,
+)
 
 __all__ = [
     "Study",
@@ -98,96 +103,6 @@ __all__ = [
 # --------------------------------------------------------------------------
 # Loading
 # --------------------------------------------------------------------------
-def read_study_mapping(path: str | Path) -> dict:
-    """Read a study file's TOML into a plain mapping (no validation).
-
-    Raises :class:`StudyError` for a missing file or malformed TOML.
-    """
-    path = Path(path)
-    if not path.exists():
-        raise StudyError([f"study file {str(path)!r} does not exist"])
-    try:
-        text = read_input_text(path, what="study file", limit=STUDY_LIMIT)
-    except InputError as error:
-        raise StudyError([str(error)]) from None
-    return parse_toml(text, str(path), StudyError)
-
-
-STUDY_LIMIT = 1_000_000
-"""Largest study file read [bytes]; a study is a few kilobytes."""
-
-NESTING_LIMIT = 12
-"""Deepest nesting of tables and lists accepted in a study or batch file [levels]; a study
-needs 4 (alternative, bearings, a table, a list)."""
-
-
-def parse_toml(text: str, source: str, error_class=InputError) -> dict:
-    """Parse TOML text, refusing malformed TOML and absurd nesting with one clear error.
-
-    Parameters
-    ----------
-    text : str
-        The file's text.
-    source : str
-        The file's name for messages.
-    error_class : type
-        :class:`StudyError` (problems list) or :class:`InputError` (a message).
-    """
-    def fail(message: str):
-        return error_class([message], source=source) if error_class is StudyError else \
-            error_class(f"{source}: {message}")
-
-    depth = _bracket_depth(text)
-    if depth > 200:  # a quick bound before parsing: the parser recurses once per level
-        raise fail(f"nesting {depth} levels deep is not allowed: tables and lists may nest at most "
-                   f"{NESTING_LIMIT} levels")
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise fail(f"not valid TOML: {error}") from None
-    except RecursionError:
-        raise fail(f"nesting too deep is not allowed: tables and lists may nest at most "
-                   f"{NESTING_LIMIT} levels") from None
-    depth = _nesting(data)
-    if depth > NESTING_LIMIT:
-        raise fail(f"nesting {depth} levels deep is not allowed: tables and lists may nest at most "
-                   f"{NESTING_LIMIT} levels")
-    return data
-
-
-def _bracket_depth(text: str) -> int:
-    """Deepest run of open brackets and braces outside strings (a quick bound, before parsing)."""
-    deepest = level = 0
-    quote = None
-    for char in text:
-        if quote:
-            if char == quote or char == "\n":
-                quote = None
-            continue
-        if char == "#":
-            quote = "\n"  # a comment, to the end of the line
-        elif char in "\"'":
-            quote = char
-        elif char == "\n":
-            quote = None
-        elif char in "[{":
-            level += 1
-            deepest = max(deepest, level)
-        elif char in "]}":
-            level = max(0, level - 1)
-    return deepest
-
-
-def _nesting(value: Any) -> int:
-    deepest, stack = 0, [(value, 0)]
-    while stack:
-        item, level = stack.pop()
-        deepest = max(deepest, level)
-        if isinstance(item, Mapping):
-            stack.extend((v, level + 1) for v in item.values())
-        elif isinstance(item, list):
-            stack.extend((v, level + 1) for v in item)
-    return deepest
 
 
 def load_study(path: str | Path, overrides: Mapping[str, Any] | None = None) -> Study:
@@ -316,7 +231,7 @@ def _loss_tables(mapping, reader, problems, basis: str, system: str, cache: dict
         problems.items.extend(found)
         return result
     local = Problems()
-    result = read_loss_tables(Reader(part, "", local, system), basis)
+    result = read_loss_tables(Reader(part, "", local, system), basis, bearing_kinds=tuple(BEARING_KEYS))
     if cache is not None and memo is not None:
         cache[memo] = (result, tuple(local.items))
     problems.items.extend(local.items)
@@ -379,76 +294,8 @@ def parse_variants(base: Mapping[str, Any], variants, source: str = "<study>", *
             yield error
 
 
-def _own(node: Any, copied: bool) -> Any:
-    """A table or list on an override's path: copied once (shallow) unless already a deep copy."""
-    if copied:
-        return node
-    if isinstance(node, dict):
-        return dict(node)
-    if isinstance(node, list):
-        return list(node)
-    return node
-
-
 # --------------------------------------------------------------------------
 # Overrides
 # --------------------------------------------------------------------------
-def overlay(mapping: Mapping[str, Any], overrides: Mapping[str, Any]) -> dict:
-    """Like :func:`apply_overrides`, but tables and lists off the overridden paths are shared
-    with ``mapping``, not copied: quick for many variants; treat the result as read-only."""
-    return apply_overrides(mapping, overrides, _copy=False)
 
-
-def apply_overrides(mapping: Mapping[str, Any], overrides: Mapping[str, Any], *, _copy: bool = True) -> dict:
-    """Return a copy of a study mapping with dotted-key overrides applied.
-
-    Parameters
-    ----------
-    mapping : mapping
-        Parsed study TOML (not changed).
-    overrides : mapping
-        ``{"site.sms": 1.2, "alternative.0.bearings.0.radius": "3 m"}``: dots
-        separate keys, whole numbers index arrays of tables (from 0). A
-        missing last key is added (validation then judges it); a missing
-        table on the way is created.
-
-    Raises
-    ------
-    InputError
-        When a path is malformed, indexes past an array's end or runs through
-        a value that is not a table.
-    """
-    result = copy.deepcopy(dict(mapping)) if _copy else dict(mapping)
-    for given, value in overrides.items():
-        path = re.sub(r"\[(\d+)\]", r".\1", given) if isinstance(given, str) else given
-        if not isinstance(path, str) or not path or any(not part for part in path.split(".")):
-            raise InputError(f"override key {path!r} is not allowed: must be a dotted key path "
-                             "such as 'site.sms' or 'alternative.0.bearings.0.radius'")
-        parts = path.split(".")
-        node: Any = result
-        for depth, part in enumerate(parts):
-            last = depth == len(parts) - 1
-            where = ".".join(parts[:depth + 1])
-            if isinstance(node, list):
-                if not part.isdigit() or int(part) >= len(node):
-                    raise InputError(f"override {path!r}: {where!r} is not allowed: must index the array "
-                                     f"with a whole number from 0 to {len(node) - 1}")
-                if last:
-                    node[int(part)] = value
-                else:
-                    child = node[int(part)] = _own(node[int(part)], _copy)
-                    node = child
-            elif isinstance(node, dict):
-                if last:
-                    node[part] = value
-                elif part not in node:
-                    node[part] = {}
-                    node = node[part]
-                else:
-                    child = node[part] = _own(node[part], _copy)
-                    node = child
-            else:
-                raise InputError(f"override {path!r} is not allowed: "
-                                 f"{'.'.join(parts[:depth])!r} is a value, not a table")
-    return result
 

@@ -13,9 +13,13 @@ each isolation alternative:
    same superstructure on a fixed base alongside;
 4. collects the numbers of :class:`isolation.verdict.Figures` and the verdict.
 
-The result, :class:`StudyResults`, holds plain JSON-ready mappings
-(``to_dict()`` / :func:`load_results`) and, for figures in the workbook, the
-live objects of the run in ``StudyResults.live`` (not serialised). The model
+The design step is :func:`isolation.study.stages.design_study` (shared with
+the direct sweep); the stages travel as typed objects
+(:mod:`isolation.study.stages`). The result, :class:`StudyResults`
+(:mod:`isolation.study.results`, re-exported here), holds plain JSON-ready
+mappings (``to_dict()`` / :func:`load_results`) and, for figures in the
+workbook, the live objects of the run in ``StudyResults.live`` (not
+serialised). The model
 building blocks (:func:`site_spectrum`, :func:`isolation_system`,
 :func:`fixed_base_period`, :func:`superstructure`, :func:`check_study`) live
 in :mod:`isolation.study.assembly` and are re-exported here.
@@ -27,21 +31,20 @@ checks every value against the governing local code.
 from __future__ import annotations
 
 import dataclasses
-import json
+import functools
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Mapping
+from typing import Any
 
 import numpy as np
 
 from isolation import GRAVITY, __version__
 from isolation import verdict as _verdict
 from isolation.errors import RunError
-from isolation.files import write_text_atomic
 from isolation.plain import plain
 from isolation.study import Study
-from isolation.study.assembly import (
+from isolation.study.assembly import (  # noqa: F401 - importable here before
     EUROCODE_SPECTRUM_NOTE,
     check_study,
     design_alternative,
@@ -54,116 +57,15 @@ from isolation.study.assembly import (
     verdict_figures,
 )
 from isolation.study.plan import bidirectional_summary, fixed_base_summary, with_bidirectional
+from isolation.study.results import SCOPE, AlternativeResults, StudyResults, load_results
+from isolation.study.stages import AlternativeDesign, HistorySummary, StudyDesign, alternative_figures, design_study
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
-           "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE"]
-
-SCOPE = ("Feasibility study of seismic base isolation, not construction design. Results rest on "
-         "simplified models and code procedures quoted partly from memory; verify against the "
-         "governing local code with a licensed structural engineer.")
+           "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE",
+           "design_study", "suite_options"]
 
 QUICK = {"count": 3, "duration": 10.0, "control_points": 30, "max_iterations": 8}
 """Suite settings of a quick run (tests and trials only, not for reports)."""
-
-
-@dataclass(frozen=True)
-class AlternativeResults:
-    """Results of one alternative, as plain mappings.
-
-    ``quantities`` holds the key numbers by name (SI: m, s, kN, -): displacement
-    (D_M or d_dc), total_displacement (D_TM or d_d), period_lower,
-    period_upper, damping_lower, damping_upper, isolation_shear (V_b),
-    superstructure_shear (V_s), fixed_base_shear, shear_ratio,
-    characteristic_strength, displacement_capacity, moat. ``bounds`` maps
-    lower/nominal/upper to the equivalent-linear results; ``report`` is the
-    code report; ``checks`` the bearing checks at the total displacement;
-    ``history`` the suite statistics per case and a summary; ``figures`` and
-    ``verdict`` the verdict's inputs and outcome; ``loss`` the loss study
-    (:func:`isolation.loss.run_loss`: ``expected_annual_loss``,
-    ``expected_loss_mce``, ... in the study's currency, and ``economics``),
-    empty when the loss study did not run.
-    """
-
-    name: str
-    system: dict
-    bounds: dict
-    report: dict
-    quantities: dict
-    checks: list
-    history: dict
-    figures: dict
-    verdict: dict
-    loss: dict = field(default_factory=dict)
-
-    @property
-    def outcome(self) -> str:
-        """"feasible", "feasible with conditions" or "not recommended"."""
-        return self.verdict["outcome"]
-
-    def to_dict(self) -> dict:
-        return plain({k: getattr(self, k) for k in self.__dataclass_fields__})
-
-
-@dataclass(frozen=True)
-class StudyResults:
-    """Everything a study run found; ``to_dict()`` is plain JSON.
-
-    ``study`` is the validated study (:meth:`Study.to_dict`), ``spectrum`` the
-    site spectrum with a sampled curve and a ``note`` stating any assumption on
-    it (empty when none), ``fixed_base`` the fixed-base model
-    and shear, ``suite`` the matched suite's settings and tolerance report,
-    ``alternatives`` one :class:`AlternativeResults` each, ``run`` version,
-    quick flag and timings [s]. ``loss`` holds the loss study's levels,
-    hazard, currency, inputs, settings and cautions (the per-case figures are
-    in ``fixed_base["loss"]`` and each alternative's ``loss``; empty when the
-    loss study did not run). ``live`` keeps the run's objects (spectrum,
-    suite, history results, systems, reports) for figures; it is None after
-    :func:`load_results`.
-    """
-
-    study: dict
-    spectrum: dict
-    fixed_base: dict
-    suite: dict
-    alternatives: tuple
-    run: dict
-    scope: str = SCOPE
-    loss: dict = field(default_factory=dict)
-    live: Any = field(default=None, compare=False, repr=False)
-
-    @property
-    def verdicts(self) -> list:
-        """One :class:`isolation.verdict.Verdict` per alternative."""
-        return [_verdict.Verdict.from_dict(a.verdict) for a in self.alternatives]
-
-    def alternative(self, name: str) -> AlternativeResults:
-        """Results of the alternative called ``name``."""
-        for result in self.alternatives:
-            if result.name == name:
-                return result
-        raise KeyError(f"alternative = {name!r} is not in the results")
-
-    def to_dict(self) -> dict:
-        data = {k: getattr(self, k) for k in ("study", "spectrum", "fixed_base", "suite", "run", "scope", "loss")}
-        data["alternatives"] = [a.to_dict() for a in self.alternatives]
-        return plain(data)
-
-    @classmethod
-    def from_dict(cls, mapping: Mapping[str, Any]) -> "StudyResults":
-        alternatives = tuple(AlternativeResults(**a) for a in mapping["alternatives"])
-        return cls(study=mapping["study"], spectrum=mapping["spectrum"], fixed_base=mapping["fixed_base"],
-                   suite=mapping["suite"], alternatives=alternatives, run=mapping["run"],
-                   scope=mapping.get("scope", SCOPE), loss=mapping.get("loss", {}))
-
-    def save(self, path: str | Path) -> Path:
-        """Write ``to_dict()`` as JSON (via a temporary file and a rename)."""
-        path = Path(path)
-        return write_text_atomic(path, json.dumps(self.to_dict(), indent=1, allow_nan=False))
-
-
-def load_results(path: str | Path) -> StudyResults:
-    """Read results written by :meth:`StudyResults.save`."""
-    return StudyResults.from_dict(json.loads(Path(path).read_text(encoding="utf-8")))
 
 
 _history_isolator = history_isolator  # the earlier private name, kept importable
@@ -225,6 +127,38 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     return options, note
 
 
+@dataclass(frozen=True)
+class _SharedRuns:
+    """What every alternative of a run shares: the superstructure, the code-designed fixed base, the
+    matched suite (and pairs), the fixed-base histories and their indicators."""
+
+    structure: Any
+    comparison: Any
+    thresholds: Any
+    suite: Any
+    suite_note: str
+    pairs: Any
+    fixed: Any
+    fixed_elastic: Any
+    indicators: dict
+    base_mass: float
+    fixed_plan: Any = None
+
+    @functools.cached_property
+    def fixed_statistics(self) -> dict:
+        """Suite statistics of the fixed-base histories (computed once)."""
+        return self.fixed.statistics()
+
+
+@dataclass(frozen=True)
+class _Judged:
+    """One alternative after its histories and verdict."""
+
+    results: AlternativeResults
+    histories: dict
+    loss_case: tuple
+
+
 def run_study(study: Study, *, quick: bool = False, progress: bool = False,
               loss: bool | None = None) -> StudyResults:
     """Run every alternative of a study and judge it.
@@ -252,162 +186,186 @@ def run_study(study: Study, *, quick: bool = False, progress: bool = False,
         When a step fails for a valid study (no convergence, a model the
         engine refuses, ...); the message names the alternative and the step.
     """
-    from isolation.dynamics.history import run as run_history
-    from isolation.dynamics.history import run_cases
-
     started = time.perf_counter()
     timings: dict[str, float] = {}
-    b = study.building
-    spectrum = site_spectrum(study)
-    t_fb, t_fb_source = fixed_base_period(study)
-    weight = b.total_weight
-    designs = []
-    for alternative in study.alternatives:
-        step = f"alternative {alternative.name!r}: design"
-        try:
-            system = isolation_system(alternative)
-            sets = system.property_sets(weight)
-            report, quantities, permitted, reasons = design_alternative(study, sets, system, spectrum, t_fb)
-            checks = system.checks(quantities["total_displacement"])
-        except (ValueError, RunError) as error:
-            raise RunError(f"{step} failed: {' '.join(str(error).split())}") from error
-        designs.append((alternative, system, sets, report, quantities, permitted, reasons, checks))
+    design = design_study(study)
     timings["design"] = time.perf_counter() - started
+    mark = time.perf_counter()
+    shared = _shared_runs(study, design, quick, progress)
+    timings["suite"] = time.perf_counter() - mark
+    mark = time.perf_counter()
+    judged = [_judge_alternative(study, design, alternative, shared) for alternative in design.alternatives]
+    timings["histories"] = time.perf_counter() - mark
+    results = [j.results for j in judged]
+    loss_results: dict = {}
+    if _wants_loss(study, loss):
+        mark = time.perf_counter()
+        loss_results = _loss_step(study, design, shared, [j.loss_case for j in judged])
+        results = [dataclasses.replace(r, loss=plain(loss_results["alternatives"][r.name])) for r in results]
+        timings["loss"] = time.perf_counter() - mark
+    timings["total"] = time.perf_counter() - started
+    live_histories = {"fixed": shared.fixed, "fixed_elastic": shared.fixed_elastic}
+    live_histories.update({j.results.name: j.histories for j in judged})
+    return _collect(study, design, shared, results, live_histories, loss_results, timings, quick)
 
-    upper_periods = [d[3].bounds.results["upper"].period for d in designs]
-    lower_periods = [d[3].bounds.results["lower"].period for d in designs]
+
+def _shared_runs(study: Study, design: StudyDesign, quick: bool, progress: bool) -> _SharedRuns:
+    """Superstructure, code-designed fixed base, matched suite (and pairs) and fixed-base histories."""
+    from isolation.dynamics.history import run as run_history
+    from isolation.performance.comparison import fixed_base_comparison, response_indicators, thresholds_of
+
     structure = superstructure(study)
     check_study(study)
-    from isolation.performance.comparison import (
-        comparison_summary,
-        fixed_base_comparison,
-        isolated_superstructure,
-        response_indicators,
-        thresholds_of,
-    )
     try:
-        comparison = fixed_base_comparison(study, spectrum, structure, t_fb)
+        comparison = fixed_base_comparison(study, design.spectrum, structure, design.fixed_base_period)
     except ValueError as error:
         raise RunError(f"fixed-base code design failed: {' '.join(str(error).split())}") from error
     thresholds = thresholds_of(study)
-    mark = time.perf_counter()
+    periods = design.period_range
     try:
-        suite, suite_note = _suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
+        suite, suite_note = _suite(study, design.spectrum, periods, quick, progress)
         fixed = run_history(comparison.building, suite.acceleration, suite.dt)
         fixed_elastic = run_history(structure, suite.acceleration, suite.dt) if comparison.yielding else fixed
-        pairs = (_pair_suite(study, spectrum, (min(upper_periods), max(lower_periods)), quick, progress)
+        pairs = (_pair_suite(study, design.spectrum, periods, quick, progress)
                  if study.analysis.bidirectional else None)
         fixed_plan = fixed_base_summary(study, comparison.building, pairs) if pairs is not None else None
     except (ValueError, RuntimeError) as error:
         raise RunError(f"motion suite / fixed-base history failed: {' '.join(str(error).split())}") from error
-    timings["suite"] = time.perf_counter() - mark
-    fixed_stats = fixed.statistics()
-    fixed_indicators = {
+    indicators = {
         "fixed": response_indicators(fixed, comparison.design.yield_shears if comparison.yielding else None,
                                      thresholds),
         "fixed_elastic": response_indicators(fixed_elastic, None, thresholds)}
-    base_mass = b.base_weight / GRAVITY
+    return _SharedRuns(structure=structure, comparison=comparison, thresholds=thresholds, suite=suite,
+                       suite_note=suite_note, pairs=pairs, fixed=fixed, fixed_elastic=fixed_elastic,
+                       indicators=indicators, base_mass=study.building.base_weight / GRAVITY, fixed_plan=fixed_plan)
 
-    mark = time.perf_counter()
-    results, live_histories, live_reports = [], {"fixed": fixed, "fixed_elastic": fixed_elastic}, {}
-    loss_cases = []
-    for alternative, system, sets, report, quantities, permitted, reasons, checks in designs:
-        bounds = report.bounds.results
-        isolators = {case: _history_isolator(sets[case], bounds[case], system, case)
-                     for case in ("lower", "upper")}
-        try:
-            above, isolated_design = isolated_superstructure(study, report, structure)
-            histories = run_cases(above, base_mass, isolators, suite.acceleration, suite.dt,
-                                  include_fixed=False)
-        except (ValueError, RunError) as error:
-            raise RunError(f"alternative {alternative.name!r}: response history failed: "
-                           f"{' '.join(str(error).split())}") from error
-        stats = {case: h.statistics() for case, h in histories.items()}
-        torsion = quantities["total_displacement"] / quantities["displacement"]
-        summary = _history_summary(stats, fixed_stats, torsion)
-        strengths = isolated_design.yield_shears if comparison.yielding else None
-        indicators = dict(fixed_indicators)
-        indicators.update({case: response_indicators(h, strengths, thresholds) for case, h in histories.items()})
-        summary.update(comparison_summary(indicators, comparison.design, isolated_design))
-        lower_set = sets["lower"]
-        strength = getattr(lower_set, "characteristic_strength", None)
-        if strength is None:
-            strength = _history_isolator(lower_set, bounds["lower"]).characteristic_strength
-        quantities = dict(quantities)
-        quantities.update(
-            period_lower=bounds["lower"].period, period_upper=bounds["upper"].period,
-            damping_lower=bounds["lower"].damping, damping_upper=bounds["upper"].damping,
-            characteristic_strength=float(strength), displacement_capacity=system.displacement_capacity,
-            moat=alternative.moat, fixed_base_period=t_fb)
-        figures = verdict_figures(study, spectrum, alternative, quantities, summary, report, permitted, reasons,
-                           checks, bounds, t_fb)
-        bidirectional = None
-        if pairs is not None:
-            try:
-                bidirectional = bidirectional_summary(study, alternative, system, above, base_mass, pairs,
-                                                      quantities["total_displacement"], quantities["displacement"],
-                                                      fixed_base=fixed_plan)
-            except (ValueError, RuntimeError) as error:
-                raise RunError(f"alternative {alternative.name!r}: bidirectional history failed: "
-                               f"{' '.join(str(error).split())}") from error
-            figures = with_bidirectional(figures, bidirectional)
-        judged = _verdict.assess(figures)
-        results.append(AlternativeResults(
-            name=alternative.name, system=plain(system), bounds=plain(bounds), report=plain(report),
-            quantities=plain(quantities), checks=plain(checks),
-            history={"statistics": plain(stats), "summary": plain(summary), "indicators": plain(indicators),
-                     "isolated_design": plain(isolated_design),
-                     "model": "lower and upper property sets; " + (
-                         "bilinear backbones" if all(isolators[c] is sets[c] for c in isolators)
-                         else "equivalent bilinear at the design displacement"),
-                     "bidirectional": plain(bidirectional)},
-            figures=plain(figures), verdict=plain(judged)))
-        live_histories[alternative.name] = histories
-        live_reports[alternative.name] = (system, sets, report)
-        loss_cases.append((alternative, system, _history_isolator(sets["nominal"], bounds["nominal"], system,
-                                                                   "nominal"), quantities, report))
-    timings["histories"] = time.perf_counter() - mark
-    loss_results = {}
+
+def _isolated_histories(study: Study, design: AlternativeDesign, shared: _SharedRuns, isolators: dict):
+    """Lower- and upper-bound histories of the isolated building, its storey design and its superstructure."""
+    from isolation.dynamics.history import run_cases
+    from isolation.performance.comparison import isolated_superstructure
+
+    try:
+        above, isolated_design = isolated_superstructure(study, design.report, shared.structure)
+        histories = run_cases(above, shared.base_mass, isolators, shared.suite.acceleration, shared.suite.dt,
+                              include_fixed=False)
+    except (ValueError, RunError) as error:
+        raise RunError(f"alternative {design.name!r}: response history failed: "
+                       f"{' '.join(str(error).split())}") from error
+    return histories, isolated_design, above
+
+
+def _bidirectional(study: Study, design: AlternativeDesign, shared: _SharedRuns, above):
+    """The plan model's summary under the matched pairs (None when the study does not ask for it).
+
+    ``above`` is the superstructure with the isolated design's storey strengths (yielding unless the
+    study asks for elastic), given to the plan model in x and y; the plan fixed base of the shared
+    runs is copied in."""
+    if shared.pairs is None:
+        return None
+    q = design.quantities
+    if q.total_displacement is None or q.displacement is None:
+        raise RunError(f"alternative {design.name!r}: bidirectional history needs the code report's maximum and "
+                       "total displacement, which it does not give")
+    try:
+        return bidirectional_summary(study, design.alternative, design.system, above, shared.base_mass,
+                                     shared.pairs, q.total_displacement, q.displacement,
+                                     fixed_base=shared.fixed_plan)
+    except (ValueError, RuntimeError) as error:
+        raise RunError(f"alternative {design.name!r}: bidirectional history failed: "
+                       f"{' '.join(str(error).split())}") from error
+
+
+def _judge_alternative(study: Study, study_design: StudyDesign, design: AlternativeDesign,
+                       shared: _SharedRuns) -> _Judged:
+    """Histories, summary, verdict figures and verdict of one designed alternative."""
+    from isolation.performance.comparison import comparison_summary, response_indicators
+
+    isolators = design.history_isolators()
+    histories, isolated_design, above = _isolated_histories(study, design, shared, isolators)
+    stats = {case: h.statistics() for case, h in histories.items()}
+    strengths = isolated_design.yield_shears if shared.comparison.yielding else None
+    indicators = dict(shared.indicators)
+    indicators.update({case: response_indicators(h, strengths, shared.thresholds) for case, h in histories.items()})
+    summary = HistorySummary.from_statistics(
+        stats, shared.fixed_statistics, design.quantities.torsion_factor,
+        comparison_summary(indicators, shared.comparison.design, isolated_design))
+    figures = alternative_figures(study, study_design.spectrum, design, summary)
+    bidirectional = _bidirectional(study, design, shared, above)
+    if bidirectional is not None:
+        figures = with_bidirectional(figures, bidirectional)
+    judged = _verdict.assess(figures)
+    bilinear = all(isolators[c] is design.sets[c] for c in isolators)
+    results = AlternativeResults(
+        name=design.name, system=plain(design.system), bounds=plain(design.bounds), report=plain(design.report),
+        quantities=design.quantities.to_dict(), checks=plain(design.checks),
+        history={"statistics": plain(stats), "summary": summary.to_dict(), "indicators": plain(indicators),
+                 "isolated_design": plain(isolated_design),
+                 "model": "lower and upper property sets; " + (
+                     "bilinear backbones" if bilinear else "equivalent bilinear at the design displacement"),
+                 "bidirectional": plain(bidirectional)},
+        figures=plain(figures), verdict=plain(judged))
+    nominal = design.history_isolators(("nominal",))["nominal"]
+    loss_case = (design.alternative, design.system, nominal, design.quantities.to_dict(), design.report)
+    return _Judged(results=results, histories=histories, loss_case=loss_case)
+
+
+def _wants_loss(study: Study, loss: bool | None) -> bool:
+    """Whether the loss study runs: ``loss`` when given, else the study's ``loss.enabled``."""
     inputs = getattr(study, "loss", None)
-    if loss if loss is not None else (inputs is None or inputs.options.enabled):
-        from isolation.loss import run_loss
+    return loss if loss is not None else (inputs is None or inputs.options.enabled)
 
-        mark = time.perf_counter()
-        try:
-            loss_results = run_loss(study, spectrum, suite, base_mass, loss_cases, inputs,
-                                    fixed_building=comparison.building)
-        except (ValueError, RunError) as error:
-            raise RunError(f"loss study failed: {' '.join(str(error).split())}") from error
-        results = [dataclasses.replace(r, loss=plain(loss_results["alternatives"][r.name])) for r in results]
-        timings["loss"] = time.perf_counter() - mark
-    timings["total"] = time.perf_counter() - started
 
+def _loss_step(study: Study, design: StudyDesign, shared: _SharedRuns, cases: list) -> dict:
+    """The loss study over the run's suite (:func:`isolation.loss.run_loss`)."""
+    from isolation.loss import run_loss
+
+    try:
+        return run_loss(study, design.spectrum, shared.suite, shared.base_mass, cases, getattr(study, "loss", None),
+                        fixed_building=shared.comparison.building, superstructure=shared.structure)
+    except (ValueError, RunError) as error:
+        raise RunError(f"loss study failed: {' '.join(str(error).split())}") from error
+
+
+def _spectrum_part(study: Study, spectrum) -> dict:
+    """``results.json`` ``spectrum``: definition, a sampled curve (5 % damping) [s, g], rule and note."""
     curve_low, curve_high = spectrum.period_range
     curve = np.geomspace(max(curve_low, 0.02), min(curve_high, 10.0), 120)
-    suite_data = suite.to_dict()
-    suite_data["check"] = plain(suite.check())
-    suite_data["quick"] = quick
-    suite_data["note"] = suite_note
-    if pairs is not None:
-        suite_data["pairs"] = plain(pairs.to_dict())
     extended = study.basis == "eurocode" and not study.site.spectrum_periods
-    spectrum_note = EUROCODE_SPECTRUM_NOTE if extended else ""
+    return {"definition": plain(spectrum), "periods": curve.tolist(),
+            "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
+            "note": EUROCODE_SPECTRUM_NOTE if extended else ""}
+
+
+def _suite_part(shared: _SharedRuns, quick: bool) -> dict:
+    """``results.json`` ``suite``: the suite's settings, tolerance report, note and pairs."""
+    suite_data = shared.suite.to_dict()
+    suite_data["check"] = plain(shared.suite.check())
+    suite_data["quick"] = quick
+    suite_data["note"] = shared.suite_note
+    if shared.pairs is not None:
+        suite_data["pairs"] = plain(shared.pairs.to_dict())
+    return plain(suite_data)
+
+
+def _collect(study: Study, design: StudyDesign, shared: _SharedRuns, results: list, live_histories: dict,
+             loss_results: dict, timings: dict, quick: bool) -> StudyResults:
+    """The run's :class:`StudyResults` from its steps."""
+    comparison = shared.comparison
     return StudyResults(
         study=study.to_dict(),
-        spectrum={"definition": plain(spectrum), "periods": curve.tolist(),
-                  "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
-                  "note": spectrum_note},
-        fixed_base={"period": t_fb, "period_source": t_fb_source, "model": plain(comparison.building),
-                    "statistics": plain(fixed_stats), "elastic_statistics": plain(fixed_elastic.statistics()),
-                    "comparison": plain(comparison), "damage_thresholds": plain(thresholds),
+        spectrum=_spectrum_part(study, design.spectrum),
+        fixed_base={"period": design.fixed_base_period, "period_source": design.fixed_base_period_source,
+                    "model": plain(comparison.building), "statistics": plain(shared.fixed_statistics),
+                    "elastic_statistics": plain(shared.fixed_elastic.statistics()),
+                    "comparison": plain(comparison), "damage_thresholds": plain(shared.thresholds),
                     "loss": plain(loss_results.get("fixed", {}))},
-        suite=plain(suite_data),
+        suite=_suite_part(shared, quick),
         alternatives=tuple(results),
         run={"version": __version__, "quick": quick, "timings": timings},
-        live={"spectrum": spectrum, "suite": suite, "pairs": pairs, "superstructure": structure,
-              "comparison": comparison,
-              "histories": live_histories, "designs": live_reports},
-
+        live={"spectrum": design.spectrum, "suite": shared.suite, "pairs": shared.pairs,
+              "superstructure": shared.structure, "comparison": comparison, "histories": live_histories,
+              "designs": {d.name: (d.system, d.sets, d.report) for d in design.alternatives}, "design": design},
         loss=plain({k: v for k, v in loss_results.items() if k not in ("fixed", "alternatives")}),
     )
 
@@ -426,14 +384,9 @@ def export_suite(study: Study, out_dir: str | Path, *, quick: bool = False) -> P
     from isolation import motions
 
     check_study(study)
-    spectrum = site_spectrum(study)
-    t_fb, _ = fixed_base_period(study)
-    periods = []
-    for alternative in study.alternatives:
-        system = isolation_system(alternative)
-        report = design_alternative(study, system.property_sets(study.building.total_weight), system, spectrum, t_fb)[0]
-        periods += [report.bounds.results["upper"].period, report.bounds.results["lower"].period]
-    suite, _ = _suite(study, spectrum, (min(periods), max(periods)), quick, progress=False)
+    design = design_study(study)
+    periods = [d.bounds[case].period for d in design.alternatives for case in ("upper", "lower")]
+    suite, _ = _suite(study, design.spectrum, (min(periods), max(periods)), quick, progress=False)
     out = Path(out_dir)
     motions.write_suite(suite, out, name="suite")
     return out

@@ -209,7 +209,7 @@ def test_grid_ids_stay_distinct_as_folder_names(tmp_path):
 def test_variant_checked_against_its_own_models(tmp_path, monkeypatch):
     # a building too stiff for the time step (more sub-steps than allowed, here at most 1) is
     # caught before anything runs (the study's own model check), named with its keys
-    import isolation.study.assembly as model
+    import isolation.study.checks as model
 
     monkeypatch.setattr(model, "MAX_SUBSTEPS", 1)
     monkeypatch.setattr(model, "_REMEMBERED", {})

@@ -18,7 +18,7 @@ from isolation.motions import (
     read_csv_accelerogram,
     read_suite_records,
     read_text_accelerogram,
-    records_io,
+    suite_io,
     write_suite,
 )
 from isolation.site.spectra import CodeSpectrum
@@ -135,7 +135,7 @@ def test_write_then_read_back(tmp_path, tiny_suite):
 def test_failed_write_leaves_nothing_behind(tmp_path, tiny_suite, monkeypatch):
     # Source: project rule ("nothing half-written left behind").
     calls = {"n": 0}
-    real = records_io.os.fdopen
+    real = suite_io.os.fdopen
 
     def failing(*args, **kwargs):
         calls["n"] += 1
@@ -143,7 +143,7 @@ def test_failed_write_leaves_nothing_behind(tmp_path, tiny_suite, monkeypatch):
             raise OSError("disk full (simulated)")
         return real(*args, **kwargs)
 
-    monkeypatch.setattr(records_io.os, "fdopen", failing)
+    monkeypatch.setattr(suite_io.os, "fdopen", failing)
     with pytest.raises(OSError):
         write_suite(tiny_suite, tmp_path, name="broken")
     assert os.listdir(tmp_path) == []

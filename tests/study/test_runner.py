@@ -261,7 +261,7 @@ def test_coarse_time_step_runs_sub_stepped():
 
 def test_implausibly_stiff_building_is_bad_input(monkeypatch):
     # More than MAX_SUBSTEPS sub-steps per sample is refused naming the building keys.
-    import isolation.study.assembly as model
+    import isolation.study.checks as model
 
     monkeypatch.setattr(model, "MAX_SUBSTEPS", 1)
     monkeypatch.setattr(model, "_REMEMBERED", {})  # checks of earlier tests are remembered per input

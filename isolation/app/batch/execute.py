@@ -207,12 +207,26 @@ def run_batch(
     -------
     BatchReport
     """
-    from tqdm.auto import tqdm
-
     started = time.perf_counter()
     out_dir = Path(out_dir).resolve()
     settings = dict(settings or {})
     use_pdf = plan.pdf if pdf is None else bool(pdf)
+    entries, tasks, reused = _plan_tasks(plan, out_dir, hashes, use_pdf, quick, retry_failed)
+    run = _BatchRun(plan, out_dir, settings, entries, tasks, reused, runner=runner, executor=executor,
+                    workers=workers, on_outcome=on_outcome)
+    run.execute(chunk, progress)
+    _write_state(out_dir, plan, entries, settings)
+    write_summary(_summary_rows(plan, entries), out_dir, plan.override_keys())
+    by_status = {s: tuple(k for k, e in entries.items() if e.get("status") == s) for s in ("done", "failed")}
+    not_run = tuple(k for k, e in entries.items() if e.get("status") not in ("done", "failed"))
+    return BatchReport(out_dir, by_status["done"], by_status["failed"], not_run, tuple(run.ran), tuple(reused),
+                       run.interrupted, time.perf_counter() - started)
+
+
+def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf: bool, quick: bool,
+                retry_failed: bool) -> tuple[dict[str, dict], list[VariantTask], list[str]]:
+    """(state entries, tasks to run, variant ids taken from an earlier invocation): a variant done with the
+    same input and an intact record, or failed with the same input (unless ``retry_failed``), is kept."""
     previous = _load_state(out_dir)
     invocation = uuid.uuid4().hex
     entries: dict[str, dict] = {}
@@ -234,28 +248,49 @@ def run_batch(
                         "superseded": entry.get("record")}
         tasks.append(VariantTask(key, str(plan.study_file), plan.overrides_for(variant), str(out_dir), use_pdf,
                                  hashes[key], quick, invocation))
+    return entries, tasks, reused
 
-    ran: list[str] = []
-    interrupted = False
-    counts = {"done": 0, "failed": 0}
-    last_write = [0.0, STATE_INTERVAL]  # time of the last state write, interval to the next [s]
-    bar: Any = None  # a tqdm bar once the executor is up
 
-    def accept(outcome: VariantOutcome) -> None:
-        entry = entries[outcome.variant_id]
+class _BatchRun:
+    """One invocation's variants on an executor: chunks in flight, outcomes into the state, progress."""
+
+    def __init__(self, plan: BatchPlan, out_dir: Path, settings: dict, entries: dict[str, dict],
+                 tasks: list[VariantTask], reused: list[str], *, runner: Callable[[VariantTask], VariantOutcome],
+                 executor: str | Executor, workers: int | None,
+                 on_outcome: Callable[[VariantOutcome], None] | None) -> None:
+        self.plan, self.out_dir, self.settings, self.entries = plan, out_dir, settings, entries
+        self.tasks, self.reused, self.runner = tasks, reused, runner
+        self.executor, self.workers, self.on_outcome = executor, workers, on_outcome
+        self.ran: list[str] = []
+        self.interrupted = False
+        self.counts = {"done": 0, "failed": 0}
+        self.last_write = [0.0, STATE_INTERVAL]  # time of the last state write, interval to the next [s]
+        self.bar: Any = None
+        self.pending: dict[Future, list[VariantTask]] = {}
+        self.queue: list[list[VariantTask]] = []  # chunks; pop() from the end: file order
+        self.lost: dict[str, int] = {}
+        self.pool: Any = None
+        self.slots = 1
+        self.stack: ExitStack | None = None
+
+    def accept(self, outcome: VariantOutcome) -> None:
+        """Record a finished variant in the state (written at most every few tenths of a second)."""
+        entry = self.entries[outcome.variant_id]
         entry.update(status=outcome.status, rows=[dict(r) for r in outcome.rows], record=outcome.record,
                      error=outcome.error, attempts=outcome.attempts, elapsed=round(outcome.elapsed, 3))
-        if outcome.status in counts:
-            counts[outcome.status] += 1
-            (ran if outcome.attempts else reused).append(outcome.variant_id)  # 0 attempts: record found complete
-        if time.perf_counter() - last_write[0] > last_write[1]:  # large sweeps: not after every variant
+        if outcome.status in self.counts:
+            self.counts[outcome.status] += 1
+            # 0 attempts: record found complete
+            (self.ran if outcome.attempts else self.reused).append(outcome.variant_id)
+        if time.perf_counter() - self.last_write[0] > self.last_write[1]:  # large sweeps: not after every variant
             mark = time.perf_counter()
-            _write_state(out_dir, plan, entries, settings)
-            last_write[:] = [time.perf_counter(), max(STATE_INTERVAL, 20 * (time.perf_counter() - mark))]
-        bar.set_postfix(done=counts["done"], failed=counts["failed"], remaining=len(tasks) - bar.n - 1, refresh=False)
-        bar.update(1)
+            _write_state(self.out_dir, self.plan, self.entries, self.settings)
+            self.last_write[:] = [time.perf_counter(), max(STATE_INTERVAL, 20 * (time.perf_counter() - mark))]
+        self.bar.set_postfix(done=self.counts["done"], failed=self.counts["failed"],
+                             remaining=len(self.tasks) - self.bar.n - 1, refresh=False)
+        self.bar.update(1)
 
-    def outcomes_of(future: Future, chunk: list[VariantTask]) -> list[VariantOutcome]:
+    def outcomes_of(self, future: Future, chunk: list[VariantTask]) -> list[VariantOutcome]:
         """Outcomes of a chunk; variants lost with a dead worker go back in the queue."""
         try:
             return list(future.result())
@@ -266,9 +301,9 @@ def run_batch(
             # in hand fails with this. Each gets one more try, alone, on a fresh pool.
             found = []
             for task in chunk:
-                lost[task.variant_id] = lost.get(task.variant_id, 0) + 1
-                if lost[task.variant_id] == 1:
-                    queue.insert(0, [task])  # last in line
+                self.lost[task.variant_id] = self.lost.get(task.variant_id, 0) + 1
+                if self.lost[task.variant_id] == 1:
+                    self.queue.insert(0, [task])  # last in line
                 else:
                     found.append(VariantOutcome(task.variant_id, "failed", attempts=2,
                                                 error=one_line(error) + " (its worker process died twice)"))
@@ -278,69 +313,70 @@ def run_batch(
         except Exception as error:
             return [VariantOutcome(t.variant_id, "failed", error=one_line(error)) for t in chunk]
 
-    pending: dict[Future, list[VariantTask]] = {}
-    queue: list[list[VariantTask]] = []  # chunks; pop() from the end: file order
-    lost: dict[str, int] = {}
-    with ExitStack() as stack:
-        pool, slots = stack.enter_context(executor_for(executor if tasks else None, workers))
-        size = chunk if chunk is not None else max(1, min(CHUNK_LIMIT, -(-len(tasks) // (4 * slots))))
-        queue = [tasks[i:i + size] for i in range(0, len(tasks), size)][::-1]
-        # the executor is up: now the batch folder is written
-        out_dir.mkdir(parents=True, exist_ok=True)
-        for entry in entries.values():
-            _remove_superseded(out_dir, {"record": entry.pop("superseded", None)})
-        _write_state(out_dir, plan, entries, settings)
-        bar = tqdm(total=len(tasks), unit="variant", desc=plan.name, disable=not progress or not tasks,
-                   dynamic_ncols=True)
-
-        def submit(part: list[VariantTask]) -> None:
-            nonlocal pool
-            try:
-                future = pool.submit(guarded_chunk, runner, part)
-            except BrokenProcessPool:
-                if not isinstance(executor, str):
-                    raise  # an executor we were given: its owner decides
-                pool = stack.enter_context(executor_for(executor, workers))[0]
-                future = pool.submit(guarded_chunk, runner, part)
-            pending[future] = part
-
-        def top_up() -> None:
-            # At most `slots` chunks handed to the executor at a time, so that Ctrl-C
-            # finds the rest not yet started. A variant that was in hand when a worker
-            # died runs again alone, so a second death is surely its own.
-            while len(pending) < slots and queue:
-                if queue[-1][0].variant_id in lost:
-                    if not pending:
-                        submit(queue.pop())
-                    return
-                submit(queue.pop())
-
+    def submit(self, part: list[VariantTask]) -> None:
+        """Hand a chunk to the executor (a fresh local pool when the last one broke)."""
         try:
-            top_up()
-            while pending:
-                finished, _ = wait(list(pending), return_when=FIRST_COMPLETED)
-                for future in finished:
-                    found = outcomes_of(future, pending.pop(future))
-                    for outcome in found:
-                        if outcome.status in ("done", "failed"):
-                            accept(outcome)
-                            if on_outcome is not None:
-                                on_outcome(outcome)
-                    if any(outcome.status == "interrupted" for outcome in found):
-                        raise KeyboardInterrupt
-                top_up()
-        except KeyboardInterrupt:
-            interrupted = True
-            _stop(pool, pending, accept)
-        finally:
-            bar.close()
+            future = self.pool.submit(guarded_chunk, self.runner, part)
+        except BrokenProcessPool:
+            if not isinstance(self.executor, str):
+                raise  # an executor we were given: its owner decides
+            assert self.stack is not None
+            self.pool = self.stack.enter_context(executor_for(self.executor, self.workers))[0]
+            future = self.pool.submit(guarded_chunk, self.runner, part)
+        self.pending[future] = part
 
-    _write_state(out_dir, plan, entries, settings)
-    write_summary(_summary_rows(plan, entries), out_dir, plan.override_keys())
-    by_status = {s: tuple(k for k, e in entries.items() if e.get("status") == s) for s in ("done", "failed")}
-    not_run = tuple(k for k, e in entries.items() if e.get("status") not in ("done", "failed"))
-    return BatchReport(out_dir, by_status["done"], by_status["failed"], not_run, tuple(ran), tuple(reused),
-                       interrupted, time.perf_counter() - started)
+    def top_up(self) -> None:
+        """At most ``slots`` chunks handed to the executor at a time, so that Ctrl-C finds the rest not
+        yet started. A variant that was in hand when a worker died runs again alone, so a second death
+        is surely its own."""
+        while len(self.pending) < self.slots and self.queue:
+            if self.queue[-1][0].variant_id in self.lost:
+                if not self.pending:
+                    self.submit(self.queue.pop())
+                return
+            self.submit(self.queue.pop())
+
+    def execute(self, chunk: int | None, progress: bool) -> None:
+        """Run every task; Ctrl-C cancels what has not started and keeps what finishes."""
+        from tqdm.auto import tqdm
+
+        tasks = self.tasks
+        with ExitStack() as stack:
+            self.stack = stack
+            self.pool, self.slots = stack.enter_context(executor_for(self.executor if tasks else None,
+                                                                     self.workers))
+            size = chunk if chunk is not None else max(1, min(CHUNK_LIMIT, -(-len(tasks) // (4 * self.slots))))
+            self.queue = [tasks[i:i + size] for i in range(0, len(tasks), size)][::-1]
+            # the executor is up: now the batch folder is written
+            self.out_dir.mkdir(parents=True, exist_ok=True)
+            for entry in self.entries.values():
+                _remove_superseded(self.out_dir, {"record": entry.pop("superseded", None)})
+            _write_state(self.out_dir, self.plan, self.entries, self.settings)
+            self.bar = tqdm(total=len(tasks), unit="variant", desc=self.plan.name, disable=not progress or not tasks,
+                            dynamic_ncols=True)
+            try:
+                self.top_up()
+                while self.pending:
+                    self._collect_finished()
+                    self.top_up()
+            except KeyboardInterrupt:
+                self.interrupted = True
+                _stop(self.pool, self.pending, self.accept)
+            finally:
+                self.bar.close()
+
+    def _collect_finished(self) -> None:
+        """Wait for the next chunk(s) to finish and accept their outcomes."""
+        finished, _ = wait(list(self.pending), return_when=FIRST_COMPLETED)
+        for future in finished:
+            found = self.outcomes_of(future, self.pending.pop(future))
+            for outcome in found:
+                if outcome.status in ("done", "failed"):
+                    self.accept(outcome)
+                    if self.on_outcome is not None:
+                        self.on_outcome(outcome)
+            if any(outcome.status == "interrupted" for outcome in found):
+                raise KeyboardInterrupt
 
 
 def _stop(pool: Executor, pending: dict[Future, list], accept: Callable[[VariantOutcome], None]) -> None:

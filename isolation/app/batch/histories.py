@@ -38,16 +38,22 @@ have a licensed structural engineer check them against the local code.
 
 from __future__ import annotations
 
-import dataclasses
-import functools
-import hashlib
-import json
 import time
-from pathlib import Path
-from typing import Any, Mapping
+from typing import Mapping
 
 import numpy as np
 
+from isolation.app.batch.history_motions import (  # noqa: F401 - FIXED_FILE, SOURCE_FILE, SUITE_NAME re-exported
+    FIXED_FILE,
+    MOTIONS_FOLDER,
+    SOURCE_FILE,
+    SUITE_NAME,
+    _load,
+    _structure_fingerprint,
+    _suite_hash,
+    prepare_motions,
+    with_motions,
+)
 from isolation.app.batch.rows import rows_from_results
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
 from isolation.app.batch.sweep import (
@@ -61,10 +67,6 @@ from isolation.app.batch.sweep import (
 __all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
            "history_chunk", "history_rows"]
 
-MOTIONS_FOLDER = "motions"
-SUITE_NAME = "suite"
-FIXED_FILE = "fixed_base.json"
-SOURCE_FILE = "source.json"
 RESPONSE_HISTORIES = "response histories"
 CASES = ("lower", "upper")
 TARGET_TASK = 4.0  # wall time a task should take on one worker [s]
@@ -100,138 +102,6 @@ def history_chunk(count: int, workers: int, records: int, steps: int) -> int:
     per_variant = 2 * records * steps * 2e-6  # two bounds [s]
     size = max(1, int(TARGET_TASK / max(per_variant, 1e-9)))
     return max(1, min(size, -(-count // (2 * max(int(workers), 2)))))
-
-
-# --- motions and fixed base, once -------------------------------------------------------------
-
-
-def _structure_fingerprint(value) -> str:
-    """SHA-256 of a model object (or mapping) as plain JSON."""
-    from isolation.plain import plain
-
-    return hashlib.sha256(json.dumps(plain(value), sort_keys=True).encode("utf-8")).hexdigest()
-
-
-def _suite_hash(acceleration: np.ndarray, dt: float) -> str:
-    digest = hashlib.sha256(np.ascontiguousarray(acceleration, dtype=float).tobytes())
-    digest.update(repr(float(dt)).encode("ascii"))
-    return digest.hexdigest()
-
-
-def _read_suite(metadata: Path) -> tuple[np.ndarray, float]:
-    """(acceleration (records, steps) [g], dt [s]) of a written suite; shorter records padded with zeros."""
-    from isolation.motions.records_io import read_suite_records
-
-    records = read_suite_records(metadata)
-    if not records:
-        raise ValueError(f"motions = {str(metadata)!r} is not allowed: the suite lists no records")
-    steps = {round(r.dt, 12) for r in records}
-    if len(steps) != 1:
-        raise ValueError(f"motions = {str(metadata)!r} is not allowed: every record must have the same time step "
-                         f"(found {sorted(steps)} s)")
-    length = max(r.acceleration.size for r in records)
-    acc = np.zeros((len(records), length))
-    for i, record in enumerate(records):
-        acc[i, :record.acceleration.size] = record.acceleration
-    return acc, float(records[0].dt)
-
-
-def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = None, quick: bool = False) -> dict:
-    """Choose the motions of a history sweep and run the fixed base once.
-
-    Parameters
-    ----------
-    plan : isolation.app.batch.plan.BatchPlan
-        The batch; its base study (with the ``[common]`` overrides) gives the
-        superstructure and, without ``motions``, the matched suite.
-    out_dir : str or Path
-        Batch folder; ``motions/`` is written in it.
-    motions : str or Path, optional
-        Metadata file of a suite (``suite.json`` of ``python -m isolation
-        motions``) to use instead of the base study's matched suite.
-    quick : bool
-        Small matched suite (trials and tests only, never for a report).
-
-    Returns
-    -------
-    dict
-        Run settings: ``motions`` (what was used) and ``motions_hash``
-        (folded into every variant's input hash).
-
-    Raises
-    ------
-    isolation.errors.InputError
-        A motions file that cannot be read, or a time step too coarse for the
-        superstructure.
-    """
-    from isolation.errors import InputError
-    from isolation.files import write_text_atomic
-    from isolation.motions.records_io import write_suite
-    from isolation.study import assembly as model
-    from isolation.study.runner import export_suite
-
-    out = Path(out_dir).resolve()
-    folder = out / MOTIONS_FOLDER
-    study = variant_study(plan.study_file, dict(plan.common))
-    structure = model.superstructure(study)
-    source = {"motions": str(Path(motions).resolve()) if motions else "matched suite of the base study",
-              "quick": bool(quick) and not motions, "study": _structure_fingerprint(study.to_dict())}
-    metadata = folder / f"{SUITE_NAME}.json"
-    try:
-        previous = json.loads((folder / SOURCE_FILE).read_text(encoding="utf-8"))
-    except (OSError, json.JSONDecodeError):
-        previous = None
-    folder.mkdir(parents=True, exist_ok=True)
-    if previous != source or not metadata.is_file():
-        if motions:
-            try:
-                acc, dt = _read_suite(Path(motions))
-            except ValueError as error:
-                raise InputError(f"--motions: {' '.join(str(error).split())}") from None
-            write_suite(_Suite(acc, dt), folder, name=SUITE_NAME)
-        else:
-            export_suite(study, folder, quick=bool(quick))
-        write_text_atomic(folder / SOURCE_FILE, json.dumps(source, indent=1) + "\n")
-    acc, dt = _read_suite(metadata)
-    try:
-        model.check_study(dataclasses.replace(study, analysis=dataclasses.replace(study.analysis, time_step=dt)))
-    except ValueError as error:
-        raise InputError(f"motions time step: {' '.join(str(error).split())}") from None
-    spectrum = model.site_spectrum(study)
-    period, _ = model.fixed_base_period(study)
-    comparison = _comparison(study, spectrum, structure, period)
-    fixed = _fixed_runs(study, comparison, structure, acc, dt)
-    write_text_atomic(folder / FIXED_FILE, json.dumps({"structure": _structure_fingerprint(comparison.building),
-                                                       **fixed}) + "\n")
-    return {"motions": source["motions"], "motions_quick": source["quick"], "motions_hash": _suite_hash(acc, dt),
-            "records": int(acc.shape[0]), "steps": int(acc.shape[1]), "dt": dt}
-
-
-@dataclasses.dataclass(frozen=True)
-class _Suite:
-    """The least a suite needs for :func:`isolation.motions.records_io.write_suite`."""
-
-    acceleration: np.ndarray
-    dt: float
-
-    @property
-    def seeds(self):
-        return np.zeros(self.acceleration.shape[0], dtype=int)
-
-    def to_dict(self) -> dict:
-        return {"dt": self.dt, "count": int(self.acceleration.shape[0]), "source": "chosen records"}
-
-
-@functools.lru_cache(maxsize=4)
-def _motions(folder: str, modified: float) -> tuple:  # noqa: ARG001 - the file time keys the cache
-    acc, dt = _read_suite(Path(folder) / f"{SUITE_NAME}.json")
-    fixed = json.loads((Path(folder) / FIXED_FILE).read_text(encoding="utf-8"))
-    return acc, dt, fixed
-
-
-def _load(task: VariantTask) -> tuple:
-    folder = Path(task.out_dir) / MOTIONS_FOLDER
-    return _motions(str(folder), (folder / FIXED_FILE).stat().st_mtime)
 
 
 # --- the runs ---------------------------------------------------------------------------------
@@ -289,79 +159,9 @@ history_runner.many = history_many  # type: ignore[attr-defined]  # chunks run t
 
 def _run(tasks: list) -> list:
     """Rows per task, or the exception that stopped it."""
-    from isolation import GRAVITY
-    from isolation.design.array_kernel import design_bounds_many
-    from isolation.study import assembly as model
-
     acc, dt, fixed_file = _load(tasks[0])
-    motion_key = _suite_hash(acc, dt)
-    contexts: dict = {}
-    prepared: list = []
-    todo: dict = {}
-    for task in tasks:
-        try:
-            study = variant_study(task.study_file, task.overrides)
-            ckey = _context_key(study)
-            context = contexts.get(ckey) if ckey is not None else None
-            if context is None:
-                spectrum = model.site_spectrum(study)
-                period, _ = model.fixed_base_period(study)
-                structure = model.superstructure(study)
-                comparison = _comparison(study, spectrum, structure, period)
-                fingerprint = _structure_fingerprint(comparison.building)
-                fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
-                context = {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
-                           "rule": "asce7" if study.basis == "asce7" else "eurocode",
-                           "comparison": comparison, "fixed": fixed_runs["statistics"],
-                           "fixed_indicators": fixed_runs["indicators"],
-                           "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),
-                           "base_mass": study.building.base_weight / GRAVITY,
-                           "shear": fixed_base_elastic_shear(spectrum, period, study.building.total_weight)}
-                if ckey is not None:
-                    contexts[ckey] = context
-            keys = []
-            for alternative in study.alternatives:
-                key = (context["key"], _alternative_key(alternative), motion_key)
-                if key not in _DONE and key not in todo:
-                    system = model.isolation_system(alternative)
-                    todo[key] = [alternative, system, system.property_sets(study.building.total_weight), context]
-                keys.append(key)
-            prepared.append((context, keys))
-        except Exception as error:  # noqa: BLE001 - reported per variant
-            prepared.append(error)
-
-    judged: dict = {}
-    by_context: dict = {}
-    for key, entry in todo.items():
-        by_context.setdefault(id(entry[3]), []).append(key)
-    for keys in by_context.values():
-        context = todo[keys[0]][3]
-        bounds = _bounds_each([todo[k][2] for k in keys], context["study"].building.total_weight, context,
-                              design_bounds_many)
-        designed = []
-        for key, found in zip(keys, bounds):
-            alternative, system, sets, _ = todo[key]
-            try:
-                if isinstance(found, Exception):
-                    raise found
-                design = model.design_alternative(context["study"], sets, system, context["spectrum"],
-                                                  context["period"], bounds=found)
-                isolators = {case: model.history_isolator(sets[case], found.results[case], system, case)
-                             for case in CASES}
-                designed.append((key, found, design, isolators))
-            except Exception as error:  # noqa: BLE001
-                judged[key] = error
-        for start in range(0, len(designed), ENSEMBLE_LIMIT):
-            part = designed[start:start + ENSEMBLE_LIMIT]
-            for (key, found, design, _), stats in zip(part, _histories(context, part, acc, dt)):
-                if isinstance(stats, Exception):
-                    judged[key] = stats
-                    continue
-                alternative, system, sets, _ = todo[key]
-                try:
-                    judged[key] = _judge(context, alternative, system, sets, found, design, stats)
-                except Exception as error:  # noqa: BLE001
-                    judged[key] = error
+    prepared, todo = _prepare(tasks, acc, dt, fixed_file)
+    judged = _run_todo(todo, acc, dt)
     for key, value in judged.items():
         if not isinstance(value, Exception):
             if len(_DONE) >= _CACHE_LIMIT:
@@ -377,6 +177,96 @@ def _run(tasks: list) -> list:
         failed = next((f for f in found if isinstance(f, Exception)), None)
         out.append(failed if failed is not None else history_rows(found, context["shear"]))
     return out
+
+
+def _context(study, ckey, acc: np.ndarray, dt: float, fixed_file: Mapping) -> dict:
+    """What the variants of one study context share: spectrum, T_fb, superstructure, comparison building,
+    fixed-base statistics and indicators, base mass, elastic fixed-base shear."""
+    from isolation import GRAVITY
+    from isolation.study import assembly as model
+
+    spectrum = model.site_spectrum(study)
+    period, _ = model.fixed_base_period(study)
+    structure = model.superstructure(study)
+    comparison = _comparison(study, spectrum, structure, period)
+    fingerprint = _structure_fingerprint(comparison.building)
+    fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
+    return {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
+            "rule": "asce7" if study.basis == "asce7" else "eurocode",
+            "comparison": comparison, "fixed": fixed_runs["statistics"],
+            "fixed_indicators": fixed_runs["indicators"],
+            "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),
+            "base_mass": study.building.base_weight / GRAVITY,
+            "shear": fixed_base_elastic_shear(spectrum, period, study.building.total_weight)}
+
+
+def _prepare(tasks: list, acc: np.ndarray, dt: float, fixed_file: Mapping) -> tuple[list, dict]:
+    """Per task (context, alternative keys) or its exception, and the alternatives not yet run in this
+    process: key -> [alternative, system, property sets, context]."""
+    from isolation.study import assembly as model
+
+    motion_key = _suite_hash(acc, dt)
+    contexts: dict = {}
+    prepared: list = []
+    todo: dict = {}
+    for task in tasks:
+        try:
+            study = variant_study(task.study_file, task.overrides)
+            ckey = _context_key(study)
+            context = contexts.get(ckey) if ckey is not None else None
+            if context is None:
+                context = _context(study, ckey, acc, dt, fixed_file)
+                if ckey is not None:
+                    contexts[ckey] = context
+            keys = []
+            for alternative in study.alternatives:
+                key = (context["key"], _alternative_key(alternative), motion_key)
+                if key not in _DONE and key not in todo:
+                    system = model.isolation_system(alternative)
+                    todo[key] = [alternative, system, system.property_sets(study.building.total_weight), context]
+                keys.append(key)
+            prepared.append((context, keys))
+        except Exception as error:  # noqa: BLE001 - reported per variant
+            prepared.append(error)
+    return prepared, todo
+
+
+def _run_todo(todo: dict, acc: np.ndarray, dt: float) -> dict:
+    """Key -> judged alternative (or its exception): per context the bounds in one array-kernel call,
+    the code designs, then the histories of up to :data:`ENSEMBLE_LIMIT` alternatives per engine call."""
+    from isolation.design.array_kernel import design_bounds_many
+    from isolation.study.stages import alternative_design
+
+    judged: dict = {}
+    by_context: dict = {}
+    for key, entry in todo.items():
+        by_context.setdefault(id(entry[3]), []).append(key)
+    for keys in by_context.values():
+        context = todo[keys[0]][3]
+        bounds = _bounds_each([todo[k][2] for k in keys], context["study"].building.total_weight, context,
+                              design_bounds_many)
+        designed = []
+        for key, found in zip(keys, bounds):
+            alternative, system, sets, _ = todo[key]
+            try:
+                if isinstance(found, Exception):
+                    raise found
+                design = alternative_design(context["study"], alternative, context["spectrum"], context["period"],
+                                            system=system, sets=sets, bounds=found)
+                designed.append((key, found, design, design.history_isolators(CASES)))
+            except Exception as error:  # noqa: BLE001
+                judged[key] = error
+        for start in range(0, len(designed), ENSEMBLE_LIMIT):
+            part = designed[start:start + ENSEMBLE_LIMIT]
+            for (key, _, design, _), stats in zip(part, _histories(context, part, acc, dt)):
+                if isinstance(stats, Exception):
+                    judged[key] = stats
+                    continue
+                try:
+                    judged[key] = _judge(context, design, stats)
+                except Exception as error:  # noqa: BLE001
+                    judged[key] = error
+    return judged
 
 
 def _comparison(study, spectrum, structure, period):
@@ -425,7 +315,7 @@ def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
     above = []
     for _, _, design, _ in part:
         try:
-            above.append(isolated_superstructure(study, design[0], structure))
+            above.append(isolated_superstructure(study, design.report, structure))
         except Exception as error:  # noqa: BLE001 - reported per variant
             above.append(error)
     out: list = [None] * len(part)
@@ -457,52 +347,25 @@ def _histories(context: dict, part: list, acc: np.ndarray, dt: float) -> list:
     return out
 
 
-def _judge(context: dict, alternative, system, sets, bounds, design, histories) -> dict:
-    """The study run's verdict for one alternative from its designs and history statistics."""
+def _judge(context: dict, design, histories) -> dict:
+    """The study run's verdict for one alternative (an :class:`isolation.study.stages.AlternativeDesign`)
+    from its history statistics."""
     from isolation import verdict
     from isolation.performance.comparison import comparison_summary
     from isolation.plain import plain
-    from isolation.study import assembly as model
+    from isolation.study.stages import HistorySummary, alternative_figures
 
     stats, case_indicators, isolated_design = histories
-    report, quantities, permitted, reasons = design
-    study = context["study"]
-    checks = system.checks(quantities["total_displacement"])
-    results = bounds.results
-    torsion = quantities["total_displacement"] / quantities["displacement"]
-    summary = model.history_summary(stats, context["fixed"], torsion)
     indicators = {**context["fixed_indicators"], **plain(case_indicators)}
-    summary.update(comparison_summary(indicators, context["comparison"].design, isolated_design))
-    strength = getattr(sets["lower"], "characteristic_strength", None)
-    if strength is None:
-        strength = model.history_isolator(sets["lower"], results["lower"]).characteristic_strength
-    quantities = dict(quantities, period_lower=results["lower"].period, period_upper=results["upper"].period,
-                      damping_lower=results["lower"].damping, damping_upper=results["upper"].damping,
-                      characteristic_strength=float(strength), displacement_capacity=system.displacement_capacity,
-                      moat=alternative.moat, fixed_base_period=context["period"])
-    figures = model.verdict_figures(study, context["spectrum"], alternative, quantities, summary, report, permitted,
-                                    reasons, checks, results, context["period"])
-    judged = verdict.assess(figures)
+    summary = HistorySummary.from_statistics(
+        stats, context["fixed"], design.quantities.torsion_factor,
+        comparison_summary(indicators, context["comparison"].design, isolated_design))
+    judged = verdict.assess(alternative_figures(context["study"], context["spectrum"], design, summary))
     return {
-        "name": alternative.name,
-        "bounds": {name: {k: getattr(r, k) for k in ("displacement", "period", "damping", "base_shear")}
-                   for name, r in results.items()},
-        "quantities": quantities,
-        "figures": {"floor_acceleration_ratio": summary["floor_acceleration_ratio"]},
+        "name": design.name,
+        "bounds": design.bound_numbers(),
+        "quantities": design.quantities.to_dict(),
+        "figures": {"floor_acceleration_ratio": summary.floor_acceleration_ratio},
         "verdict": {"outcome": judged.outcome},
-        "history": summary,
+        "history": summary.to_dict(),
     }
-
-
-def with_motions(hashes: Mapping[str, str], motions: Mapping[str, Any]) -> dict[str, str]:
-    """Variant input hashes that also identify the motions (a changed suite runs the variants again).
-
-    Parameters
-    ----------
-    hashes : mapping
-        Variant id -> input hash of the validated variant.
-    motions : mapping
-        What :func:`prepare_motions` returned.
-    """
-    return {key: hashlib.sha256(f"{value}:{motions['motions_hash']}".encode("ascii")).hexdigest()
-            for key, value in hashes.items()}

@@ -31,8 +31,6 @@ Validation of the variants against the study (before anything runs) is
 
 from __future__ import annotations
 
-import csv
-import io
 import itertools
 import math
 import re
@@ -40,6 +38,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
 
+from isolation.app.batch.table_file import _read_table
 from isolation.errors import InputError
 from isolation.files import read_input_text
 
@@ -172,57 +171,6 @@ def _grid_ids(keys: list[str], combination: tuple) -> str:
     return safe_name("_".join(parts))
 
 
-def _csv_value(text: str) -> Any:
-    """A CSV cell as TOML would read it: bool, int, float, else the string."""
-    stripped = text.strip()
-    if stripped.lower() in ("true", "false"):
-        return stripped.lower() == "true"
-    for kind in (int, float):
-        try:
-            return kind(stripped)
-        except ValueError:
-            pass
-    return stripped
-
-
-def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict, str]]:
-    rows: list[tuple[str | None, dict, str]] = []
-    try:
-        text = read_input_text(path, what="batch.table")
-    except InputError as error:
-        problems.append(str(error))
-        return rows
-    try:
-        with io.StringIO(text, newline="") as handle:
-            reader = csv.DictReader(handle)
-            if not reader.fieldnames:
-                problems.append(f"table {path.name}: no header row; allowed: dotted key paths and 'id'")
-                return rows
-            names = [n.strip() for n in reader.fieldnames]
-            for bad in [n for n in names if not n]:
-                problems.append(f"table {path.name}: empty column name {bad!r}; allowed: dotted key paths and 'id'")
-            for number, row in enumerate(reader, start=2):
-                if row.get(None):
-                    problems.append(f"table {path.name} row {number} has {len(names) + len(row[None])} fields, "
-                                    f"the header {len(names)}: not allowed (a decimal comma, or a comma in an "
-                                    "unquoted value? quote it: \"1.5 m\")")
-                    continue
-                overrides = {}
-                variant_id = None
-                for name, cell in zip(names, row.values()):
-                    if cell is None or not str(cell).strip() or not name:
-                        continue
-                    if name == "id":
-                        variant_id = str(cell).strip()
-                    else:
-                        overrides[name] = _csv_value(str(cell))
-                rows.append((variant_id, overrides, f"{path.name} row {number}"))
-    except csv.Error as error:
-        problems.append(f"batch.table = {str(path)!r}: not a readable CSV table ({error}); allowed: a CSV file "
-                        "with a header row of dotted key paths")
-    return rows
-
-
 def _read_toml(path: Path, what: str) -> dict:
     from isolation.study import parse_toml
 
@@ -263,6 +211,38 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
     batch_file = Path(path).resolve()
     data = _read_toml(batch_file, "batch file")
     problems: list[str] = []
+    head, name, pdf, study_file = _batch_head(data, batch_file, problems)
+    common = _dotted_table(data, "common", "a table of dotted key paths", problems)
+    grid = _dotted_table(data, "grid", "a table of dotted key paths and value lists", problems)
+    for key, values in grid.items():
+        if not isinstance(values, list) or not values:
+            problems.append(f"grid.{key} = {values!r} is not allowed: must be a non-empty list of values")
+    listed = data.get("variant", [])
+    table = head.get("table")
+    table_rows = _read_table(batch_file.parent / table, problems) if isinstance(table, str) else None
+    variants = _grid_variants(grid, listed, table_rows, batch_file, max_variants)
+    variants += _listed_variants(listed, problems)
+    variants += _table_variants(table, table_rows, problems)
+    if max_variants is not None and len(variants) > max_variants:
+        raise InputError(f"{batch_file.name}: {len(variants)} variants is not allowed: must be at most {max_variants}; "
+                         "raise the limit with --max-variants N if you mean it")
+    if not variants and not problems:
+        problems.append("the batch has no variants; allowed: a [grid] table, [[variant]] tables or batch.table")
+    checked = _checked_ids(variants, problems)
+    if problems:
+        raise InputError(_problem_line(batch_file.name, problems))
+    return BatchPlan(
+        name=safe_name(name),
+        batch_file=batch_file,
+        study_file=study_file,
+        variants=tuple(checked),
+        common=dict(common),
+        pdf=pdf,
+    )
+
+
+def _batch_head(data: Mapping, batch_file: Path, problems: list[str]) -> tuple:
+    """The ``[batch]`` table (and unknown top-level tables): (table, name, pdf, study file)."""
     for key in data:
         if key not in TOP_KEYS:
             problems.append(f"{key} = {data[key]!r} is an unknown table; allowed: {', '.join(TOP_KEYS)}")
@@ -281,58 +261,60 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
     if not isinstance(pdf, bool):
         problems.append(f"batch.pdf = {pdf!r} is not allowed: must be true or false")
         pdf = False
-    study = head.get("study")
-    study_file = batch_file
+    return head, name, pdf, _study_file(head.get("study"), batch_file, problems)
+
+
+def _study_file(study: Any, batch_file: Path, problems: list[str]) -> Path:
+    """``batch.study``: the base study's path, relative to the batch file."""
     if not isinstance(study, str) or not study.strip():
-        problems.append(f"batch.study = {study!r} is not allowed: must be the path of a study file relative to the "
-                        "batch file")
-    else:
-        study_file = (batch_file.parent / study).resolve()
-        if not study_file.exists():
-            problems.append(f"batch.study = {study!r} is not allowed: {study_file} does not exist")
-        elif not study_file.is_file():
-            problems.append(f"batch.study = {study!r} is not allowed: {study_file} is not a plain file "
-                            "(a folder, named pipe or device)")
+        problems.append(f"batch.study = {study!r} is not allowed: must be the path of a study file relative to "
+                        "the batch file")
+        return batch_file
+    study_file = (batch_file.parent / study).resolve()
+    if not study_file.exists():
+        problems.append(f"batch.study = {study!r} is not allowed: {study_file} does not exist")
+    elif not study_file.is_file():
+        problems.append(f"batch.study = {study!r} is not allowed: {study_file} is not a plain file "
+                        "(a folder, named pipe or device)")
+    return study_file
 
-    common = data.get("common", {})
-    if not isinstance(common, Mapping):
-        problems.append(f"common = {common!r} is not allowed: must be a table of dotted key paths")
-        common = {}
-    common = flatten(common)
 
-    variants: list[Variant] = []
-    grid = data.get("grid", {})
-    if not isinstance(grid, Mapping):
-        problems.append(f"grid = {grid!r} is not allowed: must be a table of dotted key paths and value lists")
-        grid = {}
-    grid = flatten(grid)
-    for key, values in grid.items():
-        if not isinstance(values, list) or not values:
-            problems.append(f"grid.{key} = {values!r} is not allowed: must be a non-empty list of values")
-    listed = data.get("variant", [])
-    table = head.get("table")
-    table_rows = None
-    if isinstance(table, str):
-        table_rows = _read_table(batch_file.parent / table, problems)
-    if grid and all(isinstance(v, list) and v for v in grid.values()):
-        count = math.prod(len(v) for v in grid.values())
-        count += len(listed) if isinstance(listed, list) else 0
-        count += len(table_rows or ())
-        if max_variants is not None and count > max_variants:
-            sizes = " x ".join(str(len(v)) for v in grid.values())
-            raise InputError(f"{batch_file.name}: {count} variants (grid {sizes}) is not allowed: must be at most "
-                             f"{max_variants}; raise the limit with --max-variants N if you mean it")
-        keys = list(grid)
-        combinations = list(itertools.product(*(grid[k] for k in keys)))
-        ids = [_grid_ids(keys, combination) for combination in combinations]
-        if len(set(ids)) < len(ids):  # values that read alike as folder names: number the variants
-            ids = [f"grid-{number:04d}" for number in range(1, len(ids) + 1)]
-        for variant_id, combination in zip(ids, combinations):
-            variants.append(Variant(variant_id, dict(zip(keys, combination)), "grid"))
+def _dotted_table(data: Mapping, name: str, allowed: str, problems: list[str]) -> dict:
+    """``[common]`` or ``[grid]`` flattened to dotted key paths (empty when missing or not a table)."""
+    table = data.get(name, {})
+    if not isinstance(table, Mapping):
+        problems.append(f"{name} = {table!r} is not allowed: must be {allowed}")
+        table = {}
+    return flatten(table)
 
+
+def _grid_variants(grid: dict, listed: Any, table_rows, batch_file: Path, max_variants: int | None) -> list:
+    """Every combination of the ``[grid]`` values (none when an entry is not a non-empty list), counted
+    with the listed and table variants against ``max_variants`` before any is built."""
+    if not grid or not all(isinstance(v, list) and v for v in grid.values()):
+        return []
+    count = math.prod(len(v) for v in grid.values())
+    count += len(listed) if isinstance(listed, list) else 0
+    count += len(table_rows or ())
+    if max_variants is not None and count > max_variants:
+        sizes = " x ".join(str(len(v)) for v in grid.values())
+        raise InputError(f"{batch_file.name}: {count} variants (grid {sizes}) is not allowed: must be at most "
+                         f"{max_variants}; raise the limit with --max-variants N if you mean it")
+    keys = list(grid)
+    combinations = list(itertools.product(*(grid[k] for k in keys)))
+    ids = [_grid_ids(keys, combination) for combination in combinations]
+    if len(set(ids)) < len(ids):  # values that read alike as folder names: number the variants
+        ids = [f"grid-{number:04d}" for number in range(1, len(ids) + 1)]
+    return [Variant(variant_id, dict(zip(keys, combination)), "grid")
+            for variant_id, combination in zip(ids, combinations)]
+
+
+def _listed_variants(listed: Any, problems: list[str]) -> list:
+    """The ``[[variant]]`` tables."""
     if not isinstance(listed, list):
         problems.append("variant is not allowed as a table: write [[variant]] (a list of tables)")
-        listed = []
+        return []
+    variants = []
     for number, entry in enumerate(listed, start=1):
         if not isinstance(entry, Mapping):
             problems.append(f"variant {number} = {entry!r} is not allowed: must be a table")
@@ -344,47 +326,40 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
             problems.append(f"variant {number} has no overrides; allowed: dotted key paths into the study")
         variants.append(Variant(given if given is not None else f"variant-{number:02d}", overrides,
                                 f"variant {number}"))
+    return variants
 
-    if table is not None:
-        if not isinstance(table, str):
-            problems.append(f"batch.table = {table!r} is not allowed: must be a CSV file path relative to the batch "
-                            "file")
-        else:
-            for number, (given, overrides, origin) in enumerate(table_rows or (), start=1):
-                if not overrides:
-                    problems.append(f"{origin} has no overrides; allowed: values under dotted key path columns")
-                variants.append(Variant(given if given is not None else f"row-{number:03d}", overrides, origin))
 
-    if max_variants is not None and len(variants) > max_variants:
-        raise InputError(f"{batch_file.name}: {len(variants)} variants is not allowed: must be at most {max_variants}; "
-                         "raise the limit with --max-variants N if you mean it")
-    if not variants and not problems:
-        problems.append("the batch has no variants; allowed: a [grid] table, [[variant]] tables or batch.table")
-    checked: list[Variant] = []
+def _table_variants(table: Any, table_rows, problems: list[str]) -> list:
+    """The rows of ``batch.table`` (a CSV file)."""
+    if table is None:
+        return []
+    if not isinstance(table, str):
+        problems.append(f"batch.table = {table!r} is not allowed: must be a CSV file path relative to the batch file")
+        return []
+    variants = []
+    for number, (given, overrides, origin) in enumerate(table_rows or (), start=1):
+        if not overrides:
+            problems.append(f"{origin} has no overrides; allowed: values under dotted key path columns")
+        variants.append(Variant(given if given is not None else f"row-{number:03d}", overrides, origin))
+    return variants
+
+
+def _checked_ids(variants: list, problems: list[str]) -> list:
+    """The variants, each id checked: a safe folder name, used once."""
     seen: dict[str, str] = {}
     for variant in variants:
         if not isinstance(variant.variant_id, str) or safe_name(variant.variant_id) != variant.variant_id:
             problems.append(
                 f"{variant.origin}: id = {variant.variant_id!r} is not allowed: must be a folder name of "
-                f"lower-case letters, digits, '.', '_', '-' (at most {ID_LIMIT}), e.g. "
-                f"{safe_name(str(variant.variant_id))!r}"
+                f"lower-case letters, digits, '.', '_', '-' (at most {ID_LIMIT}), "
+                f"e.g. {safe_name(str(variant.variant_id))!r}"
             )
         elif variant.variant_id in seen:
             problems.append(f"{variant.origin}: id = {variant.variant_id!r} is not allowed: already used by "
                             f"{seen[variant.variant_id]}")
         else:
             seen[variant.variant_id] = variant.origin
-        checked.append(variant)
-    if problems:
-        raise InputError(_problem_line(batch_file.name, problems))
-    return BatchPlan(
-        name=safe_name(name),
-        batch_file=batch_file,
-        study_file=study_file,
-        variants=tuple(checked),
-        common=dict(common),
-        pdf=pdf,
-    )
+    return list(variants)
 
 
 def _problem_line(where: str, problems: list[str]) -> str:

@@ -9,9 +9,9 @@ verdict rests on the equivalent-linear numbers only (``verdict_basis`` =
 ``equivalent linear``) and the floor-acceleration ratio stays empty. Run the
 promising variants through the full workbook afterwards.
 
-It uses the study run's own code-report, verdict-figure and equivalent-
-bilinear steps (``isolation.study.assembly.design_alternative`` / ``verdict_figures``
-/ ``history_isolator``) so that a sweep and a record judge a variant alike.
+It uses the study run's own design step and typed stages
+(:func:`isolation.study.stages.design_study`, ``alternative_design``,
+``alternative_figures``) so that a sweep and a record judge a variant alike.
 
 :func:`sweep_runner` is a batch runner (see :mod:`isolation.app.batch.runners`),
 so a sweep has the same executors, progress, resume and summary as a record
@@ -32,7 +32,6 @@ import dataclasses
 import functools
 import re
 import time
-from concurrent.futures import Executor
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -43,12 +42,6 @@ __all__ = ["sweep_runner", "design_rows", "design_rows_many", "sweep_many", "var
            "validate_direct"]
 
 EQUIVALENT_LINEAR = "equivalent linear"
-_NO_HISTORY = {
-    "isolator_displacement_with_torsion": None,
-    "superstructure_shear_ratio": None,
-    "floor_acceleration_ratio": None,
-    "drift_ratio_isolated": None,
-}
 
 
 @functools.lru_cache(maxsize=8)
@@ -71,45 +64,25 @@ def design_rows(study) -> list[dict]:
     list of dict
         One row per alternative (columns of :mod:`isolation.app.batch.summary`).
     """
-    from isolation.study import assembly as model
+    from isolation.study.stages import design_study
 
-    spectrum = model.site_spectrum(study)
-    period, _ = model.fixed_base_period(study)
-    weight = study.building.total_weight
-    alternatives = []
-    for alternative in study.alternatives:
-        system = model.isolation_system(alternative)
-        sets = system.property_sets(weight)
-        report, quantities, permitted, reasons = model.design_alternative(study, sets, system, spectrum, period)
-        checks = system.checks(quantities["total_displacement"])
-        alternatives.append(_judged(study, spectrum, period, alternative, system, sets, report, quantities,
-                                    permitted, reasons, checks))
-    shear = fixed_base_elastic_shear(spectrum, period, weight)
+    design = design_study(study)
+    alternatives = [_judged(study, design.spectrum, alternative) for alternative in design.alternatives]
+    shear = fixed_base_elastic_shear(design.spectrum, design.fixed_base_period, study.building.total_weight)
     return rows_from_results({"alternatives": alternatives}, shear, verdict_basis=EQUIVALENT_LINEAR)
 
 
-_BOUND_KEYS = ("displacement", "period", "damping", "base_shear")
-
-
-def _judged(study, spectrum, period, alternative, system, sets, report, quantities, permitted, reasons,
-            checks) -> dict:
-    """One alternative's row input: bounds, quantities and the verdict on the equivalent-linear numbers."""
+def _judged(study, spectrum, design) -> dict:
+    """One alternative's row input (an :class:`isolation.study.stages.AlternativeDesign`): bounds,
+    quantities and the verdict on the equivalent-linear numbers."""
     from isolation import verdict
-    from isolation.study import assembly as model
+    from isolation.study.stages import alternative_figures
 
-    bounds = report.bounds.results
-    strength = getattr(sets["lower"], "characteristic_strength", None)
-    if strength is None:  # strain-dependent rubber: Q_d of its equivalent bilinear, as the study run does
-        strength = model.history_isolator(sets["lower"], bounds["lower"]).characteristic_strength
-    quantities = dict(quantities, displacement_capacity=system.displacement_capacity, moat=alternative.moat,
-                      characteristic_strength=strength)
-    figures = model.verdict_figures(study, spectrum, alternative, quantities, _NO_HISTORY, report, permitted,
-                                    reasons, checks, bounds, period)
-    judged = verdict.assess(figures)
+    judged = verdict.assess(alternative_figures(study, spectrum, design))
     return {
-        "name": alternative.name,
-        "bounds": {name: {k: getattr(result, k) for k in _BOUND_KEYS} for name, result in bounds.items()},
-        "quantities": quantities,
+        "name": design.name,
+        "bounds": design.bound_numbers(),
+        "quantities": design.quantities.to_dict(),
         "figures": {"floor_acceleration_ratio": None},
         "verdict": {"outcome": judged.outcome},
     }
@@ -289,12 +262,29 @@ def design_rows_many(studies: list) -> list:
         Per study its list of rows, or the exception its design raised
         (:func:`design_rows` raises the same one).
     """
-    from isolation.design.array_kernel import design_bounds_many
+    prepared, todo = _prepare_many(studies)
+    judged = _design_many(todo)
+    out: list[Exception | list[dict]] = []
+    for entry in prepared:
+        if isinstance(entry, Exception):
+            out.append(entry)
+            continue
+        context, keys = entry
+        found = [judged[k] for k in keys]
+        failed = next((f for f in found if isinstance(f, Exception)), None)
+        out.append(failed if failed is not None else
+                   rows_from_results({"alternatives": found}, context["shear"], verdict_basis=EQUIVALENT_LINEAR))
+    return out
+
+
+def _prepare_many(studies: list) -> tuple[list, dict]:
+    """Per study (context, alternative keys) or its exception, and the distinct alternatives to design:
+    (context id, alternative key) -> [alternative, system, property sets, context]."""
     from isolation.study import assembly as model
 
     contexts: dict = {}
-    prepared: list = []  # per study: (context, [(alternative, key)]) or an exception
-    todo: dict = {}  # (context id, alternative key) -> [alternative, system, sets, context]
+    prepared: list = []
+    todo: dict = {}
     for study in studies:
         try:
             ckey = _context_key(study)
@@ -317,11 +307,18 @@ def design_rows_many(studies: list) -> list:
             prepared.append((context, keys))
         except Exception as error:  # noqa: BLE001 - reported per study, as design_rows raises it
             prepared.append(error)
+    return prepared, todo
+
+
+def _design_many(todo: dict) -> dict:
+    """Key -> judged alternative (or its exception): the bounds of each context's alternatives in one
+    array-kernel call, then the code design and verdict of each."""
+    from isolation.design.array_kernel import design_bounds_many
+    from isolation.study.stages import alternative_design
 
     by_spectrum: dict = {}
     for key, entry in todo.items():
-        context = entry[3]
-        by_spectrum.setdefault(id(context), []).append(key)
+        by_spectrum.setdefault(id(entry[3]), []).append(key)
     judged: dict = {}
     for keys in by_spectrum.values():
         context = todo[keys[0]][3]
@@ -332,24 +329,12 @@ def design_rows_many(studies: list) -> list:
             try:
                 if isinstance(found, Exception):
                     raise found
-                report, quantities, permitted, reasons = model.design_alternative(
-                    study, sets, system, context["spectrum"], context["period"], bounds=found)
-                checks = system.checks(quantities["total_displacement"])
-                judged[key] = _judged(study, context["spectrum"], context["period"], alternative, system, sets,
-                                      report, quantities, permitted, reasons, checks)
+                design = alternative_design(study, alternative, context["spectrum"], context["period"],
+                                            system=system, sets=sets, bounds=found)
+                judged[key] = _judged(study, context["spectrum"], design)
             except Exception as error:  # noqa: BLE001
                 judged[key] = error
-    out: list[Exception | list[dict]] = []
-    for entry in prepared:
-        if isinstance(entry, Exception):
-            out.append(entry)
-            continue
-        context, keys = entry
-        found = [judged[k] for k in keys]
-        failed = next((f for f in found if isinstance(f, Exception)), None)
-        out.append(failed if failed is not None else
-                   rows_from_results({"alternatives": found}, context["shear"], verdict_basis=EQUIVALENT_LINEAR))
-    return out
+    return judged
 
 
 def _bounds_each(property_sets: list, weight: float, context: dict, many) -> list:
@@ -397,122 +382,4 @@ def sweep_many(tasks: list) -> list:
 sweep_runner.many = sweep_many  # type: ignore[attr-defined]  # chunks run together (runners.guarded_chunk)
 
 
-# --- validation of a direct sweep ---------------------------------------------------------
-
-
-def check_direct(study_file: str, items: list, settings: Mapping | None = None) -> list:
-    """:func:`isolation.app.batch.check.check_variants` for a direct sweep (no model checks), quick for
-    variants of bearing properties, property factors and moats (see :func:`variant_study`).
-
-    Returns
-    -------
-    list of (str, str or None, str or None)
-        Variant id, input hash (None when invalid), one-line problem (None when valid).
-    """
-
-    found: list[tuple[str, str | None, str | None]] = []
-    parts: dict = {}
-    for variant_id, overrides in items:
-        try:
-            study = variant_study(study_file, overrides)
-        except ValueError as error:
-            found.append((variant_id, None, " ".join(str(error).split())))
-            continue
-        found.append((variant_id, _variant_hash(study, parts, settings), None))
-    return found
-
-
-def _variant_hash(study, parts: dict, settings) -> str:
-    """:func:`isolation.app.batch.check.variant_hash` of ``study.to_dict()``, the parts that variants of
-    one base study share made hashable once."""
-    import hashlib
-    import json
-
-    from isolation.app.batch.check import _hashable
-
-    mapping = _study_dict(study, parts)
-    cache = parts.setdefault("hashable", {})
-    shared = cache.get(id(mapping["_shared"]))
-    if shared is None or shared[0] is not mapping["_shared"]:
-        shared = (mapping["_shared"], _hashable(mapping["_shared"]))
-        cache[id(mapping["_shared"])] = shared
-    alternatives = []
-    for key, value in zip(mapping["_keys"], mapping["alternatives"]):
-        if key not in cache:
-            cache[key] = _hashable(value)
-        alternatives.append(cache[key])
-    payload = {"study": {**shared[1], "alternatives": alternatives}, "settings": _hashable(settings or {})}
-    return hashlib.sha256(json.dumps(payload, sort_keys=True).encode("utf-8")).hexdigest()
-
-
-_SHARED_FIELDS = ("project", "basis", "units", "site", "building", "analysis", "wind_base_shear", "source")
-
-
-def _study_dict(study, parts: dict) -> dict:
-    """``study.to_dict()`` in parts: ``_shared`` (all but the alternatives, shared by the variants of
-    one base study: same objects), ``alternatives`` and their ``_keys``."""
-    from dataclasses import asdict
-
-    from isolation.plain import plain
-
-    shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)
-    key = tuple(map(id, shared))
-    entry: tuple | None = parts.get(key)
-    if entry is None or any(a is not b for a, b in zip(entry[0], shared)):
-        whole = study.to_dict()
-        entry = (shared, {k: v for k, v in whole.items() if k != "alternatives"}, {})
-        parts[key] = entry
-    alternatives, keys = [], []
-    for alternative in study.alternatives:
-        akey = _alternative_key(alternative)
-        if akey not in entry[2]:
-            entry[2][akey] = plain(asdict(alternative), keep_nonfinite=True)
-        alternatives.append(entry[2][akey])
-        keys.append(("alternative", akey))
-    return {"_shared": entry[1], "_keys": keys, "alternatives": alternatives}
-
-
-def validate_direct(plan, settings: Mapping | None = None, *, executor: Executor | None = None,
-                    chunks: int = 8) -> dict[str, str]:
-    """:func:`isolation.app.batch.check.validate_plan` for a direct sweep: every variant checked before
-    anything runs, the same hashes and the same one-message error, much quicker on large grids.
-
-    Parameters
-    ----------
-    plan : isolation.app.batch.plan.BatchPlan
-    settings : mapping, optional
-        Run settings folded into each variant's input hash.
-    executor : concurrent.futures.Executor, optional
-        Check large batches in ``chunks`` pieces in parallel.
-    chunks : int
-        Pieces the variants are split into on the executor. [-]
-
-    Returns
-    -------
-    dict
-        Variant id -> input hash.
-
-    Raises
-    ------
-    isolation.errors.InputError
-        Every invalid variant with the key path, the value and what is allowed.
-    """
-    from isolation.app.batch.check import CHUNK_FROM
-    from isolation.errors import InputError
-    from isolation.study import read_study_mapping
-
-    read_study_mapping(plan.study_file)  # a missing or malformed base study: one clear error
-    items = [(v.variant_id, plan.overrides_for(v)) for v in plan.variants]
-    settings = dict(settings or {})
-    if executor is None or len(items) < 4 * CHUNK_FROM:
-        found = check_direct(str(plan.study_file), items, settings)
-    else:
-        size = -(-len(items) // max(int(chunks), 1))
-        futures = [executor.submit(check_direct, str(plan.study_file), items[i:i + size], settings)
-                   for i in range(0, len(items), size)]
-        found = [entry for future in futures for entry in future.result()]
-    problems = [f"[{variant_id}] {problem}" for variant_id, _, problem in found if problem]
-    if problems:
-        raise InputError(
-            f"{plan.batch_file.name}: {len(problems)} of {len(items)} variants are invalid: " + "; ".join(problems))
-    return {variant_id: digest for variant_id, digest, _ in found}
+from isolation.app.batch.sweep_check import check_direct, validate_direct  # noqa: E402, F401 - re-exported

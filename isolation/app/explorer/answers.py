@@ -37,12 +37,11 @@ from dataclasses import asdict, dataclass, field
 from typing import Any, Mapping
 
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from isolation import validate
 from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
-from isolation.app.explorer.tables import (
+from isolation.app.explorer.tables import (  # noqa: F401 - used as ex._length by live
     _force,
     _length,
     checks_html,
@@ -54,7 +53,6 @@ from isolation.app.explorer.tables import (
     summary_table,
     warnings_html,
 )
-from isolation.output.plots import COLOURS, masing_loop
 
 __all__ = [
     "BEARING_TYPES",
@@ -397,137 +395,8 @@ def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **valu
                           tuple(plausibility(answer)), spectrum, layout)
 
 
-# --- trade-off -----------------------------------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class TradeOff:
-    """Displacement against base shear while one bearing parameter is swept.
-
-    Attributes
-    ----------
-    parameter : str
-        The swept setting (see :data:`TRADE_OFF_PARAMETERS`).
-    values : ndarray
-        Its values, increasing, the current one among them. [SI unit of the setting]
-    total_displacement : ndarray
-        D_TM at each value (NaN where no answer). [m]
-    base_shear_coefficient : ndarray
-        Upper-bound V_b/W at each value (NaN where no answer). [-]
-    """
-
-    parameter: str
-    values: np.ndarray
-    total_displacement: np.ndarray
-    base_shear_coefficient: np.ndarray
-
-
-def _swept(settings: ExplorerSettings, parameter: str, value: float) -> dict:
-    if settings.bearing_type == "double concave" and parameter in ("friction", "radius"):
-        return {f"{parameter}_1": value, f"{parameter}_2": value}
-    return {parameter: int(round(value)) if _CONTROL[parameter].integer else value}
-
-
-def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: int = 9) -> TradeOff:
-    """Sweep one bearing parameter over its control's range and answer at each value.
-
-    Parameters
-    ----------
-    settings : ExplorerSettings
-        Everything else stays as set.
-    parameter : str, optional
-        One of ``TRADE_OFF_PARAMETERS[settings.bearing_type]``; default the first.
-    count : int
-        Number of values spread over the range, >= 2; the current value is added. [-]
-    """
-    from isolation.errors import RunError
-
-    allowed = TRADE_OFF_PARAMETERS[settings.bearing_type]
-    parameter = parameter or allowed[0]
-    validate.one_of("parameter", parameter, allowed)
-    if isinstance(count, bool) or int(count) != count or count < 2:
-        raise ValueError(f"count = {count!r} is not allowed: must be a whole number >= 2")
-    key = f"{parameter}_1" if settings.bearing_type == "double concave" and parameter != "layers" else parameter
-    control = _CONTROL[key]
-    high = control.high
-    if parameter == "lead_diameter":  # a core wider than half the bearing is not made (common practice)
-        high = min(high, 0.5 * settings.outer_diameter)
-    current = float(getattr(settings, key))
-    values = np.unique(np.append(np.linspace(control.low, high, int(count)), current))
-    if control.integer:
-        values = np.unique(np.round(values))
-    displacement = np.full(values.shape, np.nan)
-    shear = np.full(values.shape, np.nan)
-    for i, value in enumerate(values):
-        try:
-            answer = explore(settings, **_swept(settings, parameter, float(value)))
-        except (ValueError, RunError):
-            continue
-        displacement[i] = answer.quantities["total_displacement"]
-        shear[i] = answer.results["upper"].base_shear / settings.weight
-    return TradeOff(parameter, values, displacement, shear)
-
-
-# --- plots ---------------------------------------------------------------------------------------
-
-
-def plot_series(answer: ExplorerAnswer, points: int = 160) -> dict:
-    """The numbers the live plots draw, in the display units of ``answer.settings.units``.
-
-    Returns a mapping with ``periods`` [s] and ``sa_5`` [g] (the 5 %-damped
-    spectrum), and per property set ``damped[case]`` (Sa at that set's
-    effective damping [g], the curve its isolated point sits on),
-    ``point[case]`` ((T_eff [s], Sa [g])), ``loop[case]`` ((displacement,
-    force) of the loop at D), plus ``fixed`` ((T_fb, Sa(T_fb, 5 %))),
-    ``total_displacement`` (D_TM), ``capacity`` and the units ``length`` and
-    ``force`` used.
-    """
-    s = answer.settings
-    spectrum = answer.spectrum or s.spectrum()
-    longest = max(r.period for r in answer.results.values())
-    periods = np.linspace(0.0, max(4.0, 1.25 * longest), points)
-    scale_d = _length(1.0, s.units)[0]
-    scale_f = _force(1.0, s.units)[0]
-    series: dict[str, Any] = {"periods": periods, "sa_5": np.asarray(spectrum.sa(periods, 0.05), dtype=float),
-                              "damped": {}, "point": {}, "loop": {},
-                              "length": _length(1.0, s.units)[1], "force": _force(1.0, s.units)[1]}
-    for case, r in answer.results.items():
-        series["damped"][case] = np.asarray(spectrum.sa(periods, r.damping), dtype=float)
-        series["point"][case] = (float(r.period), float(spectrum.sa(r.period, r.damping)))
-        x, f = masing_loop(answer.backbones[case], r.displacement)
-        series["loop"][case] = (np.asarray(x) * scale_d, np.asarray(f) * scale_f)
-    t_fb = s.fixed_base_period
-    series["fixed"] = (t_fb, float(spectrum.sa(t_fb, 0.05)))
-    series["total_displacement"] = answer.quantities["total_displacement"] * scale_d
-    series["capacity"] = s.displacement_capacity * scale_d
-    return series
-
-
-def explorer_figure(answer: ExplorerAnswer) -> Figure:
-    """Spectra with the fixed-base and isolated points beside the loops at D (static matplotlib)."""
-    series = plot_series(answer)
-    fig = Figure(figsize=(9.0, 3.4), layout="constrained")
-    FigureCanvasAgg(fig)
-    left, right = fig.subplots(1, 2)
-    left.plot(series["periods"], series["sa_5"], color="k", lw=1.5, label="5 % damping")
-    t_fb, sa_fb = series["fixed"]
-    left.plot([t_fb], [sa_fb], "o", color=COLOURS["fixed"], label=f"fixed base {t_fb:.2f} s")
-    for case, r in answer.results.items():
-        colour = COLOURS[case]
-        left.plot(series["periods"], series["damped"][case], color=colour, lw=0.8, ls="--")
-        left.plot(*series["point"][case], "s", color=colour,
-                  label=f"{case} {r.period:.2f} s, β = {100 * r.damping:.0f} %")
-        x, f = series["loop"][case]
-        d, unit = _length(r.displacement, answer.settings.units)
-        right.plot(x, f, color=colour, lw=1.3, label=f"{case}: D = {d:.0f} {unit}")
-    left.set_xlabel("Period T [s]")
-    left.set_ylabel("Sa [g]")
-    right.set_xlabel(f"Displacement [{series['length']}]")
-    right.set_ylabel(f"Force, isolation plane [{series['force']}]")
-    for ax in (left, right):
-        ax.grid(alpha=0.3)
-        ax.legend(fontsize=7)
-    return fig
 
 
 def update(values: Mapping[str, Any]) -> tuple[ExplorerAnswer, str, Figure]:
@@ -556,3 +425,8 @@ def build_explorer(settings: ExplorerSettings | None = None):
     """
     from isolation.app.explorer.live import build
     return build(settings or ExplorerSettings())
+
+
+# Re-exported: the trade-off and the figures live in their own modules.
+from isolation.app.explorer.figures import explorer_figure, plot_series  # noqa: E402, F401
+from isolation.app.explorer.trade import TradeOff, _swept, trade_off  # noqa: E402, F401

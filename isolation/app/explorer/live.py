@@ -20,7 +20,6 @@ import numpy as np
 
 from isolation.app.explorer import answers as ex
 from isolation.app.explorer.controls import (
-    BASES,
     BEARING_TYPES,
     CHOICES,
     CONTROLS,
@@ -30,73 +29,10 @@ from isolation.app.explorer.controls import (
     unit_factor,
     unit_name,
 )
+from isolation.app.explorer.page_parts import _CAPTIONS, _CSS, _figure, _lines, _points, _slug
 from isolation.output.plots import COLOURS
 
 __all__ = ["build"]
-
-def _slug(text: str) -> str:
-    return text.replace(" ", "-")
-
-
-_CSS = """
-<style>
-.isolation-explorer { max-width: 1260px; font-size: 13px; }
-.isolation-explorer .iso-label { line-height: 15px; white-space: normal; overflow-wrap: anywhere; }
-.isolation-explorer .iso-group { font-weight: bold; margin: 8px 0 2px 0; border-bottom: 1px solid #ccc; }
-.isolation-explorer table.iso-table { border-collapse: collapse; margin: 4px 0; }
-.isolation-explorer table.iso-table td, .isolation-explorer table.iso-table th {
-  padding: 2px 6px; border-bottom: 1px solid #e4e4e4; text-align: right; }
-.isolation-explorer table.iso-table th { text-align: left; font-weight: normal; }
-.isolation-explorer table.iso-table td:first-child { text-align: left; }
-.isolation-explorer .iso-source { font-size: 11px; color: #555; text-align: left !important; }
-.isolation-explorer .iso-warnings { background: #fff4e0; border-left: 4px solid #d08000; padding: 4px 8px; }
-.isolation-explorer .iso-caption { font-size: 12px; color: #333; margin: 0 0 8px 0; }
-.isolation-explorer.iso-busy .iso-results { opacity: 0.55; }
-.isolation-explorer.iso-busy { cursor: progress; }
-.isolation-explorer .iso-typed, .isolation-explorer .iso-based { display: none !important; }
-""" + "".join(
-    f".isolation-explorer.iso-bearing-{_slug(t)} .iso-for-{_slug(t)} {{ display: flex !important; }}\n"
-    for t in BEARING_TYPES) + "".join(
-    f".isolation-explorer.iso-basis-{b} .iso-on-{b} {{ display: flex !important; }}\n" for b in BASES) + """
-</style>
-"""
-
-_CAPTIONS = {
-    "spectrum": ("Figure 1. Site spectrum at 5 % damping (black) and at each property set's effective damping "
-                 "(dashed, lower blue, nominal grey, upper red); squares mark the isolated periods on their own "
-                 "damped curve, the circle the fixed-base building; hollow grey marks a pinned alternative."),
-    "loops": ("Figure 2. Force-displacement loops of the whole isolation plane at D for each property set "
-              "(lower bound blue, nominal grey, upper bound red); the black vertical line is D_TM (with "
-              "torsion), the red one the bearing's displacement capacity."),
-    "trade": ("Figure 3. Trade-off: D_TM against the upper-bound base-shear coefficient V_b/W while the chosen "
-              "parameter runs over its slider range (labels give its value); the black dot is the current "
-              "alternative, the grey one the pinned alternative."),
-}
-
-
-def _figure(x_label: str, y_label: str, title: str):
-    import bqplot as bq
-    import ipywidgets as w
-
-    sx, sy = bq.LinearScale(), bq.LinearScale()
-    axes = [bq.Axis(scale=sx, label=x_label, grid_lines="dashed"),
-            bq.Axis(scale=sy, label=y_label, orientation="vertical", grid_lines="dashed", label_offset="45px")]
-    figure = bq.Figure(axes=axes, marks=[], title=title, animation_duration=0,
-                       fig_margin={"top": 30, "bottom": 45, "left": 60, "right": 15},
-                       layout=w.Layout(flex="1 1 360px", min_width="320px", height="300px"),
-                       legend_location="top-right", legend_style={"font-size": "10px"})
-    return figure, sx, sy
-
-
-def _lines(bq, sx, sy, colour, label="", style="solid", width=1.5):
-    return bq.Lines(x=[0.0, 1.0], y=[0.0, 0.0], scales={"x": sx, "y": sy}, colors=[colour], line_style=style,
-                    stroke_width=width, labels=[label] if label else [], display_legend=bool(label))
-
-
-def _points(bq, sx, sy, colour, marker="square", label="", fill=True):
-    return bq.Scatter(x=[0.0], y=[0.0], scales={"x": sx, "y": sy}, colors=[colour], marker=marker,
-                      default_size=70, fill=fill, stroke=colour, labels=[label] if label else [],
-                      display_legend=bool(label))
 
 
 class _Explorer:
@@ -122,6 +58,26 @@ class _Explorer:
         self.busy = w.HTML("", layout=w.Layout(width="140px"))
         self.busy.add_class("iso-busy-cue")
 
+        self._build_controls(settings)
+        self.message = w.HTML()
+        self.warnings = w.HTML()
+        self.quantities = w.HTML()
+        self.bearing_layout = w.HTML()
+        self.summary = w.HTML()
+        self.checks = w.HTML()
+        self.comparison = w.HTML()
+        self.export_link = w.HTML()
+
+        self._build_figures()
+        self._build_buttons()
+        self._build_layout()
+        self._show_controls()
+        self._sweep_options()
+        self._refresh()
+
+    def _build_controls(self, settings: ex.ExplorerSettings) -> None:
+        """One row per control (label, slider, entry, unit) and per choice, grouped."""
+        w = self.w
         self.entries: dict[str, Any] = {}
         self.sliders: dict[str, Any] = {}
         self.unit_labels: dict[str, Any] = {}
@@ -172,15 +128,10 @@ class _Explorer:
             column += groups[group]
         self.controls_box = w.VBox(column, layout=w.Layout(flex="0 0 480px", width="480px"))
 
-        self.message = w.HTML()
-        self.warnings = w.HTML()
-        self.quantities = w.HTML()
-        self.bearing_layout = w.HTML()
-        self.summary = w.HTML()
-        self.checks = w.HTML()
-        self.comparison = w.HTML()
-        self.export_link = w.HTML()
 
+    def _build_figures(self) -> None:
+        """The three bqplot figures (spectrum, loops, trade-off) and their marks."""
+        bq = self.bq
         f1, sx1, sy1 = _figure("Period T [s]", "Sa [g]", "Spectrum and isolated periods")
         # Few marks, each holding several lines or points: one message per mark and change.
         colours = [COLOURS[case] for case in ex.CASES]
@@ -221,6 +172,10 @@ class _Explorer:
         for name, fig in self.figures.items():
             fig.add_class(f"iso-figure-{name}")
 
+
+    def _build_buttons(self) -> None:
+        """Sweep choice, pin and export buttons; the bar's handlers."""
+        w = self.w
         self.sweep = w.Dropdown(description="Sweep", layout=w.Layout(width="220px"))
         self.sweep.observe(lambda change: self._trade(), names="value")
         self.pin = w.Button(description="Pin this alternative", icon="thumb-tack", layout=w.Layout(width="180px"))
@@ -231,15 +186,19 @@ class _Explorer:
         self.basis.observe(lambda change: self._set(basis=change["new"]), names="value")
         self.units.observe(lambda change: self._switch_units(change["new"]), names="value")
 
+    def _build_layout(self) -> None:
+        """Header, bar, controls beside the results."""
+        w = self.w
         caption = lambda key: w.HTML(f'<p class="iso-caption">{html.escape(_CAPTIONS[key])}</p>')  # noqa: E731
         results = w.VBox([
             self.message, self.warnings,
             w.HTML("<b>Answer</b>"), self.quantities, self.summary,
             w.HTML("<b>Bearing layout</b>"), self.bearing_layout,
-            w.HBox([f1, f2], layout=w.Layout(flex_flow="row wrap", width="100%")),
+            w.HBox([self.figures["spectrum"], self.figures["loops"]],
+                   layout=w.Layout(flex_flow="row wrap", width="100%")),
             caption("spectrum"), caption("loops"),
             w.HTML("<b>Checks</b>"), self.checks,
-            w.HTML("<b>Trade-off</b>"), self.sweep, f3, caption("trade"),
+            w.HTML("<b>Trade-off</b>"), self.sweep, self.figures["trade"], caption("trade"),
             w.HTML("<b>Compare and export</b>"), w.HBox([self.pin, self.export]), self.comparison, self.export_link,
         ], layout=w.Layout(flex="1 1 560px", min_width="520px"))
         results.add_class("iso-results")
@@ -251,10 +210,6 @@ class _Explorer:
                                                  layout=w.Layout(flex_flow="row wrap", align_items="flex-start"))])
         self.root.add_class("isolation-explorer")
         self.root.add_class("iso-bearing-none")
-        self._show_controls()
-        self._sweep_options()
-        self._refresh()
-
     # --- handlers -------------------------------------------------------------------------------
     @staticmethod
     def _range(control, system: str) -> tuple[float, float, float]:

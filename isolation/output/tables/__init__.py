@@ -21,6 +21,7 @@ generic builders), :mod:`~isolation.output.tables.results` (tables of a study's 
 :mod:`~isolation.output.tables.yielding` (comparison with the code-designed yielding fixed base).
 """
 
+from isolation.output.tables.clauses import clause_table
 from isolation.output.tables.loss import loss_table, loss_text
 from isolation.output.tables.results import (
                                       alternatives_table,
@@ -54,6 +55,7 @@ from isolation.output.tables.yielding import (
 )
 
 __all__ = [
+    "clause_table",
     "bidirectional_table",
     "pairs_table",
     "Table",

@@ -10,6 +10,7 @@ from __future__ import annotations
 from typing import Any, Mapping
 
 from isolation.output.tables.table import Table, format_number, in_study_units
+from isolation.study.quantities import DesignQuantities, HistorySummary
 
 __all__ = [
     "bidirectional_table",
@@ -28,6 +29,16 @@ __all__ = [
 
 def _part(obj: Any, name: str) -> Any:
     return obj[name] if isinstance(obj, Mapping) else getattr(obj, name)
+
+
+def _quantities(alternative: Any) -> DesignQuantities:
+    """An alternative's code quantities, typed (from results or their ``to_dict()`` form). [m, s, kN, -]"""
+    return DesignQuantities.from_dict(_part(alternative, "quantities"))
+
+
+def _summary(alternative: Any) -> HistorySummary:
+    """An alternative's response-history summary, typed (from results or their ``to_dict()`` form)."""
+    return HistorySummary.from_dict(_part(alternative, "history")["summary"] or {}, strict=False)
 
 
 def _display(value: float | None, kind: str, system: str) -> tuple[float | None, str]:
@@ -192,7 +203,7 @@ def pairs_table(results: Any) -> Table | None:
 
 def history_table(alternative: Any, system: str = "SI") -> Table:
     """Suite means of the peak responses: fixed base against the isolated bounds."""
-    s = _part(alternative, "history")["summary"]
+    s = _summary(alternative)
     length = _display(1.0, "length", system)[1]
     force = _display(1.0, "force", system)[1]
 
@@ -200,23 +211,27 @@ def history_table(alternative: Any, system: str = "SI") -> Table:
         return None if value is None else _display(value, kind, system)[0]
 
     rows = (
-        (f"Isolator displacement [{length}]", None, show(s["isolator_displacement_lower"], "length"),
-         show(s["isolator_displacement_upper"], "length")),
+        (f"Isolator displacement [{length}]", None, show(s.isolator_displacement_lower, "length"),
+         show(s.isolator_displacement_upper, "length")),
         (f"Isolator displacement with torsion [{length}]", None,
-         show(s["isolator_displacement_with_torsion"], "length"), None),
-        (f"Residual isolator displacement [{length}]", None, show(s["residual_displacement_lower"], "length"), None),
-        ("Peak floor acceleration [g]", s["floor_acceleration_fixed"], s["floor_acceleration_lower"],
-         s["floor_acceleration_upper"]),
-        ("Largest storey drift ratio [%]", 100 * s["drift_ratio_fixed"], None, 100 * s["drift_ratio_isolated"]),
-        (f"Shear above the isolators [{force}]", show(s["superstructure_shear_fixed"], "force"), None,
-         show(s["superstructure_shear_upper"], "force")),
-        (f"Shear through the isolation plane [{force}]", None, None, show(s["isolation_shear_upper"], "force")),
+         show(s.isolator_displacement_with_torsion, "length"), None),
+        (f"Residual isolator displacement [{length}]", None, show(s.residual_displacement_lower, "length"), None),
+        ("Peak floor acceleration [g]", s.floor_acceleration_fixed, s.floor_acceleration_lower,
+         s.floor_acceleration_upper),
+        ("Largest storey drift ratio [%]", _times_100(s.drift_ratio_fixed), None,
+         _times_100(s.drift_ratio_isolated)),
+        (f"Shear above the isolators [{force}]", show(s.superstructure_shear_fixed, "force"), None,
+         show(s.superstructure_shear_upper, "force")),
+        (f"Shear through the isolation plane [{force}]", None, None, show(s.isolation_shear_upper, "force")),
     )
-    fixed = "Fixed base, code design" if _part(alternative, "history")["summary"].get("ductility_fixed") is not None \
-        else "Fixed base"
+    fixed = "Fixed base, code design" if s.ductility_fixed is not None else "Fixed base"
     return Table(columns=("Response (suite mean of peaks)", fixed, "Isolated, lower", "Isolated, upper"),
                  rows=rows, caption=f"Response-history results, {_part(alternative, 'name')}", align="prrr",
                  notes="Drift of the isolated building: the larger of the two bounds, shown under upper.")
+
+
+def _times_100(value: float | None) -> float | None:
+    return None if value is None else 100 * value
 
 
 def verdict_table(alternative: Any) -> Table:
@@ -235,16 +250,15 @@ def comparison_table(results: Any) -> Table:
     length = _display(1.0, "length", system)[1]
     alternatives = list(_part(results, "alternatives"))
     labels = (
-        ("T_M, upper bound [s]", lambda q, s: q["period_upper"]),
-        ("T_M, lower bound [s]", lambda q, s: q["period_lower"]),
-        ("Period shift T_M/T_fb, upper bound [-]", lambda q, s: q["period_upper"] / q["fixed_base_period"]),
+        ("T_M, upper bound [s]", lambda q, s: q.period_upper),
+        ("T_M, lower bound [s]", lambda q, s: q.period_lower),
+        ("Period shift T_M/T_fb, upper bound [-]", lambda q, s: q.period_upper / q.fixed_base_period),
         (f"Total maximum displacement D_TM [{length}]",
-         lambda q, s: _display(q["total_displacement"], "length", system)[0]),
-        ("Design shear, isolated over fixed base [-]", lambda q, s: q["shear_ratio"]),
-        ("Peak floor acceleration, isolated over fixed base [-]", lambda q, s: s["floor_acceleration_ratio"]),
+         lambda q, s: _display(q.total_displacement, "length", system)[0]),
+        ("Design shear, isolated over fixed base [-]", lambda q, s: q.shear_ratio),
+        ("Peak floor acceleration, isolated over fixed base [-]", lambda q, s: s.floor_acceleration_ratio),
     )
-    rows = [tuple([label] + [read(_part(a, "quantities"), _part(a, "history")["summary"]) for a in alternatives])
-            for label, read in labels]
+    rows = [tuple([label] + [read(_quantities(a), _summary(a)) for a in alternatives]) for label, read in labels]
     rows.append(tuple(["Verdict"] + [_part(a, "verdict")["outcome"] for a in alternatives]))
     return Table(
         columns=tuple(["Quantity"] + [_part(a, "name") for a in alternatives]),

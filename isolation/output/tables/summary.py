@@ -16,7 +16,7 @@ import math
 import re
 from typing import Any
 
-from isolation.output.tables.results import _display, _part, display_quantity
+from isolation.output.tables.results import _display, _part, _quantities, _summary, _times_100, display_quantity
 from isolation.output.tables.symbols import markdown_text
 from isolation.output.tables.table import Table, format_number
 
@@ -55,7 +55,7 @@ def _deciding(alternative: Any) -> list[dict]:
 
 
 def _floor_ratio(alternative: Any) -> float:
-    value = _part(alternative, "history")["summary"].get("floor_acceleration_ratio")
+    value = _summary(alternative).floor_acceleration_ratio
     return math.inf if value is None else float(value)
 
 
@@ -92,16 +92,17 @@ def summary_table(results: Any) -> Table:
     alternatives = list(_part(results, "alternatives"))
 
     def column(alternative: Any) -> list[str]:
-        q, s = _part(alternative, "quantities"), _part(alternative, "history")["summary"]
-        moat = q.get("moat")
+        q, s = _quantities(alternative), _summary(alternative)
+        moat = q.moat
         return [
             _outcome(alternative),
-            f"{q['period_upper']:.2f} – {q['period_lower']:.2f}",
-            format_number(_display(q["total_displacement"], "length", system)[0]),
+            f"{q.period_upper:.2f} – {q.period_lower:.2f}",
+            format_number(_display(q.total_displacement, "length", system)[0]),
             "not given" if moat is None else format_number(_display(moat, "length", system)[0]),
-            _percent(s.get("superstructure_shear_ratio")),
-            _percent(s.get("floor_acceleration_ratio")),
-            f"{format_number(100 * s['drift_ratio_isolated'], 2)} / {format_number(100 * s['drift_ratio_fixed'], 2)}",
+            _percent(s.superstructure_shear_ratio),
+            _percent(s.floor_acceleration_ratio),
+            f"{format_number(_times_100(s.drift_ratio_isolated), 2)} / "
+            f"{format_number(_times_100(s.drift_ratio_fixed), 2)}",
         ]
 
     labels = ("Verdict", f"Isolated period {symbols['period']}, upper to lower bound [s]",
@@ -161,17 +162,17 @@ def summary_text(results: Any) -> str:
         else:
             why = f"like {', '.join(_name(a) for a in equal)}, and with the lower peak floor acceleration"
         first = f"**{_name(best)}** is the preferred alternative: {outcome}, {why}."
-    q, s = _part(best, "quantities"), _part(best, "history")["summary"]
-    moat = q.get("moat")
-    fixed = q.get("fixed_base_period")
+    q, s = _quantities(best), _summary(best)
+    moat = q.moat
+    fixed = q.fixed_base_period
     start = "" if fixed is None else f" from T_fb = {fixed:.2f} s"
     room = "no moat width given" if moat is None else f"moat {display_quantity(moat, 'length', system)}"
     sentences = [first, (
-        f"It lengthens the building's period{start} to {symbols['period']} = {q['period_upper']:.2f}–"
-        f"{q['period_lower']:.2f} s, its isolators move by up to {symbols['total_displacement']} = "
-        f"{display_quantity(q['total_displacement'], 'length', system)} ({room}), and it brings the peak floor "
-        f"acceleration to {_percent(s.get('floor_acceleration_ratio'))} % and the base shear above the isolators "
-        f"to {_percent(s.get('superstructure_shear_ratio'))} % of those of {_fixed_label(results)}.")]
+        f"It lengthens the building's period{start} to {symbols['period']} = {q.period_upper:.2f}–"
+        f"{q.period_lower:.2f} s, its isolators move by up to {symbols['total_displacement']} = "
+        f"{display_quantity(q.total_displacement, 'length', system)} ({room}), and it brings the peak floor "
+        f"acceleration to {_percent(s.floor_acceleration_ratio)} % and the base shear above the isolators "
+        f"to {_percent(s.superstructure_shear_ratio)} % of those of {_fixed_label(results)}.")]
     deciding = _deciding(best)
     if deciding:
         more = deciding[1:]
