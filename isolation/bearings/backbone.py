@@ -13,6 +13,9 @@ Two value objects share one interface:
 Both answer, at a displacement amplitude D: backbone force, effective
 (secant) stiffness, energy dissipated per cycle and effective damping, and
 both list their parallel elements for the response-history engine.
+:class:`CombinedBackbone` adds any backbones side by side (e.g. an
+amplitude-dependent rubber group beside a bilinear one); :func:`combine` sums
+the groups of an isolation plane.
 
 References
 ----------
@@ -30,7 +33,7 @@ import numpy as np
 
 from isolation import validate
 
-__all__ = ["Bilinear", "MultiLinear"]
+__all__ = ["Bilinear", "MultiLinear", "CombinedBackbone", "combine"]
 
 
 class _Backbone:
@@ -301,3 +304,69 @@ class MultiLinear(_Backbone):
             "stiffnesses": list(self.stiffnesses),
             "strengths": list(self.strengths),
         }
+
+
+@dataclass(frozen=True)
+class CombinedBackbone:
+    """Backbones side by side whose forces and loop energies add (any with force and loop_energy).
+
+    Parameters
+    ----------
+    parts : tuple
+        Backbones (Bilinear, MultiLinear, amplitude-dependent rubber, ...).
+    """
+
+    parts: tuple
+
+    def force(self, displacement):
+        """Sum of the parts' forces at a displacement [m]. [kN]"""
+        out = sum(np.asarray(p.force(displacement), dtype=float) for p in self.parts)
+        return float(out) if np.ndim(out) == 0 else out
+
+    def effective_stiffness(self, displacement):
+        """Sum of secant stiffnesses at amplitude D > 0 [m]. [kN/m]"""
+        out = sum(np.asarray(p.effective_stiffness(displacement), dtype=float) for p in self.parts)
+        return float(out) if np.ndim(out) == 0 else out
+
+    def loop_energy(self, displacement):
+        """Sum of energies per cycle at amplitude D > 0 [m]. [kN m]"""
+        out = sum(np.asarray(p.loop_energy(displacement), dtype=float) for p in self.parts)
+        return float(out) if np.ndim(out) == 0 else out
+
+    def effective_damping(self, displacement):
+        """EDC/(2 pi K_eff D^2) of the combination at amplitude D > 0 [m]. [-]"""
+        d = np.asarray(displacement, dtype=float)
+        out = np.asarray(self.loop_energy(d)) / (2.0 * math.pi * np.asarray(self.effective_stiffness(d)) * d**2)
+        return float(out) if out.ndim == 0 else out
+
+    def times(self, count) -> "CombinedBackbone":
+        """``count`` copies in parallel; count > 0. [-]"""
+        return CombinedBackbone(tuple(p.times(count) for p in self.parts))
+
+    def scaled(self, *, stiffness=1.0, strength=1.0) -> "CombinedBackbone":
+        """Factors on every part's stiffness and strength, each > 0. [-]"""
+        return CombinedBackbone(tuple(p.scaled(stiffness=stiffness, strength=strength) for p in self.parts))
+
+    def parallel(self, *others) -> "CombinedBackbone":
+        """Add further backbones side by side."""
+        return CombinedBackbone(self.parts + tuple(others))
+
+    def to_dict(self) -> dict:
+        return {"kind": "combined", "parts": [p.to_dict() for p in self.parts]}
+
+
+def combine(backbones):
+    """Sum backbones: a Bilinear when all are bilinear with one yield displacement, else a
+    MultiLinear when all have parallel elements, else a :class:`CombinedBackbone`."""
+    backbones = list(backbones)
+    if len(backbones) == 1:
+        return backbones[0]
+    if all(isinstance(b, Bilinear) for b in backbones):
+        dy = [b.yield_displacement for b in backbones]
+        if all(math.isclose(x, dy[0], rel_tol=1e-9) for x in dy):
+            return Bilinear(sum(b.elastic_stiffness for b in backbones),
+                            sum(b.post_yield_stiffness for b in backbones),
+                            sum(b.characteristic_strength for b in backbones))
+    if all(isinstance(b, (Bilinear, MultiLinear)) for b in backbones):
+        return backbones[0].parallel(*backbones[1:])
+    return CombinedBackbone(tuple(backbones))

@@ -6,7 +6,7 @@ table. At one amplitude the bearing is replaced by the bilinear with the same
 effective stiffness and damping (:func:`equivalent_bilinear`).
 
 Geometry, vertical properties, buckling and strain checks are those of every
-laminated bearing (:mod:`isolation.bearings.rubber`, :mod:`isolation.bearings.checks`).
+laminated bearing (:mod:`isolation.bearings.elastomer`, :mod:`isolation.bearings.checks`).
 
 References
 ----------
@@ -24,10 +24,12 @@ import numpy as np
 
 from isolation import validate
 from isolation.bearings import checks as _checks
-from isolation.bearings.backbone import Bilinear
-from isolation.bearings.rubber import _Elastomer, _optional_weight
+from isolation.bearings.backbone import Bilinear, CombinedBackbone
+from isolation.bearings.elastomer import Elastomer, _optional_weight
+from isolation.bearings.registry import BearingType, register
+from isolation.schema import Key, Ordering
 
-__all__ = ["HighDampingRubber", "RubberCompound", "TYPICAL_COMPOUND", "AmplitudeBackbone"]
+__all__ = ["HighDampingRubber", "RubberCompound", "TYPICAL_COMPOUND", "AmplitudeBackbone", "HIGH_DAMPING_RUBBER"]
 
 
 @dataclass(frozen=True)
@@ -139,7 +141,7 @@ def equivalent_bilinear(stiffness, damping, displacement, ratio) -> Bilinear:
 
 
 @dataclass(frozen=True)
-class HighDampingRubber(_Elastomer):
+class HighDampingRubber(Elastomer):
     """High-damping rubber bearing with strain-dependent stiffness and damping.
 
     Parameters
@@ -368,9 +370,26 @@ class AmplitudeBackbone:
 
     def parallel(self, *others):
         """Combine with other backbones (each with force and loop_energy) acting side by side."""
-        from isolation.bearings.system import CombinedBackbone
         return CombinedBackbone((self,) + tuple(others))
 
     def to_dict(self) -> dict:
         return {"kind": "amplitude_dependent", "bearing": self.bearing.to_dict(),
                 "stiffness": self.stiffness, "strength": self.strength}
+
+
+HIGH_DAMPING_RUBBER = register(BearingType(
+    kind="high_damping_rubber",
+    model=HighDampingRubber,
+    keys={
+        "outer_diameter": Key("length", low=0.2, high=2.5),
+        "layer_thickness": Key("length", low=0.002, high=0.05),
+        "layers": Key("integer", low=1, high=200),
+        "inner_diameter": Key("length", required=False, low=0.0, high=1.0),
+        "stiffness_ratio": Key("number", required=False, low=1.0, high=50.0, low_inclusive=False),
+        "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+    },
+    cross_checks=(Ordering("inner_diameter", "outer_diameter", "m"),),
+))
+"""The high-damping rubber bearing in the bearing registry (study ``type = "high_damping_rubber"``).
+Its backbone depends on the amplitude, so it registers no history law: a study runs the
+equivalent bilinear at the design displacement (:func:`isolation.study.assembly.history_isolator`)."""

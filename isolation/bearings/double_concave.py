@@ -2,8 +2,8 @@
 
 With unequal friction the bearing slides on one surface, then on both
 (Fenz & Constantinou 2006, regimes I and II); see :class:`DoubleConcave`.
-The single concave bearing and the shared slider helpers are in
-:mod:`isolation.bearings.friction`.
+The single concave bearing is in :mod:`isolation.bearings.friction`, the
+helpers all sliders share in :mod:`isolation.bearings.slider`.
 
 References
 ----------
@@ -19,16 +19,17 @@ from dataclasses import dataclass
 import numpy as np
 
 from isolation import GRAVITY, validate
+from isolation.bearings import checks as _checks
 from isolation.bearings.backbone import Bilinear, MultiLinear
-from isolation.bearings.friction import (
-    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
-    _friction,
-    _optional_positive,
-    _slider_bilinear,
-    _weight,
-)
+from isolation.bearings.registry import BearingType, register
+from isolation.bearings.slider import DEFAULT_SLIDER_YIELD_DISPLACEMENT
+from isolation.bearings.slider import friction_value as _friction
+from isolation.bearings.slider import optional_positive as _optional_positive
+from isolation.bearings.slider import slider_bilinear as _slider_bilinear
+from isolation.bearings.slider import weight_value as _weight
+from isolation.schema import Key, Ordering
 
-__all__ = ["DoubleConcave"]
+__all__ = ["DoubleConcave", "DOUBLE_CONCAVE"]
 
 
 @dataclass(frozen=True)
@@ -262,7 +263,6 @@ class DoubleConcave:
         weight_share : float, optional
             Weight this bearing restores (default axial_load). [kN]
         """
-        from isolation.bearings import checks as _checks
         return _checks.slider_checks(self, axial_load, displacement, axial_load_max=axial_load_max,
                                      axial_load_min=axial_load_min, weight_share=weight_share)
 
@@ -278,3 +278,23 @@ class DoubleConcave:
             "effective_radius": self.effective_radius,
             "transition_displacement": self.transition_displacement,
         }
+
+
+DOUBLE_CONCAVE = register(BearingType(
+    kind="double_concave",
+    model=DoubleConcave,
+    keys={
+        "radius_1": Key("length", low=0.3, high=20.0),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
+        "radius_2": Key("length", low=0.3, high=20.0),
+        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
+        "slider_height_1": Key("length", required=False, low=0.0, high=2.0),
+        "slider_height_2": Key("length", required=False, low=0.0, high=2.0),
+        "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "displacement_capacity_2": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+    },
+    cross_checks=(Ordering("slider_height_1", "radius_1", "m"), Ordering("slider_height_2", "radius_2", "m")),
+    sliding=True,
+))
+"""The double concave bearing in the bearing registry (study ``type = "double_concave"``); its
+history law is that of its backbone (regimes I and II as a MultiLinear)."""

@@ -44,30 +44,24 @@ from dataclasses import dataclass
 import numpy as np
 
 from isolation import GRAVITY, validate
+from isolation.bearings import checks as _checks
 from isolation.bearings.backbone import Bilinear
+from isolation.bearings.laws import FRICTION_LAWS, SharpFrictionLaw, SmoothLaw
+from isolation.bearings.registry import BearingType, register
+from isolation.bearings.slider import (
+    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
+    friction_value,
+    optional_positive,
+    slider_bilinear,
+    weight_value,
+)
+from isolation.schema import Key, Ordering
 
-__all__ = ["FrictionPendulum", "DEFAULT_SLIDER_YIELD_DISPLACEMENT"]
+__all__ = ["FrictionPendulum", "DEFAULT_SLIDER_YIELD_DISPLACEMENT", "FRICTION_PENDULUM"]
 
-DEFAULT_SLIDER_YIELD_DISPLACEMENT = 0.0005
-"""Numerical yield displacement of a slider, 0.5 mm (common practice). [m]"""
-
-
-def _friction(field: str, value) -> float:
-    return validate.in_range(field, value, 0.0, 1.0, "-", low_inclusive=False, high_inclusive=False)
-
-
-def _optional_positive(field: str, value, unit: str):
-    return None if value is None else validate.positive(field, value, unit)
-
-
-def _weight(weight) -> float:
-    return validate.positive("weight", weight, "kN")
-
-
-def _slider_bilinear(weight: float, radius: float, friction: float, yield_displacement: float) -> Bilinear:
-    post_yield = weight / radius
-    strength = friction * weight
-    return Bilinear(strength / yield_displacement + post_yield, post_yield, strength)
+# the shared slider helpers under their earlier private names
+_friction, _optional_positive = friction_value, optional_positive
+_weight, _slider_bilinear = weight_value, slider_bilinear
 
 
 @dataclass(frozen=True)
@@ -229,7 +223,6 @@ class FrictionPendulum:
         -------
         list of Check
         """
-        from isolation.bearings import checks as _checks
         return _checks.slider_checks(self, axial_load, displacement, axial_load_max=axial_load_max,
                                      axial_load_min=axial_load_min, weight_share=weight_share)
 
@@ -247,9 +240,57 @@ class FrictionPendulum:
             "period": self.period,
         }
 
+    def history_law(self, weight, friction_law: str = "smooth"):
+        """The law the engine integrates when this bearing stands for all sliders of a plane.
+
+        F = (W/R_eff) u + mu(v) W z with the Bouc-Wen z of exponent 2 and beta = gamma = 1/2
+        (Constantinou, Mokha & Reinhorn 1990) for ``"smooth"``, or the elastic-plastic
+        friction element of initial stiffness mu W/D_y for ``"sharp"``.
+
+        Parameters
+        ----------
+        weight : float
+            Weight the sliders carry, > 0. [kN]
+        friction_law : {"smooth", "sharp"}, optional
+            Which friction law. [-]
+
+        Returns
+        -------
+        SmoothLaw or SharpFrictionLaw
+        """
+        w = weight_value(weight)
+        validate.one_of("friction_law", friction_law, FRICTION_LAWS)
+        slow = self.friction if self.friction_slow is None else self.friction_slow  # set in __post_init__
+        if friction_law == "sharp":
+            return SharpFrictionLaw(w / self.effective_radius, self.friction * w, slow * w,
+                                    self.rate_parameter, self.yield_displacement)
+        return SmoothLaw(w / self.effective_radius, self.friction * w, slow * w,
+                         self.rate_parameter, self.yield_displacement, 0.5)
+
+
+FRICTION_PENDULUM = register(BearingType(
+    kind="friction_pendulum",
+    model=FrictionPendulum,
+    keys={
+        "radius": Key("length", low=0.3, high=20.0),
+        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
+        "slider_height": Key("length", required=False, low=0.0, high=2.0),
+        "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False, ratio=True),
+        "rate_parameter": Key("number", required=False, low=0.0, high=500.0, unit="s/m"),
+    },
+    cross_checks=(Ordering("slider_height", "radius", "m"), Ordering("friction_slow", "friction", "-", strict=False)),
+    sliding=True,
+    history_law=FrictionPendulum.history_law,
+    own_history_law=lambda bearing: bearing.friction_slow != bearing.friction,
+    slow_friction_ratio=lambda bearing: bearing.friction_slow / bearing.friction,
+))
+"""The friction pendulum in the bearing registry (study ``type = "friction_pendulum"``)."""
+
 
 def __getattr__(name):
-    """DoubleConcave moved to :mod:`isolation.bearings.double_concave`; still importable from here."""
+    """DoubleConcave moved to :mod:`isolation.bearings.double_concave`; still importable from here
+    (looked up on use: that module does not import this one, so there is no import circle)."""
     if name == "DoubleConcave":
         from isolation.bearings.double_concave import DoubleConcave
         return DoubleConcave

@@ -1,162 +1,28 @@
-"""The isolation plane: bearing groups, property modification factors and bound property sets.
+"""The isolation plane: bearing groups and the bound property sets of the whole plane.
 
-An isolation system is a list of bearing groups (a bearing type, how many, the
-gravity load on each). Its whole-plane behaviour is the sum of the groups'
-backbones; lower-bound, nominal and upper-bound sets apply property
-modification factors lambda to each property (ASCE/SEI 7-16 §17.2.8.4):
-
-    lambda_max = (1 + 0.75 (lambda_ae,max - 1)) lambda_test,max lambda_spec,max
-    lambda_min = (1 - 0.75 (1 - lambda_ae,min)) lambda_test,min lambda_spec,min
-
-(form from memory of the standard; verify the clause before quoting it).
-
-* Elastomeric bearings: ``stiffness`` scales K_d (and K_u with it), ``strength``
-  scales Q_d.
-* Sliding bearings: ``friction`` scales both coefficients of friction; the
-  post-yield stiffness W/R is geometry and is not factored.
+An isolation system is a list of bearing groups (a bearing of any registered
+type, how many, the gravity load on each). Its whole-plane behaviour is the sum
+of the groups' backbones; lower-bound, nominal and upper-bound sets apply the
+property modification factors of :mod:`isolation.bearings.factors` (on friction
+for sliding types, on stiffness and strength for the others; the registry says
+which a type is, :mod:`isolation.bearings.registry`).
 """
 
 from __future__ import annotations
 
-import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
 from isolation import validate
-from isolation.bearings.backbone import Bilinear, MultiLinear
+from isolation.bearings.backbone import Bilinear, CombinedBackbone, MultiLinear, combine  # noqa: F401
 from isolation.bearings.checks import Check, restoring_force_check
-from isolation.bearings.damping_rubber import HighDampingRubber
-from isolation.bearings.double_concave import DoubleConcave
-from isolation.bearings.friction import FrictionPendulum
-from isolation.bearings.rubber import LeadRubber
-from isolation.bearings.triple_pendulum import TripleFrictionPendulum
+from isolation.bearings.factors import CASES, UNQUALIFIED_LOWER, UNQUALIFIED_UPPER, PropertyBound, PropertyFactors
+from isolation.bearings.registry import entry_of, registered
 
 __all__ = ["PropertyBound", "PropertyFactors", "BearingGroup", "IsolationSystem", "CombinedBackbone",
-           "UNQUALIFIED_LOWER", "UNQUALIFIED_UPPER"]
-
-UNQUALIFIED_LOWER = 0.6
-"""Default lambda_min for bearings without qualification data (from memory of ASCE/SEI 7-16 §17.2.8.4). [-]"""
-UNQUALIFIED_UPPER = 1.8
-"""Default lambda_max for bearings without qualification data (from memory of ASCE/SEI 7-16 §17.2.8.4). [-]"""
-
-CASES = ("lower", "nominal", "upper")
-
-
-@dataclass(frozen=True)
-class PropertyBound:
-    """Lower and upper property modification factors of one property.
-
-    Parameters
-    ----------
-    lower : float
-        lambda_min, in (0, 1]. Default 1. [-]
-    upper : float
-        lambda_max, >= 1 and finite. Default 1. [-]
-    """
-
-    lower: float = 1.0
-    upper: float = 1.0
-
-    def __post_init__(self) -> None:
-        object.__setattr__(self, "lower", validate.in_range("lower", self.lower, 0.0, 1.0, "-",
-                                                            low_inclusive=False))
-        upper = validate.finite("upper", self.upper, "-")
-        if upper < 1.0:
-            raise ValueError(f"upper = {self.upper!r} is not allowed: must be a finite number >= 1 [-]")
-        object.__setattr__(self, "upper", upper)
-
-    @classmethod
-    def from_factors(cls, *, aging_max=1.0, aging_min=1.0, test_max=1.0, test_min=1.0,
-                     spec_max=1.0, spec_min=1.0, adjustment=0.75) -> "PropertyBound":
-        """Combine component factors into lambda_min and lambda_max (ASCE/SEI 7-16 §17.2.8.4, from memory).
-
-        Parameters
-        ----------
-        aging_max, aging_min : float
-            Aging and environment factors lambda_ae (max >= 1, min in (0, 1]). [-]
-        test_max, test_min : float
-            Testing factors lambda_test (max >= 1, min in (0, 1]). [-]
-        spec_max, spec_min : float
-            Specification tolerance lambda_spec (max >= 1, min in (0, 1]);
-            1.15/0.85 is common practice. [-]
-        adjustment : float, optional
-            Share of the aging factor counted, in [0, 1]; 0.75 for most
-            buildings, 1.0 for essential facilities (from memory). [-]
-        """
-        a = validate.in_range("adjustment", adjustment, 0.0, 1.0, "-")
-        maxima = {"aging_max": aging_max, "test_max": test_max, "spec_max": spec_max}
-        minima = {"aging_min": aging_min, "test_min": test_min, "spec_min": spec_min}
-        for name, value in maxima.items():
-            number = validate.finite(name, value, "-")
-            if number < 1.0:
-                raise ValueError(f"{name} = {value!r} is not allowed: must be a finite number >= 1 [-]")
-            maxima[name] = number
-        for name, value in minima.items():
-            minima[name] = validate.in_range(name, value, 0.0, 1.0, "-", low_inclusive=False)
-        upper = (1.0 + a * (maxima["aging_max"] - 1.0)) * maxima["test_max"] * maxima["spec_max"]
-        lower = (1.0 - a * (1.0 - minima["aging_min"])) * minima["test_min"] * minima["spec_min"]
-        return cls(lower, upper)
-
-    def factor(self, case: str) -> float:
-        """The factor for "lower", "nominal" or "upper". [-]"""
-        validate.one_of("case", case, CASES)
-        return {"lower": self.lower, "nominal": 1.0, "upper": self.upper}[case]
-
-    def to_dict(self) -> dict:
-        return {"lower": self.lower, "upper": self.upper}
-
-
-def _bound(name, value) -> PropertyBound:
-    if isinstance(value, PropertyBound):
-        return value
-    if isinstance(value, (tuple, list)) and len(value) == 2:
-        return PropertyBound(*value)
-    raise ValueError(f"{name} = {value!r} is not allowed: must be a PropertyBound or a pair (lower, upper)")
-
-
-@dataclass(frozen=True)
-class PropertyFactors:
-    """Property modification factors for each property of a bearing type.
-
-    Parameters
-    ----------
-    stiffness : PropertyBound or (lower, upper)
-        Factors on the post-yield stiffness K_d (elastomers). [-]
-    strength : PropertyBound or (lower, upper)
-        Factors on the characteristic strength Q_d (elastomers). [-]
-    friction : PropertyBound or (lower, upper)
-        Factors on the coefficient of friction (sliders). [-]
-    """
-
-    stiffness: PropertyBound = field(default_factory=PropertyBound)
-    strength: PropertyBound = field(default_factory=PropertyBound)
-    friction: PropertyBound = field(default_factory=PropertyBound)
-
-    def __post_init__(self) -> None:
-        for name in ("stiffness", "strength", "friction"):
-            object.__setattr__(self, name, _bound(name, getattr(self, name)))
-
-    @classmethod
-    def unqualified(cls) -> "PropertyFactors":
-        """Default bounds 0.6/1.8 on every property for unqualified bearings (from memory)."""
-        bound = PropertyBound(UNQUALIFIED_LOWER, UNQUALIFIED_UPPER)
-        return cls(bound, bound, bound)
-
-    @classmethod
-    def nominal_only(cls) -> "PropertyFactors":
-        """All factors 1: the three property sets coincide."""
-        return cls()
-
-    def to_dict(self) -> dict:
-        return {"stiffness": self.stiffness.to_dict(), "strength": self.strength.to_dict(),
-                "friction": self.friction.to_dict()}
-
-
-_SLIDERS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum)
-_BEARINGS = (FrictionPendulum, DoubleConcave, TripleFrictionPendulum, LeadRubber, HighDampingRubber)
-_Bearing = FrictionPendulum | DoubleConcave | TripleFrictionPendulum | LeadRubber | HighDampingRubber
-"""Any one bearing type a :class:`BearingGroup` accepts."""
+           "UNQUALIFIED_LOWER", "UNQUALIFIED_UPPER", "CASES", "combine"]
 
 
 @dataclass(frozen=True)
@@ -165,8 +31,9 @@ class BearingGroup:
 
     Parameters
     ----------
-    bearing : FrictionPendulum, DoubleConcave, LeadRubber or HighDampingRubber
-        The bearing type.
+    bearing : object
+        A bearing of a registered type (:mod:`isolation.bearings.registry`): FrictionPendulum,
+        DoubleConcave, TripleFrictionPendulum, LeadRubber, HighDampingRubber, ...
     count : int
         Number of bearings, >= 1. [-]
     axial_load : float
@@ -183,7 +50,7 @@ class BearingGroup:
         Factors for this group; default: the system's.
     """
 
-    bearing: _Bearing
+    bearing: Any
     count: int
     axial_load: float
     name: str | None = None
@@ -193,9 +60,7 @@ class BearingGroup:
     factors: PropertyFactors | None = None
 
     def __post_init__(self) -> None:
-        if not isinstance(self.bearing, _BEARINGS):
-            allowed = ", ".join(c.__name__ for c in _BEARINGS)
-            raise ValueError(f"bearing = {self.bearing!r} is not allowed: must be one of {allowed}")
+        entry_of(self.bearing)  # a ValueError naming the registered bearing classes when unknown
         count = self.count
         if isinstance(count, bool) or not isinstance(count, (int, np.integer)) or count < 1:
             raise ValueError(f"count = {count!r} is not allowed: must be a whole number >= 1")
@@ -207,8 +72,8 @@ class BearingGroup:
 
     @property
     def is_sliding(self) -> bool:
-        """True for friction pendulum bearings."""
-        return isinstance(self.bearing, _SLIDERS)
+        """True for a bearing of a sliding type (friction pendulums)."""
+        return entry_of(self.bearing).sliding
 
     def backbone(self, case="nominal", factors=None, load=None):
         """Backbone of the whole group for one property case.
@@ -235,72 +100,6 @@ class BearingGroup:
                 "name": self.name, "axial_load_max": self.axial_load_max,
                 "axial_load_min": self.axial_load_min, "rotation": self.rotation,
                 "factors": None if self.factors is None else self.factors.to_dict()}
-
-
-@dataclass(frozen=True)
-class CombinedBackbone:
-    """Backbones side by side whose forces and loop energies add (any with force and loop_energy).
-
-    Parameters
-    ----------
-    parts : tuple
-        Backbones (Bilinear, MultiLinear, amplitude-dependent rubber, ...).
-    """
-
-    parts: tuple
-
-    def force(self, displacement):
-        """Sum of the parts' forces at a displacement [m]. [kN]"""
-        out = sum(np.asarray(p.force(displacement), dtype=float) for p in self.parts)
-        return float(out) if np.ndim(out) == 0 else out
-
-    def effective_stiffness(self, displacement):
-        """Sum of secant stiffnesses at amplitude D > 0 [m]. [kN/m]"""
-        out = sum(np.asarray(p.effective_stiffness(displacement), dtype=float) for p in self.parts)
-        return float(out) if np.ndim(out) == 0 else out
-
-    def loop_energy(self, displacement):
-        """Sum of energies per cycle at amplitude D > 0 [m]. [kN m]"""
-        out = sum(np.asarray(p.loop_energy(displacement), dtype=float) for p in self.parts)
-        return float(out) if np.ndim(out) == 0 else out
-
-    def effective_damping(self, displacement):
-        """EDC/(2 pi K_eff D^2) of the combination at amplitude D > 0 [m]. [-]"""
-        d = np.asarray(displacement, dtype=float)
-        out = np.asarray(self.loop_energy(d)) / (2.0 * math.pi * np.asarray(self.effective_stiffness(d)) * d**2)
-        return float(out) if out.ndim == 0 else out
-
-    def times(self, count) -> "CombinedBackbone":
-        """``count`` copies in parallel; count > 0. [-]"""
-        return CombinedBackbone(tuple(p.times(count) for p in self.parts))
-
-    def scaled(self, *, stiffness=1.0, strength=1.0) -> "CombinedBackbone":
-        """Factors on every part's stiffness and strength, each > 0. [-]"""
-        return CombinedBackbone(tuple(p.scaled(stiffness=stiffness, strength=strength) for p in self.parts))
-
-    def parallel(self, *others) -> "CombinedBackbone":
-        """Add further backbones side by side."""
-        return CombinedBackbone(self.parts + tuple(others))
-
-    def to_dict(self) -> dict:
-        return {"kind": "combined", "parts": [p.to_dict() for p in self.parts]}
-
-
-def combine(backbones):
-    """Sum backbones: a Bilinear when all are bilinear with one yield displacement, else a
-    MultiLinear when all have parallel elements, else a :class:`CombinedBackbone`."""
-    backbones = list(backbones)
-    if len(backbones) == 1:
-        return backbones[0]
-    if all(isinstance(b, Bilinear) for b in backbones):
-        dy = [b.yield_displacement for b in backbones]
-        if all(math.isclose(x, dy[0], rel_tol=1e-9) for x in dy):
-            return Bilinear(sum(b.elastic_stiffness for b in backbones),
-                            sum(b.post_yield_stiffness for b in backbones),
-                            sum(b.characteristic_strength for b in backbones))
-    if all(isinstance(b, (Bilinear, MultiLinear)) for b in backbones):
-        return backbones[0].parallel(*backbones[1:])
-    return CombinedBackbone(tuple(backbones))
 
 
 @dataclass(frozen=True)
@@ -424,3 +223,11 @@ class IsolationSystem:
         return {"groups": [g.to_dict() for g in self.groups], "factors": self.factors.to_dict(),
                 "weight": self.weight, "is_sliding": self.is_sliding,
                 "displacement_capacity": self.displacement_capacity}
+
+
+def __getattr__(name: str):
+    """The bearing classes, once importable from here, answered from the registry (no import of them)."""
+    for entry in registered():
+        if entry.model.__name__ == name:
+            return entry.model
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

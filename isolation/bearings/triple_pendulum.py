@@ -46,15 +46,16 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from isolation import GRAVITY, validate
+from isolation.bearings import checks as _checks
 from isolation.bearings.backbone import MultiLinear
-from isolation.bearings.friction import (
-    DEFAULT_SLIDER_YIELD_DISPLACEMENT,
-    _friction,
-    _optional_positive,
-    _weight,
-)
+from isolation.bearings.registry import BearingType, register
+from isolation.bearings.slider import DEFAULT_SLIDER_YIELD_DISPLACEMENT
+from isolation.bearings.slider import friction_value as _friction
+from isolation.bearings.slider import optional_positive as _optional_positive
+from isolation.bearings.slider import weight_value as _weight
+from isolation.schema import Key, Ordering
 
-__all__ = ["TripleFrictionPendulum"]
+__all__ = ["TripleFrictionPendulum", "TRIPLE_PENDULUM"]
 
 
 @dataclass(frozen=True)
@@ -280,8 +281,6 @@ class TripleFrictionPendulum:
         weight_share : float, optional
             Weight this bearing restores (default axial_load). [kN]
         """
-        from isolation.bearings import checks as _checks
-
         out = _checks.slider_checks(self, axial_load, displacement, axial_load_max=axial_load_max,
                                     axial_load_min=axial_load_min, weight_share=weight_share)
         if self.displacement_capacity_inner is not None:
@@ -307,3 +306,28 @@ class TripleFrictionPendulum:
             "regime_limits": [u1, u2],
             "first_contact_displacement": self.first_contact_displacement,
         }
+
+
+TRIPLE_PENDULUM = register(BearingType(
+    kind="triple_pendulum",
+    model=TripleFrictionPendulum,
+    keys={
+        "radius_outer": Key("length", low=0.3, high=20.0),
+        "radius_inner": Key("length", low=0.1, high=10.0),
+        "friction_inner": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "friction_4": Key("number", low=0.0, high=0.3, low_inclusive=False),
+        "slider_height_outer": Key("length", required=False, low=0.0, high=2.0),
+        "slider_height_inner": Key("length", required=False, low=0.0, high=1.0),
+        "displacement_capacity_outer": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
+        "displacement_capacity_inner": Key("length", required=False, low=0.0, high=1.0, low_inclusive=False),
+    },
+    cross_checks=(Ordering("slider_height_outer", "radius_outer", "m"),
+                  Ordering("slider_height_inner", "radius_inner", "m"),
+                  Ordering("radius_inner", "radius_outer", "m"),
+                  Ordering("friction_inner", "friction_1", "-"),
+                  Ordering("friction_1", "friction_4", "-", strict=False)),
+    sliding=True,
+))
+"""The triple friction pendulum in the bearing registry (study ``type = "triple_pendulum"``); its
+history law is that of its backbone (regimes I-III as a MultiLinear)."""

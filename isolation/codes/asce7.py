@@ -20,14 +20,16 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any, Mapping
+from typing import Any, ClassVar, Mapping
 
 import numpy as np
 
-from isolation import GRAVITY, validate
+from isolation import GRAVITY
 from isolation.bearings.checks import Check
-from isolation.codes.asce7_fixed_base import FRAME_TYPES, FixedBaseShear, approximate_period, fixed_base_shear
-from isolation.design.single_mode import BoundsResult, Item, _force, _ToDict, _unit, design_bounds
+from isolation.codes.asce7_building import ElfBuilding, StoreyForce
+from isolation.codes.asce7_fixed_base import approximate_period, fixed_base_shear
+from isolation.codes.report import SingleModeReport
+from isolation.design.single_mode import BoundsResult, Item, _force, _unit, design_bounds
 
 __all__ = [
     "Item",
@@ -47,161 +49,32 @@ _RHA = "ELF not permitted: response-history analysis is required"
 
 
 @dataclass(frozen=True)
-class ElfBuilding(_ToDict):
-    """Building data for the ASCE/SEI 7-16 Ch. 17 equivalent lateral force report.
+class ElfReport(SingleModeReport):
+    """ASCE/SEI 7-16 Ch. 17 equivalent lateral force summary (see :func:`asce7_elf`): the
+    :class:`~isolation.codes.basis.SingleModeReport` of ASCE 7; ``elf_permitted`` is ``permitted``."""
 
-    Parameters
-    ----------
-    base_weight : float
-        Weight of the base level (the floor just above the isolators), >= 0. [kN]
-    floor_weights : sequence of float
-        Weights of the levels above the base level, bottom to top, > 0. [kN]
-    floor_elevations : sequence of float
-        Elevations of those levels above the isolation interface, increasing, > 0. [m]
-    plan_length, plan_width : float
-        Plan dimensions b (longer) and d, > 0. [m]
-    response_modification : float
-        R of the superstructure's lateral system on a fixed base, > 0. [-]
-    eccentricity : float
-        Actual eccentricity between centres of mass and rigidity, >= 0; 5 % of
-        ``plan_length`` accidental eccentricity is added. [m]
-    corner_distance : float, optional
-        Distance y from the centre of rigidity to the corner bearing;
-        default plan_length/2 + eccentricity. [m]
-    torsion_period_ratio : float
-        P_T, translational over torsional period, > 0 (taken <= 1.0). [-]
-    isolator_kind : str
-        "sliding" (abrupt bilinear transition, V_st exponent 1 - 3.5 beta_M) or "other". [-]
-    fixed_base_period : float, optional
-        T_fb of the superstructure on a fixed base; default T_a = C_t h^x. [s]
-    frame : str
-        Lateral system for T_a, a key of :data:`isolation.codes.asce7_fixed_base.FRAME_TYPES`. [-]
-    importance : float
-        Importance factor I_e of the building's risk category, > 0; used only for
-        the fixed-base comparison shear V_fb. The isolated design (V_s lower limit
-        at T_M, drift estimate) takes I_e = 1.0 (ASCE/SEI 7-16 §17.2.1, from memory). [-]
-    wind_base_shear : float
-        Base shear from factored design wind, >= 0. [kN]
-    activation_force : float, optional
-        Force that fully activates the isolation system (yield level, breakaway
-        friction, wind-restraint capacity); default the greater of the upper-bound
-        and 1.5 x the nominal yield force of the property sets (§17.5.4.3 item 3). [kN]
-    s1 : float
-        Mapped MCE_R spectral acceleration at 1 s, S_1, >= 0. [g]
-    site_class : str
-        Site class "A"-"F". [-]
-    height : float, optional
-        Structural height above the isolation interface; default top elevation. [m]
-    irregular : bool
-        True when the superstructure has a structural irregularity barred by §17.4.1. [-]
-    moat_clearance : float
-        Clearance added to D_TM for the moat, >= 0 (common practice). [m]
-    """
+    SYMBOLS: ClassVar[Mapping[str, str]] = {
+        "displacement": "D_M", "total_displacement": "D_TM", "period": "T_M", "isolation_shear": "V_b",
+        "unreduced_shear": "V_st", "superstructure_shear": "V_s", "fixed_base_shear": "V_fb",
+        "shear_ratio": "V_s/V_fb"}
 
-    base_weight: float
-    floor_weights: tuple
-    floor_elevations: tuple
-    plan_length: float
-    plan_width: float
-    response_modification: float
-    eccentricity: float = 0.0
-    corner_distance: float | None = None
-    torsion_period_ratio: float = 1.0
-    isolator_kind: str = "other"
-    fixed_base_period: float | None = None
-    frame: str = "other"
-    importance: float = 1.0
-    wind_base_shear: float = 0.0
-    activation_force: float | None = None
-    s1: float = 0.0
-    site_class: str = "D"
-    height: float | None = None
-    irregular: bool = False
-    moat_clearance: float = 0.05
-
-    def __post_init__(self) -> None:
-        set_ = lambda name, value: object.__setattr__(self, name, value)  # noqa: E731
-        set_("base_weight", validate.non_negative("base_weight", self.base_weight, "kN"))
-        w = validate.positive_array("floor_weights", self.floor_weights, "kN")
-        h = validate.positive_array("floor_elevations", self.floor_elevations, "m")
-        if w.ndim != 1 or h.shape != w.shape:
-            raise ValueError(f"floor_elevations has {h.size} entries but floor_weights has {w.size}: must match")
-        if np.any(np.diff(h) <= 0.0):
-            raise ValueError(f"floor_elevations = {h.tolist()!r} is not allowed: must increase upwards [m]")
-        set_("floor_weights", tuple(float(x) for x in w))
-        set_("floor_elevations", tuple(float(x) for x in h))
-        for name, unit in (("plan_length", "m"), ("plan_width", "m"), ("response_modification", "-"),
-                           ("torsion_period_ratio", "-"), ("importance", "-")):
-            set_(name, validate.positive(name, getattr(self, name), unit))
-        for name, unit in (("eccentricity", "m"), ("wind_base_shear", "kN"), ("s1", "g"), ("moat_clearance", "m")):
-            set_(name, validate.non_negative(name, getattr(self, name), unit))
-        for name, unit, check in (("corner_distance", "m", validate.non_negative),
-                                  ("fixed_base_period", "s", validate.positive),
-                                  ("activation_force", "kN", validate.positive), ("height", "m", validate.positive)):
-            if getattr(self, name) is not None:
-                set_(name, check(name, getattr(self, name), unit))
-        validate.one_of("isolator_kind", self.isolator_kind, ("sliding", "other"))
-        validate.one_of("frame", self.frame, tuple(FRAME_TYPES))
-        validate.one_of("site_class", self.site_class, tuple("ABCDEF"))
-        validate.one_of("irregular", self.irregular, (True, False))
+    DICT_FIELDS: ClassVar[tuple] = ("bounds", "building", "quantities", "applicability", "checks", "storey_forces",
+                                    "fixed_base", "warnings", "elf_permitted", "scope")
 
     @property
-    def weight_above(self) -> float:
-        """W_s, weight above the base level. [kN]"""
-        return float(sum(self.floor_weights))
-
-    @property
-    def total_weight(self) -> float:
-        """W = W_s + base level weight. [kN]"""
-        return self.base_weight + self.weight_above
-
-    @property
-    def structural_height(self) -> float:
-        """Height above the isolation interface. [m]"""
-        return self.height if self.height is not None else self.floor_elevations[-1]
-
-
-@dataclass(frozen=True)
-class StoreyForce(_ToDict):
-    """Lateral force F_x [kN], storey shear [kN] and drift estimate [m] at one level."""
-
-    level: int
-    elevation: float
-    weight: float
-    force: float
-    storey_shear: float
-    drift: float
-    drift_ratio: float
-
-
-@dataclass(frozen=True)
-class ElfReport(_ToDict):
-    """ASCE/SEI 7-16 Ch. 17 equivalent lateral force summary (see :func:`asce7_elf`)."""
-
-    bounds: BoundsResult
-    building: ElfBuilding
-    quantities: tuple
-    applicability: tuple
-    checks: tuple
-    storey_forces: tuple
-    fixed_base: FixedBaseShear
-    warnings: tuple
-    elf_permitted: bool
-    scope: str = ("Concept-stage feasibility, not construction design; verify against the local code "
-                  "with a licensed structural engineer.")
-
-    def value(self, symbol: str) -> float:
-        """Value of the quantity with this symbol (e.g. "D_TM")."""
-        for item in self.quantities:
-            if item.symbol == symbol:
-                return item.value
-        raise KeyError(f"symbol = {symbol!r} is not in the report: known {[i.symbol for i in self.quantities]}")
+    def elf_permitted(self) -> bool:
+        """True when ASCE/SEI 7-16 §17.4.1 permits the ELF procedure (same as ``permitted``)."""
+        return self.permitted
 
 
 ISOLATED_IMPORTANCE = 1.0
 """I_e of a seismically isolated structure: ASCE/SEI 7-16 §17.2.1 (same in 7-22; from memory,
 the clause text was not found through this session's search) takes I_e = 1.0 whatever the risk
 category; the building's own I_e applies only to the fixed-base comparison."""
+
+
+def _damping_source(rule: str | None) -> str:
+    return f"{ASCE} Table 17.5-1" if rule == "asce7" else str(rule)
 
 
 def _activation_force(system) -> float | None:
@@ -269,7 +142,36 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
         raise ValueError(f"building = {type(building).__name__} is not allowed: must be an ElfBuilding")
     if bounds is None:
         bounds = design_bounds(property_sets, building.total_weight, spectrum, rule, **options)
-    low, up = bounds.displacement, bounds.force
+    items = _displacements(bounds, building)
+    shear_items, shears = _shears(bounds, building, spectrum, property_sets)
+    items += shear_items
+    t_fb = building.fixed_base_period or approximate_period(building.structural_height, building.frame)
+    force_items, storeys = _storey_forces(bounds, building, shears, t_fb)
+    items += force_items
+    applicability = _elf_applicability(bounds, property_sets, building, t_fb)
+    checks = _drift_checks(storeys)
+    warnings = [f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - {_RHA}"
+                for c in applicability if not c.passed]
+    warnings += [f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - stiffen the "
+                 "superstructure or find the drift by analysis" for c in checks if not c.passed]
+    permitted = all(c.passed for c in applicability)
+    comparison = fixed_base_shear(spectrum, building.weight_above, building.response_modification, period=t_fb,
+                                  height=building.structural_height, frame=building.frame,
+                                  importance=building.importance, s1=building.s1)
+    items += [
+        Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs,
+             comparison.period_source),
+        Item("ratio isolated/fixed-base design shear", "V_s/V_fb", shears["V_s"] / comparison.base_shear, "-",
+             "V_s over §12.8 V"),
+    ]
+    return ElfReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(applicability),
+                     checks=tuple(checks), storey_forces=storeys, fixed_base=comparison, warnings=tuple(warnings),
+                     permitted=permitted)
+
+
+def _displacements(bounds, building: ElfBuilding) -> list:
+    """D_M, T_M, beta_M, B_M, k_M of the displacement-governing set; D_TM with torsion; moat (§17.5.3)."""
+    low = bounds.displacement
     b, dwidth = building.plan_length, building.plan_width
     d_m = low.displacement
     items: list[Item] = [
@@ -277,8 +179,7 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
              f"property set '{bounds.displacement_governs}'"),
         Item("effective period at D_M", "T_M", low.period, "s", f"{ASCE} Eq. 17.5-2"),
         Item("effective damping at D_M", "beta_M", low.damping, "-", "Naeim & Kelly (1999): EDC/(2 pi K_eff D^2)"),
-        Item("damping coefficient", "B_M", low.damping_coefficient, "-",
-             f"{ASCE} Table 17.5-1" if low.rule == "asce7" else low.rule),
+        Item("damping coefficient", "B_M", low.damping_coefficient, "-", _damping_source(low.rule)),
         Item("effective stiffness at D_M", "k_M", low.stiffness, "kN/m", f"{ASCE} §17.5.3"),
     ]
     # Torsion (Eqs. 17.5-3/-4); P_T taken <= 1.0 (from memory, verify).
@@ -287,23 +188,30 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     p_t = min(building.torsion_period_ratio, 1.0)
     raw = d_m * (1.0 + y / p_t**2 * 12.0 * e / (b**2 + dwidth**2))
     d_tm = max(raw, 1.15 * d_m)
-    items += [
+    return items + [
         Item("eccentricity incl. 5 % accidental", "e", e, "m",
              f"{ASCE} §17.5.3.3 (accidental 5 % of the longest plan dimension)"),
         Item("total maximum displacement", "D_TM", d_tm, "m", f"{ASCE} Eq. 17.5-3, >= 1.15 D_M",
-             "1.15 D_M floor governs" if d_tm > raw else f"y = {y:.3g} m, P_T = {p_t:.3g} (taken <= 1.0, from memory)"),
+             "1.15 D_M floor governs" if d_tm > raw
+             else f"y = {y:.3g} m, P_T = {p_t:.3g} (taken <= 1.0, from memory)"),
         Item("moat width", "moat", d_tm + building.moat_clearance, "m",
              f"{ASCE} §17.2 (separation from fixed obstructions >= D_TM; clause from memory)",
              f"D_TM plus {building.moat_clearance:g} m clearance (common practice)"),
     ]
-    # Forces from the force-governing set.
+
+
+def _shears(bounds, building: ElfBuilding, spectrum, property_sets) -> tuple[list, dict]:
+    """V_b, V_st, R_I and V_s with its lower limits (§17.5.4) from the force-governing set.
+
+    Returns the items and {"V_b", "V_st", "V_s", "R_I", "beta"} [kN, -]."""
+    up = bounds.force
     w, w_s = building.total_weight, building.weight_above
     v_b = up.base_shear
     factor = 3.5 if building.isolator_kind == "sliding" else 2.5
     exponent = 1.0 - factor * up.damping
     v_st = v_b * (w_s / w) ** exponent
     r_i = min(max(3.0 / 8.0 * building.response_modification, 1.0), 2.0)
-    items += [
+    items = [
         Item("isolation-system shear", "V_b", v_b, "kN", f"{ASCE} §17.5.4.1 (k_M D_M)",
              f"property set '{bounds.force_governs}'"),
         Item("unreduced superstructure shear", "V_st", v_st, "kN",
@@ -313,7 +221,6 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
                 "§17.5.4.2, Eq. 17.5-7, from memory, not re-read)" if factor == 3.5 else "")),
         Item("reduction factor", "R_I", r_i, "-", f"{ASCE} §17.5.4.2: 3/8 R within [1.0, 2.0]"),
     ]
-    t_fb = building.fixed_base_period or approximate_period(building.structural_height, building.frame)
     at_tm = fixed_base_shear(spectrum, w_s, r_i, period=up.period, importance=ISOLATED_IMPORTANCE, s1=building.s1)
     activation: float | None
     if building.activation_force is not None:
@@ -335,13 +242,19 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     name, _, v_s, source = max(candidates, key=lambda c: c[2])
     items += [Item(f"lower limit on V_s: {n}", sym, v, "kN", s) for n, sym, v, s in candidates[1:]]
     items.append(Item("superstructure design shear", "V_s", v_s, "kN", source, f"governed by {name}"))
-    # Vertical distribution (§17.5.5, from memory): F_x = C_vx V_s, C_vx = w_x h_x^k / sum w_i h_i^k.
-    k_exp = 14.0 * up.damping * t_fb
+    return items, {"V_b": v_b, "V_st": v_st, "V_s": v_s, "R_I": r_i, "beta": up.damping}
+
+
+def _storey_forces(bounds, building: ElfBuilding, shears: dict, t_fb: float) -> tuple[list, tuple]:
+    """F_x = C_vx V_s (§17.5.5, from memory) and a linear-mode drift estimate per level."""
+    v_b, v_st, v_s, r_i = shears["V_b"], shears["V_st"], shears["V_s"], shears["R_I"]
+    # Vertical distribution: C_vx = w_x h_x^k / sum w_i h_i^k.
+    k_exp = 14.0 * shears["beta"] * t_fb
     f_1 = (v_b - v_st) / r_i
     wx, hx = np.array(building.floor_weights), np.array(building.floor_elevations)
     share = wx * hx**k_exp / np.sum(wx * hx**k_exp)
     forces = share * v_s
-    items += [
+    items = [
         Item("fixed-base period", "T_fb", t_fb, "s",
              "given" if building.fixed_base_period else f"{ASCE} Eq. 12.8-7 (T_a)"),
         Item("distribution exponent", "k", k_exp, "-", f"{ASCE} §17.5.5 (14 beta_M T_fb, from memory)"),
@@ -354,31 +267,18 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     u_top = float(np.sum(forces * shape) / k_star)
     heights = np.diff(np.concatenate(([0.0], hx)))
     drifts = np.diff(np.concatenate(([0.0], shape))) * u_top * r_i / ISOLATED_IMPORTANCE
-    shears = np.cumsum(forces[::-1])[::-1]
-    storeys = tuple(StoreyForce(i + 2, float(hx[i]), float(wx[i]), float(forces[i]), float(shears[i]),
+    storey_shears = np.cumsum(forces[::-1])[::-1]
+    storeys = tuple(StoreyForce(i + 2, float(hx[i]), float(wx[i]), float(forces[i]), float(storey_shears[i]),
                                 float(drifts[i]), float(drifts[i] / heights[i])) for i in range(len(wx)))
-    applicability = _elf_applicability(bounds, property_sets, building, t_fb)
+    return items, storeys
+
+
+def _drift_checks(storeys) -> list:
+    """The largest storey drift ratio estimate against 0.015 (§17.5.6, from memory)."""
     worst = max(storeys, key=lambda s: s.drift_ratio)
-    checks = [Check(f"storey drift ratio estimate (level {worst.level})", worst.drift_ratio, 0.015,
-                    worst.drift_ratio <= 0.015, "-",
-                    f"{ASCE} §17.5.6: 0.015 h_sx with C_d = R_I (from memory); linear-mode-shape estimate")]
-    warnings = [f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - {_RHA}"
-                for c in applicability if not c.passed]
-    warnings += [f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - stiffen the "
-                 "superstructure or find the drift by analysis" for c in checks if not c.passed]
-    permitted = all(c.passed for c in applicability)
-    comparison = fixed_base_shear(spectrum, w_s, building.response_modification, period=t_fb,
-                                  height=building.structural_height, frame=building.frame,
-                                  importance=building.importance, s1=building.s1)
-    items += [
-        Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs,
-             comparison.period_source),
-        Item("ratio isolated/fixed-base design shear", "V_s/V_fb", v_s / comparison.base_shear, "-",
-             "V_s over §12.8 V"),
-    ]
-    return ElfReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(applicability),
-                     checks=tuple(checks), storey_forces=storeys, fixed_base=comparison, warnings=tuple(warnings),
-                     elf_permitted=permitted)
+    return [Check(f"storey drift ratio estimate (level {worst.level})", worst.drift_ratio, 0.015,
+                  worst.drift_ratio <= 0.015, "-",
+                  f"{ASCE} §17.5.6: 0.015 h_sx with C_d = R_I (from memory); linear-mode-shape estimate")]
 
 
 def _elf_applicability(bounds, property_sets, building, t_fb) -> list[Check]:

@@ -25,10 +25,11 @@ EN 1998-1:2004 §3.2.2.5, §4.3.2, §4.3.3.2.2, §10.3, §10.9, §10.10.
 from __future__ import annotations
 
 from dataclasses import dataclass, fields
-from typing import Any, Mapping
+from typing import Any, ClassVar, Mapping
 
 from isolation import validate
 from isolation.bearings.checks import Check
+from isolation.codes.report import SingleModeReport
 from isolation.design.single_mode import BoundsResult, Item, _force, _unit, design_bounds
 from isolation.plain import plain
 from isolation.site.spectra import EurocodeSpectrum, eurocode_eta
@@ -232,31 +233,28 @@ class EurocodeBuilding:
 
 
 @dataclass(frozen=True)
-class EurocodeReport:
-    """Result of :func:`eurocode_simplified`: quantities, applicability checks, warnings."""
+class EurocodeReport(SingleModeReport):
+    """Result of :func:`eurocode_simplified`: the :class:`~isolation.codes.basis.SingleModeReport` of
+    EN 1998-1; ``simplified_permitted`` is ``permitted``."""
 
-    bounds: BoundsResult
-    building: EurocodeBuilding
-    quantities: tuple
-    applicability: tuple
-    warnings: tuple
-    simplified_permitted: bool
     scope: str = ("Concept-stage feasibility, not construction design; verify against EN 1998-1 with its "
                   "National Annex and a licensed structural engineer.")
 
-    def value(self, symbol: str) -> float:
-        """Value of the quantity with this symbol (e.g. "d_dc")."""
-        for item in self.quantities:
-            if item.symbol == symbol:
-                return item.value
-        raise KeyError(f"symbol = {symbol!r} is not in the report: known {[i.symbol for i in self.quantities]}")
+    SYMBOLS: ClassVar[Mapping[str, str]] = {
+        "displacement": "d_dc", "total_displacement": "d_d", "period": "T_eff", "isolation_shear": "V",
+        "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
 
-    def to_dict(self) -> dict:
-        return _to_dict(self)
+    DICT_FIELDS: ClassVar[tuple] = ("bounds", "building", "quantities", "applicability", "warnings",
+                                    "simplified_permitted", "scope")
+
+    @property
+    def simplified_permitted(self) -> bool:
+        """True when EN 1998-1 §10.9 permits the simplified analysis (same as ``permitted``)."""
+        return self.permitted
 
 
 def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuilding, spectrum, *,
-                        bounds: BoundsResult | None = None, **options) -> EurocodeReport:
+                        bounds: BoundsResult | None = None, rule: str = "eurocode", **options) -> EurocodeReport:
     """EN 1998-1 §10.9 simplified linear analysis for all property sets.
 
     Parameters
@@ -269,7 +267,9 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
         Elastic site spectrum, usually a :class:`~isolation.site.spectra.EurocodeSpectrum`. [g]
     bounds : BoundsResult, optional
         The equivalent-linear results of ``property_sets`` already computed
-        (damping rule "eurocode"); default: computed here.
+        (damping rule ``rule``); default: computed here.
+    rule : str
+        Damping rule of the displacement (the EN 1998-1 eta by default). [-]
     **options
         Passed to :func:`isolation.design.equivalent_linear`.
 
@@ -288,7 +288,7 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     if not isinstance(building, EurocodeBuilding):
         raise ValueError(f"building = {type(building).__name__} is not allowed: must be a EurocodeBuilding")
     if bounds is None:
-        bounds = design_bounds(property_sets, building.weight, spectrum, "eurocode", **options)
+        bounds = design_bounds(property_sets, building.weight, spectrum, rule, **options)
     low, up = bounds.displacement, bounds.force
     length, width = building.plan_length, building.plan_width
     e_tot = building.eccentricity + 0.05 * length
@@ -333,7 +333,7 @@ def eurocode_simplified(property_sets: Mapping[str, Any], building: EurocodeBuil
     warnings = tuple(f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - "
                      f"{_NO_LINEAR if _LINEAR in c.name else _FULLER}" for c in checks if not c.passed)
     return EurocodeReport(bounds=bounds, building=building, quantities=tuple(items), applicability=tuple(checks),
-                          warnings=warnings, simplified_permitted=not warnings)
+                          warnings=warnings, permitted=not warnings)
 
 
 def _applicability(bounds, property_sets, building) -> list[Check]:

@@ -8,7 +8,7 @@ study reader (:mod:`isolation.study.sections`), the assembly of the fixed-base p
 
 from __future__ import annotations
 
-__all__ = ["LATERAL_SYSTEM_ROWS", "FRAMES"]
+__all__ = ["LATERAL_SYSTEM_ROWS", "LATERAL_SYSTEMS", "FRAMES"]
 
 LATERAL_SYSTEM_ROWS = {
     "steel_moment_frame": ("steel_moment", "Table 12.8-2 row 'steel moment-resisting frames' (C_t 0.0724, x 0.8)",
@@ -34,6 +34,8 @@ LATERAL_SYSTEM_ROWS = {
 row of ASCE/SEI 7-16 Table 12.8-2, row of EN 1998-1:2004 §4.3.3.2.2(3)) for the approximate
 fixed-base period. Rows as in both tables, from memory (not re-read this session)."""
 
+LATERAL_SYSTEMS = tuple(LATERAL_SYSTEM_ROWS)
+"""Study choices of ``building.lateral_system``."""
 
 FRAMES = {name: row[0] for name, row in LATERAL_SYSTEM_ROWS.items()}
 """Study choice of ``building.lateral_system`` -> frame type of

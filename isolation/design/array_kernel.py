@@ -42,8 +42,9 @@ from typing import Any, Mapping, Sequence
 import numpy as np
 
 from isolation import GRAVITY, validate
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.design import BoundsResult, EquivalentLinearResult, equivalent_linear
-from isolation.site.spectra import RULES, damping_coefficient
+from isolation.site.spectra import damping_coefficient, rules
 
 __all__ = ["EquivalentLinearArrays", "equivalent_linear_many", "design_bounds_many", "supports"]
 
@@ -221,7 +222,7 @@ def equivalent_linear_many(
     systems: Sequence,
     weight,
     spectrum,
-    rule: str | None = "asce7",
+    rule: str | None = DEFAULT_BASIS,
     *,
     tolerance: float = 1e-6,
     max_iterations: int = 200,
@@ -264,8 +265,8 @@ def equivalent_linear_many(
     if n and not (np.all(np.isfinite(w)) and np.all(w > 0.0)):
         bad = w[~(np.isfinite(w) & (w > 0.0))][0]
         raise ValueError(f"weight = {float(bad)!r} is not allowed: must be finite and > 0 [kN]")
-    chosen = getattr(spectrum, "rule", "asce7") if rule is None else rule
-    validate.one_of("rule", chosen, RULES)
+    chosen = getattr(spectrum, "rule", DEFAULT_BASIS) if rule is None else rule
+    validate.one_of("rule", chosen, rules())
     tol = validate.in_range("tolerance", tolerance, 0.0, 0.01, "-", low_inclusive=False)
     if isinstance(max_iterations, bool) or not isinstance(max_iterations, (int, np.integer)) or max_iterations < 1:
         raise ValueError(f"max_iterations = {max_iterations!r} is not allowed: must be an integer >= 1")
@@ -373,7 +374,7 @@ def equivalent_linear_many(
         errors=errors, **out)
 
 
-def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spectrum, rule: str | None = "asce7",
+def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spectrum, rule: str | None = DEFAULT_BASIS,
                        **options) -> list[BoundsResult]:
     """:func:`isolation.design.design_bounds` for N alternatives at once.
 

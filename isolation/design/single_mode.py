@@ -31,9 +31,10 @@ import numpy as np
 from scipy.optimize import brentq
 
 from isolation import GRAVITY, validate
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.errors import RunError
 from isolation.plain import plain
-from isolation.site.spectra import RULES, damping_coefficient
+from isolation.site.spectra import damping_coefficient, rules
 
 __all__ = [
     "Item",
@@ -140,7 +141,7 @@ def equivalent_linear(
     system,
     weight: float,
     spectrum,
-    rule: str | None = "asce7",
+    rule: str | None = DEFAULT_BASIS,
     *,
     tolerance: float = 1e-6,
     max_iterations: int = 200,
@@ -191,8 +192,8 @@ def equivalent_linear(
             "[-]"
         )
     w = validate.positive("weight", weight, "kN")
-    chosen = getattr(spectrum, "rule", "asce7") if rule is None else rule
-    validate.one_of("rule", chosen, RULES)
+    chosen = getattr(spectrum, "rule", DEFAULT_BASIS) if rule is None else rule
+    validate.one_of("rule", chosen, rules())
     tol = validate.in_range("tolerance", tolerance, 0.0, 0.01, "-", low_inclusive=False)
     if isinstance(max_iterations, bool) or not isinstance(max_iterations, (int, np.integer)) or max_iterations < 1:
         raise ValueError(f"max_iterations = {max_iterations!r} is not allowed: must be an integer >= 1")
@@ -286,7 +287,7 @@ class BoundsResult(_ToDict):
         return self.results[self.force_governs]
 
 
-def design_bounds(property_sets: Mapping[str, Any], weight: float, spectrum, rule: str | None = "asce7",
+def design_bounds(property_sets: Mapping[str, Any], weight: float, spectrum, rule: str | None = DEFAULT_BASIS,
                   **options) -> BoundsResult:
     """Run :func:`equivalent_linear` for every property set in one call.
 

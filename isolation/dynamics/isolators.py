@@ -6,13 +6,16 @@ cases) at once:
 
 * :class:`ElasticPlasticLaw` - a linear spring in parallel with
   elastic-perfectly-plastic elements, integrated by exact return mapping
-  (Bilinear, MultiLinear, DoubleConcave and LeadRubber through their
-  backbones).
+  (Bilinear, MultiLinear and registered bearings through their backbones).
 * :class:`SmoothLaw` - F = k u + Q(v) z with a Bouc-Wen hysteretic variable z
   of exponent n = 2 (Wen 1976), integrated in closed form over each step;
   Q(v) = N mu(v) gives the friction pendulum of Mokha, Constantinou & Reinhorn
   (1990) with velocity-dependent friction, and a constant Q gives the smooth
   version of a bilinear isolator (:class:`BoucWen`).
+
+The law objects live in :mod:`isolation.bearings.laws` (re-exported here); each
+bearing type's module says which law its bearing runs
+(:mod:`isolation.bearings.registry`), and :func:`isolator_law` asks it.
 
 Bouc-Wen convention used here (that of Wen 1976; part of the isolation
 literature swaps the names of beta and gamma):
@@ -42,166 +45,16 @@ base isolation II: Modeling. J. Struct. Eng. 116(2).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
 from isolation import validate
 from isolation.bearings.backbone import Bilinear, MultiLinear
+from isolation.bearings.laws import FRICTION_LAWS, BoucWen, ElasticPlasticLaw, SharpFrictionLaw, SmoothLaw, backbone_law
+from isolation.bearings.registry import type_of
 
 __all__ = ["BoucWen", "ElasticPlasticLaw", "SmoothLaw", "SharpFrictionLaw", "isolator_law", "describe",
            "FRICTION_LAWS", "friction_regularisation"]
-
-FRICTION_LAWS = ("smooth", "sharp")
-"""How a friction pendulum runs in response history: the smooth Bouc-Wen law or the sharp one."""
-
-
-@dataclass(frozen=True)
-class BoucWen:
-    """Smooth (Bouc-Wen, exponent 2) version of a bilinear isolator.
-
-    F = K_d u + Q_d z, with z from the Bouc-Wen equation (Wen 1976 naming;
-    see the module notes) and yield displacement D_y = Q_d/(K_u - K_d).
-
-    Parameters
-    ----------
-    bilinear : Bilinear
-        The bilinear loop the smooth law follows (K_u, K_d, Q_d > 0). [kN/m, kN/m, kN]
-    exponent : float, optional
-        Bouc-Wen exponent n; only 2 is available (closed-form update). [-]
-    beta : float, optional
-        Coefficient of |du/dt| |z|^(n-1) z, in (0, 1]; gamma = 1 - beta.
-        Default 0.5 (unloading starts at the elastic stiffness K_u). [-]
-    """
-
-    bilinear: Bilinear
-    exponent: float = 2.0
-    beta: float = 0.5
-
-    def __post_init__(self) -> None:
-        if not isinstance(self.bilinear, Bilinear):
-            raise ValueError(f"bilinear = {self.bilinear!r} is not allowed: must be a Bilinear")
-        if self.bilinear.characteristic_strength <= 0.0:
-            raise ValueError(
-                f"bilinear.characteristic_strength = {self.bilinear.characteristic_strength!r} "
-                "is not allowed: must be > 0 [kN] for a hysteretic law"
-            )
-        validate.one_of("exponent", float(self.exponent), (2.0,))
-        beta = validate.in_range("beta", self.beta, 0.0, 1.0, "-", low_inclusive=False)
-        object.__setattr__(self, "exponent", 2.0)
-        object.__setattr__(self, "beta", beta)
-
-    @property
-    def gamma(self) -> float:
-        """gamma = 1 - beta (coefficient of du/dt |z|^n). [-]"""
-        return 1.0 - self.beta
-
-    @property
-    def yield_displacement(self) -> float:
-        """D_y = Q_d/(K_u - K_d). [m]"""
-        return self.bilinear.yield_displacement
-
-    def to_dict(self) -> dict:
-        return {"kind": "bouc_wen", "bilinear": self.bilinear.to_dict(),
-                "exponent": self.exponent, "beta": self.beta, "gamma": self.gamma}
-
-
-@dataclass(frozen=True)
-class ElasticPlasticLaw:
-    """Linear spring plus parallel elastic-perfectly-plastic elements (one column).
-
-    Parameters
-    ----------
-    linear_stiffness : float
-        Spring that never yields. [kN/m]
-    stiffnesses : tuple of float
-        Element elastic stiffnesses. [kN/m]
-    strengths : tuple of float
-        Element yield forces. [kN]
-    """
-
-    linear_stiffness: float
-    stiffnesses: tuple
-    strengths: tuple
-
-    family = "elastic_plastic"
-
-    @property
-    def final_stiffness(self) -> float:
-        """Stiffness after all elements yield. [kN/m]"""
-        return self.linear_stiffness
-
-
-@dataclass(frozen=True)
-class SmoothLaw:
-    """F = k u + Q(v) z with Bouc-Wen z (n = 2) and Q(v) = Q_fast - (Q_fast - Q_slow) exp(-a|v|).
-
-    Parameters
-    ----------
-    linear_stiffness : float
-        k (K_d, or W/R_eff for a friction pendulum). [kN/m]
-    strength_fast : float
-        Q at high velocity (Q_d, or mu_fast W). [kN]
-    strength_slow : float
-        Q at zero velocity. [kN]
-    rate_parameter : float
-        a in exp(-a |v|). [s/m]
-    yield_displacement : float
-        D_y. [m]
-    beta : float
-        Bouc-Wen beta (Wen 1976 naming), gamma = 1 - beta. [-]
-    """
-
-    linear_stiffness: float
-    strength_fast: float
-    strength_slow: float
-    rate_parameter: float
-    yield_displacement: float
-    beta: float = 0.5
-
-    family = "smooth"
-
-    @property
-    def final_stiffness(self) -> float:
-        """Stiffness at large displacement. [kN/m]"""
-        return self.linear_stiffness
-
-
-@dataclass(frozen=True)
-class SharpFrictionLaw:
-    """Sharp friction: F = k u + q, q from an elastic-perfectly-plastic element (one column).
-
-    The element's elastic stiffness is Q_fast/D_y (the smooth law's initial
-    stiffness) and its strength Q(v) = Q_fast - (Q_fast - Q_slow)
-    exp(-a |v|), v the velocity at the end of the step: the bilinear
-    (rigid-plastic in the limit D_y -> 0) friction loop without the smooth
-    law's rounding.
-
-    Parameters
-    ----------
-    linear_stiffness : float
-        W/R_eff. [kN/m]
-    strength_fast, strength_slow : float
-        mu_fast W and mu_slow W. [kN]
-    rate_parameter : float
-        a in exp(-a |v|). [s/m]
-    yield_displacement : float
-        D_y. [m]
-    """
-
-    linear_stiffness: float
-    strength_fast: float
-    strength_slow: float
-    rate_parameter: float
-    yield_displacement: float
-
-    family = "sharp"
-
-    @property
-    def final_stiffness(self) -> float:
-        """Stiffness while sliding. [kN/m]"""
-        return self.linear_stiffness
-
 
 def friction_regularisation(isolator, friction_law: str = "smooth") -> str:
     """One sentence stating how a sliding isolator's friction is regularised in response history.
@@ -209,16 +62,17 @@ def friction_regularisation(isolator, friction_law: str = "smooth") -> str:
     Parameters
     ----------
     isolator : object
-        The isolator (only friction pendulums are regularised). [-]
+        The isolator (only a sliding bearing whose law is a friction law, smooth or sharp, is
+        regularised). [-]
     friction_law : {"smooth", "sharp"}, optional
         The law run. [-]
     """
-    from isolation.bearings import FrictionPendulum
-
     validate.one_of("friction_law", friction_law, FRICTION_LAWS)
-    if not isinstance(isolator, FrictionPendulum):
+    entry = type_of(isolator)
+    law = isolator_law(isolator, 1.0, friction_law) if entry is not None and entry.sliding else None
+    if law is None or law.family == "elastic_plastic":
         return "no friction regularisation (elastic-plastic elements integrated by exact return mapping)"
-    dy = 1000.0 * isolator.yield_displacement
+    dy = 1000.0 * law.yield_displacement
     if friction_law == "smooth":
         return (f"friction regularised by a Bouc-Wen law of exponent 2 with yield displacement D_y = {dy:.2g} mm "
                 "(Constantinou, Mokha & Reinhorn 1990): the loop corners are rounded over a few D_y")
@@ -231,43 +85,48 @@ def isolator_law(isolator, weight: float, friction_law: str = "smooth"):
 
     Parameters
     ----------
-    isolator : Bilinear, MultiLinear, BoucWen, FrictionPendulum, DoubleConcave or LeadRubber
-        Whole-plane isolator. A FrictionPendulum or DoubleConcave stands for
-        all sliders of the plane, carrying the whole weight (its forces scale
-        with ``weight``); an object with ``.bilinear()`` such as one
-        LeadRubber is taken as the whole plane as it is (pass
-        ``bearing.bilinear().times(count)`` for several). [-]
+    isolator : Bilinear, MultiLinear, BoucWen or a registered bearing
+        Whole-plane isolator. A registered bearing (:mod:`isolation.bearings.registry`) runs
+        its type's history law: a sliding bearing stands for all sliders of the plane,
+        carrying the whole weight (its forces scale with ``weight``); other bearings run the
+        law of their backbone, taken as the whole plane as it is (pass
+        ``bearing.backbone(weight).times(count)`` for several). Unregistered objects with
+        ``.bilinear()`` or a piecewise-linear ``.backbone(weight)`` run that curve. [-]
     weight : float
         Weight on the isolation plane (total mass x g), > 0. [kN]
     friction_law : {"smooth", "sharp"}, optional
-        A FrictionPendulum runs the smooth Bouc-Wen law (default) or the
+        A friction pendulum runs the smooth Bouc-Wen law (default) or the
         sharp elastic-plastic one (:class:`SharpFrictionLaw`). [-]
 
     Returns
     -------
     ElasticPlasticLaw, SmoothLaw or SharpFrictionLaw
     """
-    from isolation.bearings import DoubleConcave, FrictionPendulum
-
     weight = validate.positive("weight", weight, "kN")
     validate.one_of("friction_law", friction_law, FRICTION_LAWS)
     if isinstance(isolator, (Bilinear, MultiLinear)):
-        k0, ks, fs = isolator.elements()
-        return ElasticPlasticLaw(float(k0), tuple(map(float, ks)), tuple(map(float, fs)))
+        return backbone_law(isolator)
     if isinstance(isolator, BoucWen):
         b = isolator.bilinear
         q = b.characteristic_strength
         return SmoothLaw(b.post_yield_stiffness, q, q, 0.0, b.yield_displacement, isolator.beta)
-    if isinstance(isolator, FrictionPendulum):
-        slow = isolator.friction_slow
-        assert slow is not None  # FrictionPendulum sets it to friction when not given
-        if friction_law == "sharp":
-            return SharpFrictionLaw(weight / isolator.effective_radius, isolator.friction * weight,
-                                    slow * weight, isolator.rate_parameter, isolator.yield_displacement)
-        return SmoothLaw(weight / isolator.effective_radius, isolator.friction * weight,
-                         slow * weight, isolator.rate_parameter, isolator.yield_displacement, 0.5)
-    if isinstance(isolator, DoubleConcave):
-        return isolator_law(isolator.backbone(weight), weight)
+    entry = type_of(isolator)
+    if entry is not None:
+        if entry.history_law is not None:
+            return entry.history_law(isolator, weight, friction_law)
+        curve = isolator.backbone(weight)
+        if isinstance(curve, (Bilinear, MultiLinear)):
+            return backbone_law(curve)
+        raise ValueError(
+            f"isolator = {isolator!r} is not allowed: a {entry.label} bearing's backbone is not piecewise "
+            "linear and its type registers no history law; run the bilinear with its effective stiffness "
+            "and damping at the design displacement (isolation.study.assembly.history_isolator)"
+        )
+    return _duck_law(isolator, weight)
+
+
+def _duck_law(isolator, weight: float):
+    """Law of an unregistered object with ``.bilinear()`` or a piecewise-linear ``.backbone(weight)``."""
     bilinear = getattr(isolator, "bilinear", None)
     if callable(bilinear):
         try:
@@ -275,13 +134,13 @@ def isolator_law(isolator, weight: float, friction_law: str = "smooth"):
         except TypeError:
             pass
     backbone = getattr(isolator, "backbone", None)
-    if callable(backbone):  # e.g. a triple friction pendulum: piecewise-linear backbone under the weight
+    if callable(backbone):
         curve = backbone(weight)
         if isinstance(curve, (Bilinear, MultiLinear)):
-            return isolator_law(curve, weight)
+            return backbone_law(curve)
     raise ValueError(
         f"isolator = {isolator!r} is not allowed: must be a Bilinear, MultiLinear, BoucWen, "
-        "FrictionPendulum, DoubleConcave or an object with .bilinear() (e.g. LeadRubber)"
+        "a registered bearing (isolation.bearings.registry) or an object with .bilinear()"
     )
 
 
@@ -371,13 +230,12 @@ def imposed_force(isolator, displacement, *, weight=None, dt=None):
 
     Parameters
     ----------
-    isolator : Bilinear, MultiLinear, BoucWen, FrictionPendulum, DoubleConcave or LeadRubber
-        Whole-plane isolator. [-]
+    isolator : Bilinear, MultiLinear, BoucWen or a registered bearing
+        Whole-plane isolator (see :func:`isolator_law`). [-]
     displacement : array (steps,)
         Imposed displacement, starting from 0 with the isolator unloaded. [m]
     weight : float, optional
-        Axial load on a friction pendulum or double concave bearing (required
-        for them), > 0. [kN]
+        Axial load on a registered bearing (required for them), > 0. [kN]
     dt : float, optional
         Time step, > 0; needed only for velocity-dependent friction. [s]
 

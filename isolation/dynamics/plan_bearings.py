@@ -48,6 +48,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from isolation.bearings.registry import is_sliding
 from isolation.dynamics.isolators import ElasticPlasticLaw, SmoothLaw, isolator_law
 
 __all__ = ["BiaxialLaws", "smooth_update", "radial_return"]
@@ -126,7 +127,7 @@ class BiaxialLaws:
         for bearings, loads in cases:
             row = []
             for bearing, load in zip(bearings, loads):
-                slider = callable(getattr(bearing, "with_friction_factor", None))  # sliders' forces scale with N
+                slider = is_sliding(bearing)  # the registry: a sliding type's forces scale with N
                 law = isolator_law(bearing, 1.0 if slider else load)
                 if isinstance(law, SmoothLaw) and law.beta != 0.5:
                     raise ValueError(

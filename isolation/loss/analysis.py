@@ -20,10 +20,12 @@ from __future__ import annotations
 
 import numpy as np
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.loss.consequences import occupancy as _occupancy
 from isolation.loss.economics import _premium, economics
 from isolation.loss.fragility import IRREPARABLE, collapse_fragility, collapse_probability_at_mce, component_fragilities
-from isolation.loss.hazard import DESIGN_FRACTION, HazardCurve, PowerLawHazard, default_hazard, rate_from_probability
+from isolation.loss.hazard import HazardCurve, default_hazard
 from isolation.loss.inputs import LossInputs
 from isolation.loss.simulation import PERCENTILES, Demands, LossModel, simulate, summarise
 
@@ -92,7 +94,7 @@ def reference_levels(basis: str) -> tuple:
     Eurocode: the site spectrum is the design action (475 years, EN 1998-1 §2.1);
     the maximum level is taken as 1.5 x design by analogy with the 2/3 rule (an assumption).
     """
-    return (1.0, 1.5) if basis == "eurocode" else (DESIGN_FRACTION, 1.0)
+    return _codes.get(basis, "basis").reference_levels
 
 
 def study_hazard(study, spectrum, hazard_inputs) -> tuple:
@@ -114,15 +116,9 @@ def study_hazard(study, spectrum, hazard_inputs) -> tuple:
                  f"{reference:.3g} g; " + ("least-squares power law" if h.fit == "power_law"
                                            else "log-log interpolation, end slopes extended"))
         return hazard, {"basis": basis, "model": hazard.to_dict()}
-    if study.basis == "eurocode":
-        rate = h.mce_rate if h.mce_rate is not None else rate_from_probability(0.10, 50.0)
-        k = 3.0
-        if h.design_rate is not None:
-            raise ValueError("hazard.design_rate is not allowed for code.basis = 'eurocode': the site spectrum is "
-                             "the design level; give hazard.mce_rate (its rate) or hazard points")
-        hazard = PowerLawHazard(rate, k)
-        basis = (f"power law through the design action at {rate:.3g}/year (default 10 % in 50 years, EN 1998-1 "
-                 "§2.1 recommended) with exponent k = 3 (EN 1998-1 §2.1(4) note: k of the order of 3)")
+    own = _codes.get(study.basis).default_hazard(h)
+    if own is not None:  # a code whose site spectrum is not the MCE_R gives its own default hazard
+        hazard, basis = own
         return hazard, {"basis": basis, "model": hazard.to_dict()}
     hazard = default_hazard(h.mce_rate, h.design_rate)
     mce = "given" if h.mce_rate is not None else "default 2 % in 50 years"
@@ -223,7 +219,7 @@ def loss_model(study, inputs: LossInputs, *, displacement_limit=None) -> LossMod
 
 
 def case_loss(model: LossModel, demands: list, levels, hazard, *, samples: int, modelling_dispersion: float,
-              seed, basis: str = "asce7") -> dict:
+              seed, basis: str = DEFAULT_BASIS) -> dict:
     """Loss results of one case (fixed base or an alternative) over the intensity levels.
 
     Parameters

@@ -46,6 +46,9 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.special import ndtr
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
+
 __all__ = ["Fragility", "DAMAGE_STATES", "component_fragilities", "IRREPARABLE", "COLLAPSE_AT_MCE",
            "COLLAPSE_DISPERSION", "collapse_fragility", "collapse_probability_at_mce"]
 
@@ -145,19 +148,14 @@ COLLAPSE_AT_MCE = {"I": 0.10, "II": 0.10, "III": 0.05, "IV": 0.025}
 COLLAPSE_DISPERSION = 0.6
 """Total dispersion of the collapse fragility [-] (FEMA P-695 (2009) studies, common practice)."""
 
-def collapse_probability_at_mce(importance: float, basis: str = "asce7") -> float:
+def collapse_probability_at_mce(importance: float, basis: str = DEFAULT_BASIS) -> float:
     """Target P(collapse | MCE_R) [-] from the importance factor [-].
 
     ASCE 7: I_e 1.0 -> risk category II, 1.25 -> III, 1.5 -> IV (ASCE/SEI 7-16
     Table 1.5-2). Eurocode: gamma_I <= 1.0 -> as II, 1.2 -> as III, 1.4 -> as IV
     (an assumed correspondence).
     """
-    i = float(importance)
-    if basis == "eurocode":
-        category = "II" if i <= 1.0 + 1e-9 else ("III" if i <= 1.2 + 1e-9 else "IV")
-    else:
-        category = "II" if i <= 1.0 + 1e-9 else ("III" if i <= 1.25 + 1e-9 else "IV")
-    return COLLAPSE_AT_MCE[category]
+    return COLLAPSE_AT_MCE[_codes.get(basis, "basis").risk_category(importance)]
 
 
 def collapse_fragility(probability_at_mce: float, dispersion: float = COLLAPSE_DISPERSION) -> Fragility:

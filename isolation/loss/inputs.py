@@ -26,6 +26,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.loss.consequences import OCCUPANCIES
 from isolation.loss.costs import DEMO_BEARING_COST, CostInputs
 from isolation.loss.hazard import DESIGN_FRACTION
@@ -203,7 +205,7 @@ def _points(t, points):
     return tuple(pairs)
 
 
-def _options(t, basis: str = "asce7") -> LossOptions | None:
+def _options(t, basis: str = DEFAULT_BASIS) -> LossOptions | None:
     if t is None:
         return LossOptions()
     values: dict = dict(
@@ -219,7 +221,8 @@ def _options(t, basis: str = "asce7") -> LossOptions | None:
         ok = isinstance(levels, list) and 4 <= len(levels) <= 6 and all(
             isinstance(v, (int, float)) and not isinstance(v, bool) and 0.05 <= v <= 3.0 for v in levels) \
             and all(b > a for a, b in zip(levels, levels[1:]))
-        design, top = (1.0, 1.5) if basis == "eurocode" else (DESIGN_FRACTION, 1.0)
+        code = _codes.get(basis if basis in _codes.names() else DEFAULT_BASIS)
+        design, top = code.reference_levels
         if not ok:
             t.problems.add(f"{t.path_of('levels')} = {levels!r} is not allowed: must be 4 to 6 increasing numbers "
                            "in [0.05, 3] [MCE_R fraction]")
@@ -234,7 +237,7 @@ def _options(t, basis: str = "asce7") -> LossOptions | None:
     return LossOptions(**values)
 
 
-def read_loss_tables(reader, basis: str = "asce7", bearing_kinds=None) -> LossInputs | None:
+def read_loss_tables(reader, basis: str = DEFAULT_BASIS, bearing_kinds=None) -> LossInputs | None:
     """Read ``[cost]``, ``[hazard]`` and ``[loss]`` from a study's root reader.
 
     ``bearing_kinds`` names the bearing types ``cost.bearing_cost`` may price (besides

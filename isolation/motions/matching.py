@@ -55,17 +55,19 @@ from typing import Any
 
 import numpy as np
 
+from isolation.codes import registry as _codes
 from isolation.motions.envelope import typical_significant_duration
 from isolation.motions.shaping import _KAPPA, _TAIL_FLOOR, _baseline, _Shaping, _shaping, _starting_records  # noqa: F401
 from isolation.motions.spectrum import response_spectrum
-from isolation.motions.suite import MEAN_RULES, RECORD_BAND, MatchedSuite
+from isolation.motions.suite import RECORD_BAND, MatchedSuite
 from isolation.motions.wavelets import wavelet_step
-from isolation.validate import finite_array, in_range, one_of, positive
+from isolation.validate import finite_array, in_range, positive
 
 __all__ = ["matched_suite", "GOALS"]
 
 #: Records are matched to goal x target, per suite-mean rule.
-GOALS = {"asce7": 1.15, "eurocode": 1.08}
+GOALS = _codes.PerBasis(lambda basis: basis.suite.goal)
+"""Matching goal per rule (:attr:`isolation.codes.basis.SuiteRules.goal`)."""
 
 _TOLERANCE = 0.05  # stop when every record is within +/-5 % of goal x target
 _PATIENCE = 12  # a record stops after this many iterations without improvement
@@ -115,10 +117,9 @@ def _band(spectrum, dt, duration, period_range, isolated_period, rule):
                              f"{duration / 3:g} [s]")
     if lows is None:
         check = (low, high)
-    elif rule == "asce7":
-        check = (0.75 * lows, 1.25 * highs)  # ASCE/SEI 7 Ch. 17, from memory
-    else:
-        check = (0.2 * lows, 2.0 * highs)  # EN 1998-1 §3.2.3.1.2(4)
+    else:  # the code's range (ASCE/SEI 7 Ch. 17 0.75-1.25, EN 1998-1 §3.2.3.1.2(4) 0.2-2.0)
+        lower, upper = _codes.get(rule, "rule").suite.period_range
+        check = (lower * lows, upper * highs)
     if check[0] < low * (1 - 1e-9) or check[1] > high * (1 + 1e-9):
         raise ValueError(
             f"isolated_period = {isolated_period!r} is not allowed: its check range "
@@ -172,7 +173,7 @@ def matched_suite(
     *,
     magnitude: float = 7.0,
     significant_duration: float | None = None,
-    rule: str = "asce7",
+    rule: str = _codes.DEFAULT_BASIS,
     isolated_period: Any = None,
     control_points: int = 80,
     max_iterations: int = 30,
@@ -236,7 +237,7 @@ def matched_suite(
     length = in_range("duration", duration, 5.0, 600.0, "s")
     step = in_range("dt", dt, 0.001, 0.05, "s")
     base_seed = _whole("seed", seed, 0, 2**63 - 1)
-    one_of("rule", rule, MEAN_RULES)
+    rules = _codes.get(rule, "rule").suite
     points = _whole("control_points", control_points, 10, 400)
     limit = _whole("max_iterations", max_iterations, 1, 200)
     refinements = _whole("refinements", refinements, 0, 200)
@@ -252,7 +253,7 @@ def matched_suite(
     target = np.asarray(spectrum.sa(periods, zeta), dtype=float)
     if target.shape != periods.shape or not np.all(np.isfinite(target)) or (target <= 0).any():
         raise ValueError(f"spectrum = {spectrum!r} is not allowed: sa() must give finite values > 0 [g]")
-    goal = GOALS[rule]
+    goal = rules.goal
     aim = goal * target
 
     shaping = _shaping(length, step, strong, periods, high, magnitude if chosen_magnitude is not None else None)
@@ -304,7 +305,7 @@ def matched_suite(
 
     spectra = response_spectrum(best, step, periods, zeta)
     inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
-    factors = _record_factors(spectra / target, inside, MEAN_RULES[rule])
+    factors = _record_factors(spectra / target, inside, rules.mean_ratio)
     if np.any(factors != 1.0):
         best = best * factors[:, None]
         spectra = response_spectrum(best, step, periods, zeta)

@@ -10,11 +10,13 @@ from typing import TypedDict
 
 import numpy as np
 
+from isolation.codes import registry as _codes
 from isolation.motions.measures import displacement, velocity
 from isolation.motions.pair_spectra import component_correlation
 from isolation.motions.suite import BASELINE_TOLERANCE
 
 __all__ = ["MatchedPairs", "PairCheck", "PAIR_RULES", "PAIR_BAND"]
+
 
 class PairRule(TypedDict):
     """Suite rules for pairs under one basis."""
@@ -25,11 +27,9 @@ class PairRule(TypedDict):
     range: tuple[float, float]  # check range factors on (T_low, T_high) [-]
 
 
-#: Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors on (T_low, T_high).
-PAIR_RULES: dict[str, PairRule] = {
-    "asce7": {"spectrum": "RotD100", "required": 1.10, "goal": 1.15, "range": (0.75, 1.25)},
-    "eurocode": {"spectrum": "SRSS", "required": 1.30, "goal": 1.40, "range": (0.2, 1.5)},
-}
+#: Per basis: pair spectrum, required suite-mean ratio, matching goal, check range factors on
+#: (T_low, T_high) (:attr:`isolation.codes.basis.SuiteRules.pair_rule`).
+PAIR_RULES = _codes.PerBasis(lambda basis: basis.suite.pair_rule)
 
 #: Per-pair band as a fraction of the goal (0.9-1.3 of the target at the ASCE 7 goal 1.15; common practice).
 PAIR_BAND = (0.9 / 1.15, 1.3 / 1.15)
@@ -175,7 +175,7 @@ class MatchedPairs:
     @property
     def spectrum_name(self) -> str:
         """"RotD100" or "SRSS"."""
-        return PAIR_RULES[self.rule]["spectrum"]
+        return _codes.get(self.rule, "rule").suite.pair_spectrum
 
     @property
     def mean_spectrum(self) -> np.ndarray:
@@ -218,7 +218,7 @@ class MatchedPairs:
                 for v, d in zip(final_v, final_d)
             ),
             check_range=tuple(float(v) for v in self.check_range),
-            required_mean_ratio=PAIR_RULES[self.rule]["required"],
+            required_mean_ratio=_codes.get(self.rule, "rule").suite.pair_ratio,
             lowest_mean_ratio=float(mean_ratio[lowest]),
             period_of_lowest_mean=float(self.periods[inside][lowest]),
         )

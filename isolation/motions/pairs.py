@@ -35,10 +35,11 @@ from typing import Any
 
 import numpy as np
 
+from isolation.codes import registry as _codes
 from isolation.motions.matching import _band, _record_factors, _shaping, _whole, matched_suite, progress_bar
 from isolation.motions.pair_spectra import rotd100_spectrum, srss_spectrum
-from isolation.motions.pair_suite import PAIR_RULES, MatchedPairs
-from isolation.validate import in_range, one_of, positive
+from isolation.motions.pair_suite import MatchedPairs
+from isolation.validate import in_range, positive
 
 __all__ = ["matched_pairs"]
 
@@ -47,7 +48,6 @@ _PATIENCE = 8
 # Starting component level as a fraction of the pair goal: two independent
 # components matched to S give RotD100 of about 1.2-1.3 S (common practice)
 # and SRSS of sqrt(2) S (derived arithmetic).
-_START = {"asce7": 1.0 / 1.25, "eurocode": 1.0 / math.sqrt(2.0)}
 
 
 class _Scaled:
@@ -62,7 +62,7 @@ class _Scaled:
 
 
 def _pair_spectrum(rule: str, pairs: np.ndarray, dt: float, periods: np.ndarray, zeta: float) -> np.ndarray:
-    if PAIR_RULES[rule]["spectrum"] == "RotD100":
+    if _codes.get(rule, "rule").suite.pair_spectrum == "RotD100":
         return rotd100_spectrum(pairs, dt, periods, zeta)
     return srss_spectrum(pairs, dt, periods, zeta)
 
@@ -71,7 +71,7 @@ def _pair_check_range(low: float, high: float, isolated_period: Any, rule: str) 
     if isolated_period is None:
         return (low, high)
     values = np.atleast_1d(np.asarray(isolated_period, dtype=float))
-    lower, upper = PAIR_RULES[rule]["range"]
+    lower, upper = _codes.get(rule, "rule").suite.pair_period_range
     check = (lower * float(values.min()), upper * float(values.max()))
     if check[0] < low * (1 - 1e-9) or check[1] > high * (1 + 1e-9):
         raise ValueError(
@@ -90,7 +90,7 @@ def matched_pairs(
     seed: int = 0,
     period_range: Any = None,
     *,
-    rule: str = "asce7",
+    rule: str = _codes.DEFAULT_BASIS,
     isolated_period: Any = None,
     magnitude: float = 7.0,
     significant_duration: float | None = None,
@@ -137,18 +137,18 @@ def matched_pairs(
         ``.acceleration`` of shape (count, 2, steps) [g], ``.dt`` [s], ``.seeds``, ``.check()``.
     """
     number = _whole("count", count, 1, 100)
-    one_of("rule", rule, PAIR_RULES)
+    rules = _codes.get(rule, "rule").suite
     zeta = in_range("damping", damping, 0.01, 0.5)
     length = in_range("duration", duration, 5.0, 600.0, "s")
     step = in_range("dt", dt, 0.001, 0.05, "s")
     limit = _whole("max_iterations", max_iterations, 1, 200)
     points = _whole("control_points", control_points, 10, 400)
-    goal = PAIR_RULES[rule]["goal"]
+    goal = rules.pair_goal
     if period_range is None and isolated_period is not None:
         period_range = _default_band(spectrum, step, length, isolated_period)
     # Stage 1: independent components (the single-record method) at a fraction of the pair goal.
     components = matched_suite(
-        _Scaled(spectrum, goal * _START[rule] / (1.15 if rule == "asce7" else 1.08)),
+        _Scaled(spectrum, goal * rules.pair_start / rules.goal),
         count=2 * number, damping=zeta, duration=length, dt=step, seed=seed, period_range=period_range,
         magnitude=magnitude, significant_duration=significant_duration, rule=rule,
         isolated_period=isolated_period, control_points=points, progress=progress,
@@ -189,7 +189,7 @@ def matched_pairs(
 
     spectra = _pair_spectrum(rule, best, step, periods, zeta)
     inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
-    factors = _pair_factors(spectra / target, inside, PAIR_RULES[rule]["required"], goal)
+    factors = _pair_factors(spectra / target, inside, rules.pair_ratio, goal)
     if np.any(factors != 1.0):
         best = best * factors[:, None, None]
         spectra = _pair_spectrum(rule, best, step, periods, zeta)

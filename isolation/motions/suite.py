@@ -22,6 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from isolation.codes import registry as _codes
 from isolation.motions.measures import displacement, intensity_measures, velocity
 
 __all__ = ["MatchedSuite", "SuiteCheck", "RecordCheck", "BASELINE_TOLERANCE", "RECORD_BAND", "MEAN_RULES"]
@@ -32,8 +33,9 @@ BASELINE_TOLERANCE = {"velocity": 1.0e-4, "displacement": 1.0e-4}
 #: Per-record band, ratio of record spectrum to target (common practice).
 RECORD_BAND = (0.9, 1.3)
 
-#: Required minimum ratio of the suite-mean spectrum to the target, per rule.
-MEAN_RULES = {"asce7": 1.10, "eurocode": 0.90}
+#: Required minimum ratio of the suite-mean spectrum to the target, per rule (the code basis's
+#: :attr:`isolation.codes.basis.SuiteRules.mean_ratio`).
+MEAN_RULES = _codes.PerBasis(lambda basis: basis.suite.mean_ratio)
 
 
 @dataclass(frozen=True)
@@ -295,7 +297,7 @@ class MatchedSuite:
             band=(float(band[0]), float(band[1])),
             rule=self.rule,
             check_range=tuple(float(v) for v in self.check_range),
-            required_mean_ratio=MEAN_RULES[self.rule],
+            required_mean_ratio=_codes.get(self.rule, "rule").suite.mean_ratio,
             lowest_mean_ratio=float(mean_ratio[lowest]),
             period_of_lowest_mean=float(self.periods[inside][lowest]),
         )

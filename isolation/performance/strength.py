@@ -31,48 +31,14 @@ from dataclasses import asdict, dataclass
 import numpy as np
 
 from isolation import GRAVITY, validate
+from isolation.codes import registry as _codes
 
 __all__ = ["SystemFactors", "system_factors", "StoreyDesign", "asce7_distribution", "eurocode_distribution",
            "fixed_base_design", "isolated_design", "DriftCheck", "code_drift_check", "allowable_drift"]
 
-_ASCE = "ASCE/SEI 7-16"
-_EC8 = "EN 1998-1:2004"
 
-# ASCE/SEI 7-16 Table 12.2-1 (from memory): lateral system -> rows (R, Omega_0, C_d, description).
-_ASCE_ROWS = {
-    "steel_moment_frame": ((8.0, 3.0, 5.5, "special steel moment frame"),
-                           (4.5, 3.0, 4.0, "intermediate steel moment frame"),
-                           (3.5, 3.0, 3.0, "ordinary steel moment frame")),
-    "concrete_moment_frame": ((8.0, 3.0, 5.5, "special reinforced concrete moment frame"),
-                              (5.0, 3.0, 4.5, "intermediate reinforced concrete moment frame"),
-                              (3.0, 3.0, 2.5, "ordinary reinforced concrete moment frame")),
-    "braced_frame": ((8.0, 2.0, 4.0, "steel eccentrically braced frame"),
-                     (6.0, 2.0, 5.0, "special steel concentrically braced frame"),
-                     (3.25, 2.0, 3.25, "ordinary steel concentrically braced frame")),
-    "steel_eccentrically_braced_frame": ((8.0, 2.0, 4.0, "steel eccentrically braced frame"),),
-    "steel_buckling_restrained_braced_frame": ((8.0, 2.5, 5.0, "steel buckling-restrained braced frame"),),
-    "concentrically_braced_frame": ((6.0, 2.0, 5.0, "special steel concentrically braced frame"),
-                                    (3.25, 2.0, 3.25, "ordinary steel concentrically braced frame")),
-    "shear_wall": ((6.0, 2.5, 5.0, "special reinforced concrete shear walls, building frame system"),
-                   (5.0, 2.5, 5.0, "special reinforced concrete shear walls, bearing wall system"),
-                   (4.0, 2.5, 4.0, "ordinary reinforced concrete shear walls, bearing wall system")),
-    "other": ((6.0, 2.5, 5.0, "special reinforced concrete shear walls, building frame system"),
-              (5.0, 2.5, 5.0, "special reinforced concrete shear walls, bearing wall system"),
-              (4.0, 2.5, 4.0, "ordinary reinforced concrete shear walls, bearing wall system")),
-}
-
-# EN 1998-1 alpha_u/alpha_1 (from memory): §5.2.2.2(5) concrete, §6.3.2(3) steel; multi-storey, multi-bay.
-_EC8_OVERSTRENGTH = {
-    "steel_moment_frame": (1.3, "§6.3.2(3): multi-storey, multi-bay moment frame"),
-    "concrete_moment_frame": (1.3, "§5.2.2.2(5): multi-storey, multi-bay frame"),
-    "braced_frame": (1.2, "§6.3.2(3): eccentrically braced frame"),
-    "steel_eccentrically_braced_frame": (1.2, "§6.3.2(3): eccentrically braced frame"),
-    "steel_buckling_restrained_braced_frame": (1.0, "no EN 1998-1 row; taken as 1.0 (common practice)"),
-    "concentrically_braced_frame": (1.0, "§6.3.2(3): concentrically braced frames take no alpha_u/alpha_1 "
-                                         "multiplier (from memory)"),
-    "shear_wall": (1.1, "§5.2.2.2(5): uncoupled wall system"),
-    "other": (1.1, "§5.2.2.2(5): uncoupled wall system"),
-}
+_LATERAL = ("steel_moment_frame", "concrete_moment_frame", "braced_frame", "steel_eccentrically_braced_frame",
+            "steel_buckling_restrained_braced_frame", "concentrically_braced_frame", "shear_wall", "other")
 
 
 @dataclass(frozen=True)
@@ -92,7 +58,7 @@ class SystemFactors:
         return asdict(self)
 
 
-def system_factors(lateral_system: str, response_modification: float, basis: str = "asce7", *,
+def system_factors(lateral_system: str, response_modification: float, basis: str = _codes.DEFAULT_BASIS, *,
                    overstrength: float | None = None,
                    deflection_amplification: float | None = None) -> SystemFactors:
     """Overstrength and deflection amplification by lateral system, or as given.
@@ -117,19 +83,10 @@ def system_factors(lateral_system: str, response_modification: float, basis: str
     -------
     SystemFactors
     """
-    validate.one_of("lateral_system", lateral_system, tuple(_ASCE_ROWS))
-    validate.one_of("basis", basis, ("asce7", "eurocode"))
+    validate.one_of("lateral_system", lateral_system, _LATERAL)
+    code = _codes.get(basis, "basis")
     r = validate.in_range("response_modification", response_modification, 1.0, 10.0, "-")
-    if basis == "asce7":
-        row = min(_ASCE_ROWS[lateral_system], key=lambda row: abs(row[0] - r))
-        omega, cd = row[1], row[2]
-        source = (f"{_ASCE} Table 12.2-1, {row[3]} (R = {row[0]:g}, Omega_0 = {row[1]:g}, "
-                  f"C_d = {row[2]:g}; from memory)")
-    else:
-        omega, where = _EC8_OVERSTRENGTH[lateral_system]
-        cd = r
-        source = (f"{_EC8} {where}: alpha_u/alpha_1 = {omega:g} (from memory; a lower estimate of the "
-                  "real overstrength); q_d = q (§4.3.4)")
+    omega, cd, source = code.system_factors(lateral_system, r)
     given = []
     if overstrength is not None:
         omega = validate.in_range("overstrength", overstrength, 1.0, 5.0, "-")
@@ -238,8 +195,8 @@ def _storey_shears(forces: np.ndarray) -> np.ndarray:
 
 
 def fixed_base_design(spectrum, floor_weights, storey_heights, response_modification: float, factors: SystemFactors,
-                      *, basis: str = "asce7", period: float, importance: float = 1.0, frame: str = "other",
-                      s1: float = 0.0) -> StoreyDesign:
+                      *, basis: str = _codes.DEFAULT_BASIS, period: float, importance: float = 1.0,
+                      frame: str = "other", s1: float = 0.0) -> StoreyDesign:
     """Equivalent-lateral-force design of the building on a fixed base and its storey yield shears.
 
     Parameters
@@ -268,41 +225,15 @@ def fixed_base_design(spectrum, floor_weights, storey_heights, response_modifica
     s1 : float
         Mapped S_1 for ASCE/SEI 7-16 Eq. 12.8-6. [g]
     """
-    validate.one_of("basis", basis, ("asce7", "eurocode"))
+    code = _codes.get(basis, "basis")
     w = validate.positive_array("floor_weights", floor_weights, "kN")
     h = validate.positive_array("storey_heights", storey_heights, "m")
     if w.shape != h.shape:
         raise ValueError(f"storey_heights has {h.size} entries and floor_weights {w.size}: must be equal")
     elevations = np.cumsum(h)
     total = float(w.sum())
-    if basis == "asce7":
-        from isolation.codes.asce7_fixed_base import fixed_base_shear
-
-        design = fixed_base_shear(spectrum, total, response_modification, period=period,
-                                  height=float(elevations[-1]), frame=frame, importance=importance, s1=s1)
-        shares = asce7_distribution(w, elevations, design.period)
-        base, t = design.base_shear, design.period
-        source = (f"{_ASCE} §12.8.1 V = C_s W, C_s = {design.response_coefficient:.4g} ({design.governs}), "
-                  f"T = {t:.3g} s ({design.period_source}); §12.8.3 C_vx with k = "
-                  f"{float(np.interp(t, [0.5, 2.5], [1.0, 2.0])):.3g}")
-    else:
-        t = validate.positive("period", period, "s")
-        q = validate.in_range("response_modification", response_modification, 1.0, 10.0, "-")
-        lam = 0.85 if (len(w) > 2 and t <= 2.0 * _corner_period(spectrum)) else 1.0
-        from isolation.site.spectra import EurocodeSpectrum
-
-        if isinstance(spectrum, EurocodeSpectrum) and t <= 4.0:
-            from isolation.codes.eurocode import eurocode_design_spectrum
-
-            sd = eurocode_design_spectrum(spectrum, t, q)
-            how = "§3.2.2.5 design spectrum S_d(T)"
-        else:
-            sd = float(spectrum.sa(t)) / q
-            how = "elastic Sa(T)/q (common practice for a tabulated spectrum)"
-        base = sd * total * lam
-        shares = eurocode_distribution(w, elevations)
-        source = (f"{_EC8} §4.3.3.2.2 F_b = S_d(T_1) m lambda, {how}, q = {q:g}, lambda = {lam:g}, "
-                  f"T_1 = {t:.3g} s; §4.3.3.2.3 F_i = F_b z_i m_i / sum z_j m_j")
+    base, shares, t, source = code.fixed_base_forces(spectrum, w, elevations, response_modification, period=period,
+                                                     importance=importance, frame=frame, s1=s1)
     forces = shares * base
     shears = _storey_shears(forces)
     return StoreyDesign(float(base), tuple(forces.tolist()), tuple(shears.tolist()), factors.overstrength,
@@ -310,12 +241,7 @@ def fixed_base_design(spectrum, floor_weights, storey_heights, response_modifica
                         f"{source}; yield shear = {factors.overstrength:g} x design storey shear ({factors.source})")
 
 
-def _corner_period(spectrum) -> float:
-    parameters = getattr(spectrum, "parameters", None)
-    return float(parameters[2]) if parameters is not None else 0.5
-
-
-def isolated_design(report, floor_weights, factors: SystemFactors, *, basis: str = "asce7",
+def isolated_design(report, floor_weights, factors: SystemFactors, *, basis: str = _codes.DEFAULT_BASIS,
                     total_weight: float | None = None) -> StoreyDesign:
     """Storey yield shears of the isolated superstructure from the code's V_s.
 
@@ -337,28 +263,17 @@ def isolated_design(report, floor_weights, factors: SystemFactors, *, basis: str
         W including the base slab, for the Eurocode share (default the sum of
         ``floor_weights``). [kN]
     """
-    validate.one_of("basis", basis, ("asce7", "eurocode"))
+    code = _codes.get(basis, "basis")
     w = validate.positive_array("floor_weights", floor_weights, "kN")
     v_s = float(report.value("V_s"))
-    if basis == "asce7":
-        forces = np.array([s.force for s in report.storey_forces], dtype=float)
-        source = f"{_ASCE} §17.5.4.2 V_s with R_I, §17.5.5 F_x = C_vx V_s (from memory)"
-    else:
-        total = float(w.sum()) if total_weight is None else validate.positive("total_weight", total_weight, "kN")
-        forces = v_s * w / total
-        source = (f"{_EC8} §10.10(5) V_s with q <= 1.5 (from memory), spread in proportion to the floor "
-                  "weights (near-rigid superstructure)")
+    forces, source = code.isolated_forces(report, w, total_weight)
     shears = _storey_shears(forces)
     return StoreyDesign(v_s, tuple(forces.tolist()), tuple(shears.tolist()), factors.overstrength,
                         tuple((factors.overstrength * shears).tolist()), float(v_s / w.sum()), float("nan"),
                         f"{source}; yield shear = {factors.overstrength:g} x design storey shear ({factors.source})")
 
 
-_ASCE_DRIFT = {1.0: (0.020, "risk category I or II"), 1.25: (0.015, "risk category III"),
-               1.5: (0.010, "risk category IV")}
-
-
-def allowable_drift(basis: str = "asce7", importance: float = 1.0) -> tuple[float, float, str]:
+def allowable_drift(basis: str = _codes.DEFAULT_BASIS, importance: float = 1.0) -> tuple[float, float, str]:
     """Allowable storey drift ratio of the fixed-base design, its factor nu, and the source.
 
     ASCE/SEI 7-16 Table 12.12-1, "all other structures": 0.020 h_sx (risk
@@ -380,15 +295,7 @@ def allowable_drift(basis: str = "asce7", importance: float = 1.0) -> tuple[floa
     (float, float, str)
         Limit on the drift ratio [-], the factor nu [-] applied to the drift, and the source.
     """
-    validate.one_of("basis", basis, ("asce7", "eurocode"))
-    ie = validate.positive("importance", importance, "-")
-    if basis == "asce7":
-        key = min(_ASCE_DRIFT, key=lambda k: (abs(k - ie), -k))
-        limit, category = _ASCE_DRIFT[key]
-        return limit, 1.0, f"{_ASCE} §12.12.1, Table 12.12-1, all other structures, {category} (from memory)"
-    nu = 0.4 if ie >= 1.2 else 0.5
-    return 0.005, nu, (f"{_EC8} §4.4.3.2(1)a, brittle non-structural elements, nu = {nu:g} "
-                       "(importance class " + ("III-IV" if nu == 0.4 else "I-II") + "; from memory)")
+    return _codes.get(basis, "basis").allowable_drift(importance)
 
 
 @dataclass(frozen=True)
@@ -433,7 +340,7 @@ class DriftCheck:
         return out
 
 
-def code_drift_check(building, design: StoreyDesign, factors: SystemFactors, *, basis: str = "asce7",
+def code_drift_check(building, design: StoreyDesign, factors: SystemFactors, *, basis: str = _codes.DEFAULT_BASIS,
                      importance: float = 1.0) -> DriftCheck:
     """Drift check of the fixed-base design on the shear building's storey stiffnesses.
 
@@ -458,7 +365,7 @@ def code_drift_check(building, design: StoreyDesign, factors: SystemFactors, *, 
     importance : float
         I_e (ASCE 7) or gamma_I (EN 1998-1). [-]
     """
-    validate.one_of("basis", basis, ("asce7", "eurocode"))
+    code = _codes.get(basis, "basis")
     k = np.asarray(building.stiffnesses, dtype=float)
     h = np.asarray(building.heights, dtype=float)
     shears = np.asarray(design.storey_shears, dtype=float)
@@ -468,16 +375,7 @@ def code_drift_check(building, design: StoreyDesign, factors: SystemFactors, *, 
     limit, nu, source = allowable_drift(basis, importance)
     gravity = np.cumsum((np.asarray(building.masses) * GRAVITY)[::-1])[::-1]
     cd = factors.deflection_amplification
-    if basis == "asce7":
-        ie = validate.positive("importance", importance, "-")
-        ratios = cd * elastic / ie / h
-        theta = gravity * (cd * elastic / ie) * ie / (shears * h * cd)
-        theta_max = min(0.5 / cd, 0.25)
-        source += f"; Delta = C_d delta_xe/I_e with C_d = {cd:g} (§12.8.6); theta Eq. 12.8-16"
-    else:
-        ratios = nu * cd * elastic / h
-        theta = gravity * cd * elastic / (shears * h)
-        theta_max = 0.1
-        source += f"; d_r = q_d d_e with q_d = {cd:g} (§4.3.4); theta Eq. 4.28, P-delta ignorable below 0.1"
+    ratios, theta, theta_max, note = code.drift_ratios(elastic, shears, h, gravity, cd, importance, nu)
+    source += note
     return DriftCheck(tuple(elastic.tolist()), tuple(ratios.tolist()), float(limit), tuple(theta.tolist()),
                       float(theta_max), bool(np.all(ratios <= limit)), source)

@@ -38,10 +38,16 @@ from typing import Any, Mapping
 import numpy as np
 
 from isolation import GRAVITY, validate
-from isolation.site.damping import RULES, _checked_array, _unwrap, damping_coefficient, eurocode_eta
+from isolation.codes.asce7_basis import ASCE7 as _ASCE7
+from isolation.codes.eurocode_basis import EUROCODE as _EUROCODE
+from isolation.codes.registry import DEFAULT_BASIS
+from isolation.site.damping import RULES, _checked_array, _unwrap, damping_coefficient, eurocode_eta, rules
+
+EUROCODE_KIND = "eurocode"  # file-format tag of a serialised EN 1998-1 spectrum (not a basis name)
 
 __all__ = [
     "RULES",
+    "rules",
     "damping_coefficient",
     "eurocode_eta",
     "CodeSpectrum",
@@ -124,7 +130,7 @@ class _Spectrum:
             Pseudo-acceleration. [g]
         """
         t = self._periods(period)
-        chosen = self.rule if rule is None else validate.one_of("rule", rule, RULES)
+        chosen = self.rule if rule is None else validate.one_of("rule", rule, rules())
         out = self._sa5(t) / np.asarray(damping_coefficient(damping, chosen))
         return _unwrap(np.asarray(out, dtype=float))
 
@@ -182,14 +188,14 @@ class CodeSpectrum(_Spectrum):
     long_period: float = 8.0
     level: str = "MCE_R"
     max_period: float = 10.0
-    rule: str = "asce7"
+    rule: str = _ASCE7.damping_rule
 
     def __post_init__(self) -> None:
         sms = validate.positive("sms", self.sms, "g")
         sm1 = validate.positive("sm1", self.sm1, "g")
         tl = validate.positive("long_period", self.long_period, "s")
         validate.one_of("level", self.level, ("MCE_R", "design"))
-        validate.one_of("rule", self.rule, RULES)
+        validate.one_of("rule", self.rule, rules())
         if tl <= sm1 / sms:
             raise ValueError(
                 f"long_period = {tl!r} is not allowed: must exceed T_S = sm1/sms = {sm1 / sms:g} [s]"
@@ -317,7 +323,7 @@ class EurocodeSpectrum(_Spectrum):
     ground: str = "C"
     spectrum_type: int = 1
     importance: float = 1.0
-    rule: str = field(default="eurocode")
+    rule: str = field(default=_EUROCODE.damping_rule)
     max_period: float = field(default=4.0, kw_only=True)
 
     def __post_init__(self) -> None:
@@ -325,7 +331,7 @@ class EurocodeSpectrum(_Spectrum):
         validate.one_of("ground", self.ground, tuple("ABCDE"))
         validate.one_of("spectrum_type", self.spectrum_type, (1, 2))
         importance = validate.positive("importance", self.importance, "-")
-        validate.one_of("rule", self.rule, RULES)
+        validate.one_of("rule", self.rule, rules())
         top = validate.in_range("max_period", self.max_period, 4.0, _EC8_LONGEST, "s")
         object.__setattr__(self, "ag", ag)
         object.__setattr__(self, "importance", importance)
@@ -383,15 +389,15 @@ class EurocodeSpectrum(_Spectrum):
         float or array
             Pseudo-acceleration. [g]
         """
-        chosen = self.rule if rule is None else validate.one_of("rule", rule, RULES)
-        if chosen != "eurocode":
+        chosen = self.rule if rule is None else validate.one_of("rule", rule, rules())
+        if chosen != _EUROCODE.damping_rule:
             return super().sa(period, damping, rule=chosen)
         t = self._periods(period)
         return _unwrap(np.asarray(self._shape(t, np.asarray(eurocode_eta(damping))), dtype=float))
 
     def to_dict(self) -> dict:
         return {
-            "kind": "eurocode",
+            "kind": EUROCODE_KIND,
             "ag": self.ag,
             "ground": self.ground,
             "spectrum_type": int(self.spectrum_type),
@@ -427,7 +433,7 @@ class TabulatedSpectrum(_Spectrum):
     periods: tuple
     values: tuple
     damping: float = 0.05
-    rule: str = "asce7"
+    rule: str = DEFAULT_BASIS
 
     def __post_init__(self) -> None:
         t = validate.finite_array("periods", self.periods, "s")
@@ -447,7 +453,7 @@ class TabulatedSpectrum(_Spectrum):
                 f"(previous {float(t[i - 1])!r}) [s]"
             )
         beta = validate.in_range("damping", self.damping, 0.0, 1.0, "-", low_inclusive=False)
-        validate.one_of("rule", self.rule, RULES)
+        validate.one_of("rule", self.rule, rules())
         object.__setattr__(self, "periods", tuple(float(x) for x in t))
         object.__setattr__(self, "values", tuple(float(x) for x in v))
         object.__setattr__(self, "damping", beta)
@@ -483,7 +489,7 @@ class TabulatedSpectrum(_Spectrum):
 
 
 _KINDS: dict[str, type[CodeSpectrum | EurocodeSpectrum | TabulatedSpectrum]] = {
-    "code": CodeSpectrum, "eurocode": EurocodeSpectrum, "tabulated": TabulatedSpectrum}
+    "code": CodeSpectrum, EUROCODE_KIND: EurocodeSpectrum, "tabulated": TabulatedSpectrum}
 
 
 def spectrum_from_dict(mapping: Mapping[str, Any]):

@@ -23,28 +23,15 @@ from __future__ import annotations
 import numpy as np
 
 from isolation import GRAVITY
+from isolation import codes as _codes
 from isolation import verdict as _verdict
+from isolation.codes.eurocode_basis import EUROCODE_MAX_PERIOD, EUROCODE_SPECTRUM_NOTE
 from isolation.study import Alternative, Study
-from isolation.verdict.sources import drift_limit as _drift_limit
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
            "bearing_uplift_check", "overturning_inputs",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
-
-from isolation.codes.lateral_systems import FRAMES as _FRAMES
-from isolation.codes.lateral_systems import LATERAL_SYSTEM_ROWS as _SYSTEM_ROWS
-
-EUROCODE_MAX_PERIOD = 10.0
-"""Longest period of a study's Eurocode site spectrum [s]: EN 1998-1 §3.2.2.2 ends at 4 s,
-but the suite-mean check (up to 2 T_M) and the matched band (up to max(6 s, 1.5 T_M)) of
-isolated buildings reach beyond it, so the T_C T_D/T^2 branch is continued to 10 s."""
-
-EUROCODE_SPECTRUM_NOTE = ("EN 1998-1 elastic spectrum with a_g = gamma_I a_gR, gamma_I = building.importance "
-                          "(§2.1(3), §4.2.5, from memory): beyond 4 s its T_C T_D/T^2 branch is extended to "
-                          f"{EUROCODE_MAX_PERIOD:g} s (constant spectral displacement); the displacement "
-                          "spectrum of EN 1998-1 Annex A is not implemented")
-"""Assumption stated in the results of a study on a Eurocode (not tabulated) spectrum."""
 
 
 def site_spectrum(study: Study):
@@ -54,41 +41,23 @@ def site_spectrum(study: Study):
     branch extended beyond 4 s, see :class:`isolation.site.spectra.EurocodeSpectrum`)
     so that motion matching reaches twice the isolated period.
     """
-    from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+    from isolation.site.spectra import TabulatedSpectrum
 
     site = study.site
-    rule = "asce7" if study.basis == "asce7" else "eurocode"
+    code = _codes.get(study.basis)
     if site.spectrum_periods:
-        return TabulatedSpectrum(site.spectrum_periods, site.spectrum_values, rule=rule)
-    if study.basis == "asce7":
-        assert site.sms is not None and site.sm1 is not None and site.long_period is not None  # required by the parse
-        return CodeSpectrum(site.sms, site.sm1, long_period=site.long_period)
-    assert site.ag is not None and site.ground_type is not None and site.spectrum_type is not None  # as above
-    return EurocodeSpectrum(site.ag, ground=site.ground_type, spectrum_type=site.spectrum_type,
-                            importance=study.building.importance, max_period=EUROCODE_MAX_PERIOD)
+        return TabulatedSpectrum(site.spectrum_periods, site.spectrum_values, rule=code.damping_rule)
+    return code.site_spectrum(site, study.building.importance)
 
 
 def isolation_system(alternative: Alternative):
-    """Bearing groups and property factors of one alternative."""
-    from isolation.bearings import (
-        BearingGroup,
-        DoubleConcave,
-        FrictionPendulum,
-        HighDampingRubber,
-        IsolationSystem,
-        LeadRubber,
-        PropertyBound,
-        PropertyFactors,
-        TripleFrictionPendulum,
-    )
+    """Bearing groups and property factors of one alternative (each bearing built by its registered type)."""
+    from isolation.bearings import BearingGroup, IsolationSystem, PropertyBound, PropertyFactors
+    from isolation.bearings.registry import bearing_type
 
-    kinds = {"friction_pendulum": FrictionPendulum, "double_concave": DoubleConcave,
-             "triple_pendulum": TripleFrictionPendulum,
-             "lead_rubber": LeadRubber, "high_damping_rubber": HighDampingRubber}
     groups = []
     for i, spec in enumerate(alternative.bearings):
-        properties = {k: v for k, v in spec.properties.items()}
-        bearing = kinds[spec.type](**properties)
+        bearing = bearing_type(spec.type).create(spec.properties)
         groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
                                    name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
     bound = PropertyBound(alternative.lower_factor, alternative.upper_factor)
@@ -100,14 +69,7 @@ def fixed_base_period(study: Study) -> tuple[float, str]:
     building = study.building
     if building.fixed_base_period is not None:
         return building.fixed_base_period, "given in the study"
-    frame = _FRAMES[building.lateral_system]
-    if study.basis == "eurocode":
-        from isolation.codes.eurocode import eurocode_approximate_period
-        return (eurocode_approximate_period(building.height, frame),
-                f"EN 1998-1:2004 Eq. 4.6 estimate T_1 = C_t H^(3/4), {_SYSTEM_ROWS[building.lateral_system][2]}")
-    from isolation.codes.asce7_fixed_base import approximate_period
-    return (approximate_period(building.height, frame),
-            f"ASCE/SEI 7-16 Eq. 12.8-7 (T_a = C_t h^x), {_SYSTEM_ROWS[building.lateral_system][1]}")
+    return _codes.get(study.basis).fixed_base_period(building.height, building.lateral_system)
 
 
 def superstructure(study: Study):
@@ -128,58 +90,17 @@ def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, 
     ``bounds`` (a :class:`isolation.design.BoundsResult` of ``sets`` under ``spectrum`` with the
     basis's damping rule) skips the equivalent-linear iteration (array sweeps compute it for many
     alternatives at once)."""
-    b = study.building
-    if study.basis == "asce7":
-        from isolation.codes.asce7 import ElfBuilding, asce7_elf
-
-        elevations = tuple(np.cumsum(b.storey_heights).tolist())
-        # Without a mapped S_1, S_M1 stands in (conservative for the ELF limit S_1 < 0.6 g where
-        # F_v >= 1); for a tabulated spectrum, its S_M1 equivalent max(T Sa) over 1-5 s.
-        s1 = study.site.s1
-        if s1 is None:
-            from isolation.codes.asce7_fixed_base import design_values
-            s1 = study.site.sm1 if study.site.sm1 is not None else 1.5 * design_values(spectrum)[1]
-        assert study.site.site_class is not None  # required for ASCE 7 by the parse
-        elf = ElfBuilding(base_weight=b.base_weight, floor_weights=b.floor_weights, floor_elevations=elevations,
-                          plan_length=b.plan_length, plan_width=b.plan_width,
-                          response_modification=b.response_modification, eccentricity=b.eccentricity,
-                          isolator_kind="sliding" if system.is_sliding else "other", fixed_base_period=t_fb,
-                          frame=_FRAMES[b.lateral_system], importance=b.importance,
-                          wind_base_shear=study.wind_base_shear or 0.0, s1=s1, site_class=study.site.site_class)
-        report = asce7_elf(sets, elf, spectrum, bounds=bounds)
-        names = {"displacement": "D_M", "total_displacement": "D_TM", "isolation_shear": "V_b",
-                 "superstructure_shear": "V_s", "fixed_base_shear": "V_fb", "shear_ratio": "V_s/V_fb"}
-        applicability = getattr(report, "applicability", None)
-        if applicability is None:  # older report layout: ELF limits among the checks
-            applicability = [c for c in report.checks if "response-history" in getattr(c, "consequence", "")]
-        reasons = tuple(c.name for c in applicability if not c.passed)
-        return report, {k: report.value(v) for k, v in names.items()}, report.elf_permitted, reasons
-    from isolation.codes.eurocode import EurocodeBuilding, eurocode_simplified
-
-    ec = EurocodeBuilding(weight=b.total_weight, superstructure_weight=sum(b.floor_weights),
-                          superstructure_period=t_fb, plan_length=b.plan_length,
-                          plan_width=b.plan_width, eccentricity=b.eccentricity, storeys=b.storeys,
-                          behaviour_factor=b.response_modification)
-    ec_report = eurocode_simplified(sets, ec, spectrum, bounds=bounds)
-    names = {"displacement": "d_dc", "total_displacement": "d_d", "isolation_shear": "V",
-             "superstructure_shear": "V_s", "fixed_base_shear": "F_b", "shear_ratio": "V_s/F_b"}
-    quantities: dict[str, float | None] = {}
-    for key, symbol in names.items():
-        try:
-            quantities[key] = ec_report.value(symbol)
-        except KeyError:
-            quantities[key] = None
-    reasons = tuple(c.name for c in ec_report.applicability if not c.passed)
-    return ec_report, quantities, ec_report.simplified_permitted, reasons
+    return _codes.get(study.basis).design_answer(study, sets, system, spectrum, t_fb, bounds).as_tuple()
 
 
 def history_isolator(backbone, result, system=None, case: str = "nominal"):
     """Isolator law the history engine integrates for one property case.
 
-    A single group of friction pendulums whose friction depends on velocity
-    (``friction_slow`` given) runs as the bearing itself, friction scaled by the
-    case's factor, so the engine applies mu(v) (Constantinou, Mokha & Reinhorn
-    1990). Otherwise the backbone itself when bilinear / multi-linear, else the
+    A single group of a sliding type whose own law carries more than its
+    backbone (the registry's ``own_history_law``: friction pendulums whose
+    friction depends on velocity, ``friction_slow`` given) runs as the bearing
+    itself, friction scaled by the case's factor, so the engine applies mu(v)
+    (Constantinou, Mokha & Reinhorn 1990). Otherwise the backbone itself when bilinear / multi-linear, else the
     bilinear with the same K_eff and damping at the design displacement.
 
     Parameters
@@ -195,13 +116,15 @@ def history_isolator(backbone, result, system=None, case: str = "nominal"):
         ``"lower"``, ``"nominal"`` or ``"upper"``.
 
     """
-    from isolation.bearings import Bilinear, FrictionPendulum, MultiLinear
+    from isolation.bearings import Bilinear, MultiLinear
     from isolation.bearings.damping_rubber import equivalent_bilinear
+    from isolation.bearings.registry import type_of
 
     groups: tuple = getattr(system, "groups", ())
-    if len(groups) == 1 and isinstance(groups[0].bearing, FrictionPendulum):
+    if len(groups) == 1:
         bearing = groups[0].bearing
-        if bearing.friction_slow != bearing.friction:
+        entry = type_of(bearing)
+        if entry is not None and entry.sliding and entry.own_history_law(bearing):
             return bearing.with_friction_factor(system.factors.friction.factor(case))
     if isinstance(backbone, (Bilinear, MultiLinear)):
         return backbone
@@ -285,38 +208,21 @@ def bearing_uplift_check(study, spectrum, alternative, report):
     """
     from isolation.design.overturning import bearing_uplift
 
-    shear, height, factor, vertical, source = overturning_inputs(study, spectrum, report)
+    b = study.building
+    shear, height, factor, vertical, source = _codes.get(study.basis).uplift_action(study, report, spectrum, _plateau)
     groups = [(spec.count, spec.axial_load) for spec in alternative.bearings]
-    return bearing_uplift(shear, height, groups, study.building.plan_length, study.building.plan_width,
-                          gravity_factor=factor, vertical_fraction=vertical, source=source)
+    return bearing_uplift(shear, height, groups, b.plan_length, b.plan_width, gravity_factor=factor,
+                          vertical_fraction=vertical, source=source)
 
 
 def overturning_inputs(study, spectrum, report) -> tuple:
     """(shear [kN], height [m], gravity factor [-], vertical fraction [-], source) of the uplift check.
 
     The lateral force on the superstructure and the height of its resultant, and the load
-    combination's factor on gravity and vertical earthquake (see :func:`bearing_uplift_check`).
+    combination's factor on gravity and vertical earthquake, from the code basis
+    (see :func:`bearing_uplift_check`).
     """
-    from isolation.design.overturning import asce7_vertical_fraction, eurocode_vertical_fraction
-
-    b = study.building
-    heights = np.cumsum(b.storey_heights)
-    weights = np.asarray(b.floor_weights, dtype=float)
-    if study.basis == "asce7":
-        forces = np.array([s.force for s in report.storey_forces])
-        shear = report.value("V_st")
-        height = float(np.dot(forces, heights) / forces.sum()) if forces.sum() > 0 else 2.0 / 3.0 * b.height
-        sms = study.site.sms if study.site.sms is not None else _plateau(spectrum)
-        factor, vertical, source = asce7_vertical_fraction(sms)
-    else:
-        shear = report.value("V") * weights.sum() / b.total_weight
-        height = float(np.dot(weights, heights) / weights.sum())
-        if study.site.ag is not None:
-            ag, kind = study.site.ag * b.importance, study.site.spectrum_type or 1
-        else:
-            ag, kind = _plateau(spectrum) / 2.5, 1
-        factor, vertical, source = eurocode_vertical_fraction(ag, kind)
-    return shear, height, factor, vertical, source
+    return _codes.get(study.basis).uplift_action(study, report, spectrum, _plateau)
 
 
 def verdict_figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):
@@ -327,7 +233,7 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
     ratio = float(spectrum.sa(upper.period, upper.damping)) / float(spectrum.sa(t_fb, 0.05))
     # Drift of the response histories: 2 % at MCE_R (ASCE/SEI 7-16 §17.6.4.4) or under the design
     # action (EN 1998-1 §4.4.3.2 by non-structural type and nu), both from memory.
-    drift_limit, drift_source = _drift_limit(study.basis, b.nonstructural, b.importance)
+    drift_limit, drift_source = _codes.get(study.basis).history_drift_limit(b.nonstructural, b.importance)
     period_source = _period_note(study, spectrum, t_fb, upper.period)
     wind_margin, wind_note, strength = 1.0, "Q_d, lower bound", q["characteristic_strength"]
     slow = _slow_friction_ratio(alternative)
@@ -358,15 +264,15 @@ def verdict_figures(study, spectrum, alternative, q, summary, report, permitted,
 
 
 def _slow_friction_ratio(alternative) -> float | None:
-    """Smallest friction_slow/friction over the sliding bearing groups; None without sliders."""
+    """Smallest friction at rest over design friction among the sliding bearing groups (the registry's
+    ``slow_friction_ratio`` of each); None without sliders."""
+    from isolation.bearings.registry import bearing_type
+
     ratios = []
     for spec in alternative.bearings:
-        props = spec.properties
-        if "friction" in props:
-            slow = props.get("friction_slow")
-            ratios.append(1.0 if slow is None else float(slow) / float(props["friction"]))
-        elif "friction_1" in props:
-            ratios.append(1.0)
+        entry = bearing_type(spec.type)
+        if entry.sliding:
+            ratios.append(float(entry.slow_friction_ratio(entry.create(spec.properties))))
     return min(ratios) if ratios else None
 
 
@@ -375,12 +281,7 @@ def _period_note(study, spectrum, t_fb: float, t_m: float) -> str:
     b = study.building
     if b.fixed_base_period is not None:
         return "T_fb given in the study"
-    if study.basis != "asce7":
-        return "T_fb = C_t H^(3/4), EN 1998-1 Eq. 4.6"
-    from isolation.codes.asce7_fixed_base import design_values, period_upper_limit_factor
-    cu = period_upper_limit_factor(design_values(spectrum)[1])
-    return (f"T_fb = T_a = C_t h^x, ASCE/SEI 7-16 Eq. 12.8-7; with the upper limit C_u T_a = {cu * t_fb:.2f} s "
-            f"(C_u = {cu:.2f}, Table 12.8-1) the ratio is {t_m / (cu * t_fb):.2f}")
+    return _codes.get(study.basis).period_note(spectrum, t_fb, t_m)
 
 
 from isolation.study.checks import MAX_SUBSTEPS, check_study  # noqa: E402, F401 - re-exported; checks uses this module

@@ -4,7 +4,8 @@
 quantities with units, lists, nested tables), adding one message per bad or
 missing value to a shared :class:`Problems` list and remembering the known
 keys so that unknown ones are reported too. :data:`BEARING_KEYS` lists each
-bearing type's keys as :class:`Key` entries (kind, required, allowed range).
+registered bearing type's keys as :class:`Key` entries (kind, required, allowed
+range); each bearing module declares them (:mod:`isolation.bearings.registry`).
 ``BEARING_KEYS`` is re-exported from :mod:`isolation.study`.
 """
 
@@ -12,86 +13,42 @@ from __future__ import annotations
 
 import math
 import unicodedata
-from dataclasses import dataclass
+from collections.abc import Iterator, Mapping
 from datetime import date as _date
 from functools import lru_cache
-from typing import Any, Mapping
+from typing import Any
 
 from isolation import units as _units
+from isolation.bearings import registry as _bearing_registry
 from isolation.errors import InputError
+from isolation.schema import Key
 
 __all__ = ["Key", "BEARING_KEYS", "ROOT_KEYS", "Problems", "Reader"]
 
 
-@dataclass(frozen=True)
-class Key:
-    """What a key accepts: ``kind`` is a unit kind of :mod:`isolation.units`,
-    ``"number"`` (unit ``unit``), ``"integer"`` or ``"choice"`` (one of
-    ``options``); range ``low``..``high``.
-    A ``ratio`` also accepts a percent written as text (``"6 %"``)."""
+class _BearingKeys(Mapping[str, Mapping[str, Key]]):
+    """Bearing type -> its keys, read from the bearing registry on every access (a live view)."""
 
-    kind: str
-    required: bool = True
-    low: float | None = None
-    high: float | None = None
-    low_inclusive: bool = True
-    unit: str = "-"
-    options: tuple = ()
-    ratio: bool = False
+    def __getitem__(self, kind: str) -> Mapping[str, Key]:
+        try:
+            return _bearing_registry.bearing_type(kind).keys
+        except _bearing_registry.UnknownBearingType:
+            raise KeyError(kind) from None
+
+    def __iter__(self) -> Iterator[str]:
+        return iter(_bearing_registry.kinds())
+
+    def __len__(self) -> int:
+        return len(_bearing_registry.kinds())
+
+    def __repr__(self) -> str:
+        return f"BEARING_KEYS({dict(self)!r})"
 
 
-BEARING_KEYS: dict[str, dict[str, Key]] = {
-    "friction_pendulum": {
-        "radius": Key("length", low=0.3, high=20.0),
-        "friction": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
-        "slider_height": Key("length", required=False, low=0.0, high=2.0),
-        "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "friction_slow": Key("number", required=False, low=0.0, high=0.3, low_inclusive=False, ratio=True),
-        "rate_parameter": Key("number", required=False, low=0.0, high=500.0, unit="s/m"),
-    },
-    "double_concave": {
-        "radius_1": Key("length", low=0.3, high=20.0),
-        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
-        "radius_2": Key("length", low=0.3, high=20.0),
-        "friction_2": Key("number", low=0.0, high=0.3, low_inclusive=False, ratio=True),
-        "slider_height_1": Key("length", required=False, low=0.0, high=2.0),
-        "slider_height_2": Key("length", required=False, low=0.0, high=2.0),
-        "displacement_capacity_1": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "displacement_capacity_2": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-    },
-    "triple_pendulum": {
-        "radius_outer": Key("length", low=0.3, high=20.0),
-        "radius_inner": Key("length", low=0.1, high=10.0),
-        "friction_inner": Key("number", low=0.0, high=0.3, low_inclusive=False),
-        "friction_1": Key("number", low=0.0, high=0.3, low_inclusive=False),
-        "friction_4": Key("number", low=0.0, high=0.3, low_inclusive=False),
-        "slider_height_outer": Key("length", required=False, low=0.0, high=2.0),
-        "slider_height_inner": Key("length", required=False, low=0.0, high=1.0),
-        "displacement_capacity_outer": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "displacement_capacity_inner": Key("length", required=False, low=0.0, high=1.0, low_inclusive=False),
-    },
-    "lead_rubber": {
-        "outer_diameter": Key("length", low=0.2, high=2.5),
-        "lead_diameter": Key("length", low=0.0, high=1.0, low_inclusive=False),
-        "layer_thickness": Key("length", low=0.002, high=0.05),
-        "layers": Key("integer", low=1, high=200),
-        "shear_modulus": Key("stress", low=200.0, high=2000.0),
-        "lead_yield_stress": Key("stress", required=False, low=1000.0, high=30000.0),
-        "stiffness_ratio": Key("number", required=False, low=1.0, high=50.0, low_inclusive=False),
-        "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-        "lead_core": Key("choice", required=False, options=("hole", "filled")),
-    },
-    "high_damping_rubber": {
-        "outer_diameter": Key("length", low=0.2, high=2.5),
-        "layer_thickness": Key("length", low=0.002, high=0.05),
-        "layers": Key("integer", low=1, high=200),
-        "inner_diameter": Key("length", required=False, low=0.0, high=1.0),
-        "stiffness_ratio": Key("number", required=False, low=1.0, high=50.0, low_inclusive=False),
-        "displacement_capacity": Key("length", required=False, low=0.0, high=3.0, low_inclusive=False),
-    },
-}
-"""Keys of each bearing type (beside ``type``, ``count``, ``axial_load``),
-with kind, whether required, and allowed range in internal units (m, kPa)."""
+BEARING_KEYS: Mapping[str, Mapping[str, Key]] = _BearingKeys()
+"""Keys of each registered bearing type (beside ``type``, ``count``, ``axial_load``),
+with kind, whether required, and allowed range in internal units (m, kPa): a live
+view of :mod:`isolation.bearings.registry`, where each bearing module declares them."""
 
 _INVISIBLE = frozenset("\ufeff\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069")
 

@@ -21,6 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from isolation import codes
 from isolation.dynamics.plan_structure import bearing_grid
 from isolation.study.plan import default_grid
 
@@ -118,11 +119,7 @@ def layout_demands(study, alternative, report, spectrum) -> LayoutDemands:
     positions = bearing_grid(plan, grid)
     loads = np.concatenate([np.full(spec.count, float(spec.axial_load)) for spec in alternative.bearings])
     gravity = loads * b.total_weight / loads.sum()
-    if study.basis == "asce7":
-        centre, total = report.value("D_M"), report.value("e")
-    else:
-        centre = report.value("gamma_x") * report.value("d_dc")
-        total = report.value("e_tot")
+    centre, total = codes.get(study.basis).torsion_action(report)
     displacement = centre * torsion_factors(positions, plan, b.eccentricity, total)
     shear, height, factor, vertical, _ = overturning_inputs(study, spectrum, report)
     low, high = grid_axial_loads(shear * height, positions, gravity, gravity_factor=factor,

@@ -38,14 +38,17 @@ import math
 import numpy as np
 
 from isolation import GRAVITY
+from isolation.codes import registry as _codes
 from isolation.dynamics.plan_history import run_plan_cases
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
 
 __all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
            "ACCIDENTAL_ECCENTRICITY", "with_bidirectional", "fixed_base_summary"]
 
-#: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code basis.
-HISTORY_LOWER_LIMIT = {"asce7": 0.8, "eurocode": 0.0}
+#: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code
+#: basis (:attr:`isolation.codes.basis.SuiteRules.history_lower_limit`).
+HISTORY_LOWER_LIMIT = _codes.PerBasis(lambda basis: basis.suite.history_lower_limit)
+
 
 #: Accidental eccentricity as a fraction of the plan dimension (both codes; from memory).
 ACCIDENTAL_ECCENTRICITY = 0.05
@@ -266,7 +269,7 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
                     "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
     peaks = np.max(peaks, axis=0)
     history_total = float(peaks.max())
-    limit = HISTORY_LOWER_LIMIT.get(study.basis, 0.0)
+    limit = _codes.get(study.basis).suite.history_lower_limit
     gravity = np.asarray(cases["lower"][1]) * weight / float(np.sum(cases["lower"][1]))
     lowest = np.min(axial_min, axis=0)
     capacity = getattr(system, "displacement_capacity", None)

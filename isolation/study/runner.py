@@ -40,6 +40,7 @@ from typing import Any
 import numpy as np
 
 from isolation import GRAVITY, __version__
+from isolation import codes as _codes
 from isolation import verdict as _verdict
 from isolation.errors import RunError
 from isolation.plain import plain
@@ -95,7 +96,8 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     ``periods`` is (T_M upper bound, T_M lower bound) [s] over all alternatives.
     """
     a = study.analysis
-    rule = "eurocode" if study.basis == "eurocode" else "asce7"
+    code = _codes.get(study.basis)
+    rule = code.matching_rule()
     options: dict[str, Any] = dict(count=a.suite_size, damping=a.damping, duration=a.duration, dt=a.time_step,
                    seed=a.seed, rule=rule, isolated_period=periods, progress=progress)
     # D5-95 of a magnitude 7 event (the suite generator's default), shortened to 40 % of the
@@ -103,7 +105,7 @@ def suite_options(study: Study, spectrum, periods: tuple, quick: bool, progress:
     from isolation.motions import typical_significant_duration
     options["significant_duration"] = min(typical_significant_duration(7.0), 0.4 * a.duration)
     # Suite-mean check range around T_M: ASCE 7 up to 1.25 T_M (lower bound), Eurocode up to 2 T_M.
-    reach = 1.25 if rule == "asce7" else 2.0
+    reach = code.suite.period_range[1]
     if quick:
         # The matched band reaches duration/3 and must cover the check range: 5 T_M (ASCE 7),
         # 6.5 T_M (Eurocode).
@@ -331,10 +333,9 @@ def _spectrum_part(study: Study, spectrum) -> dict:
     """``results.json`` ``spectrum``: definition, a sampled curve (5 % damping) [s, g], rule and note."""
     curve_low, curve_high = spectrum.period_range
     curve = np.geomspace(max(curve_low, 0.02), min(curve_high, 10.0), 120)
-    extended = study.basis == "eurocode" and not study.site.spectrum_periods
     return {"definition": plain(spectrum), "periods": curve.tolist(),
             "sa_5pct": np.asarray(spectrum.sa(curve)).tolist(), "rule": spectrum.rule,
-            "note": EUROCODE_SPECTRUM_NOTE if extended else ""}
+            "note": _codes.get(study.basis).spectrum_note(study.site)}
 
 
 def _suite_part(shared: _SharedRuns, quick: bool) -> dict:

@@ -13,7 +13,12 @@ import math
 from pathlib import Path
 from typing import Any
 
+from isolation.bearings.registry import bearing_type
 from isolation.codes.lateral_systems import LATERAL_SYSTEM_ROWS
+from isolation.codes.registry import DEFAULT_BASIS
+from isolation.codes.registry import PerBasis as _PerBasis
+from isolation.codes.registry import get as _get_basis
+from isolation.codes.registry import names as _basis_names
 from isolation.study.inputs import Alternative, Analysis, BearingSpec, Building, Project, Site
 from isolation.study.keys import BEARING_KEYS, Problems, Reader
 
@@ -34,15 +39,21 @@ def _project(t: Reader | None) -> Project | None:
 
 def _basis(t: Reader | None) -> str:
     if t is None:
-        return "asce7"
-    basis = t.choice("basis", ("asce7", "eurocode"))
+        return DEFAULT_BASIS
+    basis = t.choice("basis", _basis_names())
     t.done()
-    return basis or "asce7"
+    return basis or DEFAULT_BASIS
+
+
+def _code(basis: str | None):
+    """The study's code basis; the default one while ``code.basis`` itself is in error."""
+    return _get_basis(basis if basis in _basis_names() else DEFAULT_BASIS)
 
 
 def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
     if t is None:
         return None
+    code = _code(basis)
     values: dict[str, Any] = {"near_fault": t.boolean("near_fault", required=False, default=False),
                               "fault_distance": t.number("fault_distance", low=0.0, high=1000.0, unit="km",
                                                          required=False)}
@@ -56,30 +67,12 @@ def _site(t: Reader | None, basis: str, base_dir: Path) -> Site | None:
             if table:
                 values["spectrum_file"] = str(path)
                 values["spectrum_periods"], values["spectrum_values"] = table
-        shape_keys = ("sms", "sm1", "long_period") if basis == "asce7" else ("ag", "spectrum_type")
-        for key in shape_keys:
+        for key in code.site_keys:
             if key in t.mapping:
                 t.problems.add(f"{t.path_of(key)} = {t.mapping[key]!r} is not allowed together with "
                                f"site.spectrum_file: give either the spectrum file or the code parameters")
                 t.used.add(key)
-    if basis == "asce7":
-        if not tabulated:
-            values["sms"] = t.number("sms", low=0.0, high=5.0, low_inclusive=False, unit="g")
-            values["sm1"] = t.number("sm1", low=0.0, high=5.0, low_inclusive=False, unit="g")
-            values["long_period"] = t.quantity("long_period", "time", low=1.0, high=20.0,
-                                               required=False, default=8.0)
-        values["s1"] = t.number("s1", low=0.0, high=5.0, unit="g", required=False)
-        values["site_class"] = t.choice("site_class", ("A", "B", "C", "D", "E", "F"))
-        if not tabulated and isinstance(values.get("sms"), float) and isinstance(values.get("sm1"), float):
-            tl = values.get("long_period")
-            if isinstance(tl, float) and tl <= values["sm1"] / values["sms"]:
-                t.problems.add(f"site.long_period = {tl:g} s is not allowed: must exceed "
-                               f"T_S = sm1/sms = {values['sm1'] / values['sms']:.3g} s")
-    else:
-        if not tabulated:
-            values["ag"] = t.number("ag", low=0.0, high=1.5, low_inclusive=False, unit="g")
-            values["spectrum_type"] = t.choice("spectrum_type", (1, 2), required=False, default=1)
-        values["ground_type"] = t.choice("ground_type", ("A", "B", "C", "D", "E"))
+    code.read_site(t, values, tabulated)
     t.done()
     return Site(**values)
 
@@ -164,22 +157,21 @@ def _lateral_system(t: Reader) -> str | None:
     return t.choice("lateral_system", LATERAL_SYSTEMS)
 
 
-IMPORTANCE_RANGES = {"asce7": (1.0, 1.5), "eurocode": (0.8, 1.4)}
-"""Allowed ``building.importance`` [-] per code basis. ASCE 7: the seismic importance
+IMPORTANCE_RANGES = _PerBasis(lambda basis: basis.importance_range)
+"""Allowed ``building.importance`` [-] per code basis (``IMPORTANCE_RANGES``, from
+:attr:`isolation.codes.basis.CodeBasis.importance_range`). ASCE 7: the seismic importance
 factor I_e (ASCE/SEI 7-16 Table 1.5-2: 1.0, 1.25, 1.5). Eurocode: the importance factor
 gamma_I (EN 1998-1 §4.2.5, recommended 0.8, 1.0, 1.2, 1.4 for importance classes I-IV;
 it scales a_g = gamma_I a_gR, §2.1(3)). Both from memory; National Annexes may differ."""
-
-_IMPORTANCE_MEANING = {"asce7": "I_e of ASCE/SEI 7-16 Table 1.5-2",
-                       "eurocode": "gamma_I of EN 1998-1 §4.2.5, 0.8/1.0/1.2/1.4 for classes I-IV"}
 
 
 def _importance(t: Reader, basis: str) -> float | None:
     """building.importance: I_e (ASCE 7) or gamma_I (Eurocode), range per basis."""
     value = t.number("importance", required=False, default=1.0)
-    low, high = IMPORTANCE_RANGES.get(basis, IMPORTANCE_RANGES["asce7"])
+    code = _code(basis)
+    low, high = code.importance_range
     if value is not None and not low <= value <= high:
-        meaning = _IMPORTANCE_MEANING.get(basis, _IMPORTANCE_MEANING["asce7"])
+        meaning = code.importance_meaning
         t.problems.add(f"{t.path_of('importance')} = {value:g} is not allowed: must be a number in "
                        f"[{low:g}, {high:g}] [-] for code.basis = {basis!r} ({meaning})")
         return None
@@ -329,29 +321,9 @@ def _bearing_group(t: Reader) -> BearingSpec | None:
 
 
 def _cross_check_bearing(t: Reader, kind: str, props: dict) -> None:
-    """Checks between keys of one bearing group."""
-    pairs = []
-    if kind == "friction_pendulum":
-        pairs = [("slider_height", "radius", "m"), ("friction_slow", "friction", "-")]
-    elif kind == "double_concave":
-        pairs = [("slider_height_1", "radius_1", "m"), ("slider_height_2", "radius_2", "m")]
-    elif kind == "triple_pendulum":
-        pairs = [("slider_height_outer", "radius_outer", "m"), ("slider_height_inner", "radius_inner", "m"),
-                 ("radius_inner", "radius_outer", "m"), ("friction_inner", "friction_1", "-"),
-                 ("friction_1", "friction_4", "-")]
-    elif kind == "lead_rubber":
-        pairs = [("lead_diameter", "outer_diameter", "m")]
-    elif kind == "high_damping_rubber":
-        pairs = [("inner_diameter", "outer_diameter", "m")]
-    for small, large, unit in pairs:
-        a, b = props.get(small), props.get(large)
-        if a is None or b is None:
-            continue
-        strict = small not in ("friction_slow", "friction_1")
-        if (a >= b) if strict else (a > b):
-            relation = "<" if strict else "<="
-            t.problems.add(f"{t.path_of(small)} = {a:.4g} {unit} is not allowed: must be {relation} "
-                           f"{large} = {b:.4g} {unit}")
+    """Checks between keys of one bearing group (declared by the bearing type, see the registry)."""
+    for key, text in bearing_type(kind).problems(props):
+        t.problems.add(f"{t.path_of(key)} = {text}")
 
 
 def _share_axial_loads(specs: list, total_weight: float | None, t: Reader) -> list:

@@ -24,6 +24,7 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass
 from typing import Any, Mapping
 
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.verdict.rules import (
     Reason,
     base_shear_reduction,
@@ -214,7 +215,7 @@ class Figures:
     uplift_ratio: float | None = None
     slenderness: float | None = None
     site_class: str | None = None
-    basis: str = "asce7"
+    basis: str = DEFAULT_BASIS
     near_fault: bool = False
     spectral_ratio: float | None = None
     wind_base_shear: float | None = None

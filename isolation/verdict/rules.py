@@ -20,9 +20,10 @@ from __future__ import annotations
 
 from dataclasses import asdict, dataclass
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.units import to_display as _to_display
 from isolation.verdict.sources import PRACTICE as _PRACTICE
-from isolation.verdict.sources import drift_limit as _drift_limit
 from isolation.verdict.sources import source as _source
 
 _EQUIVALENT_LINEAR_LIMIT = "§10.9.1(5)"
@@ -66,7 +67,7 @@ class Reason:
 # --------------------------------------------------------------------------
 # Rules: each returns one Reason (or None when its input is not available)
 # --------------------------------------------------------------------------
-def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str = "asce7",
+def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str = DEFAULT_BASIS,
                  period_source: str = "") -> Reason:
     """T_M / T_fb against the single-mode procedure's limit (3): always a note.
 
@@ -87,7 +88,7 @@ def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str
     """
     ratio = isolated_period / fixed_base_period
     how = f" ({period_source})" if period_source else ""
-    procedure = "the ELF procedure" if basis == "asce7" else "the simplified analysis"
+    procedure = _codes.get(basis, "basis").procedure
     text = (f"isolated period T_M = {isolated_period:.2f} s is {ratio:.2f} times the fixed-base "
             f"period T_fb = {fixed_base_period:.2f} s{how}")
     source = _source("period shift", basis)
@@ -98,7 +99,7 @@ def period_shift(isolated_period: float, fixed_base_period: float, *, basis: str
                   "count (the response histories govern)", ratio, 3.0, "-", source)
 
 
-def isolated_period(period: float, *, basis: str = "asce7", bound: str = "upper") -> Reason:
+def isolated_period(period: float, *, basis: str = DEFAULT_BASIS, bound: str = "upper") -> Reason:
     """Isolated period in the usual 2-5 s band (common practice); above 5 s a note
     (ASCE 7: no ELF procedure; Eurocode: common practice, see :mod:`isolation.verdict.sources`).
 
@@ -117,7 +118,8 @@ def isolated_period(period: float, *, basis: str = "asce7", bound: str = "upper"
         return Reason("isolated period", "condition", f"{which} is below the usual "
                       "2 s lower end: softer bearings would help", period, 2.0, "s", _PRACTICE)
     if period > 5.0:
-        why = ("the ELF procedure is not permitted and wind" if basis == "asce7" else "wind")
+        code = _codes.get(basis, "basis")
+        why = f"{code.procedure} is not permitted and wind" if code.long_period_bars_procedure else "wind"
         return Reason("isolated period", "note", f"{which} exceeds 5 s: {why} and "
                       "restoring force need care", period, 5.0, "s", _source("isolated period limit", basis))
     return Reason("isolated period", "ok", f"{which} lies in the usual 2-5 s band",
@@ -126,7 +128,7 @@ def isolated_period(period: float, *, basis: str = "asce7", bound: str = "upper"
 
 def displacement_capacity(total_displacement: float, capacity: float | None,
                           history_displacement: float | None = None, *, system: str = "SI",
-                          basis: str = "asce7") -> Reason:
+                          basis: str = DEFAULT_BASIS) -> Reason:
     """Displacement demand against the bearings' displacement capacity.
 
     Parameters
@@ -159,7 +161,7 @@ def displacement_capacity(total_displacement: float, capacity: float | None,
 
 
 def moat_clearance(total_displacement: float, moat: float | None, *, system: str = "SI",
-                   basis: str = "asce7") -> Reason:
+                   basis: str = DEFAULT_BASIS) -> Reason:
     """Moat (clear gap) against D_TM.
 
     Parameters
@@ -227,7 +229,7 @@ def base_shear_reduction(ratio: float) -> Reason:
     return Reason("base shear", "ok", text, ratio, 0.7, "-", _PRACTICE)
 
 
-def design_shear(ratio: float, *, basis: str = "asce7") -> Reason:
+def design_shear(ratio: float, *, basis: str = DEFAULT_BASIS) -> Reason:
     """Code design shear V_s over the fixed-base design shear: above 1 a condition.
 
     The isolated superstructure is designed with R_I <= 2 against R for the
@@ -268,7 +270,7 @@ def floor_acceleration_reduction(ratio: float) -> Reason:
 
 
 def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "", *,
-                 basis: str = "asce7") -> Reason:
+                 basis: str = DEFAULT_BASIS) -> Reason:
     """Largest storey drift ratio of the isolated building against the limit.
 
     Parameters
@@ -284,8 +286,7 @@ def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "
     basis : str
         Code basis, ``"asce7"`` or ``"eurocode"``: the default limit and source.
     """
-    default_limit, default_source = ((0.015, "ASCE/SEI 7-16 §17.5.6 (from memory)") if basis == "asce7"
-                                     else _drift_limit(basis))
+    default_limit, default_source = _codes.get(basis, "basis").report_drift_limit()
     limit = default_limit if limit is None else limit
     source = source or default_source
     text = f"largest storey drift ratio {drift_ratio:.2%} against the limit {limit:.2%}"
@@ -295,7 +296,7 @@ def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "
     return Reason("drift", "ok", text, drift_ratio, limit, "-", source)
 
 
-def uplift(uplift_ratio: float, *, basis: str = "asce7") -> Reason:
+def uplift(uplift_ratio: float, *, basis: str = DEFAULT_BASIS) -> Reason:
     """Net tension in the outermost bearing when overturning exceeds its gravity load (ratio > 1);
     a condition only then (see :func:`isolation.design.overturning.bearing_uplift`).
 
@@ -316,7 +317,7 @@ def uplift(uplift_ratio: float, *, basis: str = "asce7") -> Reason:
     return Reason("uplift", "ok", text + ": no net tension", uplift_ratio, 1.0, "-", source)
 
 
-def elf_applicability(permitted: bool | None, reasons: tuple = (), *, basis: str = "asce7") -> Reason | None:
+def elf_applicability(permitted: bool | None, reasons: tuple = (), *, basis: str = DEFAULT_BASIS) -> Reason | None:
     """Whether the code's single-mode procedure is permitted (a note either way): the
     equivalent lateral force procedure (ASCE 7) or the simplified analysis (Eurocode).
 
@@ -332,12 +333,11 @@ def elf_applicability(permitted: bool | None, reasons: tuple = (), *, basis: str
     if permitted is None:
         return None
     source = _source("analysis procedure", basis)
-    procedure = ("the equivalent lateral force procedure" if basis == "asce7"
-                 else "the simplified linear analysis")
+    procedure = _codes.get(basis, "basis").procedure_full
     if permitted:
         return Reason("analysis procedure", "ok", f"{procedure} is permitted", None, None, "-", source)
     listed = "; ".join(reasons) if reasons else "limits exceeded"
-    if basis == "eurocode" and any(_EQUIVALENT_LINEAR_LIMIT in r for r in reasons):
+    if any(_EQUIVALENT_LINEAR_LIMIT in r for r in reasons):  # EN 1998-1 §10.9.1(5) reasons only
         return Reason("analysis procedure", "note", "the equivalent-linear methods (simplified and "
                       f"modal) are excluded altogether ({listed}): response-history analysis is "
                       "required; this study includes it", None, None, "-", source)
@@ -355,7 +355,7 @@ def bearing_checks(failed: tuple) -> Reason:
                   "see the bearing checks table")
 
 
-def effective_damping(damping: float | None, *, basis: str = "asce7") -> Reason | None:
+def effective_damping(damping: float | None, *, basis: str = DEFAULT_BASIS) -> Reason | None:
     """Above 30 % effective damping the equivalent-linear answer is doubtful (note).
 
     Parameters

@@ -11,6 +11,8 @@ practice". A screening aid for a feasibility study; a licensed engineer decides.
 
 from __future__ import annotations
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.verdict.rules import Reason, _force
 from isolation.verdict.sources import PRACTICE as _PRACTICE
 from isolation.verdict.sources import source as _source
@@ -32,7 +34,7 @@ def slenderness(ratio: float) -> Reason:
     return Reason("slenderness", "ok", f"height/width = {ratio:.2f}", ratio, 3.0, "-", _PRACTICE)
 
 
-def site_suitability(site_class: str | None, basis: str = "asce7") -> Reason | None:
+def site_suitability(site_class: str | None, basis: str = DEFAULT_BASIS) -> Reason | None:
     """Soft sites: ASCE 7 class F against, E condition; Eurocode ground D or E condition.
 
     Parameters
@@ -44,17 +46,14 @@ def site_suitability(site_class: str | None, basis: str = "asce7") -> Reason | N
     """
     if site_class is None:
         return None
-    name = "site class" if basis == "asce7" else "ground type"
-    if basis == "asce7" and site_class == "F":
-        return Reason("soft soil", "against", f"{name} F needs a site-specific response analysis; "
-                      "soft or liquefiable soil amplifies long periods", None, None, "-",
-                      _source("soft soil class F", basis))
-    soft = ("E",) if basis == "asce7" else ("D", "E")
-    if site_class in soft:
-        return Reason("soft soil", "condition", f"{name} {site_class} is soft: long-period "
+    level, text = _codes.get(basis, "basis").site_suitability(site_class)
+    if level == "against":
+        return Reason("soft soil", "against", text, None, None, "-", _source("soft soil class F", basis))
+    if level == "condition":
+        return Reason("soft soil", "condition", f"{text}: long-period "
                       "motion is amplified, check the isolated period range with a site-specific "
                       "spectrum", None, None, "-", _PRACTICE)
-    return Reason("soft soil", "ok", f"{name} {site_class}", None, None, "-", _PRACTICE)
+    return Reason("soft soil", "ok", text, None, None, "-", _PRACTICE)
 
 
 def spectral_benefit(ratio: float) -> Reason:
@@ -78,14 +77,14 @@ def spectral_benefit(ratio: float) -> Reason:
     return Reason("long-period site", "ok", text, ratio, 0.5, "-", source)
 
 
-NEAR_FAULT_DISTANCE = {"asce7": 15.0, "eurocode": 15.0}
+NEAR_FAULT_DISTANCE = _codes.PerBasis(lambda basis: basis.near_fault_distance)
 """Distance [km] within which a site counts as near-fault: ASCE/SEI 7-16 §11.2 'near-fault site'
 (15 km from a fault able to produce M_w >= 7; 10 km for M_w >= 6: the larger distance is taken
 since the magnitude is not a study input), EN 1998-1 §10.9.2 (15 km from a fault of Ms >= 6.5);
 both from memory."""
 
 
-def near_fault(flag: bool, *, basis: str = "asce7", distance: float | None = None) -> Reason | None:
+def near_fault(flag: bool, *, basis: str = DEFAULT_BASIS, distance: float | None = None) -> Reason | None:
     """Near-fault sites need pulse-like motions in the suite (condition).
 
     Parameters
@@ -99,7 +98,7 @@ def near_fault(flag: bool, *, basis: str = "asce7", distance: float | None = Non
         Distance to the nearest active fault; decides when given. [km]
     """
     source = _source("near fault", basis)
-    limit = NEAR_FAULT_DISTANCE[basis if basis in NEAR_FAULT_DISTANCE else "asce7"]
+    limit = _codes.get(basis if basis in _codes.names() else DEFAULT_BASIS).near_fault_distance
     if distance is not None:
         if distance <= limit:
             return Reason("near fault", "condition", f"the site is {distance:g} km from an active fault, "
@@ -115,7 +114,7 @@ def near_fault(flag: bool, *, basis: str = "asce7", distance: float | None = Non
 
 
 def wind(wind_base_shear: float | None, characteristic_strength: float | None, *,
-         system: str = "SI", basis: str = "asce7", margin: float = 1.0,
+         system: str = "SI", basis: str = DEFAULT_BASIS, margin: float = 1.0,
          strength_note: str = "lower bound") -> Reason:
     """Wind base shear, times a margin, against the isolation plane's resistance before it moves.
 

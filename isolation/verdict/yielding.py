@@ -6,24 +6,19 @@ re-exported from :mod:`isolation.verdict`.
 
 from __future__ import annotations
 
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 from isolation.verdict.rules import Reason
 
 __all__ = ["superstructure_yielding", "YIELDING_SOURCES"]
 
-_RESIDUAL = ("residual drift ratio 0.5 % at which the structure needs realignment, FEMA P-58-1 (2012) "
-             "residual drift damage states (from memory)")
-YIELDING_SOURCES = {
-    "asce7": ("common practice: R_I <= 2 (ASCE/SEI 7-16 §17.5.4.2) aims at an essentially elastic isolated "
-              "superstructure, ductility demand above 2 taken as more than that (from memory); " + _RESIDUAL),
-    "eurocode": ("common practice: q <= 1.5 (EN 1998-1 §10.10(5)) keeps the isolated superstructure essentially "
-                 "elastic, ductility demand above 2 taken as more than that (from memory); " + _RESIDUAL),
-}
-"""Source of the limits per code basis."""
+YIELDING_SOURCES = _codes.PerBasis(lambda basis: basis.yielding_source)
+"""Source of the limits per code basis (:attr:`isolation.codes.basis.CodeBasis.yielding_source`)."""
 
 
 def superstructure_yielding(ductility_isolated: float | None, residual_drift_isolated: float | None,
                             ductility_fixed: float | None = None,
-                            residual_drift_fixed: float | None = None, *, basis: str = "asce7") -> Reason | None:
+                            residual_drift_fixed: float | None = None, *, basis: str = DEFAULT_BASIS) -> Reason | None:
     """Storey ductility and residual drift of the isolated superstructure, beside the fixed base's.
 
     Ductility <= 2 and residual drift < 0.5 %: ok; else a condition (more
@@ -42,9 +37,7 @@ def superstructure_yielding(ductility_isolated: float | None, residual_drift_iso
     basis : str
         ``"asce7"`` or ``"eurocode"``: the clause the source cites. [-]
     """
-    from isolation import validate
-
-    source = YIELDING_SOURCES[validate.one_of("basis", basis, tuple(YIELDING_SOURCES))]
+    source = _codes.get(basis, "basis").yielding_source
     if ductility_isolated is None or residual_drift_isolated is None:
         return None
     text = (f"the isolated superstructure reaches storey ductility {ductility_isolated:.2f} and residual drift "

@@ -192,7 +192,7 @@ def _context(study, ckey, acc: np.ndarray, dt: float, fixed_file: Mapping) -> di
     fingerprint = _structure_fingerprint(comparison.building)
     fixed_runs = _fixed(study, comparison, structure, fingerprint, fixed_file, acc, dt)
     return {"spectrum": spectrum, "period": period, "study": study, "structure": structure,
-            "rule": "asce7" if study.basis == "asce7" else "eurocode",
+            "rule": spectrum.rule,
             "comparison": comparison, "fixed": fixed_runs["statistics"],
             "fixed_indicators": fixed_runs["indicators"],
             "key": (fingerprint, repr(ckey) if ckey is not None else id(study)),

@@ -293,7 +293,7 @@ def _prepare_many(studies: list) -> tuple[list, dict]:
                 spectrum = model.site_spectrum(study)
                 period, _ = model.fixed_base_period(study)
                 context = {"spectrum": spectrum, "period": period, "study": study,
-                           "rule": "asce7" if study.basis == "asce7" else "eurocode",
+                           "rule": spectrum.rule,
                            "shear": fixed_base_elastic_shear(spectrum, period, study.building.total_weight)}
                 if ckey is not None:
                     contexts[ckey] = context

@@ -10,6 +10,7 @@ computes. Limits marked "common practice" have no single source.
 from __future__ import annotations
 
 from isolation.app.explorer.controls import to_display, unit_name
+from isolation.codes import registry as _codes
 
 __all__ = ["plausibility"]
 
@@ -39,13 +40,7 @@ def plausibility(answer) -> list[str]:
     force = lambda value: _force(value, s.units)  # noqa: E731
     out: list[str] = []
     d_tm = answer.quantities["total_displacement"]
-    if s.basis == "asce7" and s.sm1 > s.sms:
-        out.append(f"S_M1 = {s.sm1:g} g exceeds S_MS = {s.sms:g} g, so T_S = S_M1/S_MS = {s.sm1 / s.sms:.2f} s: "
-                   "code site spectra have S_M1 well below S_MS (ASCE/SEI 7-16 §11.4.4: S_MS = F_a S_S, "
-                   "S_M1 = F_v S_1, and S_1 < S_S on the maps; from memory). Check the site values.")
-    if s.basis == "asce7" and s.long_period < 4.0:
-        out.append(f"T_L = {s.long_period:g} s: the long-period transition of the ASCE 7 maps is 4 s or more "
-                   "(ASCE/SEI 7-16 Fig. 22-14 to 22-17, from memory).")
+    out += _codes.get(s.basis).site_advice(s)
     if s.bearing_type in ("lead rubber", "high-damping rubber"):
         if s.bearing_type == "lead rubber" and s.lead_diameter > s.outer_diameter / 3.0:
             out.append(f"Lead core D_L = {mm(s.lead_diameter)} is more than a third of the rubber diameter "

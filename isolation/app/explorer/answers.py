@@ -53,6 +53,8 @@ from isolation.app.explorer.tables import (  # noqa: F401 - used as ex._length b
     summary_table,
     warnings_html,
 )
+from isolation.codes import registry as _codes
+from isolation.codes.registry import DEFAULT_BASIS
 
 __all__ = [
     "BEARING_TYPES",
@@ -179,7 +181,7 @@ class ExplorerSettings:
     layers: int = 20
     shear_modulus: float = 400.0
     displacement_capacity: float = 0.8
-    basis: str = "asce7"
+    basis: str = DEFAULT_BASIS
     sms: float = 1.5
     sm1: float = 0.75
     long_period: float = 8.0
@@ -246,11 +248,11 @@ class ExplorerSettings:
 
     def spectrum(self):
         """The site spectrum (ASCE/SEI 7-16 §11.4.6 MCE_R or EN 1998-1 §3.2.2.2 elastic)."""
-        if self.basis == "asce7":
-            from isolation.site.spectra import CodeSpectrum
-            return CodeSpectrum(self.sms, self.sm1, self.long_period)
-        from isolation.study.assembly import site_spectrum
-        return site_spectrum(self.study())
+        from types import SimpleNamespace
+
+        site = SimpleNamespace(sms=self.sms, sm1=self.sm1, long_period=self.long_period, ag=self.ag,
+                               ground_type=self.ground_type, spectrum_type=1, spectrum_periods=())
+        return _codes.get(self.basis).site_spectrum(site, 1.0)
 
     def system(self):
         """The isolation plane: all bearings alike, equal shares of the weight."""

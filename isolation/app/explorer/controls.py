@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from isolation import units as _units
+from isolation.codes import registry as _codes
 
 __all__ = ["BEARING_TYPES", "BASES", "Control", "CONTROLS", "CHOICES", "GROUPS", "STUDY_TYPES",
            "unit_factor", "unit_name", "to_display", "from_display", "visible"]
@@ -25,8 +26,12 @@ STUDY_TYPES = {"friction pendulum": "friction_pendulum", "lead rubber": "lead_ru
                "double concave": "double_concave", "high-damping rubber": "high_damping_rubber"}
 """Explorer bearing type -> ``type`` of a study file's ``[[alternative.bearings]]``."""
 
-BASES = ("asce7", "eurocode")
-"""Code bases: ASCE/SEI 7-16 Ch. 17 or EN 1998-1 §10."""
+
+
+def _owner(key: str) -> str:
+    """Name of the first registered code basis that reads the site key ``key`` (its site inputs)."""
+    return next(name for name in _codes.names() if key in _codes.get(name).site_inputs)
+
 
 _SLIDERS = ("friction pendulum", "double concave")
 _ELASTOMERS = ("lead rubber", "high-damping rubber")
@@ -89,11 +94,11 @@ CONTROLS: tuple[Control, ...] = (
     Control("layers", "Rubber layers N", "-", 4, 80, 1, "Bearing", types=_ELASTOMERS, integer=True),
     Control("shear_modulus", "Shear modulus G", "stress", 300.0, 1_000.0, 10.0, "Bearing", types=("lead rubber",)),
     Control("displacement_capacity", "Displacement capacity", "length", 0.1, 1.5, 0.01, "Bearing"),
-    Control("sms", "S_MS", "g", 0.2, 3.0, 0.01, "Site", basis="asce7"),
-    Control("sm1", "S_M1", "g", 0.1, 2.0, 0.01, "Site", basis="asce7"),
-    Control("s1", "Mapped S_1 (ELF limits)", "g", 0.05, 1.5, 0.01, "Site", basis="asce7"),
-    Control("long_period", "Long-period transition T_L", "time", 2.0, 16.0, 0.5, "Site", basis="asce7"),
-    Control("ag", "Ground acceleration a_g", "g", 0.05, 0.6, 0.01, "Site", basis="eurocode"),
+    Control("sms", "S_MS", "g", 0.2, 3.0, 0.01, "Site", basis=_owner("sms")),
+    Control("sm1", "S_M1", "g", 0.1, 2.0, 0.01, "Site", basis=_owner("sm1")),
+    Control("s1", "Mapped S_1 (ELF limits)", "g", 0.05, 1.5, 0.01, "Site", basis=_owner("s1")),
+    Control("long_period", "Long-period transition T_L", "time", 2.0, 16.0, 0.5, "Site", basis=_owner("long_period")),
+    Control("ag", "Ground acceleration a_g", "g", 0.05, 0.6, 0.01, "Site", basis=_owner("ag")),
     Control("fixed_base_period", "Fixed-base period T_fb", "time", 0.1, 2.5, 0.01, "Building"),
     Control("storeys", "Storeys above isolators", "-", 1, 20, 1, "Building", integer=True),
     Control("storey_height", "Storey height", "length", 2.5, 6.0, 0.1, "Building"),
@@ -107,10 +112,14 @@ CONTROLS: tuple[Control, ...] = (
 """The numeric controls, in the order shown."""
 
 CHOICES = {
-    "site_class": (("A", "B", "C", "D", "E", "F"), "Site class", "asce7"),
-    "ground_type": (("A", "B", "C", "D", "E"), "Ground type", "eurocode"),
+    "site_class": (_codes.get(_owner("site_class")).site_classes, "Site class", _owner("site_class")),
+    "ground_type": (_codes.get(_owner("ground_type")).site_classes, "Ground type", _owner("ground_type")),
 }
 """Drop-down controls of the site: field -> (options, label, basis)."""
+
+BASES = tuple(dict.fromkeys(c.basis for c in CONTROLS if c.basis))
+"""Code bases the explorer offers: those whose site controls it has (ASCE/SEI 7-16 Ch. 17,
+EN 1998-1 §10)."""
 
 
 def visible(control: Control, bearing_type: str, basis: str) -> bool:

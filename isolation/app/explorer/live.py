@@ -20,6 +20,7 @@ import numpy as np
 
 from isolation.app.explorer import answers as ex
 from isolation.app.explorer.controls import (
+    BASES,
     BEARING_TYPES,
     CHOICES,
     CONTROLS,
@@ -30,6 +31,7 @@ from isolation.app.explorer.controls import (
     unit_name,
 )
 from isolation.app.explorer.page_parts import _CAPTIONS, _CSS, _figure, _lines, _points, _slug
+from isolation.codes import registry as _codes
 from isolation.output.plots import COLOURS
 
 __all__ = ["build"]
@@ -51,7 +53,7 @@ class _Explorer:
 
         self.bearing = w.ToggleButtons(options=list(BEARING_TYPES), value=settings.bearing_type,
                                        description="Bearing", style={"button_width": "150px"})
-        self.basis = w.ToggleButtons(options=[("ASCE/SEI 7-16", "asce7"), ("EN 1998-1", "eurocode")],
+        self.basis = w.ToggleButtons(options=[(_codes.get(b).title, b) for b in BASES],
                                      value=settings.basis, description="Code basis", style={"button_width": "120px"})
         self.units = w.ToggleButtons(options=["SI", "US"], value=settings.units, description="Units",
                                      style={"button_width": "60px"})

@@ -21,7 +21,8 @@ from typing import Any
 
 import tomli_w
 
-from isolation.app.explorer.controls import STUDY_TYPES, to_display, unit_name
+from isolation.app.explorer.controls import CONTROLS, STUDY_TYPES, to_display, unit_name
+from isolation.codes import registry as _codes
 from isolation.files import write_text_atomic
 
 __all__ = ["study_mapping", "study_toml", "write_study"]
@@ -52,6 +53,8 @@ STUDY_FIELDS = {  # study key path -> explorer field, for messages
 """Key paths of the generated study that differ from the explorer's field names."""
 
 
+_SITE_KINDS = {c.field: c.kind for c in CONTROLS if c.group == "Site"}
+
 def _value(value: float, kind: str, system: str | None) -> Any:
     """A number as written to the study: bare SI (system None) or text with its unit."""
     if kind == "integer":
@@ -77,12 +80,11 @@ def study_mapping(settings, *, system: str | None = None, time_step: float | Non
     s = settings
     q = lambda value, kind: _value(value, kind, system)  # noqa: E731
     share = s.weight / (s.storeys + 1)
-    site: dict[str, Any]
-    if s.basis == "asce7":
-        site = {"sms": float(s.sms), "sm1": float(s.sm1), "long_period": q(s.long_period, "time"),
-                "s1": float(s.s1), "site_class": s.site_class}
-    else:
-        site = {"ag": float(s.ag), "ground_type": s.ground_type}
+    site: dict[str, Any] = {}
+    for key in _codes.get(s.basis).site_inputs:  # the code's site keys the explorer has
+        if hasattr(s, key):
+            value, kind = getattr(s, key), _SITE_KINDS.get(key, "-")
+            site[key] = value if isinstance(value, str) else (float(value) if kind in ("g", "-") else q(value, kind))
     bearing: dict[str, Any] = {"type": STUDY_TYPES[s.bearing_type], "count": int(s.bearing_count)}
     for field, (key, kind) in _BEARING_FIELDS[s.bearing_type].items():
         bearing[key] = q(getattr(s, field), kind)

@@ -14,6 +14,7 @@ from dataclasses import asdict
 import numpy as np
 
 from isolation.app.explorer.controls import to_display, unit_name
+from isolation.codes import registry as _codes
 from isolation.output.plots import COLOURS
 from isolation.output.tables import Table
 
@@ -42,7 +43,7 @@ def summary_table(answer) -> Table:
          r.period / s.fixed_base_period, _force(r.base_shear, s.units)[0])
         for case, r in answer.results.items()
     )
-    source = "ASCE/SEI 7-16 §17.5, MCE_R" if s.basis == "asce7" else "EN 1998-1 §10.9, design action"
+    source = _codes.get(s.basis).answer_source
     return Table(
         columns=("Properties", f"D [{d_unit}]", "T_eff [s]", "β_eff [%]", "V_b/W [-]", "T_eff/T_fb [-]",
                  f"V_b [{f_unit}]"),
@@ -76,15 +77,9 @@ def summary_html(answer) -> str:
     return f'<table class="iso-table iso-summary"><thead><tr>{head}</tr></thead><tbody>{body}</tbody></table>{note}'
 
 
-_QUANTITIES = (  # key, label (ASCE 7), label (Eurocode), kind
-    ("displacement", "D_M, maximum displacement (lower bound)", "d_dc, design displacement (lower bound)", "length"),
-    ("total_displacement", "D_TM, total maximum displacement with torsion", "d_d, isolator design displacement",
-     "length"),
-    ("moat", "Moat width needed (D_TM + 50 mm)", "Gap needed (d_d + 50 mm, common practice)", "length"),
-    ("isolation_shear", "V_b, isolation-system shear (upper bound)", "V, elastic base shear (upper bound)", "force"),
-    ("superstructure_shear", "V_s, superstructure design shear", "V_s, superstructure design shear", "force"),
-    ("shear_ratio", "V_s / V_fb, isolated over fixed-base design shear", "V_s / F_b, isolated over fixed-base",
-     "-"),
+_QUANTITIES = (  # key, kind; the label is the code basis's (CodeBasis.quantity_labels)
+    ("displacement", "length"), ("total_displacement", "length"), ("moat", "length"),
+    ("isolation_shear", "force"), ("superstructure_shear", "force"), ("shear_ratio", "-"),
 )
 
 
@@ -92,7 +87,8 @@ def quantities_html(answer) -> str:
     """D_M, D_TM, moat and shears as an HTML table (``data-key`` = quantity name, SI ``data-value``)."""
     s = answer.settings
     rows = ""
-    for key, asce, euro, kind in _QUANTITIES:
+    labels = _codes.get(s.basis).quantity_labels
+    for key, kind in _QUANTITIES:
         value = answer.quantities.get(key)
         if value is None:
             continue
@@ -104,7 +100,7 @@ def quantities_html(answer) -> str:
             text = f"{shown:,.0f} {unit}"
         else:
             text = f"{value:.2f}"
-        label = asce if s.basis == "asce7" else euro
+        label = labels.get(key, key)
         rows += f"<tr><th>{html.escape(label)}</th>{_cell(text, key, value)}</tr>"
     return f'<table class="iso-table iso-quantities"><tbody>{rows}</tbody></table>'
 
@@ -172,7 +168,7 @@ def checks_html(answer) -> str:
         return out
 
     head = "<tr><th>Check</th><th>Value</th><th>Limit</th><th>Unit</th><th>Result</th><th>Source</th></tr>"
-    method = "ELF procedure (ASCE/SEI 7-16 §17.4.1)" if s.basis == "asce7" else "simplified analysis (EN 1998-1 §10.9)"
+    method = _codes.get(s.basis).report_title
     return (f'<table class="iso-table iso-checks"><thead>{head}</thead><tbody>'
             f'<tr><th colspan="6">Bearings at D_TM</th></tr>{rows(answer.checks, "bearing")}'
             f'<tr><th colspan="6">Conditions of the {method}; a FAIL asks for response-history analysis</th></tr>'

@@ -6,6 +6,7 @@ from typing import Any
 
 import numpy as np
 
+from isolation.codes import registry as _codes
 from isolation.output.plots.common import _colour, _figure
 
 __all__ = ["loss_curves"]
@@ -47,13 +48,13 @@ def loss_curves(results: Any):
         ax.plot(x, mean, style, marker="o", color=colour, label=name)
         ax.fill_between(x, low, high, color=colour, alpha=0.12, linewidth=0)
     design, top = cases[0][1]["design_level"], cases[0][1]["mce_level"]
-    basis = _part(results, "study").get("basis", "asce7")
-    names = ("design action", "1.5 x design") if basis == "eurocode" else ("design level", "MCE_R")
+    code = _codes.get_or_default(_part(results, "study").get("basis"))
+    names = code.level_marks
     for level, label in zip((design, top), names):
         ax.axvline(level, color="0.6", linewidth=0.8, linestyle=":")
         ax.annotate(label, (level, 1.0), xycoords=("data", "axes fraction"), xytext=(3, -12),
                     textcoords="offset points", fontsize=8, color="0.35")
-    unit = "MCE_R" if basis != "eurocode" else "design action"
+    unit = code.site_level
     ax.set_xlabel(f"Shaking intensity [fraction of the {unit} spectrum]")
     ax.set_ylabel(f"Expected repair cost [million {currency}]")
     ax.set_ylim(bottom=0.0)

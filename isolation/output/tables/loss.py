@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
+from isolation.codes import registry as _codes
 from isolation.output.tables.results import _part
 from isolation.output.tables.table import Table
 
@@ -64,8 +65,7 @@ def _cases(results: Any) -> list:
 
 
 def _top_label(results: Any) -> tuple[str, str]:
-    basis = _part(results, "study").get("basis", "asce7")
-    return ("design action", "1.5 x design action") if basis == "eurocode" else ("design level", "MCE_R")
+    return _codes.get_or_default(_part(results, "study").get("basis")).level_names
 
 
 def loss_table(results: Any) -> Table:

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
+from isolation.codes import registry as _codes
 from isolation.output.tables.table import Table, format_number, in_study_units
 from isolation.study.quantities import DesignQuantities, HistorySummary
 
@@ -25,6 +26,11 @@ __all__ = [
     "comparison_table",
     "display_quantity",
 ]
+
+
+def _code_title(basis: str) -> str:
+    """Name of a code basis in reports (the name itself when it is not registered here)."""
+    return _codes.get(basis).title if basis in _codes.names() else str(basis)
 
 
 def _part(obj: Any, name: str) -> Any:
@@ -55,8 +61,7 @@ def inputs_table(results: Any) -> Table:
     system = study.get("units", "SI")
     site, building, analysis = study["site"], study["building"], study["analysis"]
     fixed = _part(results, "fixed_base")
-    rows: list[tuple[str, Any, str]] = [("Code basis", {"asce7": "ASCE/SEI 7-16", "eurocode": "EN 1998-1"}
-                                         .get(study["basis"], study["basis"]), "")]
+    rows: list[tuple[str, Any, str]] = [("Code basis", _code_title(study["basis"]), "")]
     for key, label, unit in (("sms", "S_MS (MCE_R, short period)", "g"), ("sm1", "S_M1 (MCE_R, 1 s)", "g"),
                              ("s1", "S_1 (mapped, 1 s)", "g"), ("ag", "a_g (reference PGA)", "g")):
         if site.get(key) is not None:

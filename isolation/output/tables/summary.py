@@ -16,6 +16,7 @@ import math
 import re
 from typing import Any
 
+from isolation.codes import registry as _codes
 from isolation.output.tables.results import _display, _part, _quantities, _summary, _times_100, display_quantity
 from isolation.output.tables.symbols import markdown_text
 from isolation.output.tables.table import Table, format_number
@@ -24,10 +25,6 @@ __all__ = ["summary_table", "summary_text", "preferred_alternative", "code_symbo
 
 _OUTCOME_ORDER = {"feasible": 0, "feasible with conditions": 1, "not recommended": 2}
 
-_CODE_SYMBOLS = {
-    "asce7": {"displacement": "D_M", "total_displacement": "D_TM", "period": "T_M"},
-    "eurocode": {"displacement": "d_dc", "total_displacement": "d_d", "period": "T_eff"},
-}
 
 
 def code_symbols(basis: str) -> dict[str, str]:
@@ -38,9 +35,8 @@ def code_symbols(basis: str) -> dict[str, str]:
     basis : str
         "asce7" (D_M, D_TM, T_M) or "eurocode" (d_dc, d_d, T_eff).
     """
-    from isolation.validate import one_of
-
-    return dict(_CODE_SYMBOLS[one_of("basis", basis, tuple(_CODE_SYMBOLS))])
+    symbols = _codes.get(basis, "basis").symbols
+    return {key: symbols[key] for key in ("displacement", "total_displacement", "period")}
 
 
 def _outcome(alternative: Any) -> str:

@@ -30,7 +30,7 @@ from __future__ import annotations
 import re
 from typing import Callable
 
-__all__ = ["latex_symbol", "latex_text", "markdown_text", "markdown_cell", "typst_symbol", "typst_text",
+__all__ = ["escape_latex", "latex_symbol", "latex_text", "markdown_text", "markdown_cell", "typst_symbol", "typst_text",
            "escape_typst", "SYMBOL_PATTERN"]
 
 _GREEK = {
@@ -81,6 +81,26 @@ def _convert(text: str, plain: Callable[[str], str], symbol: Callable[[str], str
     return "".join(parts)
 
 
+_LATEX_SPECIALS = {
+    "\\": r"\textbackslash{}",
+    "&": r"\&",
+    "%": r"\%",
+    "$": r"\$",
+    "#": r"\#",
+    "_": r"\_",
+    "{": r"\{",
+    "}": r"\}",
+    "~": r"\textasciitilde{}",
+    "^": r"\textasciicircum{}",
+    "\u00a0": "~",  # no-break space: LaTeX's tie
+}
+
+
+def escape_latex(text: str) -> str:
+    """Text with LaTeX's special characters escaped (a no-break space becomes a tie ``~``)."""
+    return "".join(_LATEX_SPECIALS.get(ch, ch) for ch in str(text))
+
+
 def latex_text(text: object) -> str:
     """Plain text as LaTeX: special characters escaped, symbols as inline math.
 
@@ -89,8 +109,6 @@ def latex_text(text: object) -> str:
     text : object
         Text (anything else is converted with ``str``).
     """
-    from isolation.output.tables.table import escape_latex
-
     return _convert(str(text), escape_latex, lambda math: rf"\({math}\)")
 
 

@@ -24,7 +24,7 @@ from typing import Any, Iterable, Mapping, Sequence
 import numpy as np
 
 from isolation.output.tables.study_units import _as_mapping, in_study_units
-from isolation.output.tables.symbols import latex_text, markdown_cell, typst_text
+from isolation.output.tables.symbols import escape_latex, latex_text, markdown_cell, typst_text
 
 __all__ = [
     "Table",
@@ -36,19 +36,6 @@ __all__ = [
     "in_study_units",
 ]
 
-_LATEX_SPECIALS = {
-    "\\": r"\textbackslash{}",
-    "&": r"\&",
-    "%": r"\%",
-    "$": r"\$",
-    "#": r"\#",
-    "_": r"\_",
-    "{": r"\{",
-    "}": r"\}",
-    "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}",
-    "\u00a0": "~",  # no-break space: LaTeX's tie
-}
 
 TYPST_MIME = "text/x-typst"
 """Output type of Typst markup (a table or figure as a complete ``#figure``), read by
@@ -59,11 +46,6 @@ _TYPST_ALIGN = {"l": "left", "r": "right", "c": "center", "p": "left"}
 
 _LONG_TABLE_ROWS = 28  # beyond this a table may run over a page break
 _LONG_WRAPPED_ROWS = 12  # the same for tables whose text wraps (rows of several lines)
-
-
-def escape_latex(text: str) -> str:
-    """Text with LaTeX's special characters escaped (a no-break space becomes a tie ``~``)."""
-    return "".join(_LATEX_SPECIALS.get(ch, ch) for ch in str(text))
 
 
 def _escape_markdown(text: str) -> str:

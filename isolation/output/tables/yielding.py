@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
+from isolation.codes import registry as _codes
 from isolation.output.tables.table import Table
 
 __all__ = ["fixed_base_design_table", "yielding_response_table", "damage_table", "fixed_base_label"]
@@ -50,8 +51,7 @@ def fixed_base_design_table(results: Any) -> Table:
                      _display(design["storey_shears"][i], "force", system)[0],
                      _display(design["yield_shears"][i], "force", system)[0],
                      100 * drift["design_drift_ratios"][i], 100 * drift["limit"], drift["stability"][i]))
-    basis = study.get("basis", "asce7")
-    checked = "C_d delta_xe/(I_e h_sx)" if basis == "asce7" else "nu q d_e/h"
+    checked = _codes.get_or_default(study.get("basis")).drift_formula
     strength = "given in the study" if design.get("given") else \
         f"{factors['overstrength']:g} x design storey shear"
     verdict = "passes" if drift["passed"] else "does NOT pass"
