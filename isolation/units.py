@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 import re
+import sys
 from functools import lru_cache
 from typing import Any
 
@@ -75,12 +76,32 @@ DISPLAY_UNITS: dict[str, dict[str, str]] = {
 """Unit used to show a value of each kind, per system."""
 
 
+def _import_pint():
+    """pint, imported without its optional dask support.
+
+    pint imports dask when it is installed (the batch runner's executors bring it), about a second,
+    only to accept dask arrays, which this package never gives it. dask is hidden for this one
+    import; a later ``import dask`` works as usual.
+    """
+    if "pint" in sys.modules or "dask" in sys.modules:
+        import pint
+        return pint
+    sys.modules["dask"] = None  # pint's find_spec("dask") then answers None
+    try:
+        import pint
+    finally:
+        if "dask" in sys.modules and sys.modules["dask"] is None:
+            del sys.modules["dask"]
+    return pint
+
+
 @lru_cache(maxsize=1)
 def _registry():
-    import pint
-
-    registry = pint.UnitRegistry()
-    return registry
+    pint = _import_pint()
+    try:  # pint's own cache of its parsed unit definitions (a user cache folder): 4x quicker to build
+        return pint.UnitRegistry(cache_folder=":auto:")
+    except Exception:  # noqa: BLE001 - no usable cache folder: parse the definitions
+        return pint.UnitRegistry()
 
 
 def _allowed(kind: str, system: str) -> str:

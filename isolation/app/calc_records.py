@@ -61,7 +61,16 @@ from isolation.app.record_folder import (  # noqa: F401 - re-exported
     sanitise_name,
     verify_record,
 )
-from isolation.app.record_kernel import KERNEL_LOG, _execute, _execute_quietly, _stderr_to  # noqa: F401
+from isolation.app.record_kernel import (  # noqa: F401 - re-exported
+    KERNEL_ARGUMENTS,
+    KERNEL_LOG,
+    WARM_UP,
+    _EarlyKernel,
+    _execute,
+    _execute_quietly,
+    _fast_schema_import,
+    _stderr_to,
+)
 from isolation.errors import InputError, RunError
 
 __all__ = ["RecordOutcome", "run_record", "render_record", "read_manifest", "study_input_hash",
@@ -200,6 +209,20 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
     KeyboardInterrupt
         Re-raised after an interrupted run was recorded as failed.
     """
+    # The workbook's kernel starts first: its start-up and imports overlap the checks below.
+    default = notebook is None or Path(notebook).resolve() == WORKBOOK.resolve()
+    kernel = _EarlyKernel.start(warm_up=default)
+    try:
+        return _run_record(study_file, out_dir, pdf=pdf, overrides=overrides, run_id=run_id, paper=paper,
+                           quick=quick, notebook=notebook, timeout=timeout, engine=engine,
+                           replace_failed=replace_failed, kernel=kernel)
+    finally:
+        if kernel is not None:
+            kernel.close()  # a no-op once the run has closed it
+
+
+def _run_record(study_file, out_dir, *, pdf, overrides, run_id, paper, quick, notebook, timeout, engine,
+                replace_failed, kernel) -> RecordOutcome:
     path, workbook, changes, study = _checked_inputs(study_file, overrides, paper, engine, notebook)
     parent = Path(out_dir) / sanitise_name(study.project.name)
     run_id, final = _claim_run_id(parent, run_id, replace_failed)
@@ -213,7 +236,8 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
     _first_manifest(folder, manifest, final, previous)
     report, verdicts, failure = None, (), None
     try:
-        report, verdicts = _fill_record(folder, path, changes, workbook, quick, timeout, pdf, paper, engine)
+        report, verdicts = _fill_record(folder, path, changes, workbook, quick, timeout, pdf, paper, engine,
+                                        kernel)
         manifest.update(status="done")
     except BaseException as error:  # noqa: BLE001 - every failure must leave a failed record
         failure = error
@@ -320,10 +344,12 @@ def _first_manifest(folder: Path, manifest: dict, final: Path, previous) -> None
 
 
 def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path, quick: bool,
-                 timeout: float | None, pdf: bool, paper: str, engine: str | None) -> tuple:
-    """Inputs, executed workbook, results and (``pdf``) the report into ``folder``: (report name, verdicts)."""
+                 timeout: float | None, pdf: bool, paper: str, engine: str | None, kernel=None) -> tuple:
+    """Inputs, executed workbook, results and (``pdf``) the report into ``folder``: (report name, verdicts).
+
+    ``kernel``: the workbook's kernel when it was started early (:class:`_EarlyKernel`)."""
     study_path, study = _prepare_inputs(study_file, overrides, folder)
-    _execute(notebook, folder, study_path, quick, timeout)
+    _execute(notebook, folder, study_path, quick, timeout, kernel)
     results = folder / "results.json"
     if not results.is_file():
         raise RunError("the workbook finished without writing results.json")

@@ -2,17 +2,23 @@
 
 Used by :func:`isolation.app.calc_records.run_record`: :func:`_execute` runs the
 workbook in the record's folder with its parameters and sends what the kernel
-writes to standard error into the record's hidden :data:`KERNEL_LOG`.
+writes to standard error into the record's hidden :data:`KERNEL_LOG`. The kernel
+starts before the study is checked (:class:`_EarlyKernel`), so its start-up and
+the first cell's imports (:data:`WARM_UP`) overlap the checks.
 """
 
 from __future__ import annotations
 
 import contextlib
+import functools
 import os
 import sys
+import tempfile
 from pathlib import Path
 
-__all__ = ["KERNEL_LOG"]
+from isolation.errors import RunError
+
+__all__ = ["KERNEL_LOG", "KERNEL_ARGUMENTS", "WARM_UP", "SAVE_INTERVAL"]
 
 
 KERNEL_LOG = ".kernel.log"
@@ -48,12 +54,118 @@ def _stderr_to(path: Path):
         os.close(saved)
 
 
-def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
+KERNEL_ARGUMENTS = (
+    # Quiet the kernel's start-up warnings on stderr (loopback TCP on this machine); its errors still
+    # show. No IPython history file (nbclient's own choice for the kernels it starts).
+    "--IPKernelApp.log_level=ERROR", "--HistoryManager.hist_file=:memory:",
+)
+
+WARM_UP = ("import IPython.display, isolation.output.plots, isolation.output.report, isolation.output.tables, "
+           "isolation.study, isolation.study.runner", "isolation.study.runner.prepare()", "del IPython, isolation")
+"""Lines the feasibility workbook's kernel runs as it starts (IPython ``exec_lines``): the modules its
+first cell imports and :func:`isolation.study.runner.prepare`, loaded while this process still checks the
+study; the names are deleted again, so the workbook's namespace is as if nothing ran."""
+
+
+def _fast_schema_import() -> None:
+    """Import jsonschema (nbformat's validator) without its optional IRI syntax checker.
+
+    jsonschema loads ``rfc3987_syntax`` when it is installed (jupyter-events asks for it), which
+    builds some forty grammars at import: about 1.5 s of every run. Notebooks never use that format
+    check, so it is skipped for this one import; a later ``import rfc3987_syntax`` works as usual.
+    """
+    if "jsonschema" in sys.modules or "rfc3987_syntax" in sys.modules:
+        return
+    # An import of it then raises ImportError, which jsonschema expects.
+    sys.modules["rfc3987_syntax"] = None  # type: ignore[assignment]
+    try:
+        import jsonschema  # noqa: F401
+    except ImportError:
+        pass
+    finally:
+        if "rfc3987_syntax" in sys.modules and sys.modules["rfc3987_syntax"] is None:
+            del sys.modules["rfc3987_syntax"]
+
+
+class _EarlyKernel:
+    """The workbook's kernel, started before the study is checked.
+
+    Its start-up (and, for the feasibility workbook, the imports of its first cell,
+    :data:`WARM_UP`) run beside the checks in this process; papermill then executes the
+    workbook on it. Its standard error goes to a temporary file, later copied into the
+    record's :data:`KERNEL_LOG`.
+    """
+
+    def __init__(self, warm_up: bool):
+        from jupyter_client.manager import AsyncKernelManager
+        from jupyter_core.utils import run_sync
+
+        self._sync = run_sync
+        self.log = tempfile.TemporaryFile()
+        self.km = AsyncKernelManager(kernel_name="python3")
+        arguments = list(KERNEL_ARGUMENTS)
+        if warm_up:
+            arguments += [f"--IPKernelApp.exec_lines={line}" for line in WARM_UP]
+        try:
+            run_sync(self.km.start_kernel)(stderr=self.log, extra_arguments=arguments)
+        except BaseException:
+            self.log.close()
+            raise
+
+    @classmethod
+    def start(cls, warm_up: bool) -> "_EarlyKernel | None":
+        """A started kernel, or None when it cannot start here (papermill then starts its own
+        and reports why in the record)."""
+        try:
+            return cls(warm_up)
+        except Exception:  # noqa: BLE001 - the run itself reports a kernel that cannot start
+            return None
+
+    def enter(self, folder: Path) -> None:
+        """Make ``folder`` the kernel's working folder (papermill's ``cwd`` for a kernel it starts)."""
+        client = self.km.blocking_client()
+        client.start_channels()
+        try:
+            client.wait_for_ready(timeout=60)
+            reply = client.execute_interactive(f"__import__('os').chdir({str(folder)!r})", silent=True,
+                                               store_history=False, timeout=60)
+        finally:
+            client.stop_channels()
+        if reply["content"].get("status") != "ok":
+            raise RunError(f"the workbook's kernel could not enter the record folder {str(folder)!r}")
+
+    def close(self, log: Path | None = None) -> None:
+        """Stop the kernel; append what it wrote to standard error to ``log`` (once; later calls do nothing)."""
+        if self.log.closed:
+            return
+        try:
+            if self.km.has_kernel:
+                self._sync(self.km.shutdown_kernel)(now=True)
+        except Exception:  # noqa: BLE001 - a kernel already gone
+            pass
+        try:
+            self.log.seek(0)
+            text = self.log.read()
+            if log is not None and text:
+                with open(log, "ab") as out:
+                    out.write(text)
+        except OSError:
+            pass
+        finally:
+            self.log.close()
+
+
+def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
+             kernel: _EarlyKernel | None = None) -> None:
     log = folder / KERNEL_LOG
     try:
         with _stderr_to(log):
-            _execute_quietly(notebook, folder, study_path, quick, timeout)
+            if kernel is not None:
+                kernel.enter(folder)
+            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel)
     finally:
+        if kernel is not None:
+            kernel.close(log)
         try:
             if log.stat().st_size == 0:
                 log.unlink()
@@ -61,16 +173,58 @@ def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout
             pass
 
 
-def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None) -> None:
+SAVE_INTERVAL = 5.0
+"""Seconds between saves of the executed workbook while it runs (:func:`_papermill_engine`). [s]"""
+
+
+@functools.lru_cache(maxsize=1)
+def _papermill_engine() -> str:
+    """Name of papermill's engine with fewer saves, registered once.
+
+    papermill writes the whole executed notebook before and after every cell: some fifty writes of
+    up to a few megabytes of figures for the feasibility workbook, while the kernel waits. This engine
+    saves at most every :data:`SAVE_INTERVAL` seconds in between (a run cut short still leaves a
+    recent notebook for diagnosis); papermill itself writes the complete notebook at the end and
+    the notebook with its error when a cell fails.
+    """
+    from papermill.engines import NBClientEngine, NotebookExecutionManager, papermill_engines
+
+    class Manager(NotebookExecutionManager):
+        def save(self, **kwargs):
+            if (self.now() - self.last_save_time).total_seconds() >= SAVE_INTERVAL:
+                super().save(**kwargs)
+
+    class Engine(NBClientEngine):
+        @classmethod
+        def execute_notebook(cls, nb, kernel_name, output_path=None, progress_bar=True, log_output=False,
+                             autosave_cell_every=30, **kwargs):
+            manager = Manager(nb, output_path=output_path, progress_bar=progress_bar, log_output=log_output,
+                              autosave_cell_every=autosave_cell_every)
+            manager.notebook_start()
+            try:
+                cls.execute_managed_notebook(manager, kernel_name, log_output=log_output, **kwargs)
+            finally:
+                manager.cleanup_pbar()
+                manager.notebook_complete()
+            return manager.nb
+
+    papermill_engines.register("isolation-records", Engine)
+    return "isolation-records"
+
+
+def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
+                     kernel: _EarlyKernel | None = None) -> None:
+    _fast_schema_import()
     import papermill
 
     papermill.execute_notebook(
-        str(notebook), str(folder / "feasibility.ipynb"),
+        str(notebook), str(folder / "feasibility.ipynb"), engine_name=_papermill_engine(),
         parameters={"study_path": study_path, "output_dir": ".", "results_path": "results.json",
                     "quick": bool(quick)},
         cwd=str(folder), kernel_name="python3", progress_bar=False, log_output=False,
         execution_timeout=timeout,
-        # Quiet the kernel's start-up warnings on stderr (loopback TCP on this machine); its
-        # errors still show. A trait of nbclient's NotebookClient, passed on by papermill.
-        extra_arguments=["--IPKernelApp.log_level=ERROR"],
+        # A kernel papermill starts itself: the same arguments as the early one (a trait of nbclient's
+        # NotebookClient, passed on by papermill).
+        extra_arguments=list(KERNEL_ARGUMENTS),
+        km=None if kernel is None else kernel.km,
     )

@@ -3,9 +3,10 @@
 u'' + 2 zeta w u' + w^2 u = -a(t), with a(t) linear between samples and the
 oscillator at rest at t = 0. The state [u, u'] advances by the exact
 first-order-hold recurrence x_{n+1} = Phi x_n + E0 a_n + E1 a_{n+1}
-(Nigam & Jennings 1969), obtained here from one matrix exponential of an
-augmented system, and runs as a second-order IIR filter (scipy.signal.lfilter),
-so it is exact at any time step.
+(Nigam & Jennings 1969), from the closed-form first-order-hold matrices of
+:mod:`isolation.motions.spectrum` (the matrix exponential of the augmented
+system, written out for a 2x2 state), and runs as a second-order IIR filter
+(scipy.signal.lfilter), so it is exact at any time step.
 
 Used for the fixed-base (linear, classically damped) building by modal
 superposition and for floor response spectra.
@@ -21,25 +22,21 @@ from __future__ import annotations
 import math
 
 import numpy as np
-import scipy.linalg
-import scipy.signal
 
 __all__ = ["oscillator_response", "response_spectrum"]
 
 
 def _recurrence(omega: float, zeta: float, dt: float):
-    """Phi (2x2), E0 (2,), E1 (2,) of the exact first-order-hold recurrence."""
-    a = np.zeros((4, 4))
-    a[0, 1] = 1.0
-    a[1, 0] = -omega * omega
-    a[1, 1] = -2.0 * zeta * omega
-    a[1, 2] = -1.0  # forcing -a(t)
-    a[2, 3] = 1.0   # a(t) = a_n + s t, s constant over the step
-    e = scipy.linalg.expm(a * dt)
-    phi = e[:2, :2]
-    g0 = e[:2, 2]
-    g1 = e[:2, 3]
-    return phi, g0 - g1 / dt, g1 / dt
+    """Phi (2x2), E0 (2,), E1 (2,) of the exact first-order-hold recurrence.
+
+    The exponential of the augmented system [[A, b, 0], [0, 0, 1], [0, 0, 0]] dt
+    (forcing -a(t), a(t) = a_n + s t over the step) in closed form: the same
+    matrices as scipy.linalg.expm of it, to round-off, at a fraction of the cost.
+    """
+    from isolation.motions.spectrum import _transition
+
+    _, phi, e0, e1 = _transition(np.array([2.0 * math.pi / omega]), dt, zeta)
+    return phi[0], e0[0], e1[0]
 
 
 def oscillator_response(acceleration, dt: float, omega: float, zeta: float):
@@ -61,6 +58,8 @@ def oscillator_response(acceleration, dt: float, omega: float, zeta: float):
     displacement, velocity : arrays (..., steps)
         In the units of acceleration times s^2 and s (e.g. [m], [m/s]).
     """
+    import scipy.signal  # here: importing scipy.signal takes about a second
+
     acc = np.asarray(acceleration, dtype=float)
     phi, e0, e1 = _recurrence(omega, zeta, dt)
     trace = phi[0, 0] + phi[1, 1]
@@ -104,11 +103,14 @@ def response_spectrum(acceleration, dt: float, periods, damping: float = 0.05):
     array (..., periods)
         Peak absolute acceleration of each oscillator, same unit as the input.
     """
+    from isolation.motions.peaks import peak_abs
+    from isolation.motions.spectrum import _filters, _transition
+
     periods = np.atleast_1d(np.asarray(periods, dtype=float))
     acc = np.asarray(acceleration, dtype=float)
-    out = np.empty(acc.shape[:-1] + (periods.size,))
-    for i, period in enumerate(periods):
-        w = 2.0 * math.pi / period
-        u, v = oscillator_response(acc, dt, w, damping)
-        out[..., i] = np.max(np.abs(2.0 * damping * w * v + w * w * u), axis=-1)
-    return out
+    # u'' + a = -(2 zeta w u' + w^2 u): one output row of the same exact recurrence, its peak
+    # taken by the compiled loop of isolation.motions.peaks (no history stored).
+    omega, phi, e0, e1 = _transition(periods, dt, damping)
+    numerator, denominator, state = _filters(phi, e0, e1, np.stack([-(omega**2), -2.0 * damping * omega], axis=1))
+    peaks = peak_abs(numerator, denominator, state, acc.reshape(-1, acc.shape[-1]))
+    return peaks.reshape(acc.shape[:-1] + (periods.size,))

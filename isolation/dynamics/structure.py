@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Any
 
 import numpy as np
@@ -414,9 +415,19 @@ class ShearBuilding:
 
     def modal(self) -> ModalProperties:
         """Fixed-base undamped modes, roof component of each shape = 1 (none when rigid)."""
+        return self._modal
+
+    @cached_property
+    def _modal(self) -> ModalProperties:
+        # Solved once per building (a frozen dataclass); the arrays are read-only, so no caller
+        # can change what the next one gets.
         if self.rigid:
-            return _modes(np.zeros(0), np.zeros((0, 0)), -1)
-        return _modes(np.asarray(self.masses), self.stiffness_matrix(), -1)
+            modes = _modes(np.zeros(0), np.zeros((0, 0)), -1)
+        else:
+            modes = _modes(np.asarray(self.masses), self.stiffness_matrix(), -1)
+        for values in (modes.periods, modes.mode_shapes, modes.participation_factors, modes.effective_masses):
+            values.setflags(write=False)
+        return modes
 
     def modal_damping_ratios(self) -> np.ndarray:
         """Damping ratio of each fixed-base mode under the chosen damping model. [-]"""

@@ -31,7 +31,6 @@ from __future__ import annotations
 from typing import Any
 
 import numpy as np
-from scipy.signal import lfilter
 
 from isolation.motions.spectrum import _check_inputs, _filters, _transition, response_spectrum
 
@@ -51,6 +50,8 @@ def _pairs(acceleration: Any) -> np.ndarray:
 
 def _displacements(pair: np.ndarray, dt: float, periods: np.ndarray, zeta: float):
     """Relative displacement histories (pairs, 2, periods, steps) per unit of the input's unit x s^2."""
+    from scipy.signal import lfilter  # here: importing scipy.signal takes about a second
+
     _, phi, b0, b1 = _transition(periods, dt, zeta)
     numerator, denominator, state = _filters(phi, b0, b1, np.tile([1.0, 0.0], (periods.size, 1)))
     first = pair[..., :1]

@@ -155,12 +155,15 @@ def _lines(path: Any) -> tuple[Path, list[str]]:
         raise ValueError(f"{file}: not a UTF-8 text file ({error.reason} at byte {error.start})") from None
 
 
+_DECIMAL = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?", re.ASCII)
+
+
 def _number(token: str) -> float:
     """A value token: a decimal number, also with a Fortran exponent (``1.0D-02``)."""
     fortran = _FORTRAN.match(token)
     if fortran:
         token = f"{fortran.group(1)}e{fortran.group(2)}"
-    elif not re.fullmatch(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?", token, re.ASCII):
+    elif not _DECIMAL.fullmatch(token):
         raise ValueError(token)  # no 'nan', 'inf', '1_000' or hex
     return float(token)
 

@@ -39,9 +39,9 @@ from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
-from scipy.signal import lfilter
 
 from isolation import GRAVITY
+from isolation.motions.peaks import peak_abs
 from isolation.validate import finite_array, in_range, one_of, positive, positive_array
 
 __all__ = [
@@ -182,14 +182,9 @@ def _peaks(record: np.ndarray, dt: float, periods: np.ndarray, zeta: float, abso
     if absolute:
         acceleration_row = np.stack([-(omega**2), -2.0 * zeta * omega], axis=1)
         filters.append(_filters(phi, b0, b1, acceleration_row))
-    first = record[..., :1]
-    result = []
-    for numerator, denominator, state in filters:
-        peaks = np.empty(record.shape[:-1] + (periods.size,))
-        for j in range(periods.size):
-            response, _ = lfilter(numerator[j], denominator[j], record, axis=-1, zi=first * state[j])
-            peaks[..., j] = np.abs(response).max(axis=-1)
-        result.append(peaks)
+    stack = record.reshape(-1, record.shape[-1])
+    result = [peak_abs(numerator, denominator, state, stack).reshape(record.shape[:-1] + (periods.size,))
+              for numerator, denominator, state in filters]
     return omega, result
 
 
@@ -213,6 +208,8 @@ def peak_displacement_times(records: np.ndarray, dt: float, periods: np.ndarray,
         Signed ``u`` at the peak of ``|u|`` (records, periods) [unit x s^2]
         and the sample index of that peak (records, periods).
     """
+    from scipy.signal import lfilter  # here: importing scipy.signal takes about a second
+
     _, phi, b0, b1 = _transition(periods, dt, damping)
     numerator, denominator, state = _filters(phi, b0, b1, np.tile([1.0, 0.0], (periods.size, 1)))
     first = records[:, :1]

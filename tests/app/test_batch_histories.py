@@ -143,3 +143,8 @@ def test_chunks_are_seconds_long_and_the_same_for_one_and_two_workers():
     assert history_chunk(1000, 2, 7, 6000) == history_chunk(1000, 1, 7, 6000) == 23
     assert history_chunk(64, 1, 7, 6000) == history_chunk(64, 2, 7, 6000) == 16
     assert history_chunk(3, 2, 7, 6000) == 1
+    # 256 variants: 23 a task would make 12 tasks, the last of 3 (derived arithmetic); equal tasks in a
+    # number divisible by the workers instead: 12 tasks of 22 (the last 14), 6 for each of two workers
+    assert history_chunk(256, 1, 7, 6000) == history_chunk(256, 2, 7, 6000) == 22
+    # three workers: a number of tasks divisible by three (64 variants: 6 tasks of 11, the last 9)
+    assert history_chunk(64, 3, 7, 6000) == 11

@@ -123,8 +123,9 @@ def test_trade_off_more_friction_less_displacement():
     assert 0.06 in curve.values  # the current value is on the curve
     assert np.all(np.diff(curve.total_displacement) < 0)
     middle = explore.explore(friction=float(curve.values[2]))
-    assert curve.total_displacement[2] == middle.quantities["total_displacement"]
-    assert curve.base_shear_coefficient[2] == middle.results["upper"].base_shear / 40_000.0
+    assert curve.total_displacement[2] == pytest.approx(middle.quantities["total_displacement"], rel=1e-9)
+    assert curve.base_shear_coefficient[2] == pytest.approx(middle.results["upper"].base_shear / 40_000.0,
+                                                            rel=1e-9)
     with pytest.raises(ValueError, match="parameter = 'lead_diameter'.*'friction', 'radius'"):
         explore.trade_off(explore.ExplorerSettings(), "lead_diameter")
 
@@ -133,7 +134,29 @@ def test_trade_off_sweeps_both_dishes_of_a_double_concave():
     curve = explore.trade_off(explore.ExplorerSettings(bearing_type="double concave"), "radius", count=3)
     both = explore.explore(bearing_type="double concave", radius_1=float(curve.values[1]),
                            radius_2=float(curve.values[1]))
-    assert curve.total_displacement[1] == both.quantities["total_displacement"]
+    assert curve.total_displacement[1] == pytest.approx(both.quantities["total_displacement"], rel=1e-9)
+
+
+@pytest.mark.parametrize("basis", ["asce7", "eurocode"])
+@pytest.mark.parametrize("bearing_type", sorted(explore.TRADE_OFF_PARAMETERS))
+def test_trade_off_array_points_equal_the_scalar_answer(bearing_type, basis):
+    # The curve runs every point through the array kernel (design.array_kernel.design_bounds_many); each
+    # point must equal explore() at that value, the scalar iteration (ASCE/SEI 7-16 Eq. 17.5-1 or
+    # EN 1998-1 §10.9 through isolation.design.equivalent_linear), to 1e-9; a point explore() refuses
+    # is NaN on the curve.
+    settings = explore.ExplorerSettings(bearing_type=bearing_type, basis=basis)
+    for parameter in explore.TRADE_OFF_PARAMETERS[bearing_type]:
+        curve = explore.trade_off(settings, parameter, count=6)
+        assert np.isfinite(curve.total_displacement).sum() >= 3
+        for value, d_tm, shear in zip(curve.values, curve.total_displacement, curve.base_shear_coefficient):
+            swept = explore._swept(settings, parameter, float(value))
+            try:
+                answer = explore.explore(settings, **swept)
+            except ValueError:
+                assert np.isnan(d_tm) and np.isnan(shear)
+                continue
+            assert d_tm == pytest.approx(answer.quantities["total_displacement"], rel=1e-9, abs=0.0)
+            assert shear == pytest.approx(answer.results["upper"].base_shear / settings.weight, rel=1e-9, abs=0.0)
 
 
 def test_comparison_shows_pinned_and_current():

@@ -269,3 +269,27 @@ def test_render_refuses_failed_or_foreign_folders(tmp_path):
     (tmp_path / "manifest.json").write_text(json.dumps({"status": "failed"}))
     with pytest.raises(InputError, match="status is 'failed'"):
         render_record(tmp_path)
+
+
+def test_the_kernel_started_early_runs_in_the_record_folder_with_a_clean_namespace(tmp_path, monkeypatch):
+    # The record's kernel starts before the study is checked and loads the first cell's modules
+    # (isolation.records.WARM_UP): the workbook must still run in the record folder (papermill's
+    # cwd) and see none of the warm-up's names, only its loaded modules.
+    from isolation.app import calc_records as records
+
+    notebook = json.loads(WORKBOOK.read_text())
+    probe = ("import json, os, sys\n"
+             "json.dump({'names': sorted(k for k in globals() if not k.startswith('_')),\n"
+             "           'loaded': 'isolation.dynamics.history' in sys.modules, 'cwd': os.getcwd()},\n"
+             "          open('probe.json', 'w'))")
+    notebook["cells"].insert(2, {"cell_type": "code", "execution_count": None, "id": "probe", "metadata": {},
+                                 "outputs": [], "source": probe})
+    default = tmp_path / "feasibility.ipynb"
+    default.write_text(json.dumps(notebook))
+    monkeypatch.setattr(records, "WORKBOOK", default)
+    outcome = run_record(DEMO, tmp_path / "out", pdf=False, quick=True, run_id="early")
+    assert outcome.status == "done", outcome.error
+    seen = json.loads((outcome.path / "probe.json").read_text())
+    assert seen["loaded"]
+    assert not {"isolation", "IPython"} & set(seen["names"])
+    assert Path(seen["cwd"]).parent == outcome.path.parent and Path(seen["cwd"]).name.startswith(".early.")

@@ -37,7 +37,7 @@ from typing import Any, Callable
 from isolation.app.batch.executors import executor_for, open_executor, terminate
 from isolation.app.batch.plan import BatchPlan
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
-from isolation.app.batch.summary import write_summary
+from isolation.app.batch.summary import preload_summary_writer, write_summary
 from isolation.files import write_text_atomic
 
 __all__ = [
@@ -354,6 +354,8 @@ class _BatchRun:
             _write_state(self.out_dir, self.plan, self.entries, self.settings)
             self.bar = tqdm(total=len(tasks), unit="variant", desc=self.plan.name, disable=not progress or not tasks,
                             dynamic_ncols=True)
+            if self.queue:
+                preload_summary_writer()  # while this process only waits for the workers
             try:
                 self.top_up()
                 while self.pending:

@@ -52,6 +52,7 @@ from __future__ import annotations
 import csv
 import io
 import math
+import sys
 from pathlib import Path
 from typing import Any, Iterable, Mapping, Sequence
 
@@ -156,6 +157,27 @@ def _cell(value: Any) -> Any:
     if isinstance(value, bool):
         return "true" if value else "false"
     return value
+
+
+def preload_summary_writer() -> None:
+    """Import pyarrow's parquet writer in a background thread (when pyarrow is installed).
+
+    :func:`write_summary` needs it once every variant has run; importing it takes about a second,
+    which the batch runner spends while it waits for its workers instead of after them.
+    """
+    import importlib.util
+    import threading
+
+    if "pyarrow.parquet" in sys.modules or importlib.util.find_spec("pyarrow") is None:
+        return
+
+    def load() -> None:
+        try:
+            import pyarrow.parquet  # noqa: F401
+        except Exception:  # noqa: BLE001 - write_summary then reports or skips it itself
+            pass
+
+    threading.Thread(target=load, name="summary-writer-import", daemon=True).start()
 
 
 def write_summary(rows: Sequence[Mapping], out_dir: Path, override_keys: Iterable[str]) -> list[Path]:

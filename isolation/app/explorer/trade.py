@@ -60,8 +60,15 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
         One of ``TRADE_OFF_PARAMETERS[settings.bearing_type]``; default the first.
     count : int
         Number of values spread over the range, >= 2; the current value is added. [-]
+
+    Notes
+    -----
+    All points run through the array kernel at once
+    (:func:`isolation.design.array_kernel.design_bounds_many`), then each point's code report takes
+    its bounds; the numbers equal :func:`isolation.app.explorer.answers.explore` at each value to
+    round-off.
     """
-    from isolation.app.explorer.answers import TRADE_OFF_PARAMETERS, explore
+    from isolation.app.explorer.answers import TRADE_OFF_PARAMETERS, _settings
     from isolation.errors import RunError
 
     allowed = TRADE_OFF_PARAMETERS[settings.bearing_type]
@@ -82,11 +89,42 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
         values = np.unique(np.round(values))
     displacement = np.full(values.shape, np.nan)
     shear = np.full(values.shape, np.nan)
+    # Every point's bearing through the array kernel at once (isolation.design.array_kernel, equal to the
+    # scalar iteration of explore() to round-off), then each point's code report from its bounds.
+    from isolation.design.array_kernel import design_bounds_many
+    from isolation.study.assembly import design_alternative, isolation_system, site_spectrum
+
+    points = []  # (index, study, system, property sets)
     for i, value in enumerate(values):
         try:
-            answer = explore(settings, **_swept(settings, parameter, float(value)))
+            study = _settings(settings, _swept(settings, parameter, float(value))).study()
+            system = isolation_system(study.alternatives[0])
+            points.append((i, study, system, system.property_sets(study.building.total_weight)))
         except (ValueError, RunError):
             continue
-        displacement[i] = answer.quantities["total_displacement"]
-        shear[i] = answer.results["upper"].base_shear / settings.weight
+    if not points:
+        return TradeOff(parameter, values, displacement, shear)
+    study = points[0][1]  # the swept bearing changes neither the site nor the building
+    spectrum, weight = site_spectrum(study), study.building.total_weight
+    rule = spectrum.rule  # the damping rule of the study's code basis, as the scalar path takes it
+    bounds: list = []
+    try:
+        bounds = list(design_bounds_many([sets for *_, sets in points], weight, spectrum, rule))
+    except (ValueError, RunError):  # a point without an answer: each alone, so the others still count
+        bounds = []
+        for *_, sets in points:
+            try:
+                bounds.append(design_bounds_many([sets], weight, spectrum, rule)[0])
+            except (ValueError, RunError):
+                bounds.append(None)
+    for (i, study, system, sets), found in zip(points, bounds):
+        if found is None:
+            continue
+        try:
+            report, quantities, _, _ = design_alternative(study, sets, system, spectrum,
+                                                          settings.fixed_base_period, bounds=found)
+        except (ValueError, RunError):
+            continue
+        displacement[i] = quantities["total_displacement"]
+        shear[i] = report.bounds.results["upper"].base_shear / settings.weight
     return TradeOff(parameter, values, displacement, shear)
