@@ -212,6 +212,10 @@ class Asce7Basis(CodeBasis):
         factor, vertical, source = asce7_vertical_fraction(sms)
         return shear, height, factor, vertical, source
 
+    def torsion_action(self, report) -> tuple[float, float]:
+        # the torsion formula acts on D_M with e = actual + 5 % accidental (the report's e)
+        return report.value("D_M"), report.value("e")
+
     # --- drift and strength ------------------------------------------------------------------------
     def history_drift_limit(self, nonstructural: str | None = None, importance: float = 1.0) -> tuple[float, str]:
         return 0.020, f"{_ASCE} §17.6.4.4, MCE_R response-history analysis (from memory)"

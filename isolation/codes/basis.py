@@ -228,6 +228,11 @@ class CodeBasis(ABC):
         """(shear [kN], height [m], gravity factor [-], vertical fraction [-], source) for the uplift check;
         ``plateau(spectrum)`` is the spectrum's plateau [g] when the code needs it."""
 
+    @abstractmethod
+    def torsion_action(self, report) -> tuple[float, float]:
+        """(displacement of the centre of rigidity [m], eccentricity with its accidental part [m]) of the
+        report's torsion formula, for the displacement of each bearing of a layout."""
+
     # --- suite and histories ---------------------------------------------------------------
     def matching_rule(self) -> str:
         """Name of the suite rule for :func:`isolation.motions.matched_suite` (the basis name)."""

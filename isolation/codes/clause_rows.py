@@ -67,7 +67,7 @@ ROWS: tuple[tuple[str, str, str, str, str, tuple[str, ...], str], ...] = (
      ''),
     ('ASCE/SEI 7', '7-16', 'Eq. 17.5-3',
      'D_TM = D_M [1 + (y/P_T^2) 12 e/(b^2 + d^2)] >= 1.15 D_M',
-     'from memory', ('isolation/codes/asce7.py',),
+     'from memory', ('isolation/codes/asce7.py', 'isolation/study/layout.py'),
      'the cap P_T <= 1.0 used with it is from memory'),
     ('ASCE/SEI 7', '7-16', 'Eq. 17.5-4',
      'P_T, ratio of translational to torsional period',
@@ -567,7 +567,7 @@ ROWS: tuple[tuple[str, str, str, str, str, tuple[str, ...], str], ...] = (
      'package may cite one number early'),
     ('EN 1998-1', '2004', '§10.9.3',
      'Torsion amplification delta_i = 1 + e_tot y_i/r^2 (as cited)',
-     'from memory', ('isolation/codes/eurocode.py',),
+     'from memory', ('isolation/codes/eurocode.py', 'isolation/study/layout.py'),
      'clause number to verify: from memory §10.9.2 is the equivalent linear analysis, §10.9.3 the '
      'simplified linear analysis (its limits and torsion), §10.9.4 the modal simplified analysis; the '
      'package may cite one number early'),

@@ -211,6 +211,10 @@ class EurocodeBasis(CodeBasis):
         factor, vertical, source = eurocode_vertical_fraction(ag, kind)
         return shear, height, factor, vertical, source
 
+    def torsion_action(self, report) -> tuple[float, float]:
+        # delta acts on gamma_x d_dc with e_tot = actual + 5 % accidental (the report's e_tot)
+        return report.value("gamma_x") * report.value("d_dc"), report.value("e_tot")
+
     # --- drift and strength ------------------------------------------------------------------------
     def history_drift_limit(self, nonstructural: str | None = None, importance: float = 1.0) -> tuple[float, str]:
         if nonstructural is None:

@@ -32,7 +32,7 @@ from typing import Iterable
 
 from isolation import validate
 
-__all__ = ["BearingUplift", "bearing_uplift", "grid_rows", "asce7_vertical_fraction",
+__all__ = ["BearingUplift", "bearing_uplift", "grid_rows", "grid_axial_loads", "asce7_vertical_fraction",
            "eurocode_vertical_fraction"]
 
 
@@ -169,3 +169,49 @@ def bearing_uplift(shear: float, height: float, bearings: Iterable[tuple[int, fl
                          net_gravity=net, overturning_load=load, ratio=ratio,
                          minimum_axial_load=net - load, in_tension=net - load < 0.0,
                          source=source or "rigid-body overturning on a regular bearing grid (derived)")
+
+
+def grid_axial_loads(moment: float, positions, gravity_loads, *, gravity_factor: float = 1.0,
+                     vertical_fraction: float = 0.0) -> tuple:
+    """Smallest and largest axial load of every bearing of a given layout under overturning.
+
+    The moment acts about either plan axis (the worse for each bearing); the
+    change of a bearing at ``x_i`` from the centroid is ``dP_i = M x_i / sum
+    x_j^2`` (rigid-body statics, derived; the grid's own coordinates, not the
+    rows of :func:`grid_rows`). Smallest load ``(gravity_factor -
+    vertical_fraction) P_g - |dP|``, largest ``(1 + vertical_fraction) P_g +
+    |dP|`` (gravity unfactored for the largest: a screen, common practice).
+
+    Parameters
+    ----------
+    moment : float
+        Overturning moment at the isolation plane, >= 0. [kN m]
+    positions : array_like
+        (n, 2) bearing positions relative to the centroid of the layout. [m]
+    gravity_loads : array_like
+        (n,) gravity axial load of each bearing, > 0. [kN]
+    gravity_factor, vertical_fraction : float
+        As for :func:`bearing_uplift`. [-]
+
+    Returns
+    -------
+    (ndarray, ndarray)
+        Smallest and largest axial load of each bearing, compression positive. [kN]
+    """
+    import numpy as np
+
+    m = validate.non_negative("moment", moment, "kN m")
+    pos = validate.finite_array("positions", positions, "m")
+    if pos.ndim != 2 or pos.shape[1] != 2 or pos.shape[0] < 1:
+        raise ValueError(f"positions has shape {pos.shape}: must be (n, 2) with n >= 1 [m]")
+    loads = validate.positive_array("gravity_loads", gravity_loads, "kN")
+    if loads.shape != (pos.shape[0],):
+        raise ValueError(f"gravity_loads has {loads.size} entries: must be one per bearing [kN]")
+    g = validate.positive("gravity_factor", gravity_factor, "-")
+    ev = validate.non_negative("vertical_fraction", vertical_fraction, "-")
+    change = np.zeros(pos.shape[0])
+    for axis in (0, 1):
+        arm2 = float((pos[:, axis] ** 2).sum())
+        if arm2 > 0.0:
+            change = np.maximum(change, m * np.abs(pos[:, axis]) / arm2)
+    return (g - ev) * loads - change, (1.0 + ev) * loads + change

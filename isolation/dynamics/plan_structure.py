@@ -30,6 +30,27 @@ Damping: classical (modal) damping of ``damping`` in every fixed-base mode of
 the plan superstructure, acting on floor motion relative to the isolation
 plane, as in :class:`isolation.dynamics.structure.ShearBuilding`, so the isolation
 modes get no damping from the superstructure.
+
+Yielding storeys (``yield_shears_x``, ``yield_shears_y``): the storey's x and
+y springs at the centre of rigidity are each bilinear with kinematic
+hardening, a spring ``alpha k`` in parallel with an elastic-perfectly-plastic
+element of stiffness ``(1 - alpha) k`` and strength ``(1 - alpha) V_y``, the
+planar storey law of :class:`isolation.structure.ShearBuilding` in each
+direction.  Assumption: the two directions are uncoupled (each spring yields
+on its own drift, no interaction surface), as for lateral-load frames along
+the two plan axes whose members each resist one direction; a storey whose
+members resist both directions (e.g. columns of a space frame) would yield
+earlier under a diagonal drift.  The torsional spring stays elastic: with
+frames on the perimeter a storey's twist is carried by the same x and y
+frames, and in a feasibility model the twist is small beside the
+translation; torsional yielding is not modelled.
+
+P-delta (``p_delta``): geometric stiffness of each storey at the centre of
+mass, ``-P/h`` in x and y and ``-P r^2/h`` in rotation, P the weight of the
+floors above and ``r^2 = (L_x^2 + L_y^2)/12`` the polar radius of gyration
+of gravity load spread uniformly over the plan (derived: a column carrying
+``p_j`` at radius ``r_j`` adds ``p_j r_j^2 / h`` of negative torsional
+stiffness).  The damping matrix comes from the elastic stiffness without it.
 """
 
 from __future__ import annotations
@@ -79,6 +100,14 @@ class PlanShearBuilding:
     torsional_stiffnesses : sequence of float, optional
         Storey torsional stiffness about the centre of rigidity, each > 0;
         default: perimeter frames (module notes). [kN m/rad]
+    yield_shears_x, yield_shears_y : sequence of float or None, optional
+        Storey yield (strength) shear in x and in y from the first storey
+        up, each > 0; None (default) keeps that direction elastic. [kN]
+    hardening : float, optional
+        Post-yield over elastic storey stiffness, alpha, in [0, 1), both
+        directions. Default 0. [-]
+    p_delta : bool, optional
+        Add the storeys' geometric stiffness (module notes). Default False. [-]
     """
 
     masses: tuple
@@ -89,6 +118,10 @@ class PlanShearBuilding:
     rigidity_offset: tuple = (0.0, 0.0)
     damping: float = 0.05
     torsional_stiffnesses: tuple | None = None
+    yield_shears_x: tuple | None = None
+    yield_shears_y: tuple | None = None
+    hardening: float = 0.0
+    p_delta: bool = False
 
     def __post_init__(self) -> None:
         masses = validate.positive_array("masses", self.masses, "t")
@@ -114,6 +147,17 @@ class PlanShearBuilding:
         object.__setattr__(self, "rigidity_offset", offset)
         object.__setattr__(self, "damping", damping)
         object.__setattr__(self, "torsional_stiffnesses", tuple(torsion.tolist()))
+        for name in ("yield_shears_x", "yield_shears_y"):
+            if getattr(self, name) is not None:
+                shears = validate.positive_array(name, getattr(self, name), "kN")
+                if shears.shape != (n,):
+                    raise ValueError(f"{name} has {shears.size} entries and masses {n}: must be one per storey [kN]")
+                object.__setattr__(self, name, tuple(shears.tolist()))
+        object.__setattr__(self, "hardening",
+                           validate.in_range("hardening", self.hardening, 0.0, 1.0, "-", high_inclusive=False))
+        if not isinstance(self.p_delta, (bool, np.bool_)):
+            raise ValueError(f"p_delta = {self.p_delta!r} is not allowed: must be True or False")
+        object.__setattr__(self, "p_delta", bool(self.p_delta))
 
     @property
     def storeys(self) -> int:
@@ -129,6 +173,74 @@ class PlanShearBuilding:
     def floor_elevations(self) -> np.ndarray:
         """Elevation of each floor above the isolation plane. [m]"""
         return np.cumsum(self.heights)
+
+    @property
+    def yielding(self) -> bool:
+        """True when a storey strength is given in x or in y. [-]"""
+        return self.yield_shears_x is not None or self.yield_shears_y is not None
+
+    @property
+    def yield_strengths(self) -> np.ndarray:
+        """Storey yield shears (storeys, 2) in x and y; inf where a direction is elastic. [kN]"""
+        out = np.full((self.storeys, 2), np.inf)
+        for j, values in enumerate((self.yield_shears_x, self.yield_shears_y)):
+            if values is not None:
+                out[:, j] = values
+        return out
+
+    @property
+    def yield_drifts(self) -> np.ndarray:
+        """Storey yield drift V_y/k (storeys, 2) at the centre of rigidity; inf where elastic. [m]"""
+        return self.yield_strengths / np.column_stack([self.stiffnesses_x, self.stiffnesses_y])
+
+    @property
+    def gravity_loads(self) -> np.ndarray:
+        """Weight carried by each storey, P_i = g (m_i + ... + m_N). [kN]"""
+        return GRAVITY * np.cumsum(np.asarray(self.masses)[::-1])[::-1]
+
+    def geometric_stiffness_matrix(self) -> np.ndarray:
+        """Fixed-base P-delta stiffness (3 DOF per floor; zeros without ``p_delta``; module notes). [kN/m, kN m]"""
+        n = self.storeys
+        k = np.zeros((3 * n, 3 * n))
+        if not self.p_delta:
+            return k
+        lx, ly = self.plan
+        radius2 = (lx**2 + ly**2) / 12.0
+        for i, (load, height) in enumerate(zip(self.gravity_loads, self.heights)):
+            ks = -load / height * np.diag([1.0, 1.0, radius2])
+            top = slice(3 * i, 3 * i + 3)
+            k[top, top] += ks
+            if i > 0:
+                below = slice(3 * i - 3, 3 * i)
+                k[below, below] += ks
+                k[below, top] -= ks
+                k[top, below] -= ks
+        return k
+
+    def with_strengths(self, yield_shears_x, yield_shears_y=None, *, hardening=None, p_delta=None):
+        """The same building with storey strengths (and optionally hardening and P-delta) replaced.
+
+        Parameters
+        ----------
+        yield_shears_x : sequence of float or None
+            Storey yield shears in x, None for elastic. [kN]
+        yield_shears_y : sequence of float or None, optional
+            Storey yield shears in y; default those in x. [kN]
+        hardening : float, optional
+            Post-yield stiffness ratio; default unchanged. [-]
+        p_delta : bool, optional
+            P-delta switch; default unchanged. [-]
+        """
+        from dataclasses import replace
+
+        y = yield_shears_x if yield_shears_y is None else yield_shears_y
+        changes = {"yield_shears_x": None if yield_shears_x is None else tuple(np.atleast_1d(yield_shears_x).tolist()),
+                   "yield_shears_y": None if y is None else tuple(np.atleast_1d(y).tolist())}
+        if hardening is not None:
+            changes["hardening"] = hardening
+        if p_delta is not None:
+            changes["p_delta"] = p_delta
+        return replace(self, **changes)
 
     def rotational_inertia(self, mass: float) -> float:
         """Mass moment of inertia of a uniform rectangular diaphragm of ``mass`` [t]. [t m^2]"""
@@ -183,10 +295,11 @@ class PlanShearBuilding:
 
     def shifted(self, mass_offset) -> "PlanShearBuilding":
         """The same building with its centre of mass moved by ``mass_offset`` (m_x, m_y) [m]."""
+        from dataclasses import replace
+
         mx, my = _pair("mass_offset", mass_offset, "m")
         ex, ey = self.rigidity_offset
-        return PlanShearBuilding(self.masses, self.stiffnesses_x, self.stiffnesses_y, self.heights, self.plan,
-                                 (ex - mx, ey - my), self.damping, self.torsional_stiffnesses)
+        return replace(self, rigidity_offset=(ex - mx, ey - my))
 
     def to_dict(self) -> dict:
         assert self.torsional_stiffnesses is not None  # a tuple after __post_init__
@@ -200,6 +313,10 @@ class PlanShearBuilding:
             "plan": list(self.plan),
             "rigidity_offset": list(self.rigidity_offset),
             "damping": self.damping,
+            "yield_shears_x": None if self.yield_shears_x is None else list(self.yield_shears_x),
+            "yield_shears_y": None if self.yield_shears_y is None else list(self.yield_shears_y),
+            "hardening": self.hardening,
+            "p_delta": self.p_delta,
             "periods": self.periods().tolist(),
         }
 
@@ -308,6 +425,9 @@ class PlanIsolatedBuilding:
     def matrices(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """M, K, C of base + floors, 3 DOF per level, bearings excluded.
 
+        K holds the elastic storeys plus the P-delta geometric stiffness
+        (when the superstructure has ``p_delta``); yielding storeys enter the
+        time loop as departures from their elastic force.
         The superstructure's fixed-base K and C act on floor motion relative
         to the base diaphragm (the rigid-body transfer of a base rotation to
         a floor is exact for diaphragms sharing one vertical axis).
@@ -319,7 +439,8 @@ class PlanIsolatedBuilding:
         m = np.zeros((3 * n + 3, 3 * n + 3))
         m[:3, :3] = base
         m[3:, 3:] = s.mass_matrix()
-        return m, t.T @ s.stiffness_matrix() @ t, t.T @ s.damping_matrix() @ t
+        k = s.stiffness_matrix() + s.geometric_stiffness_matrix()
+        return m, t.T @ k @ t, t.T @ s.damping_matrix() @ t
 
     def to_dict(self) -> dict:
         from isolation.dynamics.isolators import describe

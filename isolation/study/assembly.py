@@ -29,7 +29,7 @@ from isolation.codes.eurocode_basis import EUROCODE_MAX_PERIOD, EUROCODE_SPECTRU
 from isolation.study import Alternative, Study
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
-           "bearing_uplift_check",
+           "bearing_uplift_check", "overturning_inputs",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
 
@@ -213,6 +213,16 @@ def bearing_uplift_check(study, spectrum, alternative, report):
     groups = [(spec.count, spec.axial_load) for spec in alternative.bearings]
     return bearing_uplift(shear, height, groups, b.plan_length, b.plan_width, gravity_factor=factor,
                           vertical_fraction=vertical, source=source)
+
+
+def overturning_inputs(study, spectrum, report) -> tuple:
+    """(shear [kN], height [m], gravity factor [-], vertical fraction [-], source) of the uplift check.
+
+    The lateral force on the superstructure and the height of its resultant, and the load
+    combination's factor on gravity and vertical earthquake, from the code basis
+    (see :func:`bearing_uplift_check`).
+    """
+    return _codes.get(study.basis).uplift_action(study, report, spectrum, _plateau)
 
 
 def verdict_figures(study, spectrum, alternative, q, summary, report, permitted, reasons, checks, bounds, t_fb):

@@ -13,7 +13,15 @@ What a study asks for with ``[analysis] bidirectional = true``:
 * the accidental eccentricity as a mass offset of 5 % of the plan dimension
   in each direction, four sign combinations run (ASCE/SEI 7-16 §12.8.4.2 and
   §17.5.3.3 / EN 1998-1 §4.3.2(1); from memory);
-* lower and upper property sets, every pair of the matched suite of pairs.
+* lower and upper property sets, every pair of the matched suite of pairs;
+* storey strengths: the same code-designed storey yield shears as the planar
+  comparison (:mod:`isolation.performance.comparison`: the isolated superstructure's from
+  V_s, the fixed base's from its equivalent-lateral-force design, times the
+  overstrength), in x and in y alike, with the study's hardening and P-delta;
+  each storey's x and y springs are bilinear with kinematic hardening and
+  uncoupled (:mod:`isolation.dynamics.plan_structure`; a Clough storey law of the
+  planar model is run as bilinear here, stated in the results); the
+  code-designed fixed base runs under the same pairs and offsets.
 
 The total displacement from the histories is the suite mean of the largest
 bearing's peak resultant displacement, the largest over property sets and
@@ -35,7 +43,7 @@ from isolation.dynamics.plan_history import run_plan_cases
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
 
 __all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
-           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional"]
+           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional", "fixed_base_summary"]
 
 #: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code
 #: basis (:attr:`isolation.codes.basis.SuiteRules.history_lower_limit`).
@@ -74,18 +82,88 @@ def default_grid(count: int, length: float, width: float) -> tuple:
 
 
 def plan_superstructure(planar, building) -> PlanShearBuilding:
-    """The planar superstructure on the study's plan (same storeys in both directions).
+    """The planar superstructure on the study's plan (same storeys and strengths in both directions).
 
     Parameters
     ----------
     planar : isolation.dynamics.structure.ShearBuilding
-        The study's planar superstructure. [-]
+        The study's planar superstructure; its storey yield shears (if any), hardening and P-delta
+        are given to the x and the y springs alike. [-]
     building : isolation.study.inputs.Building
         The study's building (plan_length, plan_width, eccentricity [m]). [-]
     """
+    shears = getattr(planar, "yield_shears", None)
     return PlanShearBuilding(planar.masses, planar.stiffnesses, planar.stiffnesses, planar.heights,
                              plan=(building.plan_length, building.plan_width),
-                             rigidity_offset=(building.eccentricity, 0.0), damping=planar.damping)
+                             rigidity_offset=(building.eccentricity, 0.0), damping=planar.damping,
+                             yield_shears_x=shears, yield_shears_y=shears,
+                             hardening=getattr(planar, "hardening", 0.0), p_delta=getattr(planar, "p_delta", False))
+
+
+def _reduced(result):
+    """The storey arrays of one plan result, without its histories."""
+    from types import SimpleNamespace
+
+    return SimpleNamespace(ductility=result.ductility, residual_drift=result.residual_drift,
+                           peak_drift_ratio=result.peak_drift_ratio, hysteretic_energy=result.hysteretic_energy)
+
+
+def _storeys(results) -> dict:
+    """Storey indicators of plan results: suite means per storey, the worst over the results given."""
+    ductility = np.array([r.ductility.mean(axis=0) for r in results])  # (runs, storeys, 2); NaN where elastic
+    residual = np.array([r.residual_drift.mean(axis=0) for r in results])
+    drift = np.array([r.peak_drift_ratio.mean(axis=0) for r in results])
+    yielding = bool(np.isfinite(ductility).any())
+    worst_ductility = np.max(ductility, axis=0) if yielding else None
+    return {
+        "yielding": yielding,
+        "ductility_x": None if worst_ductility is None else worst_ductility[:, 0].tolist(),
+        "ductility_y": None if worst_ductility is None else worst_ductility[:, 1].tolist(),
+        "ductility_max": None if worst_ductility is None else float(worst_ductility.max()),
+        "residual_drift_x": np.max(residual, axis=0)[:, 0].tolist(),
+        "residual_drift_y": np.max(residual, axis=0)[:, 1].tolist(),
+        "residual_drift_max": float(residual.max()),
+        "drift_ratio": np.max(drift, axis=0).tolist(),
+        "drift_ratio_max": float(drift.max()),
+        "hysteretic_energy_kNm": float(max(r.hysteretic_energy.mean() for r in results)),
+    }
+
+
+def fixed_base_summary(study, planar, pairs) -> dict:
+    """The code-designed fixed-base building on the plan model under the pairs, the four eccentricities.
+
+    Parameters
+    ----------
+    study : isolation.study_inputs.Study
+        The study (building plan and eccentricity). [-]
+    planar : isolation.structure.ShearBuilding
+        The fixed-base comparison building (yielding unless the study asks for elastic). [-]
+    pairs : isolation.motions.MatchedPairs
+        Matched component pairs. [g]
+
+    Returns
+    -------
+    dict
+        Storey indicators (suite means, worst over the eccentricities): ``ductility_x``,
+        ``ductility_y`` (None when elastic), ``residual_drift_x``/``_y``, ``drift_ratio`` (resultant
+        at the plan corners) per storey and their largest values. [-]
+    """
+    from isolation.dynamics.plan_history import run_plan
+
+    superstructure = plan_superstructure(planar, study.building)
+    results = [_reduced(run_plan(superstructure.shifted(offset), pairs.acceleration, pairs.dt))
+               for offset in _offsets(study.building)]
+    out = _storeys(results)
+    out["storey_law"] = _law(planar)
+    return out
+
+
+def _law(planar) -> str:
+    if getattr(planar, "yield_shears", None) is None:
+        return "elastic"
+    hysteresis = getattr(planar, "hysteresis", "bilinear")
+    note = "" if hysteresis == "bilinear" else f" (the planar model's {hysteresis} law run as bilinear)"
+    return f"bilinear, kinematic hardening {planar.hardening:g}, x and y uncoupled{note}"
 
 
 def plan_bearings(system, case: str, displacement: float) -> tuple:
@@ -126,7 +204,7 @@ def _offsets(building) -> list:
 
 
 def bidirectional_summary(study, alternative, system, structure, base_mass: float, pairs, design_total: float,
-                          design_displacement: float) -> dict:
+                          design_displacement: float, fixed_base: dict | None = None) -> dict:
     """Run one alternative's plan model under the pairs and summarise it for the results and the verdict.
 
     Parameters
@@ -138,7 +216,8 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
     system : isolation.bearings.IsolationSystem
         The alternative's isolation system. [-]
     structure : isolation.dynamics.structure.ShearBuilding
-        Planar superstructure of the study. [-]
+        Planar superstructure above the isolators, with its storey strengths when yielding
+        (:func:`isolation.performance.comparison.isolated_superstructure`). [-]
     base_mass : float
         Mass of the isolation-plane floor. [t]
     pairs : isolation.motions.MatchedPairs
@@ -147,6 +226,8 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
         Single-mode total displacement D_TM. [m]
     design_displacement : float
         Single-mode displacement D_M (for equivalent bilinear rubber). [m]
+    fixed_base : dict, optional
+        :func:`fixed_base_summary` of the study, copied into the result as ``fixed_base``. [-]
 
     Returns
     -------
@@ -161,7 +242,7 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
     positions = bearing_grid((building.plan_length, building.plan_width), grid)
     weight = (base_mass + superstructure.total_mass) * GRAVITY
     cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
-    peaks, axial_min, axial_max, centre, uplift, amplification = [], [], [], [], 0, []
+    peaks, axial_min, axial_max, centre, uplift, amplification, runs = [], [], [], [], 0, [], []
     worst: tuple[float, dict | None] = (-1.0, None)
     for offset in _offsets(building):
         buildings = []
@@ -171,6 +252,7 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
             buildings.append(PlanIsolatedBuilding(superstructure, base_mass, laws, positions,
                                                   gravity_loads=tuple(share), mass_offset=offset))
         for result in run_plan_cases(buildings, pairs.acceleration, pairs.dt):
+            runs.append(_reduced(result))
             peaks.append(result.bearing_displacement_peak.mean(axis=0))
             axial_min.append(result.bearing_axial_force[..., 0].min(axis=0))
             axial_max.append(result.bearing_axial_force[..., 1].max(axis=0))
@@ -211,6 +293,8 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
         "displacement_capacity": capacity,
         "orbit": worst[1],
         "eccentricities_m": [list(o) for o in _offsets(building)],
+        "storeys": dict(_storeys(runs), storey_law=_law(structure)),
+        "fixed_base": fixed_base,
     }
 
 
@@ -229,3 +313,4 @@ def with_bidirectional(figures, summary: dict):
     return replace(figures, total_displacement=summary["total_displacement_governing"],
                    history_displacement=summary["total_displacement_history"],
                    uplift_ratio=summary["uplift_ratio"])
+

@@ -57,7 +57,7 @@ from isolation.study.assembly import (  # noqa: F401 - importable here before
     superstructure,
     verdict_figures,
 )
-from isolation.study.plan import bidirectional_summary, with_bidirectional
+from isolation.study.plan import bidirectional_summary, fixed_base_summary, with_bidirectional
 from isolation.study.results import SCOPE, AlternativeResults, StudyResults, load_results
 from isolation.study.stages import AlternativeDesign, HistorySummary, StudyDesign, alternative_figures, design_study
 
@@ -173,6 +173,7 @@ class _SharedRuns:
     fixed_elastic: Any
     indicators: dict
     base_mass: float
+    fixed_plan: Any = None
 
     @functools.cached_property
     def fixed_statistics(self) -> dict:
@@ -258,7 +259,8 @@ def _shared_runs(study: Study, design: StudyDesign, quick: bool, progress: bool)
         fixed_elastic = run_history(structure, suite.acceleration, suite.dt) if comparison.yielding else fixed
         pairs = (_pair_suite(study, design.spectrum, periods, quick, progress)
                  if study.analysis.bidirectional else None)
-    except (ValueError, RunError) as error:
+        fixed_plan = fixed_base_summary(study, comparison.building, pairs) if pairs is not None else None
+    except (ValueError, RuntimeError) as error:
         raise RunError(f"motion suite / fixed-base history failed: {' '.join(str(error).split())}") from error
     indicators = {
         "fixed": response_indicators(fixed, comparison.design.yield_shears if comparison.yielding else None,
@@ -266,11 +268,11 @@ def _shared_runs(study: Study, design: StudyDesign, quick: bool, progress: bool)
         "fixed_elastic": response_indicators(fixed_elastic, None, thresholds)}
     return _SharedRuns(structure=structure, comparison=comparison, thresholds=thresholds, suite=suite,
                        suite_note=suite_note, pairs=pairs, fixed=fixed, fixed_elastic=fixed_elastic,
-                       indicators=indicators, base_mass=study.building.base_weight / GRAVITY)
+                       indicators=indicators, base_mass=study.building.base_weight / GRAVITY, fixed_plan=fixed_plan)
 
 
 def _isolated_histories(study: Study, design: AlternativeDesign, shared: _SharedRuns, isolators: dict):
-    """Lower- and upper-bound histories of the isolated building, and its storey design."""
+    """Lower- and upper-bound histories of the isolated building, its storey design and its superstructure."""
     from isolation.dynamics.history import run_cases
     from isolation.performance.comparison import isolated_superstructure
 
@@ -281,11 +283,15 @@ def _isolated_histories(study: Study, design: AlternativeDesign, shared: _Shared
     except (ValueError, RunError) as error:
         raise RunError(f"alternative {design.name!r}: response history failed: "
                        f"{' '.join(str(error).split())}") from error
-    return histories, isolated_design
+    return histories, isolated_design, above
 
 
-def _bidirectional(study: Study, design: AlternativeDesign, shared: _SharedRuns):
-    """The plan model's summary under the matched pairs (None when the study does not ask for it)."""
+def _bidirectional(study: Study, design: AlternativeDesign, shared: _SharedRuns, above):
+    """The plan model's summary under the matched pairs (None when the study does not ask for it).
+
+    ``above`` is the superstructure with the isolated design's storey strengths (yielding unless the
+    study asks for elastic), given to the plan model in x and y; the plan fixed base of the shared
+    runs is copied in."""
     if shared.pairs is None:
         return None
     q = design.quantities
@@ -293,8 +299,9 @@ def _bidirectional(study: Study, design: AlternativeDesign, shared: _SharedRuns)
         raise RunError(f"alternative {design.name!r}: bidirectional history needs the code report's maximum and "
                        "total displacement, which it does not give")
     try:
-        return bidirectional_summary(study, design.alternative, design.system, shared.structure, shared.base_mass,
-                                     shared.pairs, q.total_displacement, q.displacement)
+        return bidirectional_summary(study, design.alternative, design.system, above, shared.base_mass,
+                                     shared.pairs, q.total_displacement, q.displacement,
+                                     fixed_base=shared.fixed_plan)
     except (ValueError, RuntimeError) as error:
         raise RunError(f"alternative {design.name!r}: bidirectional history failed: "
                        f"{' '.join(str(error).split())}") from error
@@ -306,7 +313,7 @@ def _judge_alternative(study: Study, study_design: StudyDesign, design: Alternat
     from isolation.performance.comparison import comparison_summary, response_indicators
 
     isolators = design.history_isolators()
-    histories, isolated_design = _isolated_histories(study, design, shared, isolators)
+    histories, isolated_design, above = _isolated_histories(study, design, shared, isolators)
     stats = {case: h.statistics() for case, h in histories.items()}
     strengths = isolated_design.yield_shears if shared.comparison.yielding else None
     indicators = dict(shared.indicators)
@@ -315,7 +322,7 @@ def _judge_alternative(study: Study, study_design: StudyDesign, design: Alternat
         stats, shared.fixed_statistics, design.quantities.torsion_factor,
         comparison_summary(indicators, shared.comparison.design, isolated_design))
     figures = alternative_figures(study, study_design.spectrum, design, summary)
-    bidirectional = _bidirectional(study, design, shared)
+    bidirectional = _bidirectional(study, design, shared, above)
     if bidirectional is not None:
         figures = with_bidirectional(figures, bidirectional)
     judged = _verdict.assess(figures)

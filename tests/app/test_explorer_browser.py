@@ -132,6 +132,20 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
             page.set_viewport_size({"width": 1280, "height": 2600})
             screenshot(page, shots, "03-warning-and-export")
 
+            # The bearing layout: a grid of 10 x 2 and an eccentricity change the per-bearing answers, which
+            # stay the core's (isolation.study.layout.layout_demands through isolation.app.explorer.answers).
+            for field, value, key in (("grid_along", "10", "bearing_axial_min"),
+                                      ("eccentricity", "2", "bearing_displacement_max")):
+                old = _value(page, key)
+                entry = page.locator(f".iso-entry-{field} input")
+                entry.fill(value)
+                entry.press("Tab")
+                _wait_changed(page, key, old)
+            layout = {"grid_along": 10, "eccentricity": 2.0}
+            assert "10 x 2" in page.locator(".iso-layout").inner_text()
+            _assert_core(page, explore.explore(bearing_type="lead rubber", lead_diameter=0.35, outer_diameter=0.4,
+                                               layers=21, **layout))
+
             # US units: every entry converts (none clamped to a slider end), the answer stays.
             page.get_by_role("button", name="US", exact=True).click()
             page.wait_for_function("() => document.querySelector('.iso-summary').innerText.includes('D [in]')",
@@ -143,7 +157,8 @@ def test_explorer_page_follows_input_and_equals_the_core(tmp_path):
                                                                                                      abs=0.001)
             assert float(page.locator(".iso-entry-outer_diameter input").input_value()) == pytest.approx(15.748,
                                                                                                       abs=0.001)
-            expected = explore.explore(bearing_type="lead rubber", lead_diameter=0.35, outer_diameter=0.4, layers=21)
+            expected = explore.explore(bearing_type="lead rubber", lead_diameter=0.35, outer_diameter=0.4, layers=21,
+                                       **layout)
             shown = values(page)
             assert shown["total_displacement"] == pytest.approx(expected.quantities["total_displacement"], rel=1e-4)
             screenshot(page, shots, "04-us-units")

@@ -91,6 +91,13 @@ def test_bidirectional_study_end_to_end(tmp_path):
         assert b["total_displacement_history"] >= b["centre_displacement_history"]  # corners move more
         assert alternative.figures["total_displacement"] == pytest.approx(b["total_displacement_governing"])
         assert alternative.figures["uplift_ratio"] == pytest.approx(b["uplift_ratio"])
+        # storeys carry the code-designed strengths of the planar comparison in x and in y: the fixed base,
+        # designed with R and yielding (issue: fixed-base comparison), yields in both directions
+        fixed = b["fixed_base"]
+        assert fixed["yielding"] and b["storeys"]["yielding"]
+        assert min(max(fixed["ductility_x"]), max(fixed["ductility_y"])) > 1.0
+        assert fixed["drift_ratio_max"] > b["storeys"]["drift_ratio_max"]
+        assert fixed["residual_drift_max"] > 0.0
         # axial loads straddle the gravity share of every bearing
         assert all(lo <= g <= hi for lo, g, hi in zip(b["bearing_axial_min_kN"], b["gravity_load_kN"],
                                                        b["bearing_axial_max_kN"]))
@@ -102,6 +109,8 @@ def test_bidirectional_study_end_to_end(tmp_path):
     governing = results.alternatives[0].history["bidirectional"]["total_displacement_governing"]
     assert table.rows[3][0].startswith("D_TM used by the verdict") and table.rows[3][1] == pytest.approx(governing)
     assert tables.pairs_table(results).rows[0][0] == 1
+    labels = [row[0] for row in table.rows]
+    assert any(label.startswith("Storey ductility demand, fixed base") for label in labels)
     b = results.alternatives[0].history["bidirectional"]
     assert plots.bearing_orbits(b).axes and plots.plan_demand(b, (42.0, 28.0)).axes
     assert plots.pairs_figure(results.live["pairs"]).axes
@@ -126,3 +135,40 @@ def test_batch_overrides_vary_the_layout(tmp_path):
     wrong = apply_overrides(mapping, {"alternative.0.bearings.0.count": 24, "alternative.0.grid": [6, 5]})
     with pytest.raises(StudyError, match=r"alternative\[?.?0\]?.grid"):
         parse_study(wrong, base_dir=tmp_path)
+
+
+def test_plan_superstructure_carries_the_planar_strengths_in_both_directions():
+    # The plan model's storeys take the planar comparison building's yield shears, hardening and P-delta
+    # in x and in y alike (one lateral system given by the study: an assumption stated in the table).
+    from isolation.dynamics.structure import ShearBuilding
+    from isolation.study.plan import plan_superstructure
+
+    study = load_study(DEMO)
+    planar = ShearBuilding([500.0] * 3, [4.0e5] * 3, [3.5] * 3, yield_shears=[3000.0, 2400.0, 1400.0],
+                           hardening=0.03, p_delta=True)
+    plan = plan_superstructure(planar, study.building)
+    assert plan.yield_shears_x == plan.yield_shears_y == planar.yield_shears
+    assert (plan.hardening, plan.p_delta) == (0.03, True)
+    assert not plan_superstructure(planar.with_strengths(None, p_delta=False), study.building).yielding
+
+
+def test_fixed_base_summary_reports_ductility_only_when_storeys_yield():
+    # The plan fixed base under a pair: yielding storeys give ductility in x and y, elastic ones none.
+    import types
+
+    import numpy as np
+
+    from isolation.dynamics.structure import ShearBuilding
+    from isolation.study.plan import fixed_base_summary
+
+    study = load_study(DEMO)
+    rng = np.random.default_rng(1)
+    steps = 1200
+    envelope = np.sin(np.pi * np.arange(steps) / steps) ** 2
+    pairs = types.SimpleNamespace(acceleration=rng.normal(0.0, 0.3, (1, 2, steps)) * envelope, dt=0.005)
+    planar = ShearBuilding([800.0] * 3, [6.0e5] * 3, [3.5] * 3)
+    elastic = fixed_base_summary(study, planar, pairs)
+    assert not elastic["yielding"] and elastic["ductility_x"] is None and elastic["storey_law"] == "elastic"
+    weak = fixed_base_summary(study, planar.with_strengths([400.0, 300.0, 200.0], hardening=0.05), pairs)
+    assert weak["yielding"] and min(weak["ductility_x"]) > 1.0 and min(weak["ductility_y"]) > 1.0
+    assert weak["residual_drift_max"] > elastic["residual_drift_max"]

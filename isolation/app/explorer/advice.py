@@ -80,6 +80,13 @@ def plausibility(answer) -> list[str]:
     if load < 200.0:
         out.append(f"Each bearing carries only {force(load)}: a light building on many bearings; "
                    "wind and restoring force may govern (common practice).")
+    layout = getattr(answer, "layout", None)
+    if layout is not None and layout.in_tension:
+        along, across = layout.grid
+        out.append(f"{layout.in_tension} of {len(layout.gravity)} bearings go into tension under overturning on "
+                   f"this {along} x {across} grid (smallest axial load {force(float(layout.axial_min.min()))}; "
+                   "rigid-base statics): sliders lift off and rubber bearings are pulled. Spread the bearings "
+                   "further apart or check with response histories.")
     upper = answer.results["upper"].period
     if upper < 2.0 * s.fixed_base_period:
         out.append(f"The upper-bound period {upper:.2f} s is less than twice the fixed-base period "

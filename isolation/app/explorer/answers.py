@@ -8,7 +8,9 @@ without a browser:
   and upper property sets, D_M, D_TM, moat, base shears, bearing checks, code
   applicability checks and plausibility warnings;
 * :func:`summary_table`, :func:`summary_html`, :func:`quantities_html`,
-  :func:`checks_html`, :func:`warnings_html` - the answer as tables;
+  :func:`layout_html`, :func:`checks_html`, :func:`warnings_html` - the answer as tables
+  (the layout table: bearing grid, the code's torsion displacement at each bearing and the
+  axial-load range under overturning, from :func:`isolation.study.layout.layout_demands`);
 * :func:`comparison_table` / :func:`comparison_html` - a pinned alternative
   beside the current one;
 * :func:`trade_off` - displacement against base shear while one bearing
@@ -45,6 +47,7 @@ from isolation.app.explorer.tables import (  # noqa: F401 - used as ex._length b
     checks_html,
     comparison_html,
     comparison_table,
+    layout_html,
     quantities_html,
     summary_html,
     summary_table,
@@ -65,6 +68,7 @@ __all__ = [
     "summary_table",
     "summary_html",
     "quantities_html",
+    "layout_html",
     "checks_html",
     "warnings_html",
     "comparison_table",
@@ -108,6 +112,9 @@ class ExplorerSettings:
         Seismic weight on the isolation plane, > 0. [kN]
     bearing_count : int
         Number of identical bearings, >= 1. [-]
+    grid_along : int
+        Bearings along the plan length, a divisor of ``bearing_count`` (the rest across the width),
+        or 0 for the grid of nearly square bays (:func:`isolation.study.plan.default_grid`). [-]
     radius, friction : float
         Friction pendulum: radius of curvature [m] and coefficient of friction [-].
     radius_1, friction_1, radius_2, friction_2 : float
@@ -161,6 +168,7 @@ class ExplorerSettings:
     bearing_type: str = "friction pendulum"
     weight: float = 40_000.0
     bearing_count: int = 20
+    grid_along: int = 0
     radius: float = 3.0
     friction: float = 0.06
     radius_1: float = 2.0
@@ -203,6 +211,13 @@ class ExplorerSettings:
                     or int(value) != value or value < 1:
                 raise ValueError(f"{name} = {value!r} is not allowed: must be a whole number >= 1")
             object.__setattr__(self, name, int(value))
+        along = self.grid_along
+        if isinstance(along, bool) or not isinstance(along, (int, np.integer, float)) or int(along) != along \
+                or along < 0 or (along and self.bearing_count % int(along)):
+            divisors = [d for d in range(1, self.bearing_count + 1) if self.bearing_count % d == 0]
+            raise ValueError(f"grid_along = {along!r} is not allowed: must be 0 (nearly square bays) or a divisor of "
+                             f"the number of bearings {self.bearing_count} ({', '.join(map(str, divisors))})")
+        object.__setattr__(self, "grid_along", int(along))
         for name in ("friction", "friction_1", "friction_2"):
             validate.in_range(name, getattr(self, name), 0.0, 0.3, "-", low_inclusive=False)
         for name in ("radius", "radius_1", "radius_2", "outer_diameter", "lead_diameter", "layer_thickness",
@@ -285,6 +300,10 @@ class ExplorerAnswer:
         Plausibility warnings (:func:`isolation.app.explorer.advice.plausibility`).
     spectrum : spectrum object
         The site spectrum. [g]
+    layout : isolation.study.layout.LayoutDemands
+        Per-bearing displacement and axial-load range of the bearing grid; its extremes are also
+        in ``quantities``: ``bearing_displacement_max`` [m], ``bearing_axial_min``,
+        ``bearing_axial_max`` [kN] and ``bearings_in_tension`` [-].
     """
 
     settings: ExplorerSettings
@@ -295,6 +314,7 @@ class ExplorerAnswer:
     applicability: tuple = ()
     warnings: tuple = ()
     spectrum: Any = None
+    layout: Any = None
 
     @property
     def period_shift(self) -> float:
@@ -350,6 +370,7 @@ def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **valu
     """
     from isolation.app.explorer.advice import plausibility
     from isolation.study.assembly import design_alternative, isolation_system, site_spectrum
+    from isolation.study.layout import layout_demands
 
     chosen = _settings(settings, values)
     study = chosen.study()
@@ -366,10 +387,14 @@ def explore(settings: ExplorerSettings | Mapping[str, Any] | None = None, **valu
     except KeyError:  # EN 1998-1 gives no moat rule here: D plus the same 50 mm clearance (common practice)
         quantities["moat"] = q["total_displacement"] + 0.05
     checks = tuple(system.checks(q["total_displacement"]))
+    layout = layout_demands(study, study.alternatives[0], report, spectrum)
+    quantities.update(bearing_displacement_max=float(layout.displacement.max()),
+                      bearing_axial_min=float(layout.axial_min.min()),
+                      bearing_axial_max=float(layout.axial_max.max()), bearings_in_tension=layout.in_tension)
     answer = ExplorerAnswer(chosen, dict(report.bounds.results), backbones, quantities, checks,
-                            tuple(report.applicability), (), spectrum)
+                            tuple(report.applicability), (), spectrum, layout)
     return ExplorerAnswer(chosen, answer.results, backbones, quantities, checks, answer.applicability,
-                          tuple(plausibility(answer)), spectrum)
+                          tuple(plausibility(answer)), spectrum, layout)
 
 
 
@@ -396,7 +421,7 @@ def build_explorer(settings: ExplorerSettings | None = None):
     ipywidgets.VBox
         The explorer; ``controls`` maps field names to their numeric entries
         (or choice widgets), ``sliders`` to the sliders, ``summary``,
-        ``quantities``, ``checks``, ``warnings`` and ``message`` are HTML
+        ``quantities``, ``bearing_layout``, ``checks``, ``warnings`` and ``message`` are HTML
         widgets, ``figures`` the bqplot figures, ``state`` the current
         settings, answer and pinned answer.
     """

@@ -80,6 +80,8 @@ GROUPS = ("Isolation plane", "Bearing", "Site", "Building", "Property bounds")
 CONTROLS: tuple[Control, ...] = (
     Control("weight", "Seismic weight W", "weight", 5_000.0, 200_000.0, 500.0, "Isolation plane"),
     Control("bearing_count", "Number of bearings n", "-", 4, 200, 1, "Isolation plane", integer=True),
+    Control("grid_along", "Bearings along the length (0: square bays)", "-", 0, 50, 1, "Isolation plane",
+            integer=True),
     Control("radius", "Radius of curvature R", "length", 1.0, 8.0, 0.05, "Bearing", types=("friction pendulum",)),
     Control("friction", "Friction coefficient μ", "-", 0.02, 0.15, 0.005, "Bearing", types=("friction pendulum",)),
     Control("radius_1", "Radius, lower dish R1", "length", 1.0, 6.0, 0.05, "Bearing", types=("double concave",)),

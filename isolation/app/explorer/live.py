@@ -64,6 +64,7 @@ class _Explorer:
         self.message = w.HTML()
         self.warnings = w.HTML()
         self.quantities = w.HTML()
+        self.bearing_layout = w.HTML()
         self.summary = w.HTML()
         self.checks = w.HTML()
         self.comparison = w.HTML()
@@ -194,6 +195,7 @@ class _Explorer:
         results = w.VBox([
             self.message, self.warnings,
             w.HTML("<b>Answer</b>"), self.quantities, self.summary,
+            w.HTML("<b>Bearing layout</b>"), self.bearing_layout,
             w.HBox([self.figures["spectrum"], self.figures["loops"]],
                    layout=w.Layout(flex_flow="row wrap", width="100%")),
             caption("spectrum"), caption("loops"),
@@ -311,6 +313,7 @@ class _Explorer:
         self._draw(answer)
         self.warnings.value = ex.warnings_html(answer)
         self.quantities.value = ex.quantities_html(answer)
+        self.bearing_layout.value = ex.layout_html(answer)
         self.summary.value = ex.summary_html(answer)
         self.checks.value = ex.checks_html(answer)
         self.comparison.value = ex.comparison_html(self.pinned, answer)
@@ -403,7 +406,7 @@ def build(settings: ex.ExplorerSettings):
     """Build the live explorer for ``settings``; returns its root ``ipywidgets.VBox``.
 
     The box carries ``controls`` (numeric entries and choices by field name),
-    ``sliders``, ``summary``, ``quantities``, ``checks``, ``warnings``,
+    ``sliders``, ``summary``, ``quantities``, ``bearing_layout``, ``checks``, ``warnings``,
     ``message``, ``comparison``, ``figures``, ``bearing``, ``basis``, ``units``,
     ``pin``, ``export`` and ``explorer`` (the object holding the state).
     """
@@ -411,7 +414,8 @@ def build(settings: ex.ExplorerSettings):
     box = state.root
     box.explorer = state
     box.controls, box.sliders = state.entries, state.sliders
-    for name in ("summary", "quantities", "checks", "warnings", "message", "comparison", "figures", "bearing",
-                 "basis", "units", "pin", "export", "export_link", "spectrum_marks", "loop_marks", "trade_marks"):
+    for name in ("summary", "quantities", "bearing_layout", "checks", "warnings", "message", "comparison", "figures",
+                 "bearing", "basis", "units", "pin", "export", "export_link", "spectrum_marks", "loop_marks",
+                 "trade_marks"):
         setattr(box, name, getattr(state, name))
     return box

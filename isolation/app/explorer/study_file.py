@@ -46,6 +46,7 @@ STUDY_FIELDS = {  # study key path -> explorer field, for messages
     "alternative[0].property_factors.lower": "lower_factor",
     "alternative[0].property_factors.upper": "upper_factor",
     "alternative[0].bearings[0].count": "bearing_count",
+    "alternative[0].grid": "grid_along",
     "alternative[0].bearings[0].displacement_capacity_1": "displacement_capacity",
     "alternative[0].bearings[0].displacement_capacity_2": "displacement_capacity",
 }
@@ -117,6 +118,8 @@ def study_mapping(settings, *, system: str | None = None, time_step: float | Non
             "bearings": [bearing],
         }],
     }
+    if s.grid_along:
+        mapping["alternative"][0]["grid"] = [int(s.grid_along), int(s.bearing_count) // int(s.grid_along)]
     if time_step is not None:
         mapping["analysis"] = {"time_step": q(time_step, "time")}
     return mapping

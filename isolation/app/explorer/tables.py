@@ -18,7 +18,7 @@ from isolation.codes import registry as _codes
 from isolation.output.plots import COLOURS
 from isolation.output.tables import Table
 
-__all__ = ["summary_table", "summary_html", "quantities_html", "checks_html", "warnings_html",
+__all__ = ["summary_table", "summary_html", "quantities_html", "layout_html", "checks_html", "warnings_html",
            "comparison_table", "comparison_html"]
 
 
@@ -103,6 +103,33 @@ def quantities_html(answer) -> str:
         label = labels.get(key, key)
         rows += f"<tr><th>{html.escape(label)}</th>{_cell(text, key, value)}</tr>"
     return f'<table class="iso-table iso-quantities"><tbody>{rows}</tbody></table>'
+
+
+def layout_html(answer) -> str:
+    """The bearing grid and its per-bearing answers (``data-key`` = quantity name, SI ``data-value``)."""
+    layout = answer.layout
+    if layout is None:
+        return ""
+    s = answer.settings
+    along, across = layout.grid
+    bay = " x ".join(f"{to_display(v, 'length', s.units):.3g}" for v in layout.spacing)
+    d_max = float(layout.displacement.max())
+    shown, unit = _length(d_max, s.units)
+    rows = [
+        ("Bearing grid, along the length x across the width", _cell(f"{along} x {across}", "grid_along", along)),
+        (f"Bay size [{unit_name('length', s.units)}]", f"<td>{html.escape(bay)}</td>"),
+        ("Largest bearing displacement (code torsion formula at each bearing)",
+         _cell(f"{shown:.0f} {unit}" if unit == "mm" else f"{shown:.1f} {unit}", "bearing_displacement_max", d_max)),
+    ]
+    for key, label in (("bearing_axial_min", "Smallest axial load under overturning"),
+                       ("bearing_axial_max", "Largest axial load under overturning")):
+        value = answer.quantities[key]
+        force, f_unit = _force(value, s.units)
+        rows.append((label, _cell(f"{force:,.0f} {f_unit}", key, value)))
+    rows.append(("Bearings in tension (uplift)",
+                 _cell(str(layout.in_tension), "bearings_in_tension", layout.in_tension)))
+    body = "".join(f"<tr><th>{html.escape(label)}</th>{cell}</tr>" for label, cell in rows)
+    return f'<table class="iso-table iso-layout"><tbody>{body}</tbody></table>'
 
 
 def _check_value(value, unit: str, system: str, like=None) -> tuple[str, str]:

@@ -292,6 +292,21 @@ def display_quantity(value: float | None, kind: str, system: str = "SI", digits:
     return f"{format_number(magnitude, digits)} {unit}"
 
 
+def _storey_rows(b: dict) -> tuple:
+    """Rows of storey ductility (largest storey, x / y) and residual drift, isolated and fixed base."""
+    rows = []
+    for label, part in (("isolated", b.get("storeys")), ("fixed base", b.get("fixed_base"))):
+        if not part:
+            continue
+        if part.get("ductility_x") is not None:
+            rows.append((f"Storey ductility demand, {label}, largest storey x / y [-]",
+                         f"{format_number(max(part['ductility_x']))} / {format_number(max(part['ductility_y']))}"))
+        rows.append((f"Residual drift ratio, {label}, largest storey x / y [-]",
+                     f"{format_number(max(part['residual_drift_x']))} / "
+                     f"{format_number(max(part['residual_drift_y']))}"))
+    return tuple(rows)
+
+
 def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
     """Bidirectional (plan-model) results of an alternative against the single-mode D_TM; None when not run."""
     b = _part(alternative, "history").get("bidirectional")
@@ -314,11 +329,13 @@ def bidirectional_table(alternative: Any, system: str = "SI") -> Table | None:
         (f"Smallest axial load on a bearing [{force}]", show(min(b["bearing_axial_min_kN"]), "force")),
         (f"Largest axial load on a bearing [{force}]", show(max(b["bearing_axial_max_kN"]), "force")),
         ("Bearings lifted (sliders, axial load <= 0) [-]", b["uplifted_bearings"]),
-    )
+    ) + _storey_rows(b)
     check = b["pair_check"]
+    law = (b.get("storeys") or {}).get("storey_law", "elastic")
     notes = (f"Plan model: {b['grid'][0]} x {b['grid'][1]} bearings, accidental eccentricity 5 % of the plan "
              f"dimensions, four sign combinations, lower and upper properties; storeys alike in both directions "
-             f"(assumption). Pairs matched by their {check['spectrum']} spectra: suite mean lowest "
+             f"(assumption), storey law {law}, torsion elastic. Pairs matched by their {check['spectrum']} spectra: "
+             f"suite mean lowest "
              f"{check['lowest_mean_ratio']:.3f} of the target, required {check['required_mean_ratio']:.2f}; "
              f"component correlation at most {max(abs(p['correlation']) for p in check['pairs']):.2f}.")
     return Table(columns=("Bidirectional response", "Value"), rows=rows,
