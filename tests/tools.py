@@ -33,3 +33,19 @@ def require_tools(*names: str, skip: bool = True) -> list[str]:
 def require_pdf_tools() -> None:
     """The report's TeX tools and the PDF readers the tests use."""
     require_tools(*report.missing_tools(), *PDF_READERS)
+
+
+class LinearSystem:
+    """Test double: constant effective stiffness [kN/m] and damping [-]."""
+
+    def __init__(self, stiffness, damping):
+        self.stiffness, self.damping = stiffness, damping
+
+    def effective_stiffness(self, d):
+        return self.stiffness
+
+    def effective_damping(self, d):
+        return self.damping
+
+    def force(self, d):
+        return self.stiffness * d

@@ -15,6 +15,7 @@ import pytest
 from isolation.codes.citations import Citation, citations, package_citations
 from isolation.codes.clauses import CLAUSES, STATUSES, Clause, find_clause
 from isolation.output.tables import clause_table
+from tools import LinearSystem
 
 ROOT = Path(__file__).resolve().parents[2]
 KEYS = {c.key for c in CLAUSES}
@@ -120,22 +121,6 @@ def test_find_clause_defaults_to_the_edition_followed():
 
 
 # --- run-time sources: report items, checks, verdict sources ----------------------------------------
-
-class LinearSystem:
-    """Test double: constant effective stiffness [kN/m] and damping [-]."""
-
-    def __init__(self, stiffness, damping):
-        self.stiffness, self.damping = stiffness, damping
-
-    def effective_stiffness(self, d):
-        return self.stiffness
-
-    def effective_damping(self, d):
-        return self.damping
-
-    def force(self, d):
-        return self.stiffness * d
-
 
 def _sets(period=3.0, damping=0.2, weight=10000.0):
     # k from T = 2 pi sqrt(W/(k g)) (ASCE/SEI 7-16 Eq. 17.5-2).

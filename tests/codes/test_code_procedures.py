@@ -21,25 +21,10 @@ from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum
 from isolation.study import StudyError, apply_overrides, parse_study, read_study_mapping
 from isolation.study.assembly import fixed_base_period
 from isolation.verdict.sources import drift_limit, eurocode_reduction_factor
+from tools import LinearSystem
 
 G = 9.80665
 DEMO = Path(__file__).resolve().parents[2] / "examples" / "demo_study.toml"
-
-
-class LinearSystem:
-    """Test double: constant effective stiffness [kN/m] and damping [-]."""
-
-    def __init__(self, stiffness, damping):
-        self.stiffness, self.damping = stiffness, damping
-
-    def effective_stiffness(self, d):
-        return self.stiffness
-
-    def effective_damping(self, d):
-        return self.damping
-
-    def force(self, d):
-        return self.stiffness * d
 
 
 def stiffness_for_period(weight, period):

@@ -29,24 +29,9 @@ from isolation.codes.eurocode import (
 from isolation.design import design_bounds, equivalent_linear
 from isolation.errors import RunError
 from isolation.site.spectra import CodeSpectrum, EurocodeSpectrum, TabulatedSpectrum
+from tools import LinearSystem
 
 G = 9.80665
-
-
-class LinearSystem:
-    """Test double: constant effective stiffness [kN/m] and damping [-]."""
-
-    def __init__(self, stiffness, damping):
-        self.stiffness, self.damping = stiffness, damping
-
-    def effective_stiffness(self, d):
-        return self.stiffness
-
-    def effective_damping(self, d):
-        return self.damping
-
-    def force(self, d):
-        return self.stiffness * d
 
 
 class SlidingConstantDamping(LinearSystem):
