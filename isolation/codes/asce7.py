@@ -159,8 +159,9 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
                                   height=building.structural_height, frame=building.frame,
                                   importance=building.importance, s1=building.s1)
     items += [
+        # T_a reaches fixed_base_shear as its period argument, where it would be noted as "given"
         Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs,
-             comparison.period_source),
+             comparison.period_source if building.fixed_base_period else f"T_a, {ASCE} Eq. 12.8-7"),
         Item("ratio isolated/fixed-base design shear", "V_s/V_fb", shears["V_s"] / comparison.base_shear, "-",
              "V_s over §12.8 V"),
     ]

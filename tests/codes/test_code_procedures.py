@@ -1476,6 +1476,10 @@ def test_elf_eq_12_8_6_at_t_m_and_for_the_fixed_base_comparison():
     # A given period above C_u T_a is capped, and the note says so: 3 s > 1.4 x 1.91 s (Table 12.8-1).
     capped = asce7_elf(sets(), building(s1=0.75, frame="steel_moment", height=60.0, fixed_base_period=3.0), SPECTRUM)
     assert {i.symbol: i.note for i in capped.quantities}["V_fb"].startswith("given, capped at C_u T_a")
+    # Without a given period, the comparison runs at T_a (Eq. 12.8-7) and the note says so, not "given".
+    approximate = asce7_elf(sets(), building(s1=0.75, frame="steel_moment", height=60.0, fixed_base_period=None),
+                            SPECTRUM)
+    assert "Eq. 12.8-7" in {i.symbol: i.note for i in approximate.quantities}["V_fb"]
     assert capped.building.height == 60.0 and capped.fixed_base.period == pytest.approx(1.4 * 0.0724 * 60.0**0.8)
 
 
