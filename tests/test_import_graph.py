@@ -8,12 +8,13 @@ never run and are left out.
 
 * At module level (the imports that run when a module is loaded) the graph of
   the whole package has no cycle.
-* Counting the imports inside functions too, no cycle passes through
-  ``isolation.bearings`` and none lies within ``isolation.output.tables``
-  (where issue 9 found friction <-> double_concave, rubber -> damping_rubber
-  -> system -> rubber and symbols <-> table). Elsewhere some modules still
-  defer an import into a function (or a module ``__getattr__``) that closes a
-  cycle; those are not judged here.
+* Counting the imports inside functions too (and in a module ``__getattr__``),
+  the graph of the whole package has no cycle either, but for the exceptions
+  listed in :data:`DEFERRED_BY_DESIGN`, each with its reason. (Issue 9 found
+  friction <-> double_concave, rubber -> damping_rubber -> system -> rubber
+  and symbols <-> table, then ten more made when long modules were split and
+  the old module re-exported the new one while the new one imported back
+  inside a function; the shared pieces now live in the lower module.)
 * Each module of those two packages imports alone in a fresh interpreter (and,
   in the slow run, every module of the package).
 
@@ -89,7 +90,10 @@ def _edges(name: str, top_level: bool) -> set[str]:
 
 def _cycles(top_level: bool) -> list[list[str]]:
     """Strongly connected components with more than one module (Tarjan 1972)."""
-    graph = {name: _edges(name, top_level) for name in MODULES}
+    return _cycles_of({name: _edges(name, top_level) for name in MODULES})
+
+
+def _cycles_of(graph: dict[str, set[str]]) -> list[list[str]]:
     index: dict[str, int] = {}
     low: dict[str, int] = {}
     stack: list[str] = []
@@ -135,10 +139,36 @@ def test_no_import_circle_at_module_level():
     assert _cycles(top_level=True) == []
 
 
-def test_no_import_circle_through_bearings_or_within_tables_even_inside_functions():
-    cycles = _cycles(top_level=False)
-    assert [c for c in cycles if any(m.startswith("isolation.bearings") for m in c)] == []
-    assert [c for c in cycles if all(m.startswith("isolation.output.tables") for m in c)] == []
+DEFERRED_BY_DESIGN = {
+    # importer -> imported: why the import waits for the call
+    ("isolation.app.explorer.answers", "isolation.app.explorer.live"):
+        "answers.build_explorer (public since the explorer came, called by workbooks/explore.ipynb) opens "
+        "the widget wiring, which is built on answers; the calculations import without the widget layer",
+}
+"""Function-level imports that close a cycle on purpose, with the reason."""
+
+
+def _cycles_without(exceptions) -> list[list[str]]:
+    graph = {name: _edges(name, False) for name in MODULES}
+    for importer, imported in exceptions:
+        graph[importer].discard(imported)
+    return _cycles_of(graph)
+
+
+def test_the_exceptions_are_real_function_level_imports():
+    # an exception that no longer exists (or became a module-level import) must leave the list
+    for importer, imported in DEFERRED_BY_DESIGN:
+        assert imported in _edges(importer, False)
+        assert imported not in _edges(importer, True)
+
+
+def test_no_import_circle_even_inside_functions():
+    assert _cycles_without(DEFERRED_BY_DESIGN) == []
+
+
+def test_the_graph_reader_finds_a_cycle_closed_inside_a_function():
+    # the exception above does close a cycle: the check would see one if it were not listed
+    assert ["isolation.app.explorer.answers", "isolation.app.explorer.live"] in _cycles(top_level=False)
 
 
 def _imports_alone(name: str) -> tuple[str, str]:

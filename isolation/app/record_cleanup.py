@@ -17,6 +17,8 @@ import time
 from pathlib import Path
 from typing import Any
 
+from isolation.app.record_folder import _now, _write_json, read_manifest
+
 __all__ = ["ABANDONED", "mark_stale_partials", "stale_items", "clean_records"]
 
 ABANDONED = ("abandoned: the run stopped before its record was complete (killed, machine stopped "
@@ -37,8 +39,6 @@ def _pid_alive(pid: Any) -> bool:
 
 def _is_stale(partial: Path) -> bool:
     """A hidden ``.partial`` folder whose run is over (its process is gone or it says so)."""
-    from isolation.app.calc_records import read_manifest
-
     manifest = read_manifest(partial)
     if manifest.get("status") != "running":
         return True
@@ -71,8 +71,6 @@ def mark_stale_partials(parent: str | Path) -> list[Path]:
     list of Path
         The folders marked.
     """
-    from isolation.app.calc_records import _now, _write_json, read_manifest
-
     marked: list[Path] = []
     folder = Path(parent)
     if not folder.is_dir():

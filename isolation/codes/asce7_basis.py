@@ -20,6 +20,7 @@ import numpy as np
 
 from isolation import validate
 from isolation.codes.basis import CodeBasis, SuiteRules
+from isolation.codes.damping_rule_names import ASCE7_RULE
 from isolation.codes.lateral_systems import FRAMES, LATERAL_SYSTEM_ROWS
 from isolation.site.damping import _b_m
 
@@ -82,7 +83,7 @@ class Asce7Basis(CodeBasis):
 
     name: str = "asce7"
     title: str = _ASCE
-    damping_rule: str = "asce7"
+    damping_rule: str = ASCE7_RULE
     site_keys: tuple = ("sms", "sm1", "long_period")
     site_class_key: str = "site_class"
     site_class_word: str = "site class"

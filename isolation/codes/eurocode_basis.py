@@ -21,6 +21,7 @@ import numpy as np
 
 from isolation import validate
 from isolation.codes.basis import CodeBasis, SuiteRules
+from isolation.codes.damping_rule_names import EUROCODE_RULE
 from isolation.codes.lateral_systems import FRAMES, LATERAL_SYSTEM_ROWS
 from isolation.site.damping import _eta
 
@@ -111,7 +112,7 @@ class EurocodeBasis(CodeBasis):
 
     name: str = "eurocode"
     title: str = "EN 1998-1"
-    damping_rule: str = "eurocode"
+    damping_rule: str = EUROCODE_RULE
     site_keys: tuple = ("ag", "spectrum_type")
     site_class_key: str = "ground_type"
     site_class_word: str = "ground type"

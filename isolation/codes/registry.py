@@ -14,6 +14,7 @@ Outside :mod:`isolation.codes` no module compares a basis name: it asks the obje
 from __future__ import annotations
 
 import importlib
+import pathlib
 import pkgutil
 from collections.abc import Mapping, Sequence
 from importlib import metadata
@@ -49,13 +50,14 @@ def _load() -> None:
     if _LOADED:
         return
     _LOADED = True
-    from isolation import codes as package
     from isolation.codes.basis import CodeBasis
 
-    for info in sorted(pkgutil.iter_modules(package.__path__), key=lambda m: m.name):
+    # the modules beside this one (the package's folder), found without importing the package back
+    package = __name__.rpartition(".")[0]
+    for info in sorted(pkgutil.iter_modules([str(pathlib.Path(__file__).parent)]), key=lambda m: m.name):
         if not info.name.endswith(_MODULE_SUFFIX):
             continue
-        module = importlib.import_module(f"{package.__name__}.{info.name}")
+        module = importlib.import_module(f"{package}.{info.name}")
         for value in vars(module).values():
             if isinstance(value, CodeBasis) and type(value).__module__ == module.__name__:
                 _REGISTRY.setdefault(value.name, value)

@@ -46,6 +46,7 @@ leaves no half-written file.
 
 from __future__ import annotations
 
+import json
 import re
 from dataclasses import dataclass
 from pathlib import Path
@@ -55,6 +56,7 @@ import numpy as np
 
 from isolation.motions.measures import intensity_measures
 from isolation.motions.spectrum import ACCELERATION_UNITS
+from isolation.motions.suite_io import FORMAT_NAME, write_suite  # noqa: F401 - re-exported
 from isolation.validate import one_of, positive
 
 __all__ = [
@@ -67,7 +69,6 @@ __all__ = [
     "FORMAT_NAME",
 ]
 
-FORMAT_NAME = "isolation accelerogram v1"
 _NUMBER = r"([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)"
 _STEP_PATTERN = re.compile(r"\b(?:dt|time[ _-]?step|delta[ _-]?t|sampling[ _-]?interval)\b\s*[=:]?\s*" + _NUMBER
                            + r"(?:[dD]([-+]?\d+))?\s*([A-Za-z\u00b5]+)?", re.I)
@@ -420,4 +421,23 @@ def read_accelerogram(path: Any, units: str | None = None, *, layout: str = "aut
     return read_text_accelerogram(path, units, **options)
 
 
-from isolation.motions.suite_io import read_suite_records, write_suite  # noqa: E402 - re-exported
+
+def read_suite_records(metadata_path: Any) -> list[Accelerogram]:
+    """Read back the records listed in a suite's JSON metadata file.
+
+    Parameters
+    ----------
+    metadata_path : str or Path
+        The ``<name>.json`` written by :func:`write_suite`.
+    """
+    file = Path(metadata_path)
+    if not file.is_file():
+        raise ValueError(f"metadata_path = {str(file)!r} is not allowed: must be an existing file")
+    try:
+        metadata = json.loads(file.read_text(encoding="utf-8"))
+    except json.JSONDecodeError as error:
+        raise ValueError(f"{file}: line {error.lineno}: not valid JSON ({error.msg})") from None
+    if metadata.get("format") != FORMAT_NAME or not isinstance(metadata.get("files"), list):
+        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a "
+                         "'files' list")
+    return [read_text_accelerogram(file.parent / name) for name in metadata["files"]]

@@ -1,9 +1,8 @@
 """A matched suite on disk: one accelerogram file per record plus a metadata file.
 
 :func:`write_suite` writes our own format (``isolation accelerogram v1``,
-:data:`isolation.motions.records_io.FORMAT_NAME`) atomically;
-:func:`read_suite_records` reads a suite back. Re-exported from
-:mod:`isolation.motions.records_io`.
+:data:`FORMAT_NAME`) atomically; :func:`isolation.motions.records_io.read_suite_records`
+reads a suite back. Both names are re-exported from :mod:`isolation.motions.records_io`.
 """
 
 from __future__ import annotations
@@ -13,14 +12,14 @@ import os
 import re
 import tempfile
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 import numpy as np
 
-if TYPE_CHECKING:
-    from isolation.motions.records_io import Accelerogram
+__all__ = ["write_suite", "FORMAT_NAME"]
 
-__all__ = ["write_suite", "read_suite_records"]
+FORMAT_NAME = "isolation accelerogram v1"
+"""The first line of our accelerogram files; the ``format`` of a suite's metadata."""
 
 
 def _check_name(name: str) -> str:
@@ -46,8 +45,6 @@ def write_suite(suite: Any, folder: Any = "records/motions", name: str = "suite"
     list of Path
         The record files followed by the metadata file.
     """
-    from isolation.motions.records_io import FORMAT_NAME
-
     stem = _check_name(name)
     target = Path(folder)
     target.mkdir(parents=True, exist_ok=True)
@@ -94,26 +91,3 @@ def write_suite(suite: Any, folder: Any = "records/motions", name: str = "suite"
                 os.remove(temp_name)
         raise
     return list(texts)
-
-
-def read_suite_records(metadata_path: Any) -> list[Accelerogram]:
-    """Read back the records listed in a suite's JSON metadata file.
-
-    Parameters
-    ----------
-    metadata_path : str or Path
-        The ``<name>.json`` written by :func:`write_suite`.
-    """
-    from isolation.motions.records_io import FORMAT_NAME, read_text_accelerogram
-
-    file = Path(metadata_path)
-    if not file.is_file():
-        raise ValueError(f"metadata_path = {str(file)!r} is not allowed: must be an existing file")
-    try:
-        metadata = json.loads(file.read_text(encoding="utf-8"))
-    except json.JSONDecodeError as error:
-        raise ValueError(f"{file}: line {error.lineno}: not valid JSON ({error.msg})") from None
-    if metadata.get("format") != FORMAT_NAME or not isinstance(metadata.get("files"), list):
-        raise ValueError(f"{file}: format = {metadata.get('format')!r} is not allowed: must be {FORMAT_NAME!r} with a "
-                         "'files' list")
-    return [read_text_accelerogram(file.parent / name) for name in metadata["files"]]

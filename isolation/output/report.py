@@ -35,7 +35,13 @@ from typing import Any, Mapping
 
 from isolation.errors import RunError
 from isolation.files import write_bytes_atomic
-from isolation.output.report_html import _SCOPE_HTML, _md_cell, _render_html  # noqa: F401 - its own module
+from isolation.output.report_html import (  # noqa: F401 - defined there
+    _SCOPE_HTML,
+    _caption_figures_as_text,
+    _md_cell,
+    _nbformat,
+    _render_html,
+)
 from isolation.validate import one_of
 
 __all__ = [
@@ -76,14 +82,6 @@ ENGINES = ("typst", "latex")
 """PDF engines, the default first."""
 
 _XELATEX_RUNS = 2  # table of contents and "page N of M" settle on the second run
-
-
-def _nbformat():
-    # Imported when a report is made, not when a workbook imports title_block: nbformat's
-    # schema validation imports take about a second, in every kernel that imports this module.
-    import nbformat
-
-    return nbformat
 
 
 class PdfUnavailableWarning(UserWarning):
@@ -209,24 +207,6 @@ def _console_only(output) -> bool:
     if kind in ("display_data", "execute_result"):
         return set(output.get("data", {})) <= {"text/plain"}
     return False
-
-
-def _caption_figures_as_text(nb) -> None:
-    """For HTML: put each figure's caption, numbered, under the figure."""
-    number = 0
-    for cell in nb.cells:
-        if cell.cell_type != "code":
-            continue
-        outputs = []
-        for output in cell.get("outputs", []):
-            outputs.append(output)
-            caption = output.get("metadata", {}).get("image/png", {}).get("caption")
-            if caption and "image/png" in output.get("data", {}):
-                number += 1
-                outputs.append(_nbformat().v4.new_output(
-                    "display_data", data={"text/markdown": f"*Figure {number}: {_md_cell(caption)}*"}
-                ))
-        cell.outputs = outputs
 
 
 def render(

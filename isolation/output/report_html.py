@@ -25,10 +25,16 @@ _SCOPE_HTML = (
 )
 
 
+def _nbformat():
+    # Imported when a report is made, not when a workbook imports title_block: nbformat's
+    # schema validation imports take about a second, in every kernel that imports this module.
+    import nbformat
+
+    return nbformat
+
+
 def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
     from nbconvert import HTMLExporter
-
-    from isolation.output.report import _caption_figures_as_text, _nbformat
 
     labels = {
         "project": "Project", "client": "Client", "date": "Date", "revision": "Revision",
@@ -57,3 +63,21 @@ def _render_html(nb, target: Path, fields: dict[str, str]) -> Path:
 
 def _md_cell(text: str) -> str:
     return re.sub(r"([|\\*_`])", r"\\\1", str(text))
+
+
+def _caption_figures_as_text(nb) -> None:
+    """For HTML: put each figure's caption, numbered, under the figure."""
+    number = 0
+    for cell in nb.cells:
+        if cell.cell_type != "code":
+            continue
+        outputs = []
+        for output in cell.get("outputs", []):
+            outputs.append(output)
+            caption = output.get("metadata", {}).get("image/png", {}).get("caption")
+            if caption and "image/png" in output.get("data", {}):
+                number += 1
+                outputs.append(_nbformat().v4.new_output(
+                    "display_data", data={"text/markdown": f"*Figure {number}: {_md_cell(caption)}*"}
+                ))
+        cell.outputs = outputs

@@ -38,8 +38,7 @@ from typing import Any, Mapping
 import numpy as np
 
 from isolation import GRAVITY, validate
-from isolation.codes.asce7_basis import ASCE7 as _ASCE7
-from isolation.codes.eurocode_basis import EUROCODE as _EUROCODE
+from isolation.codes.damping_rule_names import ASCE7_RULE, EUROCODE_RULE
 from isolation.codes.registry import DEFAULT_BASIS
 from isolation.site.damping import RULES, _checked_array, _unwrap, damping_coefficient, eurocode_eta, rules
 
@@ -188,7 +187,7 @@ class CodeSpectrum(_Spectrum):
     long_period: float = 8.0
     level: str = "MCE_R"
     max_period: float = 10.0
-    rule: str = _ASCE7.damping_rule
+    rule: str = ASCE7_RULE
 
     def __post_init__(self) -> None:
         sms = validate.positive("sms", self.sms, "g")
@@ -323,7 +322,7 @@ class EurocodeSpectrum(_Spectrum):
     ground: str = "C"
     spectrum_type: int = 1
     importance: float = 1.0
-    rule: str = field(default=_EUROCODE.damping_rule)
+    rule: str = field(default=EUROCODE_RULE)
     max_period: float = field(default=4.0, kw_only=True)
 
     def __post_init__(self) -> None:
@@ -390,7 +389,7 @@ class EurocodeSpectrum(_Spectrum):
             Pseudo-acceleration. [g]
         """
         chosen = self.rule if rule is None else validate.one_of("rule", rule, rules())
-        if chosen != _EUROCODE.damping_rule:
+        if chosen != EUROCODE_RULE:
             return super().sa(period, damping, rule=chosen)
         t = self._periods(period)
         return _unwrap(np.asarray(self._shape(t, np.asarray(eurocode_eta(damping))), dtype=float))

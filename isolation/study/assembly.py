@@ -22,75 +22,22 @@ from __future__ import annotations
 
 import numpy as np
 
-from isolation import GRAVITY
 from isolation import codes as _codes
 from isolation import verdict as _verdict
 from isolation.codes.eurocode_basis import EUROCODE_MAX_PERIOD, EUROCODE_SPECTRUM_NOTE
-from isolation.study import Alternative, Study
+from isolation.study.blocks import (  # noqa: F401 - re-exported
+    design_alternative,
+    fixed_base_period,
+    isolation_system,
+    site_spectrum,
+    superstructure,
+)
+from isolation.study.checks import MAX_SUBSTEPS, check_study  # noqa: F401 - re-exported
 
 __all__ = ["site_spectrum", "isolation_system", "fixed_base_period", "superstructure", "check_study",
            "bearing_uplift_check", "overturning_inputs",
            "design_alternative", "verdict_figures", "history_isolator", "history_summary",
            "EUROCODE_MAX_PERIOD", "EUROCODE_SPECTRUM_NOTE"]
-
-
-def site_spectrum(study: Study):
-    """The study's MCE_R (ASCE 7) or elastic (Eurocode) site spectrum object.
-
-    A Eurocode spectrum answers up to :data:`EUROCODE_MAX_PERIOD` (its 1/T^2
-    branch extended beyond 4 s, see :class:`isolation.site.spectra.EurocodeSpectrum`)
-    so that motion matching reaches twice the isolated period.
-    """
-    from isolation.site.spectra import TabulatedSpectrum
-
-    site = study.site
-    code = _codes.get(study.basis)
-    if site.spectrum_periods:
-        return TabulatedSpectrum(site.spectrum_periods, site.spectrum_values, rule=code.damping_rule)
-    return code.site_spectrum(site, study.building.importance)
-
-
-def isolation_system(alternative: Alternative):
-    """Bearing groups and property factors of one alternative (each bearing built by its registered type)."""
-    from isolation.bearings import BearingGroup, IsolationSystem, PropertyBound, PropertyFactors
-    from isolation.bearings.registry import bearing_type
-
-    groups = []
-    for i, spec in enumerate(alternative.bearings):
-        bearing = bearing_type(spec.type).create(spec.properties)
-        groups.append(BearingGroup(bearing, spec.count, spec.axial_load,
-                                   name=f"group {i + 1} ({spec.type.replace('_', ' ')})"))
-    bound = PropertyBound(alternative.lower_factor, alternative.upper_factor)
-    return IsolationSystem(tuple(groups), PropertyFactors(stiffness=bound, strength=bound, friction=bound))
-
-
-def fixed_base_period(study: Study) -> tuple[float, str]:
-    """Fixed-base period [s] and where it came from (given or the code's estimate)."""
-    building = study.building
-    if building.fixed_base_period is not None:
-        return building.fixed_base_period, "given in the study"
-    return _codes.get(study.basis).fixed_base_period(building.height, building.lateral_system)
-
-
-def superstructure(study: Study):
-    """Shear building above the isolators: floor masses [t], storey heights [m],
-    storey stiffnesses falling linearly with height, scaled to the fixed-base period."""
-    from isolation.dynamics.structure import ShearBuilding
-
-    building = study.building
-    masses = [w / GRAVITY for w in building.floor_weights]
-    period, _ = fixed_base_period(study)
-    return ShearBuilding.from_period(period, masses, building.storey_heights, profile="linear",
-                                     damping=building.damping)
-
-
-def design_alternative(study: Study, sets: dict, system, spectrum, t_fb: float, bounds=None):
-    """Code report for all property sets; returns (report, quantities, elf_permitted, elf_reasons).
-
-    ``bounds`` (a :class:`isolation.design.BoundsResult` of ``sets`` under ``spectrum`` with the
-    basis's damping rule) skips the equivalent-linear iteration (array sweeps compute it for many
-    alternatives at once)."""
-    return _codes.get(study.basis).design_answer(study, sets, system, spectrum, t_fb, bounds).as_tuple()
 
 
 def history_isolator(backbone, result, system=None, case: str = "nominal"):
@@ -283,5 +230,3 @@ def _period_note(study, spectrum, t_fb: float, t_m: float) -> str:
         return "T_fb given in the study"
     return _codes.get(study.basis).period_note(spectrum, t_fb, t_m)
 
-
-from isolation.study.checks import MAX_SUBSTEPS, check_study  # noqa: E402, F401 - re-exported; checks uses this module

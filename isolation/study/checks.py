@@ -15,6 +15,14 @@ from __future__ import annotations
 import numpy as np
 
 from isolation.study import Study
+from isolation.study.blocks import (
+    design_alternative,
+    fixed_base_period,
+    isolation_system,
+    site_spectrum,
+    superstructure,
+)
+from isolation.study.suite_settings import suite_options
 
 __all__ = ["check_study", "MAX_SUBSTEPS"]
 
@@ -29,7 +37,6 @@ def check_study(study: Study, *, design: bool = True) -> None:
     run would meet because of its input is found here.
     """
     from isolation.errors import InputError
-    from isolation.study.assembly import isolation_system, superstructure
 
     _remembered(("time step", study.basis, study.building, study.analysis),
                 lambda: _check_time_step(study, superstructure(study)))
@@ -80,7 +87,6 @@ def _store(text: str, entry: tuple) -> None:
 def _check_design(study: Study, systems: list) -> None:
     """Each alternative's code design, and its isolated periods against the motion suite."""
     from isolation.errors import InputError, RunError
-    from isolation.study.assembly import design_alternative, fixed_base_period, site_spectrum
 
     spectrum = site_spectrum(study)
     t_fb, source = fixed_base_period(study)
@@ -135,7 +141,6 @@ def _uncovered(study: Study, spectrum, pair: tuple) -> bool | None:
     """The first suite setting (quick False, then True) whose matched band cannot hold the check range
     around the isolated periods ``pair`` (T_M upper, T_M lower) [s]; None when both can."""
     from isolation.motions.matching import _band
-    from isolation.study.runner import suite_options
 
     for quick in (False, True):
         options, _ = suite_options(study, spectrum, pair, quick)

@@ -48,6 +48,8 @@ from isolation.app.batch.history_motions import (  # noqa: F401 - FIXED_FILE, SO
     MOTIONS_FOLDER,
     SOURCE_FILE,
     SUITE_NAME,
+    _comparison,
+    _fixed_runs,
     _load,
     _structure_fingerprint,
     _suite_hash,
@@ -56,13 +58,8 @@ from isolation.app.batch.history_motions import (  # noqa: F401 - FIXED_FILE, SO
 )
 from isolation.app.batch.rows import rows_from_results
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
-from isolation.app.batch.sweep import (
-    _alternative_key,
-    _bounds_each,
-    _context_key,
-    fixed_base_elastic_shear,
-    variant_study,
-)
+from isolation.app.batch.sweep import _bounds_each, fixed_base_elastic_shear
+from isolation.app.batch.variants import _alternative_key, _context_key, variant_study
 
 __all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
            "history_chunk", "history_rows"]
@@ -273,28 +270,6 @@ def _run_todo(todo: dict, acc: np.ndarray, dt: float) -> dict:
                 except Exception as error:  # noqa: BLE001
                     judged[key] = error
     return judged
-
-
-def _comparison(study, spectrum, structure, period):
-    """The code-designed fixed-base comparison building of a study (as the study run builds it)."""
-    from isolation.performance.comparison import fixed_base_comparison
-
-    return fixed_base_comparison(study, spectrum, structure, period)
-
-
-def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dict:
-    """Statistics of the comparison fixed base and indicators of it and of the elastic fixed base."""
-    from isolation.dynamics.history import run
-    from isolation.performance.comparison import response_indicators, thresholds_of
-    from isolation.plain import plain
-
-    thresholds = thresholds_of(study)
-    fixed = run(comparison.building, acc, dt)
-    elastic = run(structure, acc, dt) if comparison.yielding else fixed
-    strengths = comparison.design.yield_shears if comparison.yielding else None
-    return {"statistics": plain(fixed.statistics()),
-            "indicators": plain({"fixed": response_indicators(fixed, strengths, thresholds),
-                                 "fixed_elastic": response_indicators(elastic, None, thresholds)})}
 
 
 def _fixed(study, comparison, structure, fingerprint: str, fixed_file: Mapping, acc: np.ndarray,

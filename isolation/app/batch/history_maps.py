@@ -3,7 +3,7 @@
 :func:`plot_history_maps` contours the peak isolator displacement and the
 floor-acceleration reduction over two varied keys for both bounds, hatches
 the variants that are not feasible (:func:`feasible`) and stars
-:func:`best_history_alternatives`. Answered from :mod:`isolation.app.batch.maps` too.
+:func:`best_history_alternatives`. Re-exported by :mod:`isolation.app.batch.maps`.
 
 Scope: a screening view for a feasibility study; the listed alternatives are
 candidates for a full study, checked by a licensed structural engineer
@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from typing import Iterable
 
-from isolation.app.batch.maps import _number, _sort_key, completed_rows, verdict_rank
+from isolation.app.batch.map_rows import _number, _sort_key, completed_rows, verdict_rank
 
 __all__ = ["HISTORY_FIELDS", "history_rows", "grid_field", "feasible", "history_front", "best_history_alternatives",
            "plot_history_maps", "best_history_table"]

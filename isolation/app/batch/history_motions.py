@@ -88,8 +88,7 @@ def prepare_motions(plan, out_dir: str | Path, *, motions: str | Path | None = N
         A motions file that cannot be read, or a time step too coarse for the
         superstructure.
     """
-    from isolation.app.batch.histories import _comparison, _fixed_runs
-    from isolation.app.batch.sweep import variant_study
+    from isolation.app.batch.variants import variant_study
     from isolation.errors import InputError
     from isolation.files import write_text_atomic
     from isolation.study import assembly as model
@@ -181,3 +180,25 @@ def with_motions(hashes: Mapping[str, str], motions: Mapping[str, Any]) -> dict[
     """
     return {key: hashlib.sha256(f"{value}:{motions['motions_hash']}".encode("ascii")).hexdigest()
             for key, value in hashes.items()}
+
+
+def _comparison(study, spectrum, structure, period):
+    """The code-designed fixed-base comparison building of a study (as the study run builds it)."""
+    from isolation.performance.comparison import fixed_base_comparison
+
+    return fixed_base_comparison(study, spectrum, structure, period)
+
+
+def _fixed_runs(study, comparison, structure, acc: np.ndarray, dt: float) -> dict:
+    """Statistics of the comparison fixed base and indicators of it and of the elastic fixed base."""
+    from isolation.dynamics.history import run
+    from isolation.performance.comparison import response_indicators, thresholds_of
+    from isolation.plain import plain
+
+    thresholds = thresholds_of(study)
+    fixed = run(comparison.building, acc, dt)
+    elastic = run(structure, acc, dt) if comparison.yielding else fixed
+    strengths = comparison.design.yield_shears if comparison.yielding else None
+    return {"statistics": plain(fixed.statistics()),
+            "indicators": plain({"fixed": response_indicators(fixed, strengths, thresholds),
+                                 "fixed_elastic": response_indicators(elastic, None, thresholds)})}

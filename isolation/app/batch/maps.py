@@ -21,9 +21,19 @@ against the local code.
 
 from __future__ import annotations
 
-import math
 from typing import Iterable
 
+from isolation.app.batch.history_maps import (  # noqa: F401 - public here since the history maps came
+    HISTORY_FIELDS,
+    best_history_alternatives,
+    best_history_table,
+    feasible,
+    grid_field,
+    history_front,
+    history_rows,
+    plot_history_maps,
+)
+from isolation.app.batch.map_rows import VERDICT_ORDER, _number, _sort_key, completed_rows, verdict_rank
 from isolation.app.batch.summary import HISTORY_COLUMNS, RESULT_COLUMNS, TAIL_COLUMNS
 
 __all__ = [
@@ -41,9 +51,16 @@ __all__ = [
     "reduction_text",
     "variant_text",
     "missing_summary_text",
+    "HISTORY_FIELDS",
+    "history_rows",
+    "grid_field",
+    "feasible",
+    "history_front",
+    "best_history_alternatives",
+    "plot_history_maps",
+    "best_history_table",
 ]
 
-VERDICT_ORDER = ("feasible", "feasible with conditions", "not recommended")
 VERDICT_COLOURS = {
     "feasible": "#2a9d5c",
     "feasible with conditions": "#e0a526",
@@ -132,24 +149,6 @@ def missing_summary_text(path) -> str:
             "again, e.g. with papermill: `-p summary_path records/batches/<batch>/summary.csv`.")
 
 
-def _number(value) -> float | None:
-    if isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value):
-        return float(value)
-    return None
-
-
-def completed_rows(rows: Iterable[dict]) -> list[dict]:
-    """Rows of variants that ran to the end, with a displacement and a shear ratio."""
-    keep = []
-    for row in rows:
-        if row.get("status") != "done":
-            continue
-        if _number(row.get("D_M_lower_m")) is None or _number(row.get("base_shear_ratio_upper")) is None:
-            continue
-        keep.append(row)
-    return keep
-
-
 def reduction(row: dict, bound: str = "upper") -> float | None:
     """Base-shear reduction ``1 - V_isolated/V_fixed`` for one bound. [-]"""
     ratio = _number(row.get(f"base_shear_ratio_{bound}"))
@@ -161,11 +160,6 @@ def _completed_reduction(row: dict) -> float:
     share = reduction(row)
     assert share is not None
     return share
-
-
-def verdict_rank(verdict) -> int:
-    """0 feasible, 1 with conditions, 2 not recommended, 3 anything else."""
-    return VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else len(VERDICT_ORDER)
 
 
 def pareto_front(rows: Iterable[dict]) -> list[dict]:
@@ -394,21 +388,3 @@ def _contours(ax, xs: list, ys: list, displacement, share_grid) -> None:
                 lines = ax.contour(gx, gy, np.ma.masked_invalid(grid), levels=5, colors="0.25",
                                    linewidths=0.7, linestyles=style, alpha=0.7)
                 ax.clabel(lines, fmt=fmt, fontsize=6)
-
-
-def _sort_key(value):
-    return (0, value, "") if isinstance(value, (int, float)) else (1, 0.0, str(value))
-
-
-_HISTORY_NAMES = ("HISTORY_FIELDS", "history_rows", "grid_field", "feasible", "history_front",
-                  "best_history_alternatives", "plot_history_maps", "best_history_table")
-__all__ += list(_HISTORY_NAMES)  # answered by __getattr__ below
-
-
-def __getattr__(name: str):
-    """The history-sweep maps live in :mod:`isolation.app.batch.history_maps`; answered here too."""
-    if name in _HISTORY_NAMES:
-        from isolation.app.batch import history_maps
-
-        return getattr(history_maps, name)
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -4,7 +4,7 @@
 ``python -m isolation batch --direct`` (no model checks): the same hashes and
 the same one-message error, with variants of bearing properties, property
 factors and moats checked key by key on the base study parsed once
-(:func:`isolation.app.batch.sweep.variant_study`). Re-exported from
+(:func:`isolation.app.batch.variants.variant_study`). Re-exported from
 :mod:`isolation.app.batch.sweep`.
 """
 
@@ -12,6 +12,8 @@ from __future__ import annotations
 
 from concurrent.futures import Executor
 from typing import Mapping
+
+from isolation.app.batch.variants import _alternative_key, variant_study
 
 __all__ = ["check_direct", "validate_direct"]
 
@@ -25,8 +27,6 @@ def check_direct(study_file: str, items: list, settings: Mapping | None = None) 
     list of (str, str or None, str or None)
         Variant id, input hash (None when invalid), one-line problem (None when valid).
     """
-    from isolation.app.batch.sweep import variant_study
-
     found: list[tuple[str, str | None, str | None]] = []
     parts: dict = {}
     for variant_id, overrides in items:
@@ -70,7 +70,6 @@ def _study_dict(study, parts: dict) -> dict:
     one base study: same objects), ``alternatives`` and their ``_keys``."""
     from dataclasses import asdict
 
-    from isolation.app.batch.sweep import _alternative_key
     from isolation.plain import plain
 
     shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)

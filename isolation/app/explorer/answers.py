@@ -40,7 +40,15 @@ import numpy as np
 from matplotlib.figure import Figure
 
 from isolation import validate
-from isolation.app.explorer.controls import BASES, BEARING_TYPES, CHOICES, CONTROLS, unit_name
+from isolation.app.explorer.controls import (  # noqa: F401 - TRADE_OFF_PARAMETERS re-exported
+    _CONTROL,
+    BASES,
+    BEARING_TYPES,
+    CHOICES,
+    CONTROLS,
+    TRADE_OFF_PARAMETERS,
+    unit_name,
+)
 from isolation.app.explorer.tables import (  # noqa: F401 - used as ex._length by live
     _force,
     _length,
@@ -88,17 +96,6 @@ SCOPE = ("Screening for a feasibility study, not construction design. Single-mod
          "the base floor and the storeys. Verify every number against the local code with a licensed "
          "structural engineer.")
 """Scope and cautions shown on the explorer page."""
-
-TRADE_OFF_PARAMETERS = {
-    "friction pendulum": ("friction", "radius"),
-    "double concave": ("friction", "radius"),
-    "lead rubber": ("lead_diameter", "layers"),
-    "high-damping rubber": ("layers", "outer_diameter"),
-}
-"""Parameters the trade-off curve may sweep, per bearing type (double concave: both dishes alike)."""
-
-_CONTROL = {c.field: c for c in CONTROLS}
-
 
 @dataclass(frozen=True)
 class ExplorerSettings:

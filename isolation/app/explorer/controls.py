@@ -16,7 +16,7 @@ from functools import lru_cache
 from isolation import units as _units
 from isolation.codes import registry as _codes
 
-__all__ = ["BEARING_TYPES", "BASES", "Control", "CONTROLS", "CHOICES", "GROUPS", "STUDY_TYPES",
+__all__ = ["BEARING_TYPES", "BASES", "TRADE_OFF_PARAMETERS", "Control", "CONTROLS", "CHOICES", "GROUPS", "STUDY_TYPES",
            "unit_factor", "unit_name", "to_display", "from_display", "visible"]
 
 BEARING_TYPES = ("friction pendulum", "lead rubber", "double concave", "high-damping rubber")
@@ -150,3 +150,14 @@ def to_display(value: float, kind: str, system: str) -> float:
 def from_display(value: float, kind: str, system: str) -> float:
     """Value shown in ``system`` -> SI value. [SI]"""
     return value / unit_factor(kind, system)
+
+
+TRADE_OFF_PARAMETERS = {
+    "friction pendulum": ("friction", "radius"),
+    "double concave": ("friction", "radius"),
+    "lead rubber": ("lead_diameter", "layers"),
+    "high-damping rubber": ("layers", "outer_diameter"),
+}
+"""Parameters the trade-off curve may sweep, per bearing type (double concave: both dishes alike)."""
+
+_CONTROL = {c.field: c for c in CONTROLS}

@@ -6,12 +6,13 @@ spread over the control's range. Re-exported from :mod:`isolation.app.explorer.a
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import TYPE_CHECKING
 
 import numpy as np
 
 from isolation import validate
+from isolation.app.explorer.controls import _CONTROL, TRADE_OFF_PARAMETERS
 
 if TYPE_CHECKING:
     from isolation.app.explorer.answers import ExplorerSettings
@@ -42,8 +43,6 @@ class TradeOff:
 
 
 def _swept(settings: ExplorerSettings, parameter: str, value: float) -> dict:
-    from isolation.app.explorer.answers import _CONTROL
-
     if settings.bearing_type == "double concave" and parameter in ("friction", "radius"):
         return {f"{parameter}_1": value, f"{parameter}_2": value}
     return {parameter: int(round(value)) if _CONTROL[parameter].integer else value}
@@ -68,7 +67,6 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
     its bounds; the numbers equal :func:`isolation.app.explorer.answers.explore` at each value to
     round-off.
     """
-    from isolation.app.explorer.answers import TRADE_OFF_PARAMETERS, _settings
     from isolation.errors import RunError
 
     allowed = TRADE_OFF_PARAMETERS[settings.bearing_type]
@@ -76,8 +74,6 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
     validate.one_of("parameter", parameter, allowed)
     if isinstance(count, bool) or int(count) != count or count < 2:
         raise ValueError(f"count = {count!r} is not allowed: must be a whole number >= 2")
-    from isolation.app.explorer.answers import _CONTROL
-
     key = f"{parameter}_1" if settings.bearing_type == "double concave" and parameter != "layers" else parameter
     control = _CONTROL[key]
     high = control.high
@@ -97,7 +93,7 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
     points = []  # (index, study, system, property sets)
     for i, value in enumerate(values):
         try:
-            study = _settings(settings, _swept(settings, parameter, float(value))).study()
+            study = replace(settings, **_swept(settings, parameter, float(value))).study()
             system = isolation_system(study.alternatives[0])
             points.append((i, study, system, system.property_sets(study.building.total_weight)))
         except (ValueError, RunError):
