@@ -59,7 +59,8 @@ MODULES: dict[str, tuple[str, ...]] = {
                         "tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_triple_pendulum.py"),
     "dynamics/newmark": ("tests/dynamics/test_history.py", "tests/dynamics/test_history_reference.py",
                          "tests/dynamics/test_history_isolators.py"),
-    "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py"),
+    "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py",
+                           "tests/dynamics/test_isolator_laws.py", "tests/bearings/test_bearing_registry.py"),
 }
 """Module of ``isolation/`` (without .py) -> the test files that check it."""
 
