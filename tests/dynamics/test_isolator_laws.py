@@ -110,7 +110,7 @@ def test_smooth_columns_rate_dependence_flag():
     assert not SmoothColumns([SmoothLaw(1.0, 10.0, 10.0, 25.0, 0.001)]).rate_dependent
     assert not SmoothColumns([SmoothLaw(1.0, 10.0, 5.0, 0.0, 0.001)]).rate_dependent
     assert SmoothColumns([SmoothLaw(1.0, 10.0, 9.5, 0.5, 0.001)]).rate_dependent
-    with pytest.raises(ValueError, match="beta"):
+    with pytest.raises(ValueError, match="^cases integrated together must share one Bouc-Wen beta$"):
         SmoothColumns([SmoothLaw(1.0, 10.0, 10.0, 0.0, 0.001, 0.5), SmoothLaw(1.0, 10.0, 10.0, 0.0, 0.001, 0.3)])
 
 
@@ -196,7 +196,8 @@ def test_duck_objects_run_their_curve():
         law = isolator_law(duck, 2000.0)
         assert law.linear_stiffness == pytest.approx(1000.0)
         assert law.strengths == pytest.approx((100.0,))
-    with pytest.raises(ValueError, match=r"^isolator = .* is not allowed: must be a Bilinear"):
+    with pytest.raises(ValueError, match=r"^isolator = .* is not allowed: must be a Bilinear.*"
+                       r"a registered bearing \(isolation.bearings.registry\) or an object with .bilinear\(\)$"):
         isolator_law(object(), 1.0)
 
 
@@ -219,7 +220,7 @@ def test_friction_regularisation_sentences():
     fp = FrictionPendulum(radius=2.0, friction=0.05, yield_displacement=0.001)
     smooth = friction_regularisation(fp)
     assert smooth.startswith("friction regularised by a Bouc-Wen law of exponent 2")
-    assert "D_y = 1 mm" in smooth
+    assert "D_y = 1 mm (Constantinou, Mokha & Reinhorn 1990): the loop corners are rounded over a few D_y" in smooth
     sharp = friction_regularisation(fp, "sharp")
     assert sharp.startswith("sharp friction: elastic-perfectly-plastic element")
     assert "D_y = 1 mm" in sharp
@@ -242,3 +243,29 @@ def test_describe():
         pass
 
     assert describe(Plain()) == {"kind": "Plain"}
+
+
+def test_columns_pad_laws_to_equal_element_counts():
+    # ElasticPlasticColumns: one column per law, elements padded with zero stiffness and zero
+    # strength (a zero element carries no force, so padding leaves each column's law unchanged).
+    from isolation.bearings.laws import ElasticPlasticLaw
+    from isolation.dynamics.isolators import ElasticPlasticColumns
+
+    laws = [ElasticPlasticLaw(10.0, (100.0,), (1.0,)), ElasticPlasticLaw(20.0, (300.0, 200.0), (3.0, 2.0))]
+    cols = ElasticPlasticColumns(laws)
+    assert cols.count == 2
+    np.testing.assert_array_equal(cols.k0, [10.0, 20.0])
+    np.testing.assert_array_equal(cols.k, [[100.0, 300.0], [0.0, 200.0]])
+    np.testing.assert_array_equal(cols.f, [[1.0, 3.0], [0.0, 2.0]])
+    np.testing.assert_array_equal(cols.final_stiffness, [10.0, 20.0])
+    # SmoothColumns: Q_fast, Q_fast - Q_slow, a, D_y per column; -a kept for exp(-a |v|)
+    smooth = SmoothColumns([SmoothLaw(5.0, 10.0, 6.0, 25.0, 0.002), SmoothLaw(7.0, 8.0, 8.0, 20.0, 0.001)])
+    np.testing.assert_array_equal(smooth.k0, [5.0, 7.0])
+    np.testing.assert_array_equal(smooth.final_stiffness, [5.0, 7.0])
+    np.testing.assert_array_equal(smooth.q_fast, [10.0, 8.0])
+    np.testing.assert_array_equal(smooth.q_drop, [4.0, 0.0])
+    np.testing.assert_array_equal(smooth.minus_rate, [-25.0, -20.0])
+    np.testing.assert_array_equal(smooth.inv_dy, [500.0, 1000.0])
+    np.testing.assert_array_equal(smooth.q_drop_rate_c2, [0.0, 0.0])
+    assert smooth.dy_min == 0.001
+    assert smooth.unload == 0.0  # c = gamma - beta with beta = gamma = 1/2 (Wen 1976)
