@@ -269,3 +269,13 @@ def test_columns_pad_laws_to_equal_element_counts():
     np.testing.assert_array_equal(smooth.q_drop_rate_c2, [0.0, 0.0])
     assert smooth.dy_min == 0.001
     assert smooth.unload == 0.0  # c = gamma - beta with beta = gamma = 1/2 (Wen 1976)
+
+
+def test_amplitude_dependent_bearing_message_says_what_to_run():
+    from isolation.bearings import HighDampingRubber
+
+    message = (r"^isolator = .* is not allowed: a high damping rubber bearing's backbone is not piecewise "
+               r"linear and its type registers no history law; run the bilinear with its effective stiffness "
+               r"and damping at the design displacement \(isolation.study.assembly.history_isolator\)$")
+    with pytest.raises(ValueError, match=message):
+        isolator_law(HighDampingRubber(0.8, 0.008, 32), 1000.0)
