@@ -1,6 +1,6 @@
 """Isolator force-law dispatch (isolation.dynamics.isolators) against closed forms.
 
-Sources (each check names its own):
+Sources (each check names its own; all cited from memory, not re-read in this session):
 - Elastic-perfectly-plastic return map: force = k (u - u_p) with |force| <= F_y (Simo & Hughes,
   Computational Inelasticity, 1998, section 1.2, from memory).
 - Bouc-Wen law, Wen (1976) J. Eng. Mech. Div. ASCE 102(2), with n = 2, A = 1, gamma = 1 - beta:
