@@ -155,13 +155,14 @@ def asce7_elf(property_sets: Mapping[str, Any], building: ElfBuilding, spectrum,
     warnings += [f"{c.name}: {c.value:.4g} against limit {c.limit:.4g}{_unit(c)} ({c.source}) - stiffen the "
                  "superstructure or find the drift by analysis" for c in checks if not c.passed]
     permitted = all(c.passed for c in applicability)
-    comparison = fixed_base_shear(spectrum, building.weight_above, building.response_modification, period=t_fb,
+    # No given period: fixed_base_shear finds T_a itself (the same t_fb) and notes it as Eq. 12.8-7.
+    comparison = fixed_base_shear(spectrum, building.weight_above, building.response_modification,
+                                  period=building.fixed_base_period or None,
                                   height=building.structural_height, frame=building.frame,
                                   importance=building.importance, s1=building.s1)
     items += [
-        # T_a reaches fixed_base_shear as its period argument, where it would be noted as "given"
         Item("fixed-base design shear", "V_fb", comparison.base_shear, "kN", comparison.governs,
-             comparison.period_source if building.fixed_base_period else f"T_a, {ASCE} Eq. 12.8-7"),
+             comparison.period_source),
         Item("ratio isolated/fixed-base design shear", "V_s/V_fb", shears["V_s"] / comparison.base_shear, "-",
              "V_s over §12.8 V"),
     ]
