@@ -1,0 +1,451 @@
+"""Newmark average-acceleration engines on small models against closed forms (fast; the
+mutation map of :mod:`isolation.dynamics.newmark` runs these).
+
+Both engines are checked through their public entry points: :func:`newmark.integrate` (the
+column-vectorised numpy engine) and :func:`newmark.simulate` with the interpreted kernel
+(``compiled=False``; the compiled kernel is the same file, see
+``test_history_yielding.py``). Models of one to three degrees of freedom, a few hundred steps.
+
+Sources
+-------
+- Newmark (1959), J. Eng. Mech. Div. ASCE 85(3), with gamma = 1/2, beta = 1/4:
+  u_{n+1} = u_n + dt v_n + dt^2/4 (a_n + a_{n+1}), v_{n+1} = v_n + dt/2 (a_n + a_{n+1}),
+  equilibrium at every step. Subtracting gives u_{n+1} - u_n = dt/2 (v_n + v_{n+1}): the
+  method is the trapezoidal rule on the first-order system x' = A x + B a_g (derived).
+- Trapezoidal rule = the bilinear (Tustin) discretisation, computed by the general-purpose
+  reference scipy.signal.cont2discrete(method="bilinear") and scipy.signal.dlsim.
+- Undamped linear SDOF: the trapezoidal rule's amplification matrix in (omega u, v) is a
+  rotation by theta = 2 arctan(omega dt / 2) per step, so the amplitude is kept exactly
+  (no numerical damping; unconditionally stable, Newmark 1959) and the period lengthens to
+  T' = pi dt / arctan(omega dt / 2), (T' - T)/T ~ (pi^2/3)(dt/T)^2 for small dt (Chopra,
+  Dynamics of Structures, section 5.5 and its figure of period elongation, from memory;
+  Hughes, The Finite Element Method, 1987, section 9.1, from memory). Under a step a_g = a0
+  from rest: u_n = u_s (1 - cos n theta), u_s = -a0/omega^2 (derived from the rotation).
+- Energy: the trapezoidal rule conserves the quadratic energy of an undamped linear system;
+  kinetic + strain energy at every step equals the input work of the step-averaged ground
+  force (derived: du . M (v_{n+1} - v_n)/dt + du . K (u_n + u_{n+1})/2 = -du . M 1 a_avg).
+- Coulomb friction with a linear spring under a suddenly applied force P (P = m a0): the
+  mass oscillates about (P - F)/k on the way out and (P + F)/k on the way back, with period
+  2 pi/omega; the amplitude falls by 2F/k every half cycle and the mass stops at the first
+  turning point inside the band |k u - P| <= F (Chopra, Dynamics of Structures, free
+  vibration with Coulomb friction, from memory; shifted by the static P, derived).
+- Rigid block on velocity-dependent friction Q(v) = Q_fast - (Q_fast - Q_slow) exp(-a |v|)
+  (Mokha, Constantinou & Reinhorn 1990, J. Struct. Eng. 116(2)) sliding one way under a
+  constant ground acceleration: m v' = -m a0 + Q(|v|); reference scipy.integrate.solve_ivp.
+- Elastic-perfectly-plastic SDOF under a suddenly applied force P with F_y/2 < P < F_y:
+  work P u_m equals the area under the backbone, so u_m = F_y u_y / (2 (F_y - P))
+  (Chopra, elastoplastic systems, energy balance, from memory; derived).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+import numpy as np
+import pytest
+import scipy.integrate
+import scipy.signal
+
+from isolation.bearings.laws import ElasticPlasticLaw, SmoothLaw
+from isolation.dynamics import newmark
+from isolation.dynamics.isolators import ElasticPlasticColumns, SmoothColumns
+from isolation.errors import RunError
+
+ENGINES = ("integrate", "simulate")
+
+
+def chain(masses, stiffnesses, base=False):
+    """Mass and stiffness of a shear chain; with ``base`` the first mass has no spring to the ground."""
+    n = len(masses)
+    k = np.zeros((n, n))
+    for i, ki in enumerate(stiffnesses):
+        lo, up = (i, i + 1) if base else (i - 1, i)
+        k[up, up] += ki
+        if lo >= 0:
+            k[lo, lo] += ki
+            k[lo, up] -= ki
+            k[up, lo] -= ki
+    return np.asarray(masses, dtype=float), k
+
+
+def trapezoid(m, k, c, ground, dt):
+    """Reference: Tustin discretisation of M u'' + C u' + K u = -M 1 a_g (scipy.signal).
+
+    Returns u, v, a (relative), each (steps, dofs); ground (steps,) with ground[0] = 0 (rest).
+    """
+    n = m.size
+    minv = np.diag(1.0 / m)
+    eye, zero = np.eye(n), np.zeros((n, n))
+    a = np.block([[zero, eye], [-minv @ k, -minv @ c]])
+    b = np.concatenate([np.zeros(n), -np.ones(n)])[:, None]
+    out = np.block([[eye, zero], [zero, eye], [-minv @ k, -minv @ c]])
+    d = np.concatenate([np.zeros(2 * n), -np.ones(n)])[:, None]
+    ad, bd, cd, dd, _ = scipy.signal.cont2discrete((a, b, out, d), dt, method="bilinear")
+    _, y, _ = scipy.signal.dlsim((ad, bd, cd, dd, dt), np.asarray(ground, dtype=float))
+    return y[:, :n], y[:, n:2 * n], y[:, 2 * n:]
+
+
+def respond(engine, m, k, c, ground, dt, law=None, damper=0.0, nsub=1, storeys=None):
+    """Run one engine; ground (cols, steps). Returns u, v, a_rel (cols, steps, dofs) and force (cols, steps).
+
+    law: None (fixed base), ("ep", k0, (k, ...), (f, ...)), ("smooth", k0, q_fast, q_slow, rate, dy, beta)
+    or ("sharp", k0, q_fast, q_slow, rate, dy), the same for every column."""
+    ground = np.atleast_2d(np.asarray(ground, dtype=float))
+    cols = ground.shape[0]
+    labels = [("case", r) for r in range(cols)]
+    if engine == "integrate":
+        columns = None
+        if law is not None and law[0] == "ep":
+            columns = ElasticPlasticColumns([ElasticPlasticLaw(law[1], tuple(law[2]), tuple(law[3]))] * cols)
+        elif law is not None:
+            columns = SmoothColumns([SmoothLaw(*law[1:])] * cols)
+        out = newmark.integrate(m if m.ndim == 2 else np.diag(m), k, c, columns, np.full(cols, damper),
+                                ground.T.copy(), dt, labels)
+        dofs = k.shape[0]
+        state = np.moveaxis(out["state"], 2, 0)
+        force = None if out["force"] is None else out["force"].T
+        return state[:, :, :dofs], state[:, :, dofs:2 * dofs], state[:, :, 2 * dofs:], force
+    mass = m if m.ndim == 1 else np.diag(m)
+    offset = 0 if law is None else 1
+    if storeys is None:
+        count = mass.size - offset
+        upper = np.arange(count) + offset
+        storeys = {"lower": upper - 1, "upper": upper, "kind": 0, "k": np.ones(count),
+                   "k_geo": np.zeros(count), "fy": np.full(count, np.inf), "alpha": 0.0}
+    isolator = None
+    if law is not None:
+        p = np.zeros((cols, 6))
+        if law[0] == "ep":
+            kind, p[:, 0] = 1, law[1]
+            ke = np.tile(np.asarray(law[2], dtype=float), (cols, 1))
+            fe = np.tile(np.asarray(law[3], dtype=float), (cols, 1))
+        else:
+            kind = 2 if law[0] == "smooth" else 3
+            p[:] = (law[1], law[2], law[2] - law[3], law[4], law[5], 1.0 - 2.0 * law[6] if kind == 2 else 0.0)
+            ke = fe = np.zeros((cols, 1))
+        isolator = {"kind": kind, "p": p, "k": ke, "f": fe, "damper": np.full(cols, damper)}
+    out = newmark.simulate(mass, k, c, storeys, isolator, ground, dt, nsub, labels, compiled=False)
+    return out["u"], out["v"], out["a"] - ground[:, :, None], out["isolator_force"]
+
+
+def _ground(steps, dt, seed=3):
+    t = np.arange(steps) * dt
+    rng = np.random.default_rng(seed)
+    g = sum(rng.uniform(0.5, 2.0) * np.sin(rng.uniform(2.0, 20.0) * t + rng.uniform(0, 6)) for _ in range(4))
+    g[0] = 0.0
+    return g
+
+
+# --- linear: exact discrete solutions -----------------------------------------------------------
+
+def test_tustin_reference_satisfies_newmarks_equations():
+    # The reference itself: Newmark (1959) with gamma = 1/2, beta = 1/4 and equilibrium at every step.
+    m, k = chain([3.0, 2.0], [900.0, 600.0])
+    c = 0.003 * k + 0.2 * np.diag(m)
+    dt = 0.01
+    g = _ground(120, dt)
+    u, v, a = trapezoid(m, k, c, g, dt)
+    assert np.abs(u).max() > 1e-3
+    np.testing.assert_allclose(u[1:] - u[:-1], dt * v[:-1] + dt**2 / 4 * (a[:-1] + a[1:]), rtol=0, atol=1e-13)
+    np.testing.assert_allclose(v[1:] - v[:-1], dt / 2 * (a[:-1] + a[1:]), rtol=0, atol=1e-12)
+    np.testing.assert_allclose(m * a + v @ c.T + u @ k.T, -m * g[:, None], rtol=0, atol=1e-9)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_undamped_step_response_is_a_rotation_by_two_arctan_of_half_omega_dt(engine):
+    # Constant a_g from the first sample (at rest: a_0 = -a_g, equilibrium): exact discrete solution.
+    period, dt = 1.0, 0.05
+    w = 2 * math.pi / period
+    m, k = chain([2.0], [2.0 * w * w])
+    a0 = np.array([[1.5], [-0.4]])
+    ground = np.repeat(a0, 81, axis=1)
+    u, v, a, _ = respond(engine, m, k, np.zeros((1, 1)), ground, dt)
+    theta = 2 * math.atan(w * dt / 2)
+    n = np.arange(81)
+    us = -a0 / w**2
+    np.testing.assert_allclose(u[:, :, 0], us * (1 - np.cos(n * theta)), rtol=0, atol=1e-12)
+    np.testing.assert_allclose(v[:, :, 0], us * w * np.sin(n * theta), rtol=0, atol=1e-11)
+    np.testing.assert_allclose(a[:, :, 0], -w * w * u[:, :, 0] - ground, rtol=0, atol=1e-10)
+    # period elongation T'/T = pi dt / (T arctan(omega dt/2)) ~ 1 + (pi^2/3)(dt/T)^2
+    assert math.pi * dt / math.atan(w * dt / 2) / period == pytest.approx(1 + math.pi**2 / 3 * 0.05**2, rel=1e-3)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_damped_two_storey_fixed_base_matches_the_trapezoidal_rule(engine):
+    m, k = chain([3.0, 2.0], [900.0, 600.0])
+    c = 0.02 * m[:, None] * np.eye(2) * 10 + 0.003 * k  # Rayleigh-type, non-diagonal
+    dt = 0.01
+    g = _ground(200, dt)
+    ground = np.vstack([g, -0.5 * g])
+    u, v, a, force = respond(engine, m, k, c, ground, dt)
+    assert force is None or not np.any(force)
+    for col, scale in enumerate((1.0, -0.5)):
+        ur, vr, ar = trapezoid(m, k, c, scale * g, dt)
+        np.testing.assert_allclose(u[col], ur, rtol=0, atol=1e-9 * np.abs(ur).max())
+        np.testing.assert_allclose(v[col], vr, rtol=0, atol=1e-9 * np.abs(vr).max())
+        np.testing.assert_allclose(a[col], ar, rtol=0, atol=1e-9 * np.abs(ar).max())
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+@pytest.mark.parametrize("elements", [1, 2])
+def test_linear_isolated_building_with_damper_matches_the_trapezoidal_rule(engine, elements):
+    # Elements that never yield (strength far above any force) are springs: the model is linear.
+    base, floors = 4.0, [3.0, 2.0]
+    m, k = chain([base] + floors, [1500.0, 1000.0], base=True)
+    c = 0.004 * k
+    k0, springs = 80.0, (120.0,) if elements == 1 else (70.0, 50.0)
+    law = ("ep", k0, springs, (1e9,) * elements)
+    damper = 15.0
+    dt = 0.01
+    g = _ground(250, dt, seed=5)
+    u, v, a, force = respond(engine, m, k, c, np.vstack([g, 2 * g]), dt, law=law, damper=damper)
+    kr, cr = k.copy(), c.copy()
+    kr[0, 0] += k0 + sum(springs)
+    cr[0, 0] += damper
+    for col, scale in enumerate((1.0, 2.0)):
+        ur, vr, ar = trapezoid(m, kr, cr, scale * g, dt)
+        np.testing.assert_allclose(u[col], ur, rtol=0, atol=1e-9 * np.abs(ur).max())
+        np.testing.assert_allclose(v[col], vr, rtol=0, atol=1e-9 * np.abs(vr).max())
+        np.testing.assert_allclose(a[col], ar, rtol=0, atol=1e-9 * np.abs(ar).max())
+        # isolator force: the springs only (the damper force is not part of it)
+        np.testing.assert_allclose(force[col], (k0 + sum(springs)) * ur[:, 0], rtol=0,
+                                   atol=1e-9 * np.abs(force[col]).max())
+
+
+def test_sub_steps_integrate_the_linearly_interpolated_record():
+    # nsub sub-steps of dt/nsub with a_g interpolated linearly between samples (simulate only).
+    m, k = chain([1.0, 1.0], [4000.0, 4000.0])
+    c = 0.001 * k
+    dt, nsub = 0.02, 4
+    g = _ground(100, dt, seed=7)
+    u, v, a, _ = respond("simulate", m, k, c, g, dt, nsub=nsub)
+    fine = np.interp(np.arange(99 * nsub + 1) * dt / nsub, np.arange(100) * dt, g)
+    ur, vr, ar = trapezoid(m, k, c, fine, dt / nsub)
+    np.testing.assert_allclose(u[0], ur[::nsub], rtol=0, atol=1e-9 * np.abs(ur).max())
+    np.testing.assert_allclose(v[0], vr[::nsub], rtol=0, atol=1e-9 * np.abs(vr).max())
+    np.testing.assert_allclose(a[0], ar[::nsub], rtol=0, atol=1e-9 * np.abs(ar).max())
+
+
+def test_energy_of_an_undamped_linear_building_balances_at_every_step():
+    # Trapezoidal rule: kinetic + strain energy = input work, to round-off (derived, see above).
+    m, k = chain([5.0, 3.0, 1.0], [2500.0, 1200.0], base=True)
+    dt = 0.01
+    g = _ground(300, dt, seed=11)
+    out = newmark.simulate(m, k, np.zeros((3, 3)), {
+        "lower": np.array([0, 1]), "upper": np.array([1, 2]), "kind": 0, "k": np.array([2500.0, 1200.0]),
+        "k_geo": np.zeros(2), "fy": np.full(2, np.inf), "alpha": 0.0}, {
+        "kind": 1, "p": np.array([[200.0, 0, 0, 0, 0, 0]]), "k": np.array([[300.0]]), "f": np.array([[1e9]]),
+        "damper": np.zeros(1)}, g[None, :], dt, 1, [("case", 0)], compiled=False)
+    e_in, kinetic, viscous, strain, hysteretic = out["energy"][:, 0]
+    u, v = out["u"][0], out["v"][0]
+    assert np.abs(u).max() > 1e-3
+    np.testing.assert_allclose(kinetic, 0.5 * (v * v) @ m, rtol=1e-12, atol=1e-12)
+    kr = k.copy()
+    kr[0, 0] += 500.0
+    np.testing.assert_allclose(strain, 0.5 * np.einsum("si,ij,sj->s", u, kr, u), rtol=1e-9, atol=1e-12)
+    np.testing.assert_allclose(e_in, kinetic + strain, rtol=0, atol=1e-9 * e_in.max())
+    assert np.abs(viscous).max() == 0.0
+    assert np.abs(hysteretic).max() < 1e-9 * e_in.max()
+
+
+# --- isolator laws: Coulomb friction with a spring ------------------------------------------------
+
+def _coulomb_turning_points(p, f, k, count=6):
+    """Turning points of a spring-friction mass under a sudden force P from rest (closed form above)."""
+    points, x, sign = [], 0.0, 1.0
+    for _ in range(count):
+        centre = (p - sign * f) / k
+        if abs(k * x - p) <= f and points:
+            break
+        x = 2 * centre - x
+        points.append(x)
+        sign = -sign
+    return points
+
+
+COULOMB = {"m": 1.0, "k": 4 * math.pi**2, "f": 0.5, "a0": 3.0}
+
+
+@pytest.mark.parametrize("engine, law", [
+    ("integrate", ("ep", COULOMB["k"], (4e4,), (COULOMB["f"],))),
+    ("simulate", ("ep", COULOMB["k"], (4e4,), (COULOMB["f"],))),
+    ("integrate", ("ep", COULOMB["k"], (3e4, 1e4), (0.75 * COULOMB["f"], 0.25 * COULOMB["f"]))),
+    ("simulate", ("ep", COULOMB["k"], (3e4, 1e4), (0.75 * COULOMB["f"], 0.25 * COULOMB["f"]))),
+    ("integrate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.5)),
+    ("simulate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.5)),
+    ("integrate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.8)),
+    ("simulate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.8)),
+    ("integrate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.3)),
+    ("simulate", ("smooth", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5, 0.3)),
+    ("simulate", ("sharp", COULOMB["k"], COULOMB["f"], COULOMB["f"], 0.0, 2e-5)),
+])
+def test_spring_and_friction_under_a_sudden_force_follow_the_coulomb_closed_form(engine, law):
+    m, k, f, a0 = COULOMB["m"], COULOMB["k"], COULOMB["f"], COULOMB["a0"]
+    dt = 0.002
+    steps = 2001  # 4 s: four natural periods, the mass stops after three half cycles
+    ground = np.array([np.full(steps, a0), np.full(steps, -a0)])
+    u, v, a, force = respond(engine, np.array([m]), np.zeros((1, 1)), np.zeros((1, 1)), ground, dt, law=law)
+    expected = _coulomb_turning_points(m * a0, f, k)
+    assert len(expected) == 3
+    t = np.arange(steps) * dt
+    half = math.pi / math.sqrt(k / m)
+    for col, sign in enumerate((-1.0, 1.0)):
+        ub = sign * u[col, :, 0]
+        for i, x in enumerate(expected):
+            window = (t > (i + 0.5) * half) & (t < (i + 1.5) * half)
+            turn = ub[window].max() if i % 2 == 0 else ub[window].min()
+            assert turn == pytest.approx(x, abs=2e-4), (i, turn, x)
+        # at rest at the last turning point, the spring force inside the friction band
+        assert np.abs(ub[t > 3.2] - expected[-1]).max() < 2e-4
+        assert np.abs(v[col, t > 3.2, 0]).max() < 0.01
+        # isolator force = spring + friction, never above k u + F
+        assert np.all(np.abs(sign * force[col] - k * ub) <= f * (1 + 1e-9))
+        # equilibrium of the mass: m (a + a_g) = -F
+        np.testing.assert_allclose(m * (a[col, :, 0] + ground[col]), -force[col], rtol=0, atol=1e-6)
+
+
+@pytest.mark.parametrize("engine, law", [
+    ("integrate", ("smooth", 0.0, 0.8, 0.3, 20.0, 1e-6, 0.5)),
+    ("simulate", ("smooth", 0.0, 0.8, 0.3, 20.0, 1e-6, 0.5)),
+    ("integrate", ("smooth", 0.0, 0.8, 0.3, 20.0, 1e-6, 0.7)),
+    ("simulate", ("sharp", 0.0, 0.8, 0.3, 20.0, 1e-6)),
+])
+def test_block_on_velocity_dependent_friction_slides_as_the_ode(engine, law):
+    # The engines start from a_0 = -a_g (no friction yet) and build the friction force over a few D_y;
+    # both leave a velocity offset below dt Q_fast/m: the tolerances are that and 1e-3 of the peak displacement.
+    m, a0, dt, steps = 1.0, 2.0, 0.002, 501
+    q_fast, q_slow, rate = law[2], law[3], law[4]
+    ground = np.array([np.full(steps, a0), np.full(steps, -0.5 * a0)])
+    u, v, a, force = respond(engine, np.array([m]), np.zeros((1, 1)), np.zeros((1, 1)), ground, dt, law=law)
+    t = np.arange(steps) * dt
+    for col, acc in enumerate((a0, -0.5 * a0)):
+        def rhs(_, y, acc=acc):
+            speed = abs(y[1])
+            q = q_fast - (q_fast - q_slow) * math.exp(-rate * speed)
+            return [y[1], -acc + math.copysign(q, acc) / m]
+        ref = scipy.integrate.solve_ivp(rhs, (0.0, t[-1]), [0.0, 0.0], t_eval=t, rtol=1e-10, atol=1e-12)
+        np.testing.assert_allclose(u[col, :, 0], ref.y[0], rtol=0, atol=1e-3 * np.abs(ref.y[0]).max())
+        np.testing.assert_allclose(v[col, :, 0], ref.y[1], rtol=0, atol=dt * q_fast / m)
+        # the friction force approaches Q(v) at the final speed
+        q_end = q_fast - (q_fast - q_slow) * math.exp(-rate * abs(ref.y[1][-1]))
+        assert abs(force[col, -1]) == pytest.approx(q_end, rel=2e-3)
+
+
+def test_elastic_plastic_columns_of_one_run_are_independent():
+    # Two strengths in one call give the columns of two separate calls (integrate).
+    m, k0, dt = np.array([1.0]), 10.0, 0.005
+    g = np.r_[0.0, 3 * np.sin(np.arange(1, 400) * dt * 7)]
+    columns = ElasticPlasticColumns([ElasticPlasticLaw(k0, (500.0,), (0.6,)), ElasticPlasticLaw(k0, (500.0,), (1.5,))])
+    both = newmark.integrate(np.diag(m), np.zeros((1, 1)), np.zeros((1, 1)), columns, np.array([0.0, 2.0]),
+                             np.vstack([g, g]).T.copy(), dt, [("a", 0), ("b", 0)])
+    for col, (strength, damper) in enumerate(((0.6, 0.0), (1.5, 2.0))):
+        one = newmark.integrate(np.diag(m), np.zeros((1, 1)), np.zeros((1, 1)),
+                                ElasticPlasticColumns([ElasticPlasticLaw(k0, (500.0,), (strength,))]),
+                                np.array([damper]), g[:, None].copy(), dt, [("a", 0)])
+        np.testing.assert_allclose(both["state"][:, :, col], one["state"][:, :, 0], rtol=1e-12, atol=1e-15)
+        np.testing.assert_allclose(both["hysteretic_state"][:, :, col], one["hysteretic_state"][:, :, 0],
+                                   rtol=1e-12, atol=1e-15)
+        # element force within its strength, reached while sliding
+        q = one["hysteretic_state"][:, 0, 0]
+        assert np.abs(q).max() == pytest.approx(strength, rel=1e-12)
+
+
+# --- yielding storeys (simulate) -------------------------------------------------------------------
+
+@pytest.mark.parametrize("kind", [1, 2])
+@pytest.mark.parametrize("ratio", [0.6, 0.8])
+def test_elastoplastic_storey_under_a_sudden_force_reaches_the_energy_balance_peak(kind, ratio):
+    # SDOF (kind 1 bilinear, 2 Clough: same first excursion), plus a stiff elastic storey above
+    # carrying a small mass, so that the storey coupling of the kernel is used.
+    m1, m2, k1, k2, fy = 1.0, 0.01, 100.0, 1e4, 10.0
+    m, k = chain([m1, m2], [k1, k2])
+    dt, steps = 0.002, 1001
+    p = ratio * fy
+    ground = np.full((1, steps), p / (m1 + m2))
+    storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": kind, "k": np.array([k1, k2]),
+               "k_geo": np.zeros(2), "fy": np.array([fy, 1e6]), "alpha": 0.0}
+    out = newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, dt, 1, [("frame", 0)], compiled=False)
+    uy = fy / k1
+    expected = fy * uy / (2 * (fy - p))
+    drift = out["drift"][0, :, 0]
+    assert np.abs(drift).max() == pytest.approx(expected, rel=5e-3)
+    np.testing.assert_allclose(out["drift"][0, :, 1], out["u"][0, :, 1] - out["u"][0, :, 0], atol=1e-15)
+    assert np.abs(out["storey_force"][0, :, 0]).max() == pytest.approx(fy, rel=1e-9)
+
+
+def test_storey_non_convergence_names_the_storeys_and_the_column(monkeypatch):
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    m, k = chain([1.0, 1.0], [100.0, 100.0])
+    storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": 1, "k": np.array([100.0, 100.0]),
+               "k_geo": np.zeros(2), "fy": np.array([1.0, 1.0]), "alpha": 0.0}
+    ground = np.vstack([np.zeros(200), np.full(200, 5.0)])
+    with pytest.raises(RunError, match=r"^yielding storeys: no convergence at t = 0\.\d{4} s in case 'frame', "
+                                       r"record 1 \(residual [0-9.e+-]+ kN after 1 iterations\); try a smaller dt"):
+        newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, 0.01, 1, [("frame", 0), ("frame", 1)],
+                         compiled=False)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+def test_isolator_non_convergence_names_time_case_and_record(engine, monkeypatch):
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    # two elements under white noise: some steps cross two segments, which needs two Newton steps
+    law = ("ep", 1e4, (9e4, 2e4), (90.0, 200.0))
+    ground = np.vstack([np.zeros(400), 30 * np.random.default_rng(1).standard_normal(400)])
+    with pytest.raises(RunError) as info:
+        respond(engine, np.array([1.0]), np.zeros((1, 1)), np.zeros((1, 1)), ground, 0.01, law=law)
+    text = str(info.value)
+    assert re.match(r"^(elastic-plastic |smooth )?isolator: no convergence at t = \d\.\d{4} s in case 'case', "
+                    r"record 1 \(residual [0-9.e+-]+ m after 1 iterations\); try a smaller dt", text), text
+
+
+# --- the dispatch around the kernel -------------------------------------------------------------------
+
+@pytest.mark.parametrize("dt, shortest, fraction, expected", [
+    (0.01, 0.5, 10.0, 1),      # dt already <= T/10
+    (0.01, 0.1, 10.0, 1),      # exactly T/10: no sub-step (the 1e-12 allowance)
+    (0.01, 0.05, 10.0, 2),
+    (0.02, 0.05, 10.0, 4),
+    (0.02, 0.05, 20.0, 8),
+    (0.01, 0.03, 10.0, 4),     # ceil(3.33)
+    (0.01, float("nan"), 10.0, 1),
+    (0.01, 0.0, 10.0, 1),
+    (0.01, -1.0, 10.0, 1),
+    (0.01, float("inf"), 10.0, 1),
+])
+def test_substeps_keep_the_sub_step_at_most_the_shortest_period_over_the_fraction(dt, shortest, fraction, expected):
+    # common practice: dt <= T_min / 10 for Newmark's average acceleration (Chopra, section 5.5, from memory)
+    assert newmark.substeps(dt, shortest, fraction) == expected
+
+
+def test_substeps_default_fraction_is_ten():
+    assert newmark.substeps(0.01, 0.05) == 2
+    assert newmark.substeps(0.01, 0.1) == 1
+
+
+def test_kernel_module_chooses_the_interpreted_or_compiled_kernel(monkeypatch):
+    from isolation.dynamics import kernel
+
+    assert newmark.kernel_module(False) is kernel
+    monkeypatch.setenv(newmark.ENGINE_VARIABLE, "Python")
+    assert newmark.kernel_module() is kernel
+    assert newmark.kernel_module(None) is kernel
+    if newmark.compiled_available():
+        compiled = newmark.kernel_module(True)
+        assert compiled is not kernel
+        assert compiled is newmark.kernel_module(True)
+        assert all(hasattr(getattr(compiled, name), "py_func") for name in compiled.JIT_FUNCTIONS)
+        monkeypatch.setenv(newmark.ENGINE_VARIABLE, "")
+        assert newmark.kernel_module() is compiled
+    else:
+        monkeypatch.setenv(newmark.ENGINE_VARIABLE, "")
+        assert newmark.kernel_module() is kernel
+
+
+def test_compiled_available_reports_whether_numba_imports():
+    try:
+        import numba  # noqa: F401
+        present = True
+    except ImportError:
+        present = False
+    assert newmark.compiled_available() is present
