@@ -58,6 +58,7 @@ MODULES: dict[str, tuple[str, ...]] = {
     "bearings/checks": ("tests/bearings/test_bearings_rubber.py", "tests/bearings/test_bearings_system.py",
                         "tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_triple_pendulum.py"),
     "dynamics/newmark": ("tests/dynamics/test_newmark_closed_forms.py",),
+    "dynamics/kernel": ("tests/dynamics/test_newmark_closed_forms.py",),
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py",
                            "tests/dynamics/test_isolator_laws.py", "tests/bearings/test_bearing_registry.py"),
 }
@@ -70,15 +71,22 @@ _SKIP = "not demo and not without_a_cycle and not no_nan_for_valid_input"
 """Tests left out of mutant runs: whole-study runs and subprocess imports (seconds each, and
 they check wiring rather than one module's arithmetic)."""
 
+_ENVIRONMENT: dict[str, dict[str, str]] = {"dynamics/kernel": {"ISOLATION_ENGINE": "python"}}
+"""Extra environment per module: the kernel runs interpreted (numba cannot compile mutmut's mutated copy)."""
+
+_MODULE_SKIP: dict[str, str] = {"dynamics/kernel": "kernel_module_chooses or compiled_and_interpreted"}
+"""Extra tests left out per module: those that compile the kernel on purpose."""
+
 _COPY = ("isolation", "tests", "examples", "workbooks", "templates", "records")
 
 
 def _config(module: str, tests: tuple[str, ...]) -> str:
     listed = "\n    ".join(tuple(tests) + _COMMON)
+    skip = _SKIP + (f" and not ({_MODULE_SKIP[module]})" if module in _MODULE_SKIP else "")
     return (f"[mutmut]\nsource_paths = isolation\nonly_mutate = isolation/{module}.py\n"
             f"pytest_add_cli_args_test_selection =\n    {listed}\n"
             "pytest_add_cli_args =\n    -q\n    -x\n    -p\n    no:cacheprovider\n    -m\n    not slow\n"
-            f"    -k\n    {_SKIP}\n"
+            f"    -k\n    {skip}\n"
             "do_not_mutate =\n    *__init__.py\n"
             "also_copy =\n    examples\n    workbooks\n    templates\n")
 
@@ -102,7 +110,7 @@ def prepare(module: str) -> Path:
 def run(module: str, max_children: int = 1) -> int:
     """Run mutmut on one module in its scratch folder; returns mutmut's exit code."""
     folder = prepare(module)
-    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1")
+    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1", **_ENVIRONMENT.get(module, {}))
     mutmut = [sys.executable, "-m", "mutmut"]
     print(f"== {module}: mutmut in {folder}", flush=True)
     code = subprocess.call(mutmut + ["run", "--max-children", str(max_children)], cwd=folder, env=env,
@@ -232,7 +240,7 @@ def recheck(module: str, max_children: int = 1) -> int:
             shutil.rmtree(target)
         shutil.copytree(ROOT / "tests", target, ignore=shutil.ignore_patterns("__pycache__", "*.pyc"))
     (folder / "setup.cfg").write_text(_config(module, MODULES[module]), encoding="utf-8")
-    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1")
+    env = dict(os.environ, PYTHONDONTWRITEBYTECODE="1", **_ENVIRONMENT.get(module, {}))
     print(f"== {module}: {len(names)} surviving or unchecked mutants again in {folder}", flush=True)
     code = 0
     for start in range(0, len(names), 200):
