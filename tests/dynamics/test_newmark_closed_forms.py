@@ -430,26 +430,50 @@ def test_kernel_module_chooses_the_interpreted_or_compiled_kernel(monkeypatch):
     monkeypatch.setenv(newmark.ENGINE_VARIABLE, "Python")
     assert newmark.kernel_module() is kernel
     assert newmark.kernel_module(None) is kernel
-    if newmark.compiled_available():
-        compiled = newmark.kernel_module(True)
-        assert compiled is not kernel
-        assert compiled is newmark.kernel_module(True)
-        assert all(hasattr(getattr(compiled, name), "py_func") for name in compiled.JIT_FUNCTIONS)
-        monkeypatch.setenv(newmark.ENGINE_VARIABLE, "")
-        assert newmark.kernel_module() is compiled
-    else:
-        monkeypatch.setenv(newmark.ENGINE_VARIABLE, "")
+    monkeypatch.delenv(newmark.ENGINE_VARIABLE)
+    if not newmark.compiled_available():
         assert newmark.kernel_module() is kernel
+        return
+    # a fresh compiled copy (numba's on-disk cache makes this quick after the first time)
+    monkeypatch.setattr(newmark, "_COMPILED_MODULE", None)
+    compiled = newmark.kernel_module()
+    assert compiled is not kernel
+    assert compiled is newmark.kernel_module(True)
+    monkeypatch.setenv(newmark.ENGINE_VARIABLE, "")
+    assert newmark.kernel_module() is compiled
+    # the compiled copy gives the interpreted kernel's histories (Tustin reference for the numbers)
+    m, k = chain([4.0, 3.0, 2.0], [1500.0, 1000.0], base=True)
+    c = 0.004 * k
+    law = ("ep", 80.0, (70.0, 50.0), (1.0, 0.5))
+    g = 10 * _ground(200, 0.01, seed=5)
+    storeys = {"lower": np.array([0, 1]), "upper": np.array([1, 2]), "kind": 2, "k": np.array([1500.0, 1000.0]),
+               "k_geo": np.zeros(2), "fy": np.array([8.0, 6.0]), "alpha": 0.05}
+    isolator = {"kind": 1, "p": np.array([[80.0, 0, 0, 0, 0, 0]]), "k": np.array([[70.0, 50.0]]),
+                "f": np.array([[1.0, 0.5]]), "damper": np.array([5.0])}
+    runs = [newmark.simulate(m, k, c, storeys, isolator, g[None, :], 0.01, 2, [("c", 0)], compiled=flag)
+            for flag in (True, False)]
+    assert np.abs(runs[1]["drift"]).max() > 8.0 / 1500.0
+    for name in runs[1]:
+        np.testing.assert_allclose(runs[0][name], runs[1][name], rtol=1e-9, atol=1e-9 * np.abs(runs[1][name]).max())
+    assert law[0] == "ep"
 
 
-def test_compiled_available_reports_whether_numba_imports():
+def test_compiled_available_reports_whether_numba_imports(monkeypatch):
     try:
         import numba  # noqa: F401
         present = True
     except ImportError:
         present = False
     assert newmark.compiled_available() is present
+    import sys
 
+    monkeypatch.setitem(sys.modules, "numba", None)  # import numba now raises ImportError
+    assert newmark.compiled_available() is False
+    from isolation.dynamics import kernel
+
+    monkeypatch.delenv(newmark.ENGINE_VARIABLE, raising=False)
+    monkeypatch.setattr(newmark, "_COMPILED_MODULE", None)
+    assert newmark.kernel_module() is kernel
 
 # --- outputs and energies of the kernel (Uang & Bertero 1990 balance) ------------------------------------
 
@@ -488,7 +512,8 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
     ground = np.vstack([g, -0.7 * g][:cols])
     out = newmark.simulate(m, k_lin, c, storeys, isolator, ground, dt, 1, [("case", r) for r in range(cols)],
                            compiled=False)
-    u, v, a_abs, drift, s, force = out["u"], out["v"], out["a"], out["drift"], out["storey_force"], out["isolator_force"]
+    u, v, a_abs, drift = out["u"], out["v"], out["a"], out["drift"]
+    s, force = out["storey_force"], out["isolator_force"]
     e_in, kinetic, viscous, strain, hysteretic = out["energy"]
     assert np.abs(u[:, :, 0]).max() > 0.02  # the isolator yields
     if storey_kind:
@@ -518,7 +543,8 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
         np.testing.assert_allclose(s, drift * k_el, rtol=1e-12, atol=1e-12)
     elif storey_kind == 1:
         q = s - alpha * k_el * drift
-        stored += 0.5 * np.einsum("csi,i->cs", alpha * drift * drift, k_el) + 0.5 * np.sum(q * q / ((1 - alpha) * k_el), axis=2)
+        stored += 0.5 * np.einsum("csi,i->cs", alpha * drift * drift, k_el)
+        stored += 0.5 * np.sum(q * q / ((1 - alpha) * k_el), axis=2)
         assert np.all(np.abs(q) <= (1 - alpha) * storeys["fy"] * (1 + 1e-9))
     else:
         stored += 0.5 * np.sum(s * s / k_el, axis=2)
@@ -635,3 +661,80 @@ def test_clough_reloads_towards_the_first_yield_point_when_that_side_never_yield
     assert _force_at(path, force, 0.0, 3) == pytest.approx(f0, rel=1e-9)
     zero = -f0 / 1e4 * 1e3  # mm
     assert _force_at(path, force, 7.0, -1) == pytest.approx(50.0 * (7.0 - zero) / (14.0 - zero), rel=1e-9)
+
+
+# --- Newton iterations of the isolator solvers -------------------------------------------------------
+
+CONVERGENCE_LAWS = {
+    # linear (elements never yield): the first Newton step from the elastic tangent is exact
+    "linear": (("ep", 10.0, (900.0, 300.0), (1e9, 1e9)), 1),
+    "no elements": (("ep", 10.0, (), ()), 1),
+    # one elastic-plastic element: one elastic trial and one plastic correction, both exact
+    "one element": (("ep", 10.0, (900.0,), (3.0,)), 1),
+    # piecewise-linear Newton with the tangent of the segment it lands on: at most one more pass
+    # per element that changes state within the step (two elements: 3)
+    "two elements": (("ep", 10.0, (900.0, 300.0), (3.0, 2.0)), 3),
+    # smooth law: Newton from the one-sided tangent on a concave residual, quadratic convergence
+    # from about D_y to the stopping tolerance (1e-4 D_y) in a few corrections (common practice: 4)
+    "smooth": (("smooth", 10.0, 3.0, 3.0, 0.0, 0.003, 0.5), 4),
+    "smooth beta 0.8": (("smooth", 10.0, 3.0, 3.0, 0.0, 0.003, 0.8), 4),
+    "smooth beta 0.3": (("smooth", 10.0, 3.0, 3.0, 0.0, 0.003, 0.3), 4),
+    "smooth rate": (("smooth", 10.0, 3.0, 1.5, 20.0, 0.003, 0.5), 4),
+    "sharp rate": (("sharp", 10.0, 3.0, 1.5, 20.0, 0.003), 4),
+}
+
+
+@pytest.mark.parametrize("engine, name", [(e, n) for n in CONVERGENCE_LAWS for e in ENGINES
+                                          if not (e == "integrate" and CONVERGENCE_LAWS[n][0][0] == "sharp")])
+def test_isolator_newton_converges_within_the_iterations_its_method_needs(engine, name, monkeypatch):
+    # (the numpy engine has no sharp friction law)
+    law, iterations = CONVERGENCE_LAWS[name]
+    dt = 0.01
+    g = 6.0 * _ground(400, dt, seed=2)
+    ground = np.vstack([g, -0.6 * g])
+    model = (np.array([2.0, 1.0]), chain([2.0, 1.0], [800.0], base=True)[1], np.diag([0.0, 0.5]))
+    reference = respond(engine, *model, ground, dt, law=law, damper=4.0)
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", iterations)
+    fast = respond(engine, *model, ground, dt, law=law, damper=4.0)
+    assert np.abs(reference[0][:, :, 0]).max() > 0.05
+    for a, b in zip(reference, fast):
+        np.testing.assert_allclose(b, a, rtol=0, atol=1e-9 * np.abs(a).max())
+    if iterations > 1:
+        monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+        with pytest.raises(RunError):
+            respond(engine, *model, ground, dt, law=law, damper=4.0)
+
+
+@pytest.mark.parametrize("engine, law", [
+    ("integrate", ("ep", 10.0, (3e4, 1e4), (0.3, 0.1))),
+    ("integrate", ("smooth", 10.0, 0.4, 0.4, 0.0, 1e-4, 0.5)),
+    ("integrate", ("smooth", 10.0, 0.4, 0.2, 10.0, 1e-4, 0.7)),
+    ("simulate", ("ep", 10.0, (3e4, 1e4), (0.3, 0.1))),
+    ("simulate", ("smooth", 10.0, 0.4, 0.2, 10.0, 1e-4, 0.5)),
+])
+def test_failure_in_the_first_step_reports_its_end_time_and_the_column(engine, law, monkeypatch):
+    # A jump of the ground acceleration at the first step makes the isolator yield at once: one
+    # iteration cannot settle it, so the first step (ending at t = dt) fails, in the second column.
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    ground = np.vstack([np.zeros(20), np.r_[0.0, np.full(19, 20.0)]])
+    with pytest.raises(RunError) as info:
+        respond(engine, np.array([1.0]), np.zeros((1, 1)), np.zeros((1, 1)), ground, 0.01, law=law)
+    what = "isolator" if engine == "simulate" else ("elastic-plastic isolator" if law[0] == "ep" else "smooth isolator")
+    pattern = (rf"^{what}: no convergence at t = 0\.0100 s in case 'case', record 1 \(residual "
+               r"[0-9.e+-]+ m after 1 iterations\); try a smaller dt or check the "
+               + ("model" if engine == "simulate" else "isolator") + r" parameters$")
+    assert re.match(pattern, str(info.value)), str(info.value)
+    residual = float(re.search(r"residual ([0-9.e+-]+) m", str(info.value)).group(1))
+    assert 0.0 < residual < 1.0
+
+
+def test_yielding_storey_failure_in_the_first_step_reports_its_end_time(monkeypatch):
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    m, k = chain([1.0, 1.0], [100.0, 100.0])
+    storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": 2, "k": np.array([100.0, 100.0]),
+               "k_geo": np.zeros(2), "fy": np.array([1.0, 1.0]), "alpha": 0.0}
+    ground = np.vstack([np.zeros(20), np.r_[0.0, np.full(19, 500.0)], np.zeros(20)])
+    with pytest.raises(RunError, match=r"^yielding storeys: no convergence at t = 0\.0200 s in case 'f', record 1 "
+                                       r"\(residual [0-9.]+(e[+-]\d+)? kN after 1 iterations\)"):
+        newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, 0.02, 1, [("f", 0), ("f", 1), ("f", 2)],
+                         compiled=False)
