@@ -30,8 +30,9 @@ Sources
   turning point inside the band |k u - P| <= F (Chopra, Dynamics of Structures, free
   vibration with Coulomb friction, from memory; shifted by the static P, derived).
 - Rigid block on velocity-dependent friction Q(v) = Q_fast - (Q_fast - Q_slow) exp(-a |v|)
-  (Mokha, Constantinou & Reinhorn 1990, J. Struct. Eng. 116(2)) sliding one way under a
-  constant ground acceleration: m v' = -m a0 + Q(|v|); reference scipy.integrate.solve_ivp.
+  (Mokha, Constantinou & Reinhorn 1990, J. Struct. Eng. 116(2)) and a linear damper c, sliding
+  one way under a constant ground acceleration: m v' = -m a0 + Q(|v|) - c v; reference
+  scipy.integrate.solve_ivp.
 - Elastic-perfectly-plastic SDOF under a suddenly applied force P with F_y/2 < P < F_y:
   work P u_m equals the area under the backbone, so u_m = F_y u_y / (2 (F_y - P))
   (Chopra, elastoplastic systems, energy balance, from memory; derived).
@@ -317,13 +318,15 @@ def test_block_on_velocity_dependent_friction_slides_as_the_ode(engine, law):
     m, a0, dt, steps = 1.0, 2.0, 0.002, 501
     q_fast, q_slow, rate = law[2], law[3], law[4]
     ground = np.array([np.full(steps, a0), np.full(steps, -0.5 * a0)])
-    u, v, a, force = respond(engine, np.array([m]), np.zeros((1, 1)), np.zeros((1, 1)), ground, dt, law=law)
+    damper = 0.4  # linear damper beside the bearing [kN s/m]
+    u, v, a, force = respond(engine, np.array([m]), np.zeros((1, 1)), np.zeros((1, 1)), ground, dt, law=law,
+                             damper=damper)
     t = np.arange(steps) * dt
     for col, acc in enumerate((a0, -0.5 * a0)):
         def rhs(_, y, acc=acc):
             speed = abs(y[1])
             q = q_fast - (q_fast - q_slow) * math.exp(-rate * speed)
-            return [y[1], -acc + math.copysign(q, acc) / m]
+            return [y[1], -acc + math.copysign(q, acc) / m - damper * y[1] / m]
         ref = scipy.integrate.solve_ivp(rhs, (0.0, t[-1]), [0.0, 0.0], t_eval=t, rtol=1e-10, atol=1e-12)
         np.testing.assert_allclose(u[col, :, 0], ref.y[0], rtol=0, atol=1e-3 * np.abs(ref.y[0]).max())
         np.testing.assert_allclose(v[col, :, 0], ref.y[1], rtol=0, atol=dt * q_fast / m)
@@ -738,3 +741,34 @@ def test_yielding_storey_failure_in_the_first_step_reports_its_end_time(monkeypa
                                        r"\(residual [0-9.]+(e[+-]\d+)? kN after 1 iterations\)"):
         newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, 0.02, 1, [("f", 0), ("f", 1), ("f", 2)],
                          compiled=False)
+
+
+@pytest.mark.parametrize("engine", ENGINES)
+@pytest.mark.parametrize("beta", [0.5, 0.8, 0.3])
+def test_smooth_isolator_force_follows_the_bouc_wen_law_of_its_displacement(engine, beta):
+    # The force of the smooth law along the computed base displacement equals the law under that
+    # displacement imposed (imposed_force, checked against Wen's closed forms in
+    # test_isolator_laws.py), to the accuracy each engine states: the numpy engine stops Newton at
+    # 1e-4 D_y and corrects to first order (error ~1e-8 in z), the kernel at 1e-3 D_y (~1e-6 in z).
+    from isolation.bearings import Bilinear
+    from isolation.dynamics.isolators import BoucWen, imposed_force
+
+    dt = 0.01
+    g = 6.0 * _ground(400, dt, seed=2)
+    ground = np.vstack([g, -0.6 * g])
+    model = (np.array([2.0, 1.0]), chain([2.0, 1.0], [800.0], base=True)[1], np.diag([0.0, 0.5]))
+    law = ("smooth", 10.0, 3.0, 3.0, 0.0, 0.003, beta)
+    u, v, a, force = respond(engine, *model, ground, dt, law=law, damper=4.0)
+    tolerance = (1e-7 if engine == "integrate" else 1e-5) * 3.0
+    for col in range(2):
+        assert np.abs(u[col, :, 0]).max() > 20 * 0.003
+        expected = imposed_force(BoucWen(Bilinear(10.0 + 3.0 / 0.003, 10.0, 3.0), beta=beta), u[col, :, 0])
+        np.testing.assert_allclose(force[col], expected, rtol=0, atol=tolerance)
+
+
+def test_integrate_of_a_fixed_base_model_has_no_isolator_outputs():
+    m, k = chain([1.0], [100.0])
+    out = newmark.integrate(np.diag(m), k, np.zeros((1, 1)), None, np.zeros(1), np.ones((5, 1)), 0.01, [("a", 0)])
+    assert set(out) == {"state", "force", "hysteretic_state"}
+    assert out["force"] is None and out["hysteretic_state"] is None
+    assert out["state"].shape == (5, 3, 1)
