@@ -265,7 +265,7 @@ def _coulomb_turning_points(p, f, k, count=6):
     return points
 
 
-COULOMB = {"m": 1.0, "k": 4 * math.pi**2, "f": 0.5, "a0": 3.0}
+COULOMB = {"m": 1.0, "k": 4 * math.pi**2, "f": 0.7, "a0": 3.0}
 
 
 @pytest.mark.parametrize("engine, law", [
@@ -284,11 +284,11 @@ COULOMB = {"m": 1.0, "k": 4 * math.pi**2, "f": 0.5, "a0": 3.0}
 def test_spring_and_friction_under_a_sudden_force_follow_the_coulomb_closed_form(engine, law):
     m, k, f, a0 = COULOMB["m"], COULOMB["k"], COULOMB["f"], COULOMB["a0"]
     dt = 0.002
-    steps = 2001  # 4 s: four natural periods, the mass stops after three half cycles
+    steps = 2001  # 4 s: four natural periods; the mass stops after two half cycles, away from P/k
     ground = np.array([np.full(steps, a0), np.full(steps, -a0)])
     u, v, a, force = respond(engine, np.array([m]), np.zeros((1, 1)), np.zeros((1, 1)), ground, dt, law=law)
     expected = _coulomb_turning_points(m * a0, f, k)
-    assert len(expected) == 3
+    assert len(expected) == 2 and abs(COULOMB["k"] * expected[-1] - m * a0) > 0.1 * f
     t = np.arange(steps) * dt
     half = math.pi / math.sqrt(k / m)
     for col, sign in enumerate((-1.0, 1.0)):
@@ -365,16 +365,18 @@ def test_elastoplastic_storey_under_a_sudden_force_reaches_the_energy_balance_pe
     m, k = chain([m1, m2], [k1, k2])
     dt, steps = 0.002, 1001
     p = ratio * fy
-    ground = np.full((1, steps), p / (m1 + m2))
+    ground = np.vstack([np.full(steps, p / (m1 + m2)), np.full(steps, -p / (m1 + m2))])  # both directions
     storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": kind, "k": np.array([k1, k2]),
                "k_geo": np.zeros(2), "fy": np.array([fy, 1e6]), "alpha": 0.0}
-    out = newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, dt, 1, [("frame", 0)], compiled=False)
+    out = newmark.simulate(m, k, np.zeros((2, 2)), storeys, None, ground, dt, 1, [("frame", 0), ("frame", 1)],
+                           compiled=False)
     uy = fy / k1
     expected = fy * uy / (2 * (fy - p))
-    drift = out["drift"][0, :, 0]
-    assert np.abs(drift).max() == pytest.approx(expected, rel=5e-3)
-    np.testing.assert_allclose(out["drift"][0, :, 1], out["u"][0, :, 1] - out["u"][0, :, 0], atol=1e-15)
-    assert np.abs(out["storey_force"][0, :, 0]).max() == pytest.approx(fy, rel=1e-9)
+    for col, sign in enumerate((-1.0, 1.0)):
+        drift = out["drift"][col, :, 0]
+        assert (sign * drift).max() == pytest.approx(expected, rel=5e-3)
+        np.testing.assert_allclose(out["drift"][col, :, 1], out["u"][col, :, 1] - out["u"][col, :, 0], atol=1e-15)
+        assert (sign * out["storey_force"][col, :, 0]).max() == pytest.approx(fy, rel=1e-9)
 
 
 def test_storey_non_convergence_names_the_storeys_and_the_column(monkeypatch):
@@ -567,6 +569,17 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
         stored += 0.5 * element**2 * p[:, 4:5] / p[:, 1:2]
     if not (iso_kind == 1 and cols > 1):
         np.testing.assert_allclose(strain, stored, rtol=1e-7, atol=1e-9 * strain.max())
+    # storey forces follow the storey law under the computed drifts (ShearBuilding.storey_loop, checked
+    # at hand-derived points below), from the unloaded state of each column
+    if storey_kind:
+        from isolation.dynamics.structure import ShearBuilding
+
+        for i in range(2):
+            law = ShearBuilding([1.0], [k_el[i]], [3.0], yield_shears=[storeys["fy"][i]], hardening=alpha,
+                                hysteresis="bilinear" if storey_kind == 1 else "clough")
+            for col in range(cols):
+                np.testing.assert_allclose(s[col, :, i], law.storey_loop(drift[col, :, i]), rtol=0,
+                                           atol=1e-9 * storeys["fy"][i])
     # balance (Uang & Bertero 1990): with the trapezoidal rule it closes to round-off for any law
     total = kinetic + viscous + strain + hysteretic
     np.testing.assert_allclose(total, e_in, rtol=0, atol=1e-7 * np.abs(e_in).max())
