@@ -377,6 +377,15 @@ def test_elastoplastic_storey_under_a_sudden_force_reaches_the_energy_balance_pe
         assert (sign * drift).max() == pytest.approx(expected, rel=5e-3)
         np.testing.assert_allclose(out["drift"][col, :, 1], out["u"][col, :, 1] - out["u"][col, :, 0], atol=1e-15)
         assert (sign * out["storey_force"][col, :, 0]).max() == pytest.approx(fy, rel=1e-9)
+        # energies of the fixed base: strain s^2/(2 k) of each storey (alpha = 0: the whole force is
+        # the elastic-plastic element's, or Clough's unloading at k), balance to round-off, no isolator
+        e_in, kinetic, viscous, strain, hysteretic = out["energy"][:, col]
+        s = out["storey_force"][col]
+        np.testing.assert_allclose(strain, 0.5 * (s * s) @ (1.0 / np.array([k1, k2])), rtol=1e-9, atol=1e-12)
+        # (the storey iteration stops at 1e-10 of the largest yield shear, here the stiff storey's 1e6 kN)
+        np.testing.assert_allclose(kinetic + viscous + strain + hysteretic, e_in, rtol=0, atol=1e-6 * e_in.max())
+        assert hysteretic[-1] > 0.1 * e_in[-1]
+        assert not np.any(out["isolator_force"][col])
 
 
 def test_storey_non_convergence_names_the_storeys_and_the_column(monkeypatch):
@@ -494,13 +503,14 @@ def _isolated_model(storey_kind, iso_kind, cols=2):
                "k_geo": kgeo, "fy": np.array(fy) if storey_kind else np.full(2, np.inf), "alpha": alpha}
     p = np.zeros((cols, 6))
     ke = fe = np.zeros((cols, 1))
-    if iso_kind == 1:  # K_d = 60, two elements (multi-element path) or one (exact single-element path)
+    if iso_kind == 1:  # K_d = 60, two elements (multi-element path; the second column's second element
+        # is padding of zero stiffness and strength) or one (exact single-element path)
         p[:, 0] = 60.0
-        ke = np.tile([2000.0, 800.0], (cols, 1)) if cols > 1 else np.array([[2800.0]])
-        fe = np.tile([12.0, 6.0], (cols, 1)) if cols > 1 else np.array([[18.0]])
-    elif iso_kind == 2:  # Bouc-Wen, Q = 18, D_y = 6.4 mm, beta 0.5 and 0.25
+        ke = np.array([[2000.0, 800.0], [2800.0, 0.0]]) if cols > 1 else np.array([[2800.0]])
+        fe = np.array([[12.0, 6.0], [18.0, 0.0]]) if cols > 1 else np.array([[18.0]])
+    elif iso_kind == 2:  # Bouc-Wen, D_y = 6.4 mm, beta 0.5 (Q = 18) and 0.25 (Q from 12 to 18 with speed)
         p[:] = (60.0, 18.0, 0.0, 0.0, 0.0064, 0.0)
-        p[1:, 5] = 0.5
+        p[1:] = (60.0, 18.0, 6.0, 25.0, 0.0064, 0.5)
     elif iso_kind == 3:  # sharp friction with velocity-dependent strength
         p[:] = (60.0, 18.0, 9.0, 25.0, 0.0005, 0.0)
     damper = np.linspace(20.0, 40.0, cols)
@@ -509,13 +519,13 @@ def _isolated_model(storey_kind, iso_kind, cols=2):
 
 
 @pytest.mark.parametrize("storey_kind", [0, 1, 2])
-@pytest.mark.parametrize("iso_kind, cols", [(1, 2), (1, 1), (2, 2), (3, 2)])
-def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, iso_kind, cols):
+@pytest.mark.parametrize("iso_kind, cols, nsub", [(1, 2, 1), (1, 1, 1), (2, 2, 1), (3, 2, 1), (2, 2, 3)])
+def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, iso_kind, cols, nsub):
     m, k_lin, c, storeys, isolator, kgeo, alpha = _isolated_model(storey_kind, iso_kind, cols)
     dt = 0.01
     g = 8.0 * _ground(300, dt, seed=13) / 4
     ground = np.vstack([g, -0.7 * g][:cols])
-    out = newmark.simulate(m, k_lin, c, storeys, isolator, ground, dt, 1, [("case", r) for r in range(cols)],
+    out = newmark.simulate(m, k_lin, c, storeys, isolator, ground, dt, nsub, [("case", r) for r in range(cols)],
                            compiled=False)
     u, v, a_abs, drift = out["u"], out["v"], out["a"], out["drift"]
     s, force = out["storey_force"], out["isolator_force"]
@@ -529,11 +539,12 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
     # equilibrium of the whole: reaction = -sum m a_abs (Chopra, base shear from inertia forces)
     np.testing.assert_allclose(out["reaction"], -(a_abs @ m), rtol=1e-12, atol=1e-12)
     np.testing.assert_allclose(drift, u[:, :, 1:] - u[:, :, :-1], rtol=0, atol=1e-15)
-    # Newmark (1959): u_{n+1} - u_n = dt/2 (v_n + v_{n+1})
-    np.testing.assert_allclose(np.diff(u, axis=1), dt / 2 * (v[:, 1:] + v[:, :-1]), rtol=0, atol=1e-12)
+    # Newmark (1959): u_{n+1} - u_n = dt/2 (v_n + v_{n+1}) (between samples when there are no sub-steps)
+    if nsub == 1:
+        np.testing.assert_allclose(np.diff(u, axis=1), dt / 2 * (v[:, 1:] + v[:, :-1]), rtol=0, atol=1e-12)
     np.testing.assert_allclose(kinetic, 0.5 * (v * v) @ m, rtol=1e-12, atol=1e-15)
     # viscous work: (v_n + v_{n+1})/2 = du/dt, so each step adds du' C du / dt (damper included)
-    for col in range(cols):
+    for col in range(cols if nsub == 1 else 0):
         cc = c.copy()
         cc[0, 0] += isolator["damper"][col]
         du = np.diff(u[col], axis=0)
@@ -562,16 +573,18 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
             stored += 0.5 * element**2 / isolator["k"][0, 0]
             assert np.abs(element).max() == pytest.approx(isolator["f"][0, 0], rel=1e-12)
     elif iso_kind == 2:
-        stored += 0.5 * p[:, 4:5] * element**2 / p[:, 1:2]  # Q D_y z^2 / 2
+        strength = p[:, 1:2] - p[:, 2:3] * np.exp(-p[:, 3:4] * np.abs(v[:, :, 0]))
+        stored += 0.5 * p[:, 4:5] * element**2 / strength  # Q D_y z^2 / 2 with z = element / Q
     else:
         strength = p[:, 1:2] - p[:, 2:3] * np.exp(-p[:, 3:4] * np.abs(v[:, :, 0]))
         assert np.all(np.abs(element) <= strength * (1 + 1e-9))
         stored += 0.5 * element**2 * p[:, 4:5] / p[:, 1:2]
     if not (iso_kind == 1 and cols > 1):
-        np.testing.assert_allclose(strain, stored, rtol=1e-7, atol=1e-9 * strain.max())
+        # (smooth law: z read back from the force, which carries the kernel's first-order last correction)
+        np.testing.assert_allclose(strain, stored, rtol=1e-7 if iso_kind != 2 else 1e-3, atol=1e-9 * strain.max())
     # storey forces follow the storey law under the computed drifts (ShearBuilding.storey_loop, checked
-    # at hand-derived points below), from the unloaded state of each column
-    if storey_kind:
+    # at hand-derived points below), from the unloaded state of each column (sampled path: no sub-steps)
+    if storey_kind and nsub == 1:
         from isolation.dynamics.structure import ShearBuilding
 
         for i in range(2):
@@ -586,14 +599,14 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
     assert np.all(hysteretic[:, -1] > 0.01 * e_in[:, -1])
     # the isolator force follows the law under the computed base displacement (imposed_force is
     # checked against the closed forms in test_isolator_laws.py)
-    if iso_kind in (1, 2):
+    if iso_kind in (1, 2) and nsub == 1:
         from isolation.bearings import Bilinear
         from isolation.dynamics.isolators import BoucWen, imposed_force
-        for col in range(cols):
+        for col in range(cols if iso_kind == 1 else 1):  # (the second smooth column is rate-dependent)
             if iso_kind == 1:
                 kk, ff = isolator["k"][col], isolator["f"][col]
                 bearing = Bilinear(60.0 + kk[0], 60.0, ff[0])
-                if kk.size > 1:
+                if kk.size > 1 and kk[1] > 0.0:
                     bearing = bearing.parallel(Bilinear(kk[1], 0.0, ff[1]))
             else:
                 beta = 0.5 * (1.0 - p[col, 5])
