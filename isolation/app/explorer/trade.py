@@ -15,7 +15,7 @@ from isolation import validate
 from isolation.app.explorer.controls import _CONTROL, TRADE_OFF_PARAMETERS
 
 if TYPE_CHECKING:
-    from isolation.app.explorer.answers import ExplorerSettings
+    from isolation.app.explorer.calculation import ExplorerSettings
 
 __all__ = ["TradeOff", "trade_off"]
 
