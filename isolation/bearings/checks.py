@@ -154,6 +154,11 @@ def hole_factor(outer_diameter, inner_diameter) -> float:
     -------
     float
         F, in (0, 1]. [-]
+
+    References
+    ----------
+    Constantinou, M. C., Kartoum, A. & Kelly, J. M. (1992). Analysis of compression of hollow circular
+    elastomeric bearings. Engineering Structures 14(2), 103-111. DOI not verified.
     """
     do = validate.positive("outer_diameter", outer_diameter, "m")
     di = validate.non_negative("inner_diameter", inner_diameter, "m")
@@ -184,6 +189,13 @@ def compression_modulus(shear_modulus, shape, bulk_modulus=None, hole=1.0) -> fl
     -------
     float
         E_c. [kPa]
+
+    References
+    ----------
+    Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration
+    Isolation. Wiley, Chichester. DOI not verified.
+    Constantinou, M. C., Kartoum, A. & Kelly, J. M. (1992). Analysis of compression of hollow circular
+    elastomeric bearings. Engineering Structures 14(2), 103-111. DOI not verified.
     """
     g = validate.positive("shear_modulus", shear_modulus, "kPa")
     s = validate.positive("shape_factor", shape, "-")
@@ -251,6 +263,11 @@ def buckling_load(shear_modulus, area, inertia, compression, rubber_thickness, h
     -------
     float
         P_cr. [kN]
+
+    References
+    ----------
+    Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration
+    Isolation. Wiley, Chichester. DOI not verified.
     """
     g = validate.positive("shear_modulus", shear_modulus, "kPa")
     a = validate.positive("area", area, "m2")

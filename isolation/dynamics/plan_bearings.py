@@ -72,6 +72,11 @@ def smooth_update(z0: np.ndarray, step: np.ndarray, inv_yield: np.ndarray) -> np
     -------
     ndarray (..., 2)
         z at the end of the step. [-]
+
+    References
+    ----------
+    Park, Y. J., Wen, Y. K. & Ang, A. H.-S. (1986). Random vibration of hysteretic systems under bi-directional
+    ground motions. Earthquake Eng. Struct. Dyn. 14(4), 543-557. doi:10.1002/eqe.4290140405 (DOI not verified)
     """
     length = np.sqrt((step * step).sum(axis=-1))
     moving = length > 0.0

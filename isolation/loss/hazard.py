@@ -248,6 +248,12 @@ def annual_rate(median, dispersion, hazard) -> float:
     -----
     For lambda(x) = k0 x^-k the closed form is k0 median^-k exp(k^2 dispersion^2/2)
     (Cornell et al. 2002).
+
+    References
+    ----------
+    Cornell, C. A., Jalayer, F., Hamburger, R. O. & Foutch, D. A. (2002). Probabilistic basis for 2000 SAC
+    Federal Emergency Management Agency steel moment frame guidelines. J. Struct. Eng. 128(4), 526-533. DOI not
+    verified.
     """
     m, b = float(median), float(dispersion)
     if not (m > 0.0 and math.isfinite(m)):

@@ -229,6 +229,17 @@ def matched_suite(
     MatchedSuite
         Records [g], seeds, control periods [s], target and record spectra
         [g]; ``.check()`` gives the tolerance report.
+
+    References
+    ----------
+    Gasparini, D. A. & Vanmarcke, E. H. (1976). SIMQKE: simulated earthquake motions compatible with
+    prescribed response spectra. MIT Report R76-4 (a report, no DOI).
+    Preumont, A. (1984). The generation of spectrum compatible accelerograms for the design of nuclear power
+    plants. Earthquake Eng. Struct. Dyn. 12(4), 481-497. doi:10.1002/eqe.4290120405
+    Jennings, P. C., Housner, G. W. & Tsai, N. C. (1968). Simulated earthquake motions. Earthquake Engineering
+    Research Laboratory, California Institute of Technology (a report, no DOI).
+    Al Atik, L. & Abrahamson, N. (2010). An improved method for nonstationary spectral matching. Earthquake
+    Spectra 26(3), 601-617. doi:10.1193/1.3459159
     """
     if not callable(getattr(spectrum, "sa", None)):
         raise ValueError(f"spectrum = {spectrum!r} is not allowed: must have a method sa(period, damping) [g]")
