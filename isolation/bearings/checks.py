@@ -23,8 +23,7 @@ Elastomer layer mechanics (Kelly & Konstantinidis 2011; Naeim & Kelly 1999):
 
 References
 ----------
-Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for
-Seismic and Vibration Isolation. Wiley.
+Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration Isolation. Wiley.
 Naeim, F. & Kelly, J. M. (1999). Design of Seismic Isolated Structures. Wiley.
 AASHTO (2014). Guide Specifications for Seismic Isolation Design, 4th ed.
 ASCE/SEI 7-16, Chapter 17 (restoring force, §17.2.4.4).
@@ -40,11 +39,8 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 
-__all__ = [
-    "Check", "shape_factor", "hole_factor", "compression_modulus", "overlap_area", "overlap_ratio",
-    "buckling_load", "rotation_strain", "restoring_force_check", "slider_checks", "elastomer_checks",
-    "LIMITS",
-]
+__all__ = ["Check", "shape_factor", "hole_factor", "compression_modulus", "overlap_area", "overlap_ratio",
+           "buckling_load", "rotation_strain", "restoring_force_check", "slider_checks", "elastomer_checks", "LIMITS"]
 
 LIMITS = {
     "restoring_force": (0.025, "ASCE/SEI 7-16 §17.2.4.4: F(D) - F(D/2) >= 0.025 W"),
