@@ -136,7 +136,7 @@ def text_only(diff: list[str]) -> bool:
     new = [x[1:] for x in diff if x.startswith("+")]
     if len(old) != len(new) or not old:
         return False
-    for a, b in zip(old, new):
+    for a, b in zip(old, new, strict=True):
         if _LOGIC_CONTEXT.search(a):
             return False
         ta, tb = _tokens(a), _tokens(b)

@@ -232,6 +232,7 @@ class HighDampingRubber(Elastomer):
         displacement : float or array
             Amplitude D > 0. [m]
         """
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         g = self.compound.shear_modulus_at(self._strain(displacement))
         return g * self.rubber_area / self.rubber_thickness
 
@@ -243,6 +244,7 @@ class HighDampingRubber(Elastomer):
         displacement : float or array
             Amplitude D > 0. [m]
         """
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         return self.compound.damping_at(self._strain(displacement))
 
     def bilinear(self, weight=None, displacement=None) -> Bilinear:
@@ -288,6 +290,7 @@ class HighDampingRubber(Elastomer):
         out = super().checks(axial_load, displacement, axial_load_max=axial_load_max,
                              axial_load_min=axial_load_min, rotation=rotation, weight_share=weight_share)
         strain = float(self._strain(displacement))
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         top = self.compound.strains[-1]
         out.append(_checks.Check("shear strain within compound table", strain, top, bool(strain <= top), "-",
                                  "compound test curves: beyond the last strain the end values are held"))

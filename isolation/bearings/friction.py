@@ -159,6 +159,7 @@ class FrictionPendulum:
             Coefficient of friction. [-]
         """
         v = np.abs(np.asarray(velocity, dtype=float))
+        assert self.friction_slow is not None  # None is replaced by friction in __post_init__
         out = self.friction - (self.friction - self.friction_slow) * np.exp(-self.rate_parameter * v)
         return float(out) if out.ndim == 0 else out
 

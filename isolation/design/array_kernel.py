@@ -115,7 +115,7 @@ class EquivalentLinearArrays:
         out = []
         for j, i in enumerate(chosen):
             history = self.histories[i] if self.histories is not None else ()
-            leading = {name: column[j] for name, column in zip(_RESULT_FIELDS, columns)}
+            leading = {name: column[j] for name, column in zip(_RESULT_FIELDS, columns, strict=True)}
             out.append(EquivalentLinearResult(**leading, rule=self.rule,
                                               iterations=iterations[j], converged=True, method=methods[j],
                                               history=history))
@@ -261,7 +261,7 @@ class _Run:
             period, beta, b, nxt = period[ok], beta[ok], b[ok], nxt[ok]
             self.iterations[index[rows]] += 1
             if self.trials is not None:
-                for r, x, t, z, c, y in zip(index[rows], d, period, beta, b, nxt):
+                for r, x, t, z, c, y in zip(index[rows], d, period, beta, b, nxt, strict=True):
                     self.trials[r].append((float(x), float(t), float(z), float(c), float(y)))
             step = nxt - d
             done = np.abs(step) <= self.tol * np.maximum(d + step, 1e-12)
@@ -351,7 +351,7 @@ def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spect
             names.append((i, str(name)))
     arrays = equivalent_linear_many(flat, np.asarray(owner), spectrum, rule, **options)
     results: list[dict] = [{} for _ in sets]
-    for (i, name), result in zip(names, arrays.results()):
+    for (i, name), result in zip(names, arrays.results(), strict=True):
         results[i][name] = result
     out = []
     for r in results:

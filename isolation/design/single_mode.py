@@ -268,7 +268,7 @@ def _bracketed_root(trials: _Trials, tol: float) -> float | None:
     """Fallback: Brent's method on a bracket of f(D) - D from a log grid (1e-6 to 50 m); the root [m] or None."""
     grid = np.geomspace(1e-6, 50.0, 240)
     values = [trials.residual(x, record=False) for x in grid]
-    pairs = [(a, b, fa, fb) for a, b, fa, fb in zip(grid[:-1], grid[1:], values[:-1], values[1:])
+    pairs = [(a, b, fa, fb) for a, b, fa, fb in zip(grid[:-1], grid[1:], values[:-1], values[1:], strict=True)
              if math.isfinite(fa) and math.isfinite(fb)]
     crossings = [p for p in pairs if p[2] > 0.0 >= p[3]] or [p for p in pairs if p[2] * p[3] <= 0.0]
     if not crossings:

@@ -161,7 +161,8 @@ class HazardCurve:
         x = np.asarray(self.intensities, dtype=float).ravel()
         r = np.asarray(self.rates, dtype=float).ravel()
         if x.size < 2 or x.size != r.size:
-            raise ValueError(f"hazard points = {list(zip(x.tolist(), r.tolist()))!r} are not allowed: must be at "
+            shown = list(zip(x.tolist(), r.tolist(), strict=False))  # the pairs there are, even when counts differ
+            raise ValueError(f"hazard points = {shown!r} are not allowed: must be at "
                              "least 2 pairs (intensity, annual rate)")
         if not (np.all(np.isfinite(x)) and np.all(np.isfinite(r)) and np.all(x > 0) and np.all(r > 0)):
             raise ValueError(f"hazard intensities = {x.tolist()!r}, rates = {r.tolist()!r} are not allowed: "

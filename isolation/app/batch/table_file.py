@@ -55,7 +55,9 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
                     continue
                 overrides = {}
                 variant_id = None
-                for name, cell in zip(names, row.values()):
+                # strict=False: csv.DictReader keeps one cell per distinct header name, so a repeated name
+                # gives fewer cells than names (as before strict= was written)
+                for name, cell in zip(names, row.values(), strict=False):
                     if cell is None or not str(cell).strip() or not name:
                         continue
                     if name == "id":
