@@ -292,3 +292,26 @@ def test_risk_categories_follow_table_1_5_2():
     for row in table.rows:
         if row["risk_category"] != "I":
             assert collapse_probability_at_mce(float(row["I_e"])) == COLLAPSE_AT_MCE[row["risk_category"]]
+
+
+def test_design_spectrum_is_two_thirds_of_mce_r_as_re_read():
+    # ASCE/SEI 7-16 §11.4.5 (re-read, as quoted in 'Design Response Spectrum to ASCE 7', CalcTree):
+    # S_DS = 2/3 S_MS and S_D1 = 2/3 S_M1; the design spectrum is the MCE_R one scaled by 2/3 at every period.
+    import numpy as np
+
+    from isolation.site.spectra import CodeSpectrum
+
+    assert find_clause("ASCE/SEI 7", "§11.4.5").status == "re-read"
+    mce = CodeSpectrum(1.5, 0.9, long_period=8.0)
+    periods = np.array([0.0, 0.1, 0.5, 1.0, 3.0, 10.0])
+    np.testing.assert_allclose(mce.design().sa(periods), 2.0 / 3.0 * mce.sa(periods), rtol=1e-12)
+    design = CodeSpectrum.from_design_values(1.0, 0.6)  # S_DS 1.0, S_D1 0.6 -> S_MS 1.5, S_M1 0.9
+    assert (design.sms, design.sm1) == pytest.approx((1.5, 0.9))
+
+
+def test_site_class_f_cites_the_site_specific_clause_as_re_read():
+    # ASCE/SEI 7-16 Table 11.4-2 (re-read) sends site class F to §11.4.8, site-specific procedures.
+    from isolation.verdict.sources import source
+
+    assert find_clause("ASCE/SEI 7", "§11.4.8").status == "re-read"
+    assert source("soft soil class F", "asce7").startswith("ASCE/SEI 7-16 §11.4.8 (re-read")
