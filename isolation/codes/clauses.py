@@ -4,7 +4,7 @@ Each :class:`Clause` names a document (ASCE/SEI 7, EN 1998-1, EN 1998-2, EN 1990
 AASHTO Guide Specifications for Seismic Isolation Design, FEMA P-58-1, FEMA's earthquake
 loss estimation technical manual), its edition, the clause, what it covers as the package
 uses it, whether its text was re-read from a published source for this table ("re-read",
-the note names the source) or not ("from memory"), and the files that cite it.
+``source`` names the texts read) or not ("from memory"), and the files that cite it.
 :data:`CLAUSES` holds them all: :func:`load_clauses` reads them from the data file
 ``isolation/codes/clauses.toml`` (shipped with the package) and checks every field;
 :func:`find_clause` looks one up and :func:`isolation.output.tables.clause_table` prints them for the
@@ -57,9 +57,9 @@ class Clause:
         Files that cite it, relative to the repository (``"isolation/codes/asce7.py"``).
     note : str
         Doubts, what was compared, or what to verify.
-    source : str
-        For "re-read": the published document read (title, edition, section or page,
-        address); empty for "from memory".
+    source : str or tuple of str
+        For "re-read": the published documents read (title, edition, section or page,
+        address), one string each; empty for "from memory". Kept as a tuple.
     """
 
     document: str
@@ -69,7 +69,7 @@ class Clause:
     status: str
     used_in: tuple[str, ...]
     note: str = ""
-    source: str = ""
+    source: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         if self.status not in STATUSES:
@@ -77,11 +77,13 @@ class Clause:
         if not self.document or not self.edition or not self.clause:
             raise ValueError(f"document, edition and clause must not be empty: got {self.document!r}, "
                              f"{self.edition!r}, {self.clause!r}")
+        source = (self.source,) if isinstance(self.source, str) else tuple(self.source)
+        object.__setattr__(self, "source", tuple(s for s in source if s))
         if self.status == "re-read" and not self.source:
             raise ValueError(f"source = '' is not allowed for a re-read clause ({self.document} {self.edition} "
                              f"{self.clause}): name the published document read")
         if self.status == "from memory" and self.source:
-            raise ValueError(f"source = {self.source!r} is not allowed for a clause from memory ({self.document} "
+            raise ValueError(f"source = {self.source[0]!r} is not allowed for a clause from memory ({self.document} "
                              f"{self.edition} {self.clause}): set status = 're-read' or move the text to note")
         object.__setattr__(self, "used_in", tuple(self.used_in))
 
@@ -120,8 +122,12 @@ def _short_name(document: str, edition: str) -> str:
 DATA_FILE = "clauses.toml"
 """Name of the clause rows' data file inside :mod:`isolation.codes` (package data)."""
 
-_REQUIRED = {"document": str, "edition": str, "clause": str, "title": str, "status": str, "used_in": list}
-_OPTIONAL = {"note": str, "source": str}
+_Kind = type | tuple[type, ...]
+_REQUIRED: dict[str, _Kind] = {"document": str, "edition": str, "clause": str, "title": str, "status": str,
+                              "used_in": list}
+_OPTIONAL: dict[str, _Kind] = {"note": str, "source": (str, list)}
+_ALLOWED: dict[_Kind, str] = {list: "a list of file paths (strings)", str: "a string",
+                              (str, list): "a string or a list of strings"}
 
 
 def _row_name(index: int, row: dict) -> str:
@@ -145,9 +151,8 @@ def _clause_from_row(index: int, row: object) -> Clause:
                 raise ValueError(f"{name}: field {field!r} is missing (required: {sorted(_REQUIRED)})")
             continue
         value = row[field]
-        if not isinstance(value, kind) or (kind is list and not all(isinstance(v, str) for v in value)):
-            allowed = "a list of file paths (strings)" if kind is list else "a string"
-            raise ValueError(f"{name}: field {field!r} = {value!r} is not allowed: must be {allowed}")
+        if not isinstance(value, kind) or (isinstance(value, list) and not all(isinstance(v, str) for v in value)):
+            raise ValueError(f"{name}: field {field!r} = {value!r} is not allowed: must be {_ALLOWED[kind]}")
         if field in _REQUIRED and not value:
             raise ValueError(f"{name}: field {field!r} = {value!r} is not allowed: must not be empty")
     if row["document"] not in DEFAULT_EDITIONS:
@@ -155,7 +160,7 @@ def _clause_from_row(index: int, row: object) -> Clause:
                          f"{sorted(DEFAULT_EDITIONS)}")
     try:
         return Clause(row["document"], row["edition"], row["clause"], row["title"], row["status"],
-                      tuple(row["used_in"]), row.get("note", ""), row.get("source", ""))
+                      tuple(row["used_in"]), row.get("note", ""), row.get("source", ()))
     except ValueError as error:
         raise ValueError(f"{name}: {error}") from None
 
@@ -167,7 +172,8 @@ def load_clauses(path: str | Path | None = None) -> tuple[Clause, ...]:
     ----------
     path : str or Path, optional
         TOML file with one ``[[clause]]`` table per clause (fields: document, edition,
-        clause, title, status, used_in, and optionally source and note); default: the
+        clause, title, status, used_in, and optionally source (a string or a list of
+        strings, one per text read) and note); default: the
         package's own ``isolation/codes/clauses.toml``.
 
     Returns

@@ -106,10 +106,12 @@ def test_rows_are_unique_and_well_formed():
     for clause in CLAUSES:
         assert clause.status in STATUSES
         assert clause.title
-        if clause.status == "re-read":  # the source names the published text read: a title and where it stands
-            assert len(clause.source) > 40 and ("http" in clause.source or "ISBN" in clause.source), clause.reference
+        if clause.status == "re-read":  # each source names a published text read: a title and where it stands
+            assert clause.source, clause.reference
+            for text in clause.source:
+                assert len(text) > 40 and ("http" in text or "ISBN" in text), clause.reference
         else:
-            assert clause.source == "", clause.reference
+            assert clause.source == (), clause.reference
 
 
 # --- the data file and its loader --------------------------------------------------------------------
@@ -151,6 +153,7 @@ def test_the_data_file_ships_with_the_package():
      r"field 'document' = 'NZS 1170.5' is not allowed: must be one of \['AASHTO GSID'"),
     (_ROW.replace('status = "from memory"', 'status = "re-read"'), r"source = '' is not allowed for a re-read clause"),
     (_ROW + 'source = "a book"\n', r"source = 'a book' is not allowed for a clause from memory"),
+    (_ROW + "source = [1]\n", r"field 'source' = \[1\] is not allowed: must be a string or a list of strings"),
     (_ROW + "\n" + _ROW, r"row 2 \(ASCE/SEI 7-16 §17.2.1\): repeats row 1"),
     ('title = "x"\n' + _ROW, r"must hold \[\[clause\]\] tables only, got top-level keys \['clause', 'title'\]"),
     ("[[clause]\n", r"not valid TOML"),
@@ -168,7 +171,10 @@ def test_the_loader_takes_a_well_formed_row(tmp_path):
                     encoding="utf-8")
     (clause,) = load_clauses(path)
     assert (clause.reference, clause.status, clause.source, clause.used_in, clause.note) == (
-        "ASCE/SEI 7-16 §17.2.1", "re-read", "a published text", ("isolation/codes/asce7.py",), "")
+        "ASCE/SEI 7-16 §17.2.1", "re-read", ("a published text",), ("isolation/codes/asce7.py",), "")
+    path.write_text(_ROW.replace('status = "from memory"', 'status = "re-read"\nsource = ["text A", "text B"]'),
+                    encoding="utf-8")
+    assert load_clauses(path)[0].source == ("text A", "text B")
 
 
 def test_clause_rejects_an_unknown_status():
@@ -260,8 +266,10 @@ def test_clause_table_prints_every_row_with_its_status():
     # Down the column: "from memory", or "re-read [n]" with n the text read, listed under the table.
     for clause, row in zip(CLAUSES, table.rows):
         if clause.status == "re-read":
-            n = int(row[3].removeprefix("re-read [").removesuffix("]"))
-            assert f"[{n}] {clause.source}" in table.notes
+            numbers = [int(n) for n in row[3].removeprefix("re-read [").removesuffix("]").split(", ")]
+            assert len(numbers) == len(clause.source)
+            for n, text in zip(numbers, clause.source):
+                assert f"[{n}] {text}" in table.notes
         else:
             assert row[3] == "from memory"
     typst = table._repr_typst_()
@@ -272,11 +280,11 @@ def test_clause_table_prints_every_row_with_its_status():
 
 def test_clause_table_numbers_each_text_read_once():
     rows = [Clause("ASCE/SEI 7", "7-16", c, "subject", "re-read", ("isolation/codes/asce7.py",), source=s)
-            for c, s in (("§17.2.1", "text A"), ("§17.5.4.3", "text B"), ("§17.5.6", "text A"))]
+            for c, s in (("§17.2.1", "text A"), ("§17.5.4.3", ("text B", "text C")), ("§17.5.6", ("text C", "text A")))]
     rows.insert(1, Clause("EN 1998-1", "2004", "§10.3", "subject", "from memory", ("isolation/codes/eurocode.py",)))
     table = clause_table(rows)
-    assert [row[3] for row in table.rows] == ["re-read [1]", "from memory", "re-read [2]", "re-read [1]"]
-    assert "Texts read: [1] text A | [2] text B." in table.notes
+    assert [row[3] for row in table.rows] == ["re-read [1]", "from memory", "re-read [2, 3]", "re-read [3, 1]"]
+    assert "Texts read: [1] text A | [2] text B | [3] text C." in table.notes
     assert "(3 re-read, 1 from memory)" in table.caption
 
 

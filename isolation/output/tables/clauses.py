@@ -15,8 +15,10 @@ __all__ = ["clause_table"]
 
 
 def _status(clause: Clause, number: dict[str, int]) -> str:
-    """Status cell: "re-read [2]" (the second text read) or "from memory"."""
-    return f"re-read [{number[clause.source]}]" if clause.status == "re-read" else "from memory"
+    """Status cell: "re-read [2]" (the second text read), "re-read [2, 4]" or "from memory"."""
+    if clause.status != "re-read":
+        return "from memory"
+    return f"re-read [{', '.join(str(number[s]) for s in clause.source)}]"
 
 
 def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-clauses"):
@@ -37,7 +39,7 @@ def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-c
         apart down the column; the caption and the notes give how many are each.
     """
     rows = list(CLAUSES if clauses is None else clauses)
-    sources = list(dict.fromkeys(c.source for c in rows if c.status == "re-read"))  # in table order
+    sources = list(dict.fromkeys(s for c in rows if c.status == "re-read" for s in c.source))  # in table order
     number = {source: n for n, source in enumerate(sources, 1)}
     memory = sum(c.status == "from memory" for c in rows)
     counts = f"{len(rows) - memory} re-read, {memory} from memory"
