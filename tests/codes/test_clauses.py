@@ -3,8 +3,9 @@
 Citations are read from the package's strings, docstrings and comments, from the workbooks,
 and at run time from the sources of the code reports' items and checks, the bearing checks
 and the verdict's source table. The parser's own examples are the citation forms the package
-writes; the clause rows' status and sources are checked for form only (what was re-read is
-named in each row's note).
+writes; the clause rows' status and sources are checked for form (what was re-read is named in
+each row's source), the data file's loader for the row and field its messages name, and the
+values of re-read rows against the package where the package computes them.
 """
 
 import math
