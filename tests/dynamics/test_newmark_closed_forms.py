@@ -623,7 +623,7 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
 def _path(*points, per_mm=10):
     """Piecewise-linear drift path through the given drifts [mm], in steps of 0.1 mm; returns m."""
     out = [points[0]]
-    for a, b in zip(points[:-1], points[1:]):
+    for a, b in zip(points[:-1], points[1:], strict=False):
         n = max(1, int(round(abs(b - a) * per_mm)))
         out.extend(np.linspace(a, b, n + 1)[1:])
     return np.asarray(out) * 1e-3
@@ -726,7 +726,7 @@ def test_isolator_newton_converges_within_the_iterations_its_method_needs(engine
     monkeypatch.setattr(newmark, "MAX_ITERATIONS", iterations)
     fast = respond(engine, *model, ground, dt, law=law, damper=4.0)
     assert np.abs(reference[0][:, :, 0]).max() > 0.05
-    for a, b in zip(reference, fast):
+    for a, b in zip(reference, fast, strict=True):
         np.testing.assert_allclose(b, a, rtol=0, atol=1e-9 * np.abs(a).max())
     if iterations > 1:
         monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
