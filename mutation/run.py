@@ -60,8 +60,8 @@ MODULES: dict[str, tuple[str, ...]] = {
     "bearings/damping_rubber": ("tests/bearings/test_bearings_rubber.py",),
     "bearings/checks": ("tests/bearings/test_bearings_rubber.py", "tests/bearings/test_bearings_system.py",
                         "tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_triple_pendulum.py"),
-    "dynamics/newmark": ("tests/dynamics/test_newmark_closed_forms.py",),
-    "dynamics/kernel": ("tests/dynamics/test_newmark_closed_forms.py",),
+    "dynamics/newmark": ("tests/dynamics/test_newmark_closed_forms.py", "tests/dynamics/test_newmark_kernel.py"),
+    "dynamics/kernel": ("tests/dynamics/test_newmark_closed_forms.py", "tests/dynamics/test_newmark_kernel.py"),
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py",
                            "tests/dynamics/test_isolator_laws.py", "tests/bearings/test_bearing_registry.py"),
 }
