@@ -370,3 +370,20 @@ def test_integrate_of_a_fixed_base_model_has_no_isolator_outputs():
     assert set(out) == {"state", "force", "hysteretic_state"}
     assert out["force"] is None and out["hysteretic_state"] is None
     assert out["state"].shape == (5, 3, 1)
+
+
+def test_single_element_shortcut_agrees_with_the_general_newton_iteration():
+    # One elastic-plastic element takes a shortcut (one elastic trial, one plastic correction) in both
+    # engines; the same element split into two equal halves (same law: k/2 + k/2, F/2 + F/2) takes the
+    # general Newton iteration. All four runs must give the same history (to the iteration tolerance).
+    dt = 0.005
+    g = 6.0 * ground_record(600, dt, seed=4)
+    ground = np.vstack([g, -0.6 * g])
+    model = (np.array([2.0, 1.0]), chain([2.0, 1.0], [800.0], base=True)[1], np.diag([0.0, 0.5]))
+    one = ("ep", 10.0, (900.0,), (3.0,))
+    halves = ("ep", 10.0, (450.0, 450.0), (1.5, 1.5))
+    runs = [respond(engine, *model, ground, dt, law=law, damper=4.0) for engine in ENGINES for law in (one, halves)]
+    assert np.abs(runs[0][0][:, :, 0]).max() > 20 * 3.0 / 900.0  # well past yield
+    for other in runs[1:]:
+        for a, b in zip(runs[0], other, strict=True):
+            np.testing.assert_allclose(b, a, rtol=0, atol=1e-8 * np.abs(a).max())
