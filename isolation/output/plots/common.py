@@ -16,7 +16,7 @@ from isolation.output.tables.symbols import latex_text
 from isolation.units import SYSTEMS, convert
 from isolation.validate import one_of
 
-__all__ = ["WIDTH", "COLOURS", "SERIES_COLOURS", "AxisUnit", "axis_unit", "captioned"]
+__all__ = ["WIDTH", "COLOURS", "SERIES_COLOURS", "AxisUnit", "axis_unit", "captioned", "figure_png"]
 
 
 WIDTH = 6.4  # figure width [in]; the report scales it to the text width
@@ -115,6 +115,42 @@ def _colour(label: str, index: int) -> str:
     return SERIES_COLOURS[index % len(SERIES_COLOURS)]
 
 
+def figure_png(figure: Figure, dpi: int = 200) -> bytes:
+    """The figure as PNG bytes, drawn once on an Agg canvas at ``dpi``.
+
+    The same pixels as ``figure.savefig(format="png", dpi=dpi)``, with less work:
+    one draw (the layout engine runs inside it) where ``savefig`` draws twice, and an
+    opaque figure stored as RGB at a light compression level (as large as
+    ``savefig``'s RGBA file, and quicker to write and to read back).
+
+    Parameters
+    ----------
+    figure : matplotlib.figure.Figure
+        The figure; its own resolution is restored afterwards.
+    dpi : int
+        Resolution. [dots per inch]
+    """
+    from PIL import Image
+
+    canvas = figure.canvas if isinstance(figure.canvas, FigureCanvasAgg) else FigureCanvasAgg(figure)
+    own = figure.dpi
+    figure.dpi = dpi
+    try:
+        canvas.draw()
+        width, height = canvas.get_width_height(physical=True)
+        image = Image.frombuffer("RGBA", (width, height), canvas.buffer_rgba(), "raw", "RGBA", 0, 1)
+        alpha_min, _ = image.getextrema()[3]
+        image = image.convert("RGB") if alpha_min == 255 else image.copy()
+    finally:
+        figure.dpi = own
+    buffer = io.BytesIO()
+    image.save(buffer, format="png", compress_level=_PNG_LEVEL, dpi=(dpi, dpi))
+    return buffer.getvalue()
+
+
+_PNG_LEVEL = 1  # zlib level of the figures' PNG files: as small as savefig's RGBA at level 6, quicker
+
+
 class _Captioned:
     """A figure as PNG with its caption in the output metadata."""
 
@@ -125,9 +161,7 @@ class _Captioned:
         self.label = str(label)
 
     def png(self) -> bytes:
-        buffer = io.BytesIO()
-        self.figure.savefig(buffer, format="png", dpi=self.dpi)
-        return buffer.getvalue()
+        return figure_png(self.figure, self.dpi)
 
     def _repr_png_(self):
         # The LaTeX template prints caption_latex: escaped, symbols (D_M, T_fb) as subscripts;
