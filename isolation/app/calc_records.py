@@ -258,7 +258,7 @@ def _checked_inputs(study_file: str | Path, overrides: Mapping[str, Any] | None,
     mapping = read_study_mapping(path)
     study = parse_study(apply_overrides(mapping, changes) if changes else mapping,
                         source=str(path), base_dir=path.parent)   # InputError: nothing written
-    from isolation.study.runner import check_study
+    from isolation.study.checks import check_study  # not through the runner: no numba in this process
 
     check_study(study)
     return path, workbook, changes, study

@@ -336,8 +336,11 @@ def test_figure_png_has_the_pixels_of_matplotlib_savefig():
     fig = plots.displacement_histories(np.linspace(0.0, 10.0, 2001), [np.sin(np.linspace(0, 30, 2001)) * 0.2],
                                        design_displacement=0.15, capacity=0.25)
     fig.axes[0].set_xscale("log")  # math-text tick labels too
+    canvas = fig.canvas
     data = plots.figure_png(fig, 60)
     assert data.startswith(PNG_SIGNATURE)
+    assert fig.canvas is canvas  # the figure keeps its own canvas
+    assert plots.figure_png(fig, 60) == data  # drawn again on the shared renderer: the same file
     buffer = io.BytesIO()
     fig.savefig(buffer, format="png", dpi=60)
     ours, theirs = Image.open(io.BytesIO(data)), Image.open(io.BytesIO(buffer.getvalue()))

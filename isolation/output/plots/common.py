@@ -119,21 +119,23 @@ def figure_png(figure: Figure, dpi: int = 200) -> bytes:
     """The figure as PNG bytes, drawn once on an Agg canvas at ``dpi``.
 
     The same pixels as ``figure.savefig(format="png", dpi=dpi)``, with less work:
-    one draw (the layout engine runs inside it) where ``savefig`` draws twice, and an
-    opaque figure stored as RGB at a light compression level (as large as
-    ``savefig``'s RGBA file, and quicker to write and to read back).
+    one draw (the layout engine runs inside it) where ``savefig`` draws twice; a
+    renderer shared by figures of one size, so text measured for one figure (tick
+    labels, axis labels) is not measured again for the next; and an opaque figure
+    stored as RGB at a light compression level (as large as ``savefig``'s RGBA file,
+    and quicker to write and to read back).
 
     Parameters
     ----------
     figure : matplotlib.figure.Figure
-        The figure; its own resolution is restored afterwards.
+        The figure; its own canvas and resolution are restored afterwards.
     dpi : int
         Resolution. [dots per inch]
     """
     from PIL import Image
 
-    canvas = figure.canvas if isinstance(figure.canvas, FigureCanvasAgg) else FigureCanvasAgg(figure)
-    own = figure.dpi
+    own_canvas, own_dpi = figure.canvas, figure.dpi
+    canvas = _SharedRendererCanvas(figure)
     figure.dpi = dpi
     try:
         canvas.draw()
@@ -142,10 +144,34 @@ def figure_png(figure: Figure, dpi: int = 200) -> bytes:
         alpha_min, _ = image.getextrema()[3]
         image = image.convert("RGB") if alpha_min == 255 else image.copy()
     finally:
-        figure.dpi = own
+        figure.dpi = own_dpi
+        figure.set_canvas(own_canvas)
     buffer = io.BytesIO()
     image.save(buffer, format="png", compress_level=_PNG_LEVEL, dpi=(dpi, dpi))
     return buffer.getvalue()
+
+
+class _SharedRendererCanvas(FigureCanvasAgg):
+    """An Agg canvas whose renderer is shared by every figure of the same size and resolution.
+
+    matplotlib keeps the sizes of measured text per renderer; one renderer per figure size
+    lets the next figure reuse them. Used for one draw at a time (Agg draws under a lock).
+    """
+
+    _renderers: dict = {}
+
+    def get_renderer(self):
+        width, height = self.figure.bbox.size
+        key = (width, height, self.figure.dpi)
+        renderer = self._renderers.get(key)
+        if renderer is None:
+            if len(self._renderers) >= 8:
+                self._renderers.clear()
+            from matplotlib.backends.backend_agg import RendererAgg
+
+            renderer = self._renderers[key] = RendererAgg(width, height, self.figure.dpi)
+        self.renderer, self._lastKey = renderer, key
+        return renderer
 
 
 _PNG_LEVEL = 1  # zlib level of the figures' PNG files: as small as savefig's RGBA at level 6, quicker
