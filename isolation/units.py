@@ -105,12 +105,8 @@ def _registry():
 
 
 def _pint_cache(pint) -> str:
-    """Cache folder of pint's parsed definitions, one per pint installation.
-
-    pint's shared user folder (``":auto:"``) fails when another installation of pint (another
-    virtual environment) wrote it first: its entries name that installation's files. A folder
-    of its own per installation avoids the clash.
-    """
+    """Cache folder of pint's parsed definitions, one per pint installation (pint's shared folder,
+    ``":auto:"``, fails once another environment's pint wrote it: its entries name that one's files)."""
     import hashlib
     import os
     from pathlib import Path

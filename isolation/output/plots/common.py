@@ -141,8 +141,8 @@ def figure_png(figure: Figure, dpi: int = 200) -> bytes:
         canvas.draw()
         width, height = canvas.get_width_height(physical=True)
         image = Image.frombuffer("RGBA", (width, height), canvas.buffer_rgba(), "raw", "RGBA", 0, 1)
-        alpha_min, _ = image.getextrema()[3]
-        image = image.convert("RGB") if alpha_min == 255 else image.copy()
+        opaque = image.getchannel("A").getextrema()[0] == 255
+        image = image.convert("RGB") if opaque else image.copy()
     finally:
         figure.dpi = own_dpi
         figure.set_canvas(own_canvas)
