@@ -170,7 +170,7 @@ class _SharedRendererCanvas(FigureCanvasAgg):
             from matplotlib.backends.backend_agg import RendererAgg
 
             renderer = self._renderers[key] = RendererAgg(width, height, self.figure.dpi)
-        self.renderer, self._lastKey = renderer, key
+        self.renderer = renderer
         return renderer
 
 
