@@ -110,6 +110,11 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
     d_n = np.zeros(ns)
     d_t = np.zeros(ns)
     p_it = np.zeros(ns)
+    k_plastic = (1.0 - alpha) * kel  # the bilinear law's elastic-plastic element
+    f_plastic = (1.0 - alpha) * fy
+    inv_kp = 1.0 / k_plastic
+    inv_k = 1.0 / kel
+    slots = 1 if skind == 1 else STOREY_STATE  # state slots a storey law uses
     ne = iso_k.shape[1]
     qs = np.zeros(max(ne, 2))
     qt = np.zeros(max(ne, 2))
@@ -204,7 +209,16 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                         if skind == 0:
                             s_t[i] = kel[i] * d
                         else:
-                            s = storey_force(skind, kel[i], fy[i], alpha, d_n[i], d, st, tr, i)
+                            if skind == 1:  # the bilinear law written out here: a call costs more than it
+                                q = st[i, 0] + k_plastic[i] * (d - d_n[i])
+                                if q > f_plastic[i]:
+                                    q = f_plastic[i]
+                                elif q < -f_plastic[i]:
+                                    q = -f_plastic[i]
+                                tr[i, 0] = q
+                                s = alpha * kel[i] * d + q
+                            else:
+                                s = storey_force(skind, kel[i], fy[i], alpha, d_n[i], d, st, tr, i)
                             s_t[i] = s
                             p_new = s - kel[i] * d
                             change = max(change, abs(p_new - p_it[i]))
@@ -249,7 +263,7 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                 for i in range(ns):
                     if skind != 0:
                         w_storey += 0.5 * (s_n[i] + s_t[i]) * (d_t[i] - d_n[i])
-                        for m in range(5):
+                        for m in range(slots):
                             st[i, m] = tr[i, m]
                     s_n[i] = s_t[i]
                     d_n[i] = d_t[i]
@@ -273,10 +287,9 @@ def run_columns(ground, dt, nsub, mass, cmat, ainv, gmat, lower, upper, skind, k
                 if skind == 0:
                     stored_lin += 0.5 * kel[i] * d_n[i] * d_n[i]
                 elif skind == 1:
-                    kp = (1.0 - alpha) * kel[i]
-                    stored_st += 0.5 * alpha * kel[i] * d_n[i] * d_n[i] + 0.5 * st[i, 0] * st[i, 0] / kp
+                    stored_st += 0.5 * alpha * kel[i] * d_n[i] * d_n[i] + 0.5 * st[i, 0] * st[i, 0] * inv_kp[i]
                 else:
-                    stored_st += 0.5 * s_n[i] * s_n[i] / kel[i]
+                    stored_st += 0.5 * s_n[i] * s_n[i] * inv_k[i]
             stored_iso = 0.0
             if isolated:
                 out_f[col, n + 1] = f_n
