@@ -315,7 +315,7 @@ def _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical):
     storey_q = np.zeros((cols, ns))
     drift_map = np.ascontiguousarray(springs.drift_map)
     kd = np.ascontiguousarray(k_inv @ drift_map)
-    failed = plan_kernel.plan_loop(
+    failed = plan_kernel.plan_loop(  # type: ignore[misc]  # not None: _integrate calls this only when available
         dt, m, c, k_inv, m @ r, g, pos, heights, floor_mass, gravity, vert, vertical is not None, slider,
         k0, q_fast, q_drop, rate, inv_y, strength, inv_ey, tolerance, _MAX_ITERATIONS, isolated, springs.yielding,
         drift_map, kd, np.ascontiguousarray(drift_map.T @ k_inv[:, :3]), np.ascontiguousarray(drift_map.T @ kd),

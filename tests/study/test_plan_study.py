@@ -100,7 +100,7 @@ def test_bidirectional_study_end_to_end(tmp_path):
         assert fixed["residual_drift_max"] > 0.0
         # axial loads straddle the gravity share of every bearing
         assert all(lo <= g <= hi for lo, g, hi in zip(b["bearing_axial_min_kN"], b["gravity_load_kN"],
-                                                       b["bearing_axial_max_kN"]))
+                                                       b["bearing_axial_max_kN"], strict=True))
     assert results.suite["pairs"]["pair_spectrum"] == "RotD100"
     # the report's table and figures are made from these results
     from isolation.output import plots, tables
