@@ -4,12 +4,12 @@ Plain Python on scalars and small arrays, written so that numba compiles it
 unchanged (:func:`isolation.dynamics.newmark.kernel_module` compiles a copy of
 this module and of :mod:`isolation.dynamics.kernel_laws`, the force laws it
 calls; these copies stay interpreted and are the fallback, giving the same
-results to round-off); the law names stay importable from here. The time
-loop stays one function with few calls in it: measured on this project's
-history benchmark, the same loop split into called steps ran 3-5 times
-slower, and one more call level inside the storey law doubled the cost of a
-yielding fixed-base analysis (compiled numba functions calling each other
-were not inlined here).
+results to round-off); the law names stay importable from here. The laws
+are compiled for LLVM to inline (numba ``forceinline``). The time loop
+stays one function: measured on this project's history benchmark, the same
+loop split into called steps ran 3-5 times slower, and about twice as slow
+with the steps force-inlined; the bilinear storey law is written out in the
+loop for the same reason.
 
 Model (relative to the ground, Newmark average acceleration, step h)
 

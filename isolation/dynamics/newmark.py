@@ -77,7 +77,7 @@ def kernel_module(compiled: bool | None = None):
         from isolation.dynamics import kernel_laws
 
         laws = _module_copy(kernel_laws, "isolation._kernel_laws_compiled")
-        _compile(laws, laws.JIT_FUNCTIONS)
+        _compile(laws, laws.JIT_FUNCTIONS, inline=laws.JIT_FUNCTIONS)
         module = _module_copy(kernel, "isolation._kernel_compiled")
         for name in laws.JIT_FUNCTIONS:  # the loop calls the compiled laws
             if hasattr(module, name):
@@ -103,18 +103,19 @@ def _module_copy(module, name: str):
     return copy
 
 
-def _compile(module, names) -> list:
-    """Replace the functions ``names`` of ``module`` by numba-compiled ones (cached on disk when it can)."""
+def _compile(module, names, inline=()) -> list:
+    """Replace the functions ``names`` of ``module`` by numba-compiled ones (cached on disk when it can);
+    those in ``inline`` are marked for LLVM to inline wherever they are called."""
     import numba
 
     found = []
     for name in names:
         function = getattr(module, name)
-        options = {"nogil": True, "error_model": "numpy"}
+        force = name in inline
         try:
-            compiled_function = numba.njit(cache=True, **options)(function)
+            compiled_function = numba.njit(cache=True, nogil=True, error_model="numpy", forceinline=force)(function)
         except RuntimeError:  # no writable cache location: compile in every process instead
-            compiled_function = numba.njit(**options)(function)
+            compiled_function = numba.njit(nogil=True, error_model="numpy", forceinline=force)(function)
         setattr(module, name, compiled_function)
         found.append(compiled_function)
     return found

@@ -373,7 +373,7 @@ def _chunks(tasks: list, size: int) -> list[list]:
     one, so that no worker is left with a short last chunk while the others wait."""
     parts = -(-len(tasks) // max(int(size), 1))
     bounds = [len(tasks) * i // parts for i in range(parts + 1)] if parts else [0]
-    return [tasks[start:end] for start, end in zip(bounds, bounds[1:])]
+    return [tasks[start:end] for start, end in zip(bounds[:-1], bounds[1:], strict=True)]
 
 
 def _stop(pool: Executor, pending: dict[Future, list], accept: Callable[[VariantOutcome], None]) -> None:
