@@ -30,6 +30,8 @@ Symposium, Tokyo (rule set as summarised from memory).
 
 import math
 
+import numpy as np
+
 JIT_FUNCTIONS = ("backbone", "storey_force", "theta", "shape", "isolator_force", "solve_base")
 """Functions :func:`isolation.dynamics.newmark.kernel_module` compiles, helpers first."""
 
@@ -253,3 +255,18 @@ def solve_base(kind, p, ke, fe, qs, qt, un, vn, wb, hb, hcd, c2, du, max_iter, t
         if abs(r) <= tol or abs(step) <= tol:
             return du, force, it + 1, r
     return du, force, -1, r
+
+
+def storey_history(kind, k, fy, alpha, drift):
+    """Storey force [kN] along an imposed drift history ``drift`` (steps,) [m] from the unloaded state
+    (interpreted; for loops and checks). k [kN/m], fy [kN], alpha [-] as in :func:`storey_force`."""
+    state = np.zeros((1, STOREY_STATE))
+    state[0, 1], state[0, 2] = fy / k, -fy / k
+    trial = state.copy()
+    out = np.empty_like(drift)
+    previous = 0.0
+    for n, value in enumerate(drift):
+        out[n] = storey_force(kind, k, fy, alpha, previous, float(value), state, trial, 0)
+        state[:] = trial
+        previous = float(value)
+    return out
