@@ -162,6 +162,14 @@ def test_command_prepares_the_motions_on_the_workers_while_it_validates(tmp_path
     assert not (tmp_path / "never").exists()
 
 
+def test_a_warmed_worker_has_the_compiled_engine():
+    # Derived: warm_worker loads the engine a history task uses; with numba installed it is the compiled one.
+    pytest.importorskip("numba")
+    from isolation.app.batch.histories import warm_worker
+
+    assert warm_worker() is True
+
+
 def test_chunks_are_seconds_long_and_the_same_for_one_and_two_workers():
     from isolation.app.batch.histories import history_chunk
 

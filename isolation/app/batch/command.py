@@ -162,9 +162,12 @@ def _motions_on(pool, args: argparse.Namespace, plan, out_dir: Path):
     for other batches."""
     if not args.histories:
         return None
-    from isolation.app.batch.histories import prepare_motions
+    from isolation.app.batch.histories import prepare_motions, warm_worker
 
-    return pool.submit(prepare_motions, plan, out_dir, motions=args.motions, quick=bool(args.quick))
+    prepared = pool.submit(prepare_motions, plan, out_dir, motions=args.motions, quick=bool(args.quick))
+    for _ in range(max((args.workers or _cores()) - 1, 0)):  # the other workers load the engine meanwhile
+        pool.submit(warm_worker)
+    return prepared
 
 
 def _discard(motions, out_dir: Path, existed: bool) -> None:
