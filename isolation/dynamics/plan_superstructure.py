@@ -24,10 +24,10 @@ rotations), which gives the storey's 6 x 6 stiffness through
 ``T = [[1, 0, -e_y], [0, 1, e_x], [0, 0, 1]]``: ``k_storey = T' diag(k_x, k_y,
 k_theta) T`` on the relative motion of the two levels.
 
-Accidental eccentricity is applied as a mass offset (ASCE/SEI 7-16 §12.8.4.2
-and EN 1998-1:2004 §4.3.2: 5 % of the plan dimension perpendicular to the
-motion, both signs; from memory): moving the centre of mass by ``(m_x, m_y)``
-moves every stiffness centre and bearing by ``(-m_x, -m_y)`` relative to it.
+Accidental eccentricity is applied as a mass offset (the clauses are cited in
+:mod:`isolation.dynamics.plan_structure`): moving the centre of mass by
+``(m_x, m_y)`` moves every stiffness centre and bearing by ``(-m_x, -m_y)``
+relative to it (:meth:`PlanShearBuilding.shifted`).
 
 Damping: classical (modal) damping of ``damping`` in every fixed-base mode of
 the plan superstructure, acting on floor motion relative to the isolation
