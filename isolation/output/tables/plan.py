@@ -56,7 +56,9 @@ def plan_storey_table(alternative: Any, system: str = "SI") -> Table | None:
     largest = strength.largest_ratio
     verdict = ("no storey strength given: the storeys are elastic" if largest is None else
                f"largest demand / capacity {largest:.2f}: "
-               + ("a storey yields (see the storey ductility)" if largest > 1.0 else "every storey stays elastic"))
+               + ("the suite-mean shear reaches the yield shear (see the storey ductility)" if largest >= 1.0
+                  else "the suite-mean shear stays below the yield shear in every storey (single records may "
+                       "still yield; see the storey ductility)"))
     notes = ("Plan model under the matched component pairs: peak storey shear (force of the storey's x or y "
              "spring at its centre of rigidity, without damping and P-delta), suite mean, the largest over the "
              "lower and upper properties and the four accidental-eccentricity signs; capacity: the storey yield "
