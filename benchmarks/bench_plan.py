@@ -70,7 +70,8 @@ def main() -> None:
         elastic_seconds = _timed(plan_superstructure(yielding=False), bearings, positions, pairs)[0]
         isolators = [b if isinstance(b, FrictionPendulum) else b.bilinear().times(count) for b in bearings]
         start = time.process_time()
-        run_cases(yielding_building(), BASE_MASS, dict(zip(("lower", "nominal", "upper"), isolators)), x, DT)
+        cases = dict(zip(("lower", "nominal", "upper"), isolators, strict=True))
+        run_cases(yielding_building(), BASE_MASS, cases, x, DT)
         planar = time.process_time() - start
         print(f"{name}: {len(bearings)} cases x {pairs.shape[0]} pairs + {pairs.shape[0]} fixed, {count} bearings, "
               f"{pairs.shape[-1]} steps, 5 yielding storeys: {seconds:.2f} s CPU (target <= 5 s); elastic storeys "

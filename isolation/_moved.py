@@ -76,7 +76,7 @@ def new_name(fullname: str) -> str | None:
 class _AliasLoader(importlib.abc.Loader):
     def __init__(self, target: str):
         self.target = target
-        self.real_spec = None
+        self.real_spec: importlib.machinery.ModuleSpec | None = None
 
     def create_module(self, spec):
         module = importlib.import_module(self.target)

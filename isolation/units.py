@@ -86,7 +86,9 @@ def _import_pint():
     if "pint" in sys.modules or "dask" in sys.modules:
         import pint
         return pint
-    sys.modules["dask"] = None  # pint's find_spec("dask") then answers None
+    # pint's find_spec("dask") then answers None: a None entry blocks an import (Python docs, "The module cache"),
+    # which typeshed's dict[str, ModuleType] for sys.modules does not allow for
+    sys.modules["dask"] = None  # type: ignore[assignment]
     try:
         import pint
     finally:

@@ -9,8 +9,9 @@ never run and are left out.
 * At module level (the imports that run when a module is loaded) the graph of
   the whole package has no cycle.
 * Counting the imports inside functions too (and in a module ``__getattr__``),
-  the graph of the whole package has no cycle either, but for the exceptions
-  listed in :data:`DEFERRED_BY_DESIGN`, each with its reason. (Issue 9 found
+  the graph of the whole package has no cycle either, without exceptions (the
+  last one, explorer answers <-> live, went when the explorer's calculation
+  moved below both). (Issue 9 found
   friction <-> double_concave, rubber -> damping_rubber -> system -> rubber
   and symbols <-> table, then ten more made when long modules were split and
   the old module re-exported the new one while the new one imported back
@@ -139,36 +140,16 @@ def test_no_import_circle_at_module_level():
     assert _cycles(top_level=True) == []
 
 
-DEFERRED_BY_DESIGN = {
-    # importer -> imported: why the import waits for the call
-    ("isolation.app.explorer.answers", "isolation.app.explorer.live"):
-        "answers.build_explorer (public since the explorer came, called by workbooks/explore.ipynb) opens "
-        "the widget wiring, which is built on answers; the calculations import without the widget layer",
-}
-"""Function-level imports that close a cycle on purpose, with the reason."""
-
-
-def _cycles_without(exceptions) -> list[list[str]]:
-    graph = {name: _edges(name, False) for name in MODULES}
-    for importer, imported in exceptions:
-        graph[importer].discard(imported)
-    return _cycles_of(graph)
-
-
-def test_the_exceptions_are_real_function_level_imports():
-    # an exception that no longer exists (or became a module-level import) must leave the list
-    for importer, imported in DEFERRED_BY_DESIGN:
-        assert imported in _edges(importer, False)
-        assert imported not in _edges(importer, True)
-
-
 def test_no_import_circle_even_inside_functions():
-    assert _cycles_without(DEFERRED_BY_DESIGN) == []
+    # no exceptions: the explorer's answers module gathers names from modules that never import it back
+    assert _cycles(top_level=False) == []
 
 
-def test_the_graph_reader_finds_a_cycle_closed_inside_a_function():
-    # the exception above does close a cycle: the check would see one if it were not listed
-    assert ["isolation.app.explorer.answers", "isolation.app.explorer.live"] in _cycles(top_level=False)
+def test_the_cycle_finder_finds_a_circle_and_only_that():
+    # Tarjan's strongly connected components on a hand-made graph: a -> b -> c -> a is one circle, d hangs off it
+    graph = {"a": {"b"}, "b": {"c"}, "c": {"a"}, "d": {"a"}, "e": set()}
+    assert _cycles_of(graph) == [["a", "b", "c"]]
+    assert _cycles_of({"a": {"b"}, "b": set()}) == []
 
 
 def _imports_alone(name: str) -> tuple[str, str]:

@@ -61,7 +61,7 @@ class _Backbone:
         k0, ks, fs = self.elements()
         a = np.abs(d)
         total = k0 * a
-        for k, f in zip(ks, fs):
+        for k, f in zip(ks, fs, strict=True):
             total = total + np.minimum(k * a, f)
         out = np.sign(d) * total
         return float(out) if out.ndim == 0 else out
@@ -99,7 +99,7 @@ class _Backbone:
         d = self._amplitude(displacement)
         _, ks, fs = self.elements()
         total = np.zeros_like(d)
-        for k, f in zip(ks, fs):
+        for k, f in zip(ks, fs, strict=True):
             dy = f / k
             total = total + np.where(d > dy, 4.0 * f * (d - dy), 0.0)
         return float(total) if total.ndim == 0 else total
@@ -288,7 +288,7 @@ class MultiLinear(_Backbone):
         """Displacement at which the first element yields (inf when none). [m]"""
         if not self.stiffnesses:
             return math.inf
-        return min(f / k for k, f in zip(self.stiffnesses, self.strengths))
+        return min(f / k for k, f in zip(self.stiffnesses, self.strengths, strict=True))
 
     def scaled(self, *, stiffness: float = 1.0, strength: float = 1.0) -> "MultiLinear":
         s = validate.positive("stiffness factor", stiffness)

@@ -23,8 +23,7 @@ Elastomer layer mechanics (Kelly & Konstantinidis 2011; Naeim & Kelly 1999):
 
 References
 ----------
-Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for
-Seismic and Vibration Isolation. Wiley.
+Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration Isolation. Wiley.
 Naeim, F. & Kelly, J. M. (1999). Design of Seismic Isolated Structures. Wiley.
 AASHTO (2014). Guide Specifications for Seismic Isolation Design, 4th ed.
 ASCE/SEI 7-16, Chapter 17 (restoring force, §17.2.4.4).
@@ -40,11 +39,8 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 
-__all__ = [
-    "Check", "shape_factor", "hole_factor", "compression_modulus", "overlap_area", "overlap_ratio",
-    "buckling_load", "rotation_strain", "restoring_force_check", "slider_checks", "elastomer_checks",
-    "LIMITS",
-]
+__all__ = ["Check", "shape_factor", "hole_factor", "compression_modulus", "overlap_area", "overlap_ratio",
+           "buckling_load", "rotation_strain", "restoring_force_check", "slider_checks", "elastomer_checks", "LIMITS"]
 
 LIMITS = {
     "restoring_force": (0.025, "ASCE/SEI 7-16 §17.2.4.4: F(D) - F(D/2) >= 0.025 W"),
@@ -154,6 +150,11 @@ def hole_factor(outer_diameter, inner_diameter) -> float:
     -------
     float
         F, in (0, 1]. [-]
+
+    References
+    ----------
+    Constantinou, M. C., Kartoum, A. & Kelly, J. M. (1992). Analysis of compression of hollow circular
+    elastomeric bearings. Engineering Structures 14(2), 103-111. DOI not verified.
     """
     do = validate.positive("outer_diameter", outer_diameter, "m")
     di = validate.non_negative("inner_diameter", inner_diameter, "m")
@@ -184,6 +185,13 @@ def compression_modulus(shear_modulus, shape, bulk_modulus=None, hole=1.0) -> fl
     -------
     float
         E_c. [kPa]
+
+    References
+    ----------
+    Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration
+    Isolation. Wiley, Chichester. DOI not verified.
+    Constantinou, M. C., Kartoum, A. & Kelly, J. M. (1992). Analysis of compression of hollow circular
+    elastomeric bearings. Engineering Structures 14(2), 103-111. DOI not verified.
     """
     g = validate.positive("shear_modulus", shear_modulus, "kPa")
     s = validate.positive("shape_factor", shape, "-")
@@ -251,6 +259,11 @@ def buckling_load(shear_modulus, area, inertia, compression, rubber_thickness, h
     -------
     float
         P_cr. [kN]
+
+    References
+    ----------
+    Kelly, J. M. & Konstantinidis, D. A. (2011). Mechanics of Rubber Bearings for Seismic and Vibration
+    Isolation. Wiley, Chichester. DOI not verified.
     """
     g = validate.positive("shear_modulus", shear_modulus, "kPa")
     a = validate.positive("area", area, "m2")

@@ -213,10 +213,14 @@ class HighDampingRubber(Elastomer):
         return self.inner_diameter
 
     @property
+    def _curves(self) -> RubberCompound:
+        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
+        return self.compound
+
+    @property
     def shear_modulus(self) -> float:
         """G at the reference strain, used for the vertical checks. [kPa]"""
-        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
-        return self.compound.shear_modulus_at(self.reference_strain)
+        return self._curves.shear_modulus_at(self.reference_strain)
 
     def _strain(self, displacement):
         d = np.asarray(displacement, dtype=float)
@@ -232,8 +236,7 @@ class HighDampingRubber(Elastomer):
         displacement : float or array
             Amplitude D > 0. [m]
         """
-        g = self.compound.shear_modulus_at(self._strain(displacement))
-        return g * self.rubber_area / self.rubber_thickness
+        return self._curves.shear_modulus_at(self._strain(displacement)) * self.rubber_area / self.rubber_thickness
 
     def effective_damping(self, displacement):
         """Damping ratio of the compound at shear strain D/T_r. [-]
@@ -243,7 +246,7 @@ class HighDampingRubber(Elastomer):
         displacement : float or array
             Amplitude D > 0. [m]
         """
-        return self.compound.damping_at(self._strain(displacement))
+        return self._curves.damping_at(self._strain(displacement))
 
     def bilinear(self, weight=None, displacement=None) -> Bilinear:
         """Equivalent bilinear with the same K_eff and beta_eff at one amplitude.
@@ -288,15 +291,14 @@ class HighDampingRubber(Elastomer):
         out = super().checks(axial_load, displacement, axial_load_max=axial_load_max,
                              axial_load_min=axial_load_min, rotation=rotation, weight_share=weight_share)
         strain = float(self._strain(displacement))
-        top = self.compound.strains[-1]
+        top = self._curves.strains[-1]
         out.append(_checks.Check("shear strain within compound table", strain, top, bool(strain <= top), "-",
                                  "compound test curves: beyond the last strain the end values are held"))
         return out
 
     def to_dict(self) -> dict:
-        assert self.compound is not None  # None is replaced by TYPICAL_COMPOUND in __post_init__
         out = {"kind": "high_damping_rubber", "inner_diameter": self.inner_diameter,
-               "compound": self.compound.to_dict(), "reference_strain": self.reference_strain,
+               "compound": self._curves.to_dict(), "reference_strain": self.reference_strain,
                "stiffness_ratio": self.stiffness_ratio}
         out.update(self._geometry_dict())
         return out

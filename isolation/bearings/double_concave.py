@@ -58,6 +58,11 @@ class DoubleConcave:
     yield_displacement : float, optional
         Numerical yield displacement of the first sliding regime, > 0
         (default 0.5 mm, common practice). [m]
+
+    References
+    ----------
+    Fenz, D. M. & Constantinou, M. C. (2006). Behaviour of the double concave friction pendulum bearing.
+    Earthquake Eng. Struct. Dyn. 35(11), 1403-1424. doi:10.1002/eqe.589
     """
 
     radius_1: float

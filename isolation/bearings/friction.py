@@ -92,6 +92,13 @@ class FrictionPendulum:
     yield_displacement : float, optional
         Numerical yield displacement D_y of the slider, > 0 (default 0.5 mm,
         common practice). It sets K_u = Q_d/D_y + K_d. [m]
+
+    References
+    ----------
+    Zayas, V. A., Low, S. S. & Mahin, S. A. (1990). A simple pendulum technique for achieving seismic isolation.
+    Earthquake Spectra 6(2), 317-333. DOI not verified.
+    Constantinou, M. C., Mokha, A. & Reinhorn, A. M. (1990). Teflon bearings in base isolation II: Modeling. J.
+    Struct. Eng. 116(2), 455-474. DOI not verified.
     """
 
     radius: float
@@ -152,6 +159,7 @@ class FrictionPendulum:
             Coefficient of friction. [-]
         """
         v = np.abs(np.asarray(velocity, dtype=float))
+        assert self.friction_slow is not None  # None is replaced by friction in __post_init__
         out = self.friction - (self.friction - self.friction_slow) * np.exp(-self.rate_parameter * v)
         return float(out) if out.ndim == 0 else out
 

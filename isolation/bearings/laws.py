@@ -53,6 +53,11 @@ class BoucWen:
     beta : float, optional
         Coefficient of |du/dt| |z|^(n-1) z, in (0, 1]; gamma = 1 - beta.
         Default 0.5 (unloading starts at the elastic stiffness K_u). [-]
+
+    References
+    ----------
+    Wen, Y.-K. (1976). Method for random vibration of hysteretic systems. J. Eng. Mech. Div. ASCE 102(2),
+    249-263. DOI not verified.
     """
 
     bilinear: Bilinear
@@ -131,6 +136,13 @@ class SmoothLaw:
         D_y. [m]
     beta : float
         Bouc-Wen beta (Wen 1976 naming), gamma = 1 - beta. [-]
+
+    References
+    ----------
+    Wen, Y.-K. (1976). Method for random vibration of hysteretic systems. J. Eng. Mech. Div. ASCE 102(2),
+    249-263. DOI not verified.
+    Constantinou, M. C., Mokha, A. & Reinhorn, A. M. (1990). Teflon bearings in base isolation II: Modeling. J.
+    Struct. Eng. 116(2), 455-474. DOI not verified.
     """
 
     linear_stiffness: float

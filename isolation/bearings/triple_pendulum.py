@@ -82,6 +82,15 @@ class TripleFrictionPendulum:
         d_2 = d_3), > 0, or None when not chosen. [m]
     yield_displacement : float, optional
         Numerical yield displacement of the first sliding regime, > 0. [m]
+
+    References
+    ----------
+    Fenz, D. M. & Constantinou, M. C. (2008a). Spherical sliding isolation bearings with adaptive behavior:
+    Theory. Earthquake Eng. Struct. Dyn. 37(2), 163-183. doi:10.1002/eqe.751
+    Fenz, D. M. & Constantinou, M. C. (2008b). Spherical sliding isolation bearings with adaptive behavior:
+    Experimental verification. Earthquake Eng. Struct. Dyn. 37(2), 185-205. doi:10.1002/eqe.750
+    Fenz, D. M. & Constantinou, M. C. (2008c). Modeling triple friction pendulum bearings for response-history
+    analysis. Earthquake Spectra 24(4), 1011-1028. doi:10.1193/1.2982531 (DOI not verified)
     """
 
     radius_outer: float

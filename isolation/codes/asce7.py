@@ -84,7 +84,7 @@ def _activation_force(system) -> float | None:
     if callable(getattr(system, "elements", None)):
         _, ks, fs = system.elements()
         if ks:
-            return _force(system, max(f / k for k, f in zip(ks, fs)))
+            return _force(system, max(f / k for k, f in zip(ks, fs, strict=True)))
     return None
 
 

@@ -65,7 +65,7 @@ _SOURCES = {
     "uplift": ("outermost bearing of a regular grid, rigid-body overturning from V_st at its height "
                f"(derived), tributary gravity of the lightest bearing group ({_PRACTICE}); "
                f"0.9 D - E_v, E_v = 0.2 S_MS D ({_ASCE} §17.2.4.6, §12.4.2.2, from memory)"),
-    "soft soil class F": f"{_ASCE} §11.4.8, §17.4.1 (from memory)",
+    "soft soil class F": f"{_ASCE} §11.4.8 (re-read: Table 11.4-2 sends site class F to it), §17.4.1 (from memory)",
     "near fault": (f"{_ASCE} §11.2 'near-fault site' (within 15 km of a fault of M_w >= 7, 10 km of M_w >= 6) "
                    "and §17.3.2 (from memory)"),
     "wind": f"{_ASCE} §17.2.4.3 (from memory): wind without yielding the isolation system",
@@ -152,7 +152,7 @@ class Asce7Basis(CodeBasis):
         if site.sm1 > site.sms:
             out.append(f"S_M1 = {site.sm1:g} g exceeds S_MS = {site.sms:g} g, so T_S = S_M1/S_MS = "
                        f"{site.sm1 / site.sms:.2f} s: code site spectra have S_M1 well below S_MS (ASCE/SEI 7-16 "
-                       "§11.4.4: S_MS = F_a S_S, S_M1 = F_v S_1, and S_1 < S_S on the maps; from memory). "
+                       "§11.4.4: S_MS = F_a S_S, S_M1 = F_v S_1, re-read; S_1 < S_S on the maps, from memory). "
                        "Check the site values.")
         if site.long_period < 4.0:
             out.append(f"T_L = {site.long_period:g} s: the long-period transition of the ASCE 7 maps is 4 s or more "

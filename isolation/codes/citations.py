@@ -99,7 +99,7 @@ def _items(kind: str, text: str) -> list[str]:
     tokens = re.split(r"\s*(,|/|\bto\b|\band\b)\s*|(?<=\d)(-)(?=\d+\.)", text)
     joins = [None] + tokens[1::3]  # separator before each part ("to" or "-" make a range)
     hyphens = [None] + tokens[2::3]
-    for part, join, hyphen in zip(tokens[0::3], joins, hyphens):
+    for part, join, hyphen in zip(tokens[0::3], joins, hyphens, strict=True):
         part = (part or "").strip("() ")
         if not part:
             continue

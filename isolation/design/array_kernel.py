@@ -34,7 +34,6 @@ in :mod:`isolation.design`.
 
 from __future__ import annotations
 
-import functools
 import math
 from dataclasses import dataclass, field
 from typing import Any, Mapping, Sequence
@@ -44,6 +43,7 @@ import numpy as np
 from isolation import GRAVITY, validate
 from isolation.codes.registry import DEFAULT_BASIS
 from isolation.design import BoundsResult, EquivalentLinearResult, equivalent_linear
+from isolation.design.array_backbones import _classes, _Elements, _kind, _Rubber, supports  # noqa: F401 - re-exported
 from isolation.site.spectra import damping_coefficient, rules
 
 __all__ = ["EquivalentLinearArrays", "equivalent_linear_many", "design_bounds_many", "supports"]
@@ -51,102 +51,6 @@ __all__ = ["EquivalentLinearArrays", "equivalent_linear_many", "design_bounds_ma
 _FOUR_PI2 = 4.0 * math.pi**2
 _RESULT_FIELDS = ("displacement", "period", "damping", "damping_coefficient", "stiffness", "base_shear",
                   "spectral_acceleration", "weight")  # EquivalentLinearResult's leading fields, in order
-
-
-# --- backbones as arrays ---------------------------------------------------------------
-
-
-class _Elements:
-    """N piecewise-linear backbones: linear spring k0 [kN/m] plus padded EPP elements."""
-
-    def __init__(self, systems: Sequence) -> None:
-        parts = [s.elements() for s in systems]
-        width = max((len(ks) for _, ks, _ in parts), default=0)
-        self.linear = np.array([float(k0) for k0, _, _ in parts])
-        self.stiffness = np.ones((len(parts), width))  # padding: k = 1, f = 0 adds exactly 0
-        self.strength = np.zeros((len(parts), width))
-        for i, (_, ks, fs) in enumerate(parts):
-            self.stiffness[i, :len(ks)] = ks
-            self.strength[i, :len(fs)] = fs
-
-    def effective(self, rows: np.ndarray, d: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """(K_eff [kN/m], beta_eff [-]) of backbones ``rows`` at amplitudes d [m] (> 0)."""
-        ks, fs = self.stiffness[rows], self.strength[rows]
-        total = self.linear[rows] * d
-        energy = np.zeros_like(d)
-        for j in range(ks.shape[1]):  # element order as the scalar backbone sums them
-            k, f = ks[:, j], fs[:, j]
-            total = total + np.minimum(k * d, f)
-            dy = f / k
-            energy = energy + np.where(d > dy, 4.0 * f * (d - dy), 0.0)
-        k_eff = total / d
-        return k_eff, energy / (2.0 * math.pi * k_eff * d**2)
-
-
-class _Rubber:
-    """N high-damping rubber backbones (AmplitudeBackbone) sharing one compound table."""
-
-    def __init__(self, systems: Sequence) -> None:
-        bearings = [s.bearing for s in systems]
-        compound = bearings[0].compound
-        self.strains = np.asarray(compound.strains, dtype=float)
-        self.moduli = np.asarray(compound.shear_moduli, dtype=float)
-        self.dampings = np.asarray(compound.dampings, dtype=float)
-        self.thickness = np.array([b.rubber_thickness for b in bearings])
-        self.area = np.array([b.rubber_area for b in bearings])
-        self.ratio = np.array([float(b.stiffness_ratio) for b in bearings])
-        self.stiffness_factor = np.array([float(s.stiffness) for s in systems])
-        self.strength_factor = np.array([float(s.strength) for s in systems])
-
-    def effective(self, rows: np.ndarray, d: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        strain = d / self.thickness[rows]
-        k = np.interp(strain, self.strains, self.moduli) * self.area[rows] / self.thickness[rows]
-        beta = np.interp(strain, self.strains, self.dampings)
-        n = self.ratio[rows]
-        # equivalent bilinear at this amplitude (damping_rubber.equivalent_bilinear), then scaled
-        c = math.pi * beta / 2.0
-        disc = ((n - 1.0) * (1.0 + c)) ** 2 - 4.0 * n * c * (n - 1.0)
-        bad = (n <= 1.0) | (disc < 0.0) | ~(k > 0.0) | ~(beta > 0.0)
-        q = ((n - 1.0) * (1.0 + c) - np.sqrt(np.where(bad, 0.0, disc))) / (2.0 * n)
-        kd = k * (1.0 - q)
-        s, t = self.stiffness_factor[rows], self.strength_factor[rows]
-        ku_s, kd_s, qd_s = n * kd * s, kd * s, q * k * d * t
-        element = ku_s - kd_s
-        total = kd_s * d + np.where(qd_s == 0.0, 0.0, np.minimum(element * d, qd_s))
-        k_eff = np.where(qd_s == 0.0, ku_s * d, total) / d
-        dy = qd_s / element
-        energy = np.where((qd_s != 0.0) & (d > dy), 4.0 * qd_s * (d - dy), 0.0)
-        beta_eff = energy / (2.0 * math.pi * k_eff * d**2)
-        # an amplitude the equivalent bilinear refuses: the scalar path raises its message
-        return np.where(bad, np.nan, k_eff), np.where(bad, np.nan, beta_eff)
-
-
-@functools.lru_cache(maxsize=1)
-def _classes() -> tuple:
-    from isolation.bearings import Bilinear, MultiLinear
-    from isolation.bearings.damping_rubber import AmplitudeBackbone
-
-    return (Bilinear, MultiLinear), AmplitudeBackbone
-
-
-def _kind(system) -> str | None:
-    elements, rubber = _classes()
-    if isinstance(system, elements):
-        return "elements"
-    if isinstance(system, rubber):
-        return "rubber"
-    return None
-
-
-def supports(system) -> bool:
-    """True when ``system`` runs in the array kernel (else the scalar path runs it).
-
-    Parameters
-    ----------
-    system : backbone
-        Whole-plane backbone of one property set.
-    """
-    return _kind(system) is not None
 
 
 # --- results ----------------------------------------------------------------------------
@@ -211,7 +115,7 @@ class EquivalentLinearArrays:
         out = []
         for j, i in enumerate(chosen):
             history = self.histories[i] if self.histories is not None else ()
-            leading = {name: column[j] for name, column in zip(_RESULT_FIELDS, columns)}
+            leading = {name: column[j] for name, column in zip(_RESULT_FIELDS, columns, strict=True)}
             out.append(EquivalentLinearResult(**leading, rule=self.rule,
                                               iterations=iterations[j], converged=True, method=methods[j],
                                               history=history))
@@ -257,14 +161,9 @@ def equivalent_linear_many(
         A system without a converged displacement keeps NaN and its RunError
         (raised by ``result(i)``).
     """
-    from isolation.errors import RunError
-
     systems = list(systems)
     n = len(systems)
-    w = np.broadcast_to(np.asarray(weight, dtype=float), (n,)).copy() if n else np.zeros(0)
-    if n and not (np.all(np.isfinite(w)) and np.all(w > 0.0)):
-        bad = w[~(np.isfinite(w) & (w > 0.0))][0]
-        raise ValueError(f"weight = {float(bad)!r} is not allowed: must be finite and > 0 [kN]")
+    w = _weights(weight, n)
     chosen = getattr(spectrum, "rule", DEFAULT_BASIS) if rule is None else rule
     validate.one_of("rule", chosen, rules())
     tol = validate.in_range("tolerance", tolerance, 0.0, 0.01, "-", low_inclusive=False)
@@ -276,14 +175,35 @@ def equivalent_linear_many(
     t0 = min(max(t0, low + 1e-3 * (high - low)), high)
     d0 = GRAVITY * float(spectrum.sa(t0, 0.05)) * t0**2 / (4.0 * math.pi**2)
 
-    out = {name: np.full(n, np.nan) for name in ("displacement", "period", "damping", "damping_coefficient",
-                                                   "stiffness", "spectral_acceleration")}
-    iterations = np.zeros(n, dtype=int)
-    method = np.full(n, "fixed point", dtype=object)
-    trials: list[list] | None = [[] for _ in range(n)] if history else None
-    fallback: list[int] = []
+    run = _Run(spectrum, w, chosen, tol, int(max_iterations), history)
+    groups, fallback = _groups(systems)
+    for key, members in groups.items():
+        index = np.asarray(members)
+        sample = [systems[i] for i in index]
+        model = _Elements(sample) if key[0] == "elements" else _Rubber(sample)
+        run.iterate_group(model, index, d0)
+    scalar = sorted(set(fallback) | set(run.fallback))
+    errors = run.scalar_fallback(systems, scalar, options)
+    out, trials = run.out, run.trials
+    return EquivalentLinearArrays(
+        base_shear=out["stiffness"] * out["displacement"], weight=w, iterations=run.iterations, method=run.method,
+        rule=chosen, scalar=tuple(scalar),
+        histories=None if trials is None else tuple(tuple(t) for t in trials), errors=errors, **out)
 
+
+def _weights(weight: Any, n: int) -> np.ndarray:
+    """W of each of ``n`` systems (one value broadcast, or n values), each finite and > 0. [kN]"""
+    w = np.broadcast_to(np.asarray(weight, dtype=float), (n,)).copy() if n else np.zeros(0)
+    if n and not (np.all(np.isfinite(w)) and np.all(w > 0.0)):
+        bad = w[~(np.isfinite(w) & (w > 0.0))][0]
+        raise ValueError(f"weight = {float(bad)!r} is not allowed: must be finite and > 0 [kN]")
+    return w
+
+
+def _groups(systems: list) -> tuple[dict[tuple, list[int]], list[int]]:
+    """Systems that run as arrays, grouped by backbone model (rubber: by compound), and the others."""
     groups: dict[tuple, list[int]] = {}
+    fallback: list[int] = []
     for i, system in enumerate(systems):
         kind = _kind(system)
         if kind == "rubber":
@@ -292,44 +212,59 @@ def equivalent_linear_many(
             groups.setdefault(("elements",), []).append(i)
         else:
             fallback.append(i)
+    return groups, fallback
 
-    def trial(model, rows, index, d):
+
+class _Run:
+    """One call of :func:`equivalent_linear_many`: the output arrays and the systems left to the scalar path."""
+
+    def __init__(self, spectrum: Any, w: np.ndarray, rule: str, tol: float, max_iterations: int,
+                 history: bool) -> None:
+        n = w.size
+        self.spectrum, self.w, self.rule, self.tol, self.max_iterations = spectrum, w, rule, tol, max_iterations
+        self.low, self.high = spectrum.period_range
+        self.out = {name: np.full(n, np.nan) for name in ("displacement", "period", "damping", "damping_coefficient",
+                                                            "stiffness", "spectral_acceleration")}
+        self.iterations = np.zeros(n, dtype=int)
+        self.method = np.full(n, "fixed point", dtype=object)
+        self.trials: list[list] | None = [[] for _ in range(n)] if history else None
+        self.fallback: list[int] = []
+
+    def trial(self, model: Any, rows: np.ndarray, index: np.ndarray, d: np.ndarray) -> tuple:
         """(ok, T, beta, B, K, Sa5, D_next) of ``rows`` of ``model``; ok False: leave the array path."""
         k, beta = model.effective(rows, d)
         ok = np.isfinite(k) & (k > 0.0) & np.isfinite(beta) & (beta >= 0.0) & (beta <= 1.0)
         period = np.full_like(d, np.nan)
-        period[ok] = 2.0 * math.pi * np.sqrt(w[index[ok]] / (k[ok] * GRAVITY))
-        ok &= (period >= low) & (period <= high)
+        period[ok] = 2.0 * math.pi * np.sqrt(self.w[index[ok]] / (k[ok] * GRAVITY))
+        ok &= (period >= self.low) & (period <= self.high)
         b = np.full_like(d, np.nan)
         sa5 = np.full_like(d, np.nan)
         if ok.any():
-            b[ok] = damping_coefficient(beta[ok], chosen)
-            sa5[ok] = spectrum.sa(period[ok], 0.05)
+            b[ok] = damping_coefficient(beta[ok], self.rule)
+            sa5[ok] = self.spectrum.sa(period[ok], 0.05)
         nxt = GRAVITY * sa5 * period**2 / (_FOUR_PI2 * b)
         return ok, period, beta, b, k, sa5, nxt
 
-    for key, members in groups.items():
-        index = np.asarray(members)
-        sample = [systems[i] for i in index]
-        model = _Elements(sample) if key[0] == "elements" else _Rubber(sample)
+    def iterate_group(self, model: Any, index: np.ndarray, d0: float) -> None:
+        """Damped successive substitution of one group (systems ``index``) from D_0 = ``d0`` [m]."""
         rows = np.arange(index.size)
         d = np.full(index.size, d0)
         relax = np.ones(index.size)
         previous = np.full(index.size, np.nan)
         final = np.full(index.size, np.nan)
-        for _ in range(int(max_iterations)):
-            ok, period, beta, b, k, sa5, nxt = trial(model, rows, index[rows], d)
+        for _ in range(self.max_iterations):
+            ok, period, beta, b, k, sa5, nxt = self.trial(model, rows, index[rows], d)
             # The scalar path raises on a bad stiffness or damping and brackets when the
             # period leaves the spectrum: both leave the array path here.
-            fallback.extend(index[rows[~ok]].tolist())
+            self.fallback.extend(index[rows[~ok]].tolist())
             rows, d, relax, previous = rows[ok], d[ok], relax[ok], previous[ok]
             period, beta, b, nxt = period[ok], beta[ok], b[ok], nxt[ok]
-            iterations[index[rows]] += 1
-            if trials is not None:
-                for r, x, t, z, c, y in zip(index[rows], d, period, beta, b, nxt):
-                    trials[r].append((float(x), float(t), float(z), float(c), float(y)))
+            self.iterations[index[rows]] += 1
+            if self.trials is not None:
+                for r, x, t, z, c, y in zip(index[rows], d, period, beta, b, nxt, strict=True):
+                    self.trials[r].append((float(x), float(t), float(z), float(c), float(y)))
             step = nxt - d
-            done = np.abs(step) <= tol * np.maximum(d + step, 1e-12)
+            done = np.abs(step) <= self.tol * np.maximum(d + step, 1e-12)
             final[rows[done]] = (d + step)[done]
             keep = ~done
             rows, d, relax, previous, step = rows[keep], d[keep], relax[keep], previous[keep], step[keep]
@@ -339,39 +274,45 @@ def equivalent_linear_many(
             relax = np.where(flip, np.maximum(relax / 2.0, 1.0 / 64.0), relax)
             previous = step
             d = np.maximum(d + relax * step, d / 10.0)
-        fallback.extend(index[rows].tolist())  # did not settle: bracketing in the scalar path
-        settled = np.flatnonzero(np.isfinite(final))
-        if settled.size:
-            ok, period, beta, b, k, sa5, _ = trial(model, settled, index[settled], final[settled])
-            fallback.extend(index[settled[~ok]].tolist())  # final period outside: the scalar message
-            good = index[settled[ok]]
-            out["displacement"][good] = final[settled[ok]]
-            for name, values in (("period", period), ("damping", beta), ("damping_coefficient", b),
-                                 ("stiffness", k), ("spectral_acceleration", sa5)):
-                out[name][good] = values[ok]
+        self.fallback.extend(index[rows].tolist())  # did not settle: bracketing in the scalar path
+        self._settle(model, index, final)
 
-    errors: dict[int, Exception] = {}
-    scalar = sorted(set(fallback))
-    for i in scalar:
-        for name in out:
-            out[name][i] = np.nan
-        try:
-            one = equivalent_linear(systems[i], float(w[i]), spectrum, chosen, **options)
-        except RunError as error:
-            errors[i] = error
-            iterations[i] = 0
-            method[i] = ""
-            continue
-        for name in out:
-            out[name][i] = getattr(one, name)
-        iterations[i] = one.iterations
-        method[i] = one.method
-        if trials is not None:
-            trials[i] = list(one.history)
-    return EquivalentLinearArrays(
-        base_shear=out["stiffness"] * out["displacement"], weight=w, iterations=iterations, method=method,
-        rule=chosen, scalar=tuple(scalar), histories=None if trials is None else tuple(tuple(t) for t in trials),
-        errors=errors, **out)
+    def _settle(self, model: Any, index: np.ndarray, final: np.ndarray) -> None:
+        """The final evaluation at each converged D of one group, as the scalar result makes it."""
+        settled = np.flatnonzero(np.isfinite(final))
+        if not settled.size:
+            return
+        ok, period, beta, b, k, sa5, _ = self.trial(model, settled, index[settled], final[settled])
+        self.fallback.extend(index[settled[~ok]].tolist())  # final period outside: the scalar message
+        good = index[settled[ok]]
+        self.out["displacement"][good] = final[settled[ok]]
+        for name, values in (("period", period), ("damping", beta), ("damping_coefficient", b),
+                             ("stiffness", k), ("spectral_acceleration", sa5)):
+            self.out[name][good] = values[ok]
+
+    def scalar_fallback(self, systems: list, scalar: list[int], options: dict) -> dict[int, Exception]:
+        """Run ``scalar`` systems through :func:`isolation.design.equivalent_linear`; their RunErrors by index."""
+        from isolation.errors import RunError
+
+        errors: dict[int, Exception] = {}
+        out = self.out
+        for i in scalar:
+            for name in out:
+                out[name][i] = np.nan
+            try:
+                one = equivalent_linear(systems[i], float(self.w[i]), self.spectrum, self.rule, **options)
+            except RunError as error:
+                errors[i] = error
+                self.iterations[i] = 0
+                self.method[i] = ""
+                continue
+            for name in out:
+                out[name][i] = getattr(one, name)
+            self.iterations[i] = one.iterations
+            self.method[i] = one.method
+            if self.trials is not None:
+                self.trials[i] = list(one.history)
+        return errors
 
 
 def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spectrum, rule: str | None = DEFAULT_BASIS,
@@ -410,7 +351,7 @@ def design_bounds_many(property_sets: Sequence[Mapping[str, Any]], weight, spect
             names.append((i, str(name)))
     arrays = equivalent_linear_many(flat, np.asarray(owner), spectrum, rule, **options)
     results: list[dict] = [{} for _ in sets]
-    for (i, name), result in zip(names, arrays.results()):
+    for (i, name), result in zip(names, arrays.results(), strict=True):
         results[i][name] = result
     out = []
     for r in results:

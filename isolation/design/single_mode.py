@@ -202,50 +202,79 @@ def equivalent_linear(
     t0 = min(max(t0, low + 1e-3 * (high - low)), high)
     d = GRAVITY * float(spectrum.sa(t0, 0.05)) * t0**2 / (4.0 * math.pi**2)
 
-    history: list[tuple] = []
-    outside: list[tuple[float, float]] = []  # (D, T) trials whose period left the spectrum
+    trials = _Trials(system, w, spectrum, chosen)
+    found = _fixed_point(trials, d, tol, int(max_iterations))
+    if found is not None:
+        return _result(system, w, spectrum, chosen, found, trials.history, "fixed point")
+    root = _bracketed_root(trials, tol)
+    if root is not None:
+        return _result(system, w, spectrum, chosen, root, trials.history, "bracketing")
+    raise RunError(trials.failure())
 
-    def residual(x, record=True):
+
+class _Trials:
+    """Trials of D -> f(D) = g Sa(T(D)) T(D)^2 / (4 pi^2 B(beta(D))) for one plane, weight and spectrum.
+
+    ``history`` keeps (D [m], T [s], beta [-], B [-], f(D) [m]) of recorded
+    trials; ``outside`` the (D [m], T [s]) trials whose period left the spectrum.
+    """
+
+    def __init__(self, system: Any, weight: float, spectrum: Any, rule: str) -> None:
+        self.system, self.weight, self.spectrum, self.rule = system, weight, spectrum, rule
+        self.history: list[tuple] = []
+        self.outside: list[tuple[float, float]] = []
+
+    def residual(self, x: float, record: bool = True) -> float:
+        """f(x) - x [m], NaN when the effective period leaves the spectrum's range."""
         try:
-            out = _trial(system, w, spectrum, chosen, x)
+            out = _trial(self.system, self.weight, self.spectrum, self.rule, x)
         except _OutOfRange as exc:
-            outside.append((x, exc.args[0]))
+            self.outside.append((x, exc.args[0]))
             return math.nan
         if record:
-            history.append((x, out[0], out[1], out[2], out[5]))
+            self.history.append((x, out[0], out[1], out[2], out[5]))
         return out[5] - x
 
+    def failure(self) -> str:
+        """Why neither the fixed point nor the bracketing found D."""
+        low, high = self.spectrum.period_range
+        last = ", ".join(f"{h[0]:.4g}" for h in self.history[-4:])
+        last = f" (last trial displacements {last} m)" if last else ""
+        outside = self.outside
+        reason = (f"; the effective period reached T = {outside[0][1]:.4g} s at D = {outside[0][0]:.4g} m, outside "
+                  f"the spectrum's period range [{low:g}, {high:g}] s (extend the spectrum or stiffen the system)"
+                  ) if outside else ""
+        return (f"equivalent_linear did not converge: {len(self.history)} iterations{last} "
+                f"and no bracketed root of D = g Sa T^2/(4 pi^2 B) between 1e-6 and 50 m{reason}")
+
+
+def _fixed_point(trials: _Trials, d: float, tol: float, max_iterations: int) -> float | None:
+    """Damped successive substitution from ``d`` [m]; the converged D [m] or None."""
     relax, previous_step = 1.0, None
-    for _ in range(int(max_iterations)):
-        step = residual(d)
+    for _ in range(max_iterations):
+        step = trials.residual(d)
         if not math.isfinite(step):
-            break
+            return None
         if abs(step) <= tol * max(d + step, 1e-12):
-            return _result(system, w, spectrum, chosen, d + step, history, "fixed point")
+            return d + step
         if previous_step is not None and step * previous_step < 0 and abs(step) > 0.5 * abs(previous_step):
             relax = max(relax / 2.0, 1.0 / 64.0)
         previous_step = step
         d = max(d + relax * step, d / 10.0)
+    return None
 
-    # Fallback: bracket a root of f(D) - D on a log grid inside the period range.
+
+def _bracketed_root(trials: _Trials, tol: float) -> float | None:
+    """Fallback: Brent's method on a bracket of f(D) - D from a log grid (1e-6 to 50 m); the root [m] or None."""
     grid = np.geomspace(1e-6, 50.0, 240)
-    values = [residual(x, record=False) for x in grid]
-    pairs = [(a, b, fa, fb) for a, b, fa, fb in zip(grid[:-1], grid[1:], values[:-1], values[1:])
+    values = [trials.residual(x, record=False) for x in grid]
+    pairs = [(a, b, fa, fb) for a, b, fa, fb in zip(grid[:-1], grid[1:], values[:-1], values[1:], strict=True)
              if math.isfinite(fa) and math.isfinite(fb)]
     crossings = [p for p in pairs if p[2] > 0.0 >= p[3]] or [p for p in pairs if p[2] * p[3] <= 0.0]
-    if crossings:  # the first stable root (f - D falling through zero), else the first root
-        a, b = crossings[0][:2]
-        root = brentq(residual, a, b, xtol=1e-12, rtol=max(tol * 1e-2, 1e-15))
-        return _result(system, w, spectrum, chosen, root, history, "bracketing")
-    last = ", ".join(f"{h[0]:.4g}" for h in history[-4:])
-    last = f" (last trial displacements {last} m)" if last else ""
-    reason = (f"; the effective period reached T = {outside[0][1]:.4g} s at D = {outside[0][0]:.4g} m, outside the "
-              f"spectrum's period range [{low:g}, {high:g}] s (extend the spectrum or stiffen the system)"
-              ) if outside else ""
-    raise RunError(
-        f"equivalent_linear did not converge: {len(history)} iterations{last} "
-        f"and no bracketed root of D = g Sa T^2/(4 pi^2 B) between 1e-6 and 50 m{reason}"
-    )
+    if not crossings:
+        return None
+    a, b = crossings[0][:2]  # the first stable root (f - D falling through zero), else the first root
+    return float(brentq(trials.residual, a, b, xtol=1e-12, rtol=max(tol * 1e-2, 1e-15)))
 
 
 def _result(system, weight, spectrum, rule, d, history, method) -> EquivalentLinearResult:

@@ -164,7 +164,7 @@ class ElasticPlasticColumns:
         self.k = np.zeros((count, cols))
         self.f = np.zeros((count, cols))
         for j, law in enumerate(laws):
-            for i, (k, f) in enumerate(zip(law.stiffnesses, law.strengths)):
+            for i, (k, f) in enumerate(zip(law.stiffnesses, law.strengths, strict=True)):
                 self.k[i, j] = k
                 self.f[i, j] = f
         self.count = count

@@ -406,6 +406,11 @@ def simulate(mass, k_lin, c, storeys, isolator, ground, dt, nsub, labels, *, com
     dict of arrays: "u", "v" (cols, steps, dofs) relative [m, m/s], "a" absolute [m/s2]; "drift",
     "storey_force" (cols, steps, storeys) [m, kN]; "isolator_force", "reaction" (cols, steps) [kN];
     "energy" (5, cols, steps) [kN m] in the order of :data:`isolation.dynamics.energy.COMPONENTS`.
+
+    References
+    ----------
+    Newmark, N. M. (1959). A method of computation for structural dynamics. J. Eng. Mech. Div. ASCE 85(EM3),
+    67-94. DOI not verified.
     """
     module = kernel_module(compiled)
     ground = np.ascontiguousarray(ground, dtype=float)

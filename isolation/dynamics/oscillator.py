@@ -57,6 +57,11 @@ def oscillator_response(acceleration, dt: float, omega: float, zeta: float):
     -------
     displacement, velocity : arrays (..., steps)
         In the units of acceleration times s^2 and s (e.g. [m], [m/s]).
+
+    References
+    ----------
+    Nigam, N. C. & Jennings, P. C. (1969). Calculation of response spectra from strong-motion earthquake
+    records. Bull. Seismol. Soc. Am. 59(2), 909-922. DOI not verified.
     """
     import scipy.signal  # here: importing scipy.signal takes about a second
 

@@ -72,6 +72,11 @@ def smooth_update(z0: np.ndarray, step: np.ndarray, inv_yield: np.ndarray) -> np
     -------
     ndarray (..., 2)
         z at the end of the step. [-]
+
+    References
+    ----------
+    Park, Y. J., Wen, Y. K. & Ang, A. H.-S. (1986). Random vibration of hysteretic systems under bi-directional
+    ground motions. Earthquake Eng. Struct. Dyn. 14(4), 543-557. doi:10.1002/eqe.4290140405 (DOI not verified)
     """
     length = np.sqrt((step * step).sum(axis=-1))
     moving = length > 0.0
@@ -126,7 +131,7 @@ class BiaxialLaws:
         rows = []
         for bearings, loads in cases:
             row = []
-            for bearing, load in zip(bearings, loads):
+            for bearing, load in zip(bearings, loads, strict=True):
                 slider = is_sliding(bearing)  # the registry: a sliding type's forces scale with N
                 law = isolator_law(bearing, 1.0 if slider else load)
                 if isinstance(law, SmoothLaw) and law.beta != 0.5:
@@ -157,7 +162,7 @@ class BiaxialLaws:
                     self.rate[i, j] = law.rate_parameter
                     self.inv_y[i, j] = 1.0 / law.yield_displacement
                 else:
-                    for e, (k, f) in enumerate(zip(law.stiffnesses, law.strengths)):
+                    for e, (k, f) in enumerate(zip(law.stiffnesses, law.strengths, strict=True)):
                         self.strength[i, j, e] = f
                         self.inv_element_yield[i, j, e] = k / f if f > 0 else 0.0
         repeat = lambda a: np.repeat(a, columns_per_case, axis=0)  # noqa: E731

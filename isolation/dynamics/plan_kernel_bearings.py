@@ -74,7 +74,16 @@ def compile_kernel(function, inline: bool = True):
 
 
 def smooth_python(zx, zy, sx, sy, inv_y):
-    """Smooth variable after step ``s`` and its derivative: (z_x, z_y, Z_xx, Z_xy, Z_yx, Z_yy)."""
+    """Smooth variable after step ``s`` and its derivative: (z_x, z_y, Z_xx, Z_xy, Z_yx, Z_yy).
+
+    The closed form of :func:`isolation.dynamics.plan_bearings.smooth_update` for one bearing (z [-],
+    step [m], ``inv_y`` = 1/Y [1/m]); the derivative as in the module notes (derived).
+
+    References
+    ----------
+    Park, Y. J., Wen, Y. K. & Ang, A. H.-S. (1986). Random vibration of hysteretic systems under bi-directional
+    ground motions. Earthquake Eng. Struct. Dyn. 14(4), 543-557. doi:10.1002/eqe.4290140405 (DOI not verified)
+    """
     length = math.sqrt(sx * sx + sy * sy)
     if length == 0.0:
         return zx, zy, inv_y, 0.0, 0.0, inv_y

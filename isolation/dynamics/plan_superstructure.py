@@ -59,6 +59,7 @@ stiffness).  The damping matrix comes from the elastic stiffness without it.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -208,7 +209,7 @@ class PlanShearBuilding:
             return k
         lx, ly = self.plan
         radius2 = (lx**2 + ly**2) / 12.0
-        for i, (load, height) in enumerate(zip(self.gravity_loads, self.heights)):
+        for i, (load, height) in enumerate(zip(self.gravity_loads, self.heights, strict=True)):
             ks = -load / height * np.diag([1.0, 1.0, radius2])
             top = slice(3 * i, 3 * i + 3)
             k[top, top] += ks
@@ -236,8 +237,9 @@ class PlanShearBuilding:
         from dataclasses import replace
 
         y = yield_shears_x if yield_shears_y is None else yield_shears_y
-        changes = {"yield_shears_x": None if yield_shears_x is None else tuple(np.atleast_1d(yield_shears_x).tolist()),
-                   "yield_shears_y": None if y is None else tuple(np.atleast_1d(y).tolist())}
+        changes: dict[str, Any] = {
+            "yield_shears_x": None if yield_shears_x is None else tuple(np.atleast_1d(yield_shears_x).tolist()),
+            "yield_shears_y": None if y is None else tuple(np.atleast_1d(y).tolist())}
         if hardening is not None:
             changes["hardening"] = hardening
         if p_delta is not None:

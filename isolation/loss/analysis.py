@@ -254,7 +254,7 @@ def case_loss(model: LossModel, demands: list, levels, hazard, *, samples: int, 
     sequence = seed if isinstance(seed, np.random.SeedSequence) else np.random.SeedSequence(seed)
     children = sequence.spawn(len(levels))
     rows = []
-    for level, demand, child in zip(levels, demands, children):
+    for level, demand, child in zip(levels, demands, children, strict=True):
         top = reference_levels(basis)[1]
         realisations = simulate(model, demand, level / top, samples=samples,
                                 modelling_dispersion=modelling_dispersion, rng=np.random.default_rng(child))
@@ -337,7 +337,7 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
             isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}
             results.update(run_cases(supers[0], base_mass, isolators, stacked, suite.dt, include_fixed=False))
     else:
-        for i, (item, building) in enumerate(zip(alternatives, supers)):
+        for i, (item, building) in enumerate(zip(alternatives, supers, strict=True)):
             results.update(run_cases(building, base_mass, {f"alternative {i}": item[2]}, stacked, suite.dt,
                                      include_fixed=False))
     seed = options.seed if options.seed is not None else study.analysis.seed

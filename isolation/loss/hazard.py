@@ -161,7 +161,8 @@ class HazardCurve:
         x = np.asarray(self.intensities, dtype=float).ravel()
         r = np.asarray(self.rates, dtype=float).ravel()
         if x.size < 2 or x.size != r.size:
-            raise ValueError(f"hazard points = {list(zip(x.tolist(), r.tolist()))!r} are not allowed: must be at "
+            shown = list(zip(x.tolist(), r.tolist(), strict=False))  # the pairs there are, even when counts differ
+            raise ValueError(f"hazard points = {shown!r} are not allowed: must be at "
                              "least 2 pairs (intensity, annual rate)")
         if not (np.all(np.isfinite(x)) and np.all(np.isfinite(r)) and np.all(x > 0) and np.all(r > 0)):
             raise ValueError(f"hazard intensities = {x.tolist()!r}, rates = {r.tolist()!r} are not allowed: "
@@ -248,6 +249,12 @@ def annual_rate(median, dispersion, hazard) -> float:
     -----
     For lambda(x) = k0 x^-k the closed form is k0 median^-k exp(k^2 dispersion^2/2)
     (Cornell et al. 2002).
+
+    References
+    ----------
+    Cornell, C. A., Jalayer, F., Hamburger, R. O. & Foutch, D. A. (2002). Probabilistic basis for 2000 SAC
+    Federal Emergency Management Agency steel moment frame guidelines. J. Struct. Eng. 128(4), 526-533. DOI not
+    verified.
     """
     m, b = float(median), float(dispersion)
     if not (m > 0.0 and math.isfinite(m)):

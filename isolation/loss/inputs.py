@@ -199,7 +199,7 @@ def _points(t, points):
                            "[g, 1/year]")
             return ()
         pairs.append((float(pair[0]), float(pair[1])))
-    if any(b[0] <= a[0] or b[1] >= a[1] for a, b in zip(pairs, pairs[1:])):
+    if any(b[0] <= a[0] or b[1] >= a[1] for a, b in zip(pairs, pairs[1:], strict=False)):
         t.problems.add(f"{where} = {points!r} is not allowed: must be {allowed}")
         return ()
     return tuple(pairs)
@@ -220,7 +220,7 @@ def _options(t, basis: str = DEFAULT_BASIS) -> LossOptions | None:
         levels = t.mapping["levels"]
         ok = isinstance(levels, list) and 4 <= len(levels) <= 6 and all(
             isinstance(v, (int, float)) and not isinstance(v, bool) and 0.05 <= v <= 3.0 for v in levels) \
-            and all(b > a for a, b in zip(levels, levels[1:]))
+            and all(b > a for a, b in zip(levels, levels[1:], strict=False))
         code = _codes.get(basis if basis in _codes.names() else DEFAULT_BASIS)
         design, top = code.reference_levels
         if not ok:

@@ -77,6 +77,11 @@ def intensity_envelope(time: Any, significant_duration: float) -> np.ndarray:
     -------
     numpy.ndarray
         Envelope values between 0 and 1 at ``time``. [-]
+
+    References
+    ----------
+    Jennings, P. C., Housner, G. W. & Tsai, N. C. (1968). Simulated earthquake motions. Earthquake Engineering
+    Research Laboratory, California Institute of Technology (a report, no DOI).
     """
     grid = finite_array("time", time, "s")
     target = positive("significant_duration", significant_duration, "s")

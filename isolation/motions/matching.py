@@ -229,6 +229,17 @@ def matched_suite(
     MatchedSuite
         Records [g], seeds, control periods [s], target and record spectra
         [g]; ``.check()`` gives the tolerance report.
+
+    References
+    ----------
+    Gasparini, D. A. & Vanmarcke, E. H. (1976). SIMQKE: simulated earthquake motions compatible with
+    prescribed response spectra. MIT Report R76-4 (a report, no DOI).
+    Preumont, A. (1984). The generation of spectrum compatible accelerograms for the design of nuclear power
+    plants. Earthquake Eng. Struct. Dyn. 12(4), 481-497. doi:10.1002/eqe.4290120405
+    Jennings, P. C., Housner, G. W. & Tsai, N. C. (1968). Simulated earthquake motions. Earthquake Engineering
+    Research Laboratory, California Institute of Technology (a report, no DOI).
+    Al Atik, L. & Abrahamson, N. (2010). An improved method for nonstationary spectral matching. Earthquake
+    Spectra 26(3), 601-617. doi:10.1193/1.3459159
     """
     if not callable(getattr(spectrum, "sa", None)):
         raise ValueError(f"spectrum = {spectrum!r} is not allowed: must have a method sa(period, damping) [g]")
@@ -241,91 +252,130 @@ def matched_suite(
     points = _whole("control_points", control_points, 10, 400)
     limit = _whole("max_iterations", max_iterations, 1, 200)
     refinements = _whole("refinements", refinements, 0, 200)
-    if significant_duration is None:
-        strong = typical_significant_duration(magnitude)
-        chosen_magnitude = float(magnitude)
-    else:
-        strong = positive("significant_duration", significant_duration, "s")
-        chosen_magnitude = None
+    strong, chosen_magnitude = _strong_motion(magnitude, significant_duration)
     low, high, check_range = _band(spectrum, step, length, period_range, isolated_period, rule)
 
     periods = np.geomspace(low, high, points)
-    target = np.asarray(spectrum.sa(periods, zeta), dtype=float)
-    if target.shape != periods.shape or not np.all(np.isfinite(target)) or (target <= 0).any():
-        raise ValueError(f"spectrum = {spectrum!r} is not allowed: sa() must give finite values > 0 [g]")
-    goal = rules.goal
-    aim = goal * target
-
+    target = _target(spectrum, periods, zeta)
+    aim = rules.goal * target
     shaping = _shaping(length, step, strong, periods, high, magnitude if chosen_magnitude is not None else None)
     seeds = _derive_seeds(base_seed, number)
     records = _starting_records(shaping, aim, seeds)
     records *= np.median(aim / response_spectrum(records, step, periods, zeta), axis=-1)[:, None]
 
-    best = records.copy()
-    best_score = np.full(number, np.inf)
-    best_iteration = np.zeros(number, dtype=int)
-    goal_reached = math.log1p(_TOLERANCE)
-
-    def remember(candidates: np.ndarray, rows: np.ndarray, score: np.ndarray, iteration: int) -> None:
-        better = score < best_score[rows]
-        best[rows[better]] = candidates[better]
-        best_score[rows[better]] = score[better]
-        best_iteration[rows[better]] = iteration
-
+    found = BestIterates(records)
     with progress_bar(progress, limit + refinements, "matching suite") as bar:
-        # Stage 1: frequency-domain iteration (Gasparini & Vanmarcke).
-        active = np.arange(number)
-        for iteration in range(limit + 1):
-            ratio = response_spectrum(records, step, periods, zeta) / aim
-            remember(records, active, np.abs(np.log(ratio)).max(axis=-1), iteration)
-            keep = (best_score[active] > goal_reached) & (iteration - best_iteration[active] < _PATIENCE)
-            if iteration == limit or not keep.any():
-                break
-            records, ratio, active = records[keep], ratio[keep], active[keep]
-            records = shaping.correct(records, ratio)
-            bar.update(1)
-        # Stage 2: wavelet refinement of the records still outside the tolerance.
-        active = np.flatnonzero(best_score > goal_reached)
-        records = best[active].copy()
-        for refinement in range(refinements + 1):
-            if active.size == 0:
-                break
-            if refinement == refinements:
-                ratio = response_spectrum(records, step, periods, zeta) / aim
-                remember(records, active, np.abs(np.log(ratio)).max(axis=-1), limit + refinement)
-                break
-            adjusted, score = wavelet_step(records, step, periods, zeta, aim)
-            remember(records, active, score, limit + refinement)
-            keep = (best_score[active] > goal_reached) & (limit + refinement - best_iteration[active] < _PATIENCE // 2)
-            active = active[keep]
-            if active.size == 0:
-                break
-            records = shaping.baseline(adjusted[keep] * shaping.taper)
-            bar.update(1)
+        _frequency_stage(found, records, shaping, (periods, zeta), aim, limit, bar)
+        _wavelet_stage(found, shaping, (periods, zeta), aim, (limit, refinements), bar)
 
-    spectra = response_spectrum(best, step, periods, zeta)
-    inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
-    factors = _record_factors(spectra / target, inside, rules.mean_ratio)
-    if np.any(factors != 1.0):
-        best = best * factors[:, None]
-        spectra = response_spectrum(best, step, periods, zeta)
-
+    best, spectra, factors = _scaled_into_band(found.best, step, (periods, zeta), target, check_range,
+                                               rules.mean_ratio)
     for array in (best, periods, target, spectra):
         array.setflags(write=False)
     return MatchedSuite(
-        acceleration=best,
-        dt=step,
-        seeds=seeds,
-        periods=periods,
-        target=target,
-        spectra=spectra,
-        damping=zeta,
-        rule=rule,
-        goal=goal,
-        check_range=(float(check_range[0]), float(check_range[1])),
-        significant_duration=strong,
-        magnitude=chosen_magnitude,
-        iterations=tuple(int(i) for i in best_iteration),
-        scale_factors=tuple(float(f) for f in factors),
-        base_seed=base_seed,
+        acceleration=best, dt=step, seeds=seeds, periods=periods, target=target, spectra=spectra, damping=zeta,
+        rule=rule, goal=rules.goal, check_range=(float(check_range[0]), float(check_range[1])),
+        significant_duration=strong, magnitude=chosen_magnitude, iterations=tuple(int(i) for i in found.iteration),
+        scale_factors=tuple(float(f) for f in factors), base_seed=base_seed,
     )
+
+
+def _strong_motion(magnitude: float, significant_duration: float | None) -> tuple:
+    """(D5-95 of the envelope [s], the magnitude that set it or None when it was given)."""
+    if significant_duration is None:
+        return typical_significant_duration(magnitude), float(magnitude)
+    return positive("significant_duration", significant_duration, "s"), None
+
+
+def _target(spectrum: Any, periods: np.ndarray, zeta: float) -> np.ndarray:
+    """The target spectrum at the control periods, checked finite and positive. [g]"""
+    target = np.asarray(spectrum.sa(periods, zeta), dtype=float)
+    if target.shape != periods.shape or not np.all(np.isfinite(target)) or (target <= 0).any():
+        raise ValueError(f"spectrum = {spectrum!r} is not allowed: sa() must give finite values > 0 [g]")
+    return target
+
+
+class BestIterates:
+    """The best iterate of every record (or pair) so far: its signal, misfit score and iteration.
+
+    ``remember(candidates, rows, score, iteration)`` keeps each candidate whose
+    score (largest |log(spectrum / aim)| over the control periods [-]) beats
+    the one held for its row.
+    """
+
+    def __init__(self, signals: np.ndarray) -> None:
+        count = signals.shape[0]
+        self.best = signals.copy()
+        self.score = np.full(count, np.inf)
+        self.iteration = np.zeros(count, dtype=int)
+
+    def remember(self, candidates: np.ndarray, rows: np.ndarray, score: np.ndarray, iteration: int) -> None:
+        better = score < self.score[rows]
+        self.best[rows[better]] = candidates[better]
+        self.score[rows[better]] = score[better]
+        self.iteration[rows[better]] = iteration
+
+    def keep(self, rows: np.ndarray, iteration: int, patience: int) -> np.ndarray:
+        """Rows still outside +/-5 % of the goal that improved within ``patience`` iterations."""
+        goal_reached = math.log1p(_TOLERANCE)
+        return (self.score[rows] > goal_reached) & (iteration - self.iteration[rows] < patience)
+
+
+def _frequency_stage(found: BestIterates, records: np.ndarray, shaping: _Shaping, control: tuple,
+                     aim: np.ndarray, limit: int, bar: Any) -> None:
+    """Stage 1: frequency-domain iteration (Gasparini & Vanmarcke) of every record.
+
+    ``control`` is (control periods [s], damping ratio [-]); ``aim`` the goal
+    spectrum at them [g]; ``limit`` the iteration limit.
+    """
+    step, (periods, zeta) = shaping.step, control
+    active = np.arange(records.shape[0])
+    for iteration in range(limit + 1):
+        ratio = response_spectrum(records, step, periods, zeta) / aim
+        found.remember(records, active, np.abs(np.log(ratio)).max(axis=-1), iteration)
+        keep = found.keep(active, iteration, _PATIENCE)
+        if iteration == limit or not keep.any():
+            return
+        records, ratio, active = records[keep], ratio[keep], active[keep]
+        records = shaping.correct(records, ratio)
+        bar.update(1)
+
+
+def _wavelet_stage(found: BestIterates, shaping: _Shaping, control: tuple, aim: np.ndarray, counts: tuple,
+                   bar: Any) -> None:
+    """Stage 2: wavelet refinement of the records still outside the tolerance.
+
+    ``counts`` is (iterations of stage 1, refinement steps); the rest as for
+    :func:`_frequency_stage`.
+    """
+    step, (periods, zeta), (limit, refinements) = shaping.step, control, counts
+    active = np.flatnonzero(found.score > math.log1p(_TOLERANCE))
+    records = found.best[active].copy()
+    for refinement in range(refinements + 1):
+        if active.size == 0:
+            return
+        if refinement == refinements:
+            ratio = response_spectrum(records, step, periods, zeta) / aim
+            found.remember(records, active, np.abs(np.log(ratio)).max(axis=-1), limit + refinement)
+            return
+        adjusted, score = wavelet_step(records, step, periods, zeta, aim)
+        found.remember(records, active, score, limit + refinement)
+        keep = found.keep(active, limit + refinement, _PATIENCE // 2)
+        active = active[keep]
+        if active.size == 0:
+            return
+        records = shaping.baseline(adjusted[keep] * shaping.taper)
+        bar.update(1)
+
+
+def _scaled_into_band(best: np.ndarray, step: float, control: tuple, target: np.ndarray, check_range: tuple,
+                      required: float) -> tuple:
+    """Best records scaled per record into the band and up to the mean rule: (records, spectra, factors)."""
+    periods, zeta = control
+    spectra = response_spectrum(best, step, periods, zeta)
+    inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
+    factors = _record_factors(spectra / target, inside, required)
+    if np.any(factors != 1.0):
+        best = best * factors[:, None]
+        spectra = response_spectrum(best, step, periods, zeta)
+    return best, spectra, factors

@@ -80,6 +80,11 @@ def rotd100_spectrum(acceleration: Any, dt: float, periods: Any, damping: float 
     -------
     numpy.ndarray
         RotD100, shape (periods,) for one pair or (pairs, periods). [g]
+
+    References
+    ----------
+    Boore, D. M. (2010). Orientation-independent, nongeometric-mean measures of seismic intensity from two
+    horizontal components of motion. Bull. Seismol. Soc. Am. 100(4), 1830-1835. doi:10.1785/0120090400
     """
     pair = _pairs(acceleration)
     _, step, period_array, zeta = _check_inputs(pair[:, 0], dt, periods, damping)
@@ -117,6 +122,11 @@ def rotd_spectrum(
     -------
     numpy.ndarray
         (periods,) for one pair or (pairs, periods). [g]
+
+    References
+    ----------
+    Boore, D. M. (2010). Orientation-independent, nongeometric-mean measures of seismic intensity from two
+    horizontal components of motion. Bull. Seismol. Soc. Am. 100(4), 1830-1835. doi:10.1785/0120090400
     """
     pair = _pairs(acceleration)
     if not 0.0 <= float(percentile) <= 100.0:

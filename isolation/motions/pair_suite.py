@@ -211,11 +211,11 @@ class MatchedPairs:
             lowest_ratio=tuple(float(v) for v in ratios.min(axis=1)),
             highest_ratio=tuple(float(v) for v in ratios.max(axis=1)),
             within_band=tuple(bool(lo >= band[0] and hi <= band[1])
-                              for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1))),
+                              for lo, hi in zip(ratios.min(axis=1), ratios.max(axis=1), strict=True)),
             correlation=tuple(float(c) for c in self.correlation),
             baseline_ok=tuple(
                 bool(v <= BASELINE_TOLERANCE["velocity"] and d <= BASELINE_TOLERANCE["displacement"])
-                for v, d in zip(final_v, final_d)
+                for v, d in zip(final_v, final_d, strict=True)
             ),
             check_range=tuple(float(v) for v in self.check_range),
             required_mean_ratio=_codes.get(self.rule, "rule").suite.pair_ratio,

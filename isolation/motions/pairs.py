@@ -30,20 +30,26 @@ Rules for pairs (:data:`PAIR_RULES`):
 
 from __future__ import annotations
 
-import math
 from typing import Any
 
 import numpy as np
 
 from isolation.codes import registry as _codes
-from isolation.motions.matching import _band, _record_factors, _shaping, _whole, matched_suite, progress_bar
+from isolation.motions.matching import (
+    BestIterates,
+    _band,
+    _record_factors,
+    _shaping,
+    _whole,
+    matched_suite,
+    progress_bar,
+)
 from isolation.motions.pair_spectra import rotd100_spectrum, srss_spectrum
 from isolation.motions.pair_suite import MatchedPairs
 from isolation.validate import in_range, positive
 
 __all__ = ["matched_pairs"]
 
-_TOLERANCE = 0.05
 _PATIENCE = 8
 # Starting component level as a fraction of the pair goal: two independent
 # components matched to S give RotD100 of about 1.2-1.3 S (common practice)
@@ -167,32 +173,10 @@ def matched_pairs(
     pairs = components.acceleration.reshape(number, 2, -1).copy()
 
     # Stage 2: one amplitude correction per pair and frequency, applied to both components.
-    best = pairs.copy()
-    best_score = np.full(number, np.inf)
-    best_iteration = np.zeros(number, dtype=int)
-    goal_reached = math.log1p(_TOLERANCE)
-    active = np.arange(number)
     with progress_bar(progress, limit, "matching pairs") as bar:
-        for iteration in range(limit + 1):
-            ratio = _pair_spectrum(rule, pairs, step, periods, zeta) / aim
-            score = np.abs(np.log(ratio)).max(axis=-1)
-            better = score < best_score[active]
-            best[active[better]] = pairs[better]
-            best_score[active[better]] = score[better]
-            best_iteration[active[better]] = iteration
-            keep = (best_score[active] > goal_reached) & (iteration - best_iteration[active] < _PATIENCE)
-            if iteration == limit or not keep.any():
-                break
-            pairs, ratio, active = pairs[keep], ratio[keep], active[keep]
-            pairs = shaping.correct(pairs, ratio[:, None, :])
-            bar.update(1)
+        best = _pair_stage(pairs, shaping, rule, (periods, zeta), aim, limit, bar)
 
-    spectra = _pair_spectrum(rule, best, step, periods, zeta)
-    inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
-    factors = _pair_factors(spectra / target, inside, rules.pair_ratio, goal)
-    if np.any(factors != 1.0):
-        best = best * factors[:, None, None]
-        spectra = _pair_spectrum(rule, best, step, periods, zeta)
+    best, spectra, factors = _pairs_into_band(best, step, rule, (periods, zeta), target, check_range)
     for array in (best, periods, target, spectra):
         array.setflags(write=False)
     seeds = tuple((int(components.seeds[2 * i]), int(components.seeds[2 * i + 1])) for i in range(number))
@@ -201,6 +185,42 @@ def matched_pairs(
         damping=zeta, rule=rule, goal=goal, check_range=(float(check_range[0]), float(check_range[1])),
         scale_factors=tuple(float(f) for f in factors), base_seed=int(components.base_seed),
     )
+
+
+def _pair_stage(pairs: np.ndarray, shaping: Any, rule: str, control: tuple, aim: np.ndarray, limit: int,
+                bar: Any) -> np.ndarray:
+    """Best iterate of every pair after the Fourier corrections common to both components.
+
+    ``control`` is (control periods [s], damping ratio [-]); ``aim`` the pair
+    goal spectrum at them [g]; ``limit`` the iteration limit.
+    """
+    step, (periods, zeta) = shaping.step, control
+    found = BestIterates(pairs)
+    active = np.arange(pairs.shape[0])
+    for iteration in range(limit + 1):
+        ratio = _pair_spectrum(rule, pairs, step, periods, zeta) / aim
+        found.remember(pairs, active, np.abs(np.log(ratio)).max(axis=-1), iteration)
+        keep = found.keep(active, iteration, _PATIENCE)
+        if iteration == limit or not keep.any():
+            break
+        pairs, ratio, active = pairs[keep], ratio[keep], active[keep]
+        pairs = shaping.correct(pairs, ratio[:, None, :])
+        bar.update(1)
+    return found.best
+
+
+def _pairs_into_band(best: np.ndarray, step: float, rule: str, control: tuple, target: np.ndarray,
+                     check_range: tuple) -> tuple:
+    """Pairs scaled as a whole into the band and up to the mean rule: (pairs, pair spectra, factors)."""
+    periods, zeta = control
+    rules = _codes.get(rule, "rule").suite
+    spectra = _pair_spectrum(rule, best, step, periods, zeta)
+    inside = (periods >= check_range[0] * (1 - 1e-9)) & (periods <= check_range[1] * (1 + 1e-9))
+    factors = _pair_factors(spectra / target, inside, rules.pair_ratio, rules.pair_goal)
+    if np.any(factors != 1.0):
+        best = best * factors[:, None, None]
+        spectra = _pair_spectrum(rule, best, step, periods, zeta)
+    return best, spectra, factors
 
 
 def _default_band(spectrum: Any, dt: float, duration: float, isolated_period: Any) -> tuple:

@@ -250,6 +250,11 @@ def response_spectrum(acceleration: Any, dt: float, periods: Any, damping: float
     -----
     Exact for acceleration varying linearly between samples (Nigam & Jennings
     1969), oscillator at rest at the first sample.
+
+    References
+    ----------
+    Nigam, N. C. & Jennings, P. C. (1969). Calculation of response spectra from strong-motion earthquake
+    records. Bull. Seismol. Soc. Am. 59(2), 909-922. DOI not verified.
     """
     record, step, period_array, zeta = _check_inputs(acceleration, dt, periods, damping)
     flat = np.atleast_1d(period_array)

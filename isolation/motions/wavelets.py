@@ -53,6 +53,13 @@ def adjustment_wavelets(time: np.ndarray, periods: np.ndarray, peak_times: np.nd
     -------
     numpy.ndarray
         Wavelets of unit amplitude, (periods, steps). [-]
+
+    References
+    ----------
+    Al Atik, L. & Abrahamson, N. (2010). An improved method for nonstationary spectral matching. Earthquake
+    Spectra 26(3), 601-617. doi:10.1193/1.3459159
+    Hancock, J. et al. (2006). An improved method of matching response spectra of recorded earthquake ground
+    motion using wavelets. J. Earthq. Eng. 10, 67-89. DOI not verified.
     """
     omega = 2.0 * np.pi / periods
     damped = omega * np.sqrt(1.0 - damping**2)
@@ -108,6 +115,13 @@ def wavelet_step(
     tuple of numpy.ndarray
         Adjusted records (records, steps) [g] and the largest |log(PSA / aim)|
         of each record before the step [-].
+
+    References
+    ----------
+    Al Atik, L. & Abrahamson, N. (2010). An improved method for nonstationary spectral matching. Earthquake
+    Spectra 26(3), 601-617. doi:10.1193/1.3459159
+    Hancock, J. et al. (2006). An improved method of matching response spectra of recorded earthquake ground
+    motion using wavelets. J. Earthq. Eng. 10, 67-89. DOI not verified.
     """
     omega = 2.0 * np.pi / periods
     peak, index = peak_displacement_times(records, dt, periods, damping)

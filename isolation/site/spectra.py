@@ -31,16 +31,16 @@ AASHTO, Guide Specifications for Seismic Isolation Design (B_L = (beta/0.05)^0.3
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 from typing import Any, Mapping
 
 import numpy as np
 
-from isolation import GRAVITY, validate
+from isolation import validate
 from isolation.codes.damping_rule_names import ASCE7_RULE, EUROCODE_RULE
-from isolation.codes.registry import DEFAULT_BASIS
-from isolation.site.damping import RULES, _checked_array, _unwrap, damping_coefficient, eurocode_eta, rules
+from isolation.site.damping import RULES, _unwrap, damping_coefficient, eurocode_eta, rules
+from isolation.site.spectrum_base import _Spectrum
+from isolation.site.tabulated_spectrum import TabulatedSpectrum
 
 EUROCODE_KIND = "eurocode"  # file-format tag of a serialised EN 1998-1 spectrum (not a basis name)
 
@@ -79,80 +79,6 @@ _EC8_PARAMETERS = {
 # Table A.1 (from memory) and covers motion matching to max(6 s, 1.5 T_M) for
 # isolated periods up to about 6.5 s; a larger value is more likely a unit mistake. [s]
 _EC8_LONGEST = 10.0
-
-
-class _Spectrum:
-    """Shared behaviour: damping, displacement, period checks."""
-
-    rule: str
-
-    @property
-    def period_range(self) -> tuple[float, float]:
-        """(shortest, longest) period at which the spectrum is defined. [s]"""
-        raise NotImplementedError
-
-    def _sa5(self, period: np.ndarray) -> np.ndarray:
-        """Pseudo-acceleration at 5 % damping. [g]"""
-        raise NotImplementedError
-
-    def _periods(self, period) -> np.ndarray:
-        array = _checked_array("period", period, "s")
-        low, high = self.period_range
-        bad = (array < low) | (array > high)
-        if bad.any():
-            value = float(array[tuple(np.argwhere(bad)[0])]) if array.ndim else float(array)
-            raise ValueError(
-                f"period = {value!r} is not allowed: must lie in [{low:g}, {high:g}] "
-                f"for this {type(self).__name__} [s]{self._range_hint()}"
-            )
-        return array
-
-    def _range_hint(self) -> str:
-        """Extra advice appended to the out-of-range period message."""
-        return ""
-
-    def sa(self, period, damping=0.05, *, rule: str | None = None):
-        """Spectral pseudo-acceleration.
-
-        Parameters
-        ----------
-        period : float or array
-            Natural period, inside :attr:`period_range`. [s]
-        damping : float or array
-            Damping ratio, 0 <= damping <= 1. [-]
-        rule : str, optional
-            Damping rule (see :func:`damping_coefficient`); default :attr:`rule`.
-
-        Returns
-        -------
-        float or array
-            Pseudo-acceleration. [g]
-        """
-        t = self._periods(period)
-        chosen = self.rule if rule is None else validate.one_of("rule", rule, rules())
-        out = self._sa5(t) / np.asarray(damping_coefficient(damping, chosen))
-        return _unwrap(np.asarray(out, dtype=float))
-
-    def sd(self, period, damping=0.05, *, rule: str | None = None):
-        """Spectral displacement g Sa T^2/(4 pi^2).
-
-        Parameters
-        ----------
-        period : float or array
-            Natural period, inside :attr:`period_range`. [s]
-        damping : float or array
-            Damping ratio, 0 <= damping <= 1. [-]
-        rule : str, optional
-            Damping rule; default :attr:`rule`.
-
-        Returns
-        -------
-        float or array
-            Spectral displacement. [m]
-        """
-        t = self._periods(period)
-        sa = np.asarray(self.sa(t, damping, rule=rule))
-        return _unwrap(GRAVITY * sa * t**2 / (4.0 * math.pi**2))
 
 
 @dataclass(frozen=True)
@@ -403,87 +329,6 @@ class EurocodeSpectrum(_Spectrum):
             "importance": self.importance,
             "rule": self.rule,
             "max_period": self.max_period,
-        }
-
-
-@dataclass(frozen=True)
-class TabulatedSpectrum(_Spectrum):
-    """A spectrum from a table of periods and pseudo-accelerations.
-
-    Parameters
-    ----------
-    periods : sequence of float
-        Periods, strictly increasing, >= 0 (only the first may be 0); at
-        least two. [s]
-    values : sequence of float
-        Pseudo-accelerations at ``damping``, > 0. [g]
-    damping : float
-        Damping ratio the table belongs to. [-]
-    rule : str
-        Damping rule used to move to other damping ratios. [-]
-
-    Notes
-    -----
-    Interpolation is linear in log(T)-log(Sa); a segment starting at T = 0
-    is interpolated linearly. Other damping: Sa(beta) = Sa_table B(damping)/B(beta).
-    Periods outside the table raise ValueError (no extrapolation).
-    """
-
-    periods: tuple
-    values: tuple
-    damping: float = 0.05
-    rule: str = DEFAULT_BASIS
-
-    def __post_init__(self) -> None:
-        t = validate.finite_array("periods", self.periods, "s")
-        v = validate.positive_array("values", self.values, "g")
-        if t.ndim != 1 or t.size < 2:
-            raise ValueError(f"periods = {self.periods!r} is not allowed: must be a list of at least 2 periods [s]")
-        if v.shape != t.shape:
-            raise ValueError(
-                f"values has {v.size} entries but periods has {t.size}: must be the same length"
-            )
-        if t[0] < 0.0 or np.any(t[1:] <= 0.0):
-            raise ValueError(f"periods = {t.tolist()!r} is not allowed: must be >= 0 (only the first may be 0) [s]")
-        if np.any(np.diff(t) <= 0.0):
-            i = int(np.argmax(np.diff(t) <= 0.0)) + 1
-            raise ValueError(
-                f"periods[{i}] = {float(t[i])!r} is not allowed: must be strictly increasing "
-                f"(previous {float(t[i - 1])!r}) [s]"
-            )
-        beta = validate.in_range("damping", self.damping, 0.0, 1.0, "-", low_inclusive=False)
-        validate.one_of("rule", self.rule, rules())
-        object.__setattr__(self, "periods", tuple(float(x) for x in t))
-        object.__setattr__(self, "values", tuple(float(x) for x in v))
-        object.__setattr__(self, "damping", beta)
-
-    @property
-    def period_range(self) -> tuple[float, float]:
-        return (self.periods[0], self.periods[-1])
-
-    def _sa5(self, period: np.ndarray) -> np.ndarray:
-        t_tab = np.asarray(self.periods)
-        v_tab = np.asarray(self.values)
-        t = np.asarray(period, dtype=float)
-        out = np.empty_like(t)
-        positive = t_tab > 0.0
-        log_t, log_v = np.log(t_tab[positive]), np.log(v_tab[positive])
-        first = t_tab[positive][0]
-        upper = t >= first
-        out[upper] = np.exp(np.interp(np.log(t[upper]), log_t, log_v))
-        if (~upper).any():  # only when the table starts at T = 0
-            out[~upper] = np.interp(t[~upper], t_tab[:2], v_tab[:2])
-        table_b = damping_coefficient(self.damping, self.rule)
-        # Convert the table to its 5 % equivalent; sa() divides by B(beta) again.
-        return out * table_b
-
-    def to_dict(self) -> dict:
-        return {
-            "kind": "tabulated",
-            "periods": list(self.periods),
-            "values": list(self.values),
-            "damping": self.damping,
-            "rule": self.rule,
         }
 
 

@@ -101,7 +101,7 @@ def _check_design(study: Study, systems: list) -> None:
                "building.storey_heights, or give building.fixed_base_period"))
     weight = study.building.total_weight
     periods = []
-    for i, (alternative, system) in enumerate(zip(study.alternatives, systems)):
+    for i, (alternative, system) in enumerate(zip(study.alternatives, systems, strict=True)):
         def design(i=i, alternative=alternative, system=system):
             try:
                 sets = system.property_sets(weight)

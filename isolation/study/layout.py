@@ -124,5 +124,5 @@ def layout_demands(study, alternative, report, spectrum) -> LayoutDemands:
     shear, height, factor, vertical, _ = overturning_inputs(study, spectrum, report)
     low, high = grid_axial_loads(shear * height, positions, gravity, gravity_factor=factor,
                                  vertical_fraction=vertical)
-    spacing = tuple(float(d / (n - 1)) if n > 1 else float(d) for d, n in zip(plan, grid))
+    spacing = tuple(float(d / (n - 1)) if n > 1 else float(d) for d, n in zip(plan, grid, strict=True))
     return LayoutDemands(grid, positions, displacement, gravity, low, high, spacing)

@@ -61,7 +61,7 @@ class StoreyStrength:
     def _ratio(shear, strength) -> tuple | None:
         if strength is None:
             return None
-        return tuple(s / r if math.isfinite(r) and r > 0 else math.nan for s, r in zip(shear, strength))
+        return tuple(s / r if math.isfinite(r) and r > 0 else math.nan for s, r in zip(shear, strength, strict=True))
 
     @property
     def ratio_x(self) -> tuple | None:

@@ -111,7 +111,7 @@ def _read_spectrum_table(path: Path, key: str, problems: Problems):
     bad = [i for i in range(len(periods)) if not (math.isfinite(periods[i]) and math.isfinite(values[i])
                                                   and 0 <= periods[i] <= SPECTRUM_PERIOD_MAX
                                                   and 0 < values[i] <= SPECTRUM_SA_MAX)]
-    rising = all(b > a for a, b in zip(periods, periods[1:]))
+    rising = all(b > a for a, b in zip(periods, periods[1:], strict=False))
     if bad or not rising:
         where = f" (row {bad[0] + 1} of the data: {periods[bad[0]]!r}, {values[bad[0]]!r})" if bad else ""
         problems.add(f"{key} = {str(path)!r} is not allowed: periods must lie in [0, {SPECTRUM_PERIOD_MAX:g}] s "

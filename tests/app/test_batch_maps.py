@@ -96,7 +96,7 @@ def test_design_space_workbook_on_fixture_batch(tmp_path):
 
 def test_parquet_summary_matches_csv(tmp_path):
     parquet = pytest.importorskip("pyarrow.parquet")  # optional: summary.parquet only with pyarrow
-    rows = [dict(r, **{"mixed": value}) for r, value in zip(HAND, [1.5, "2500 mm", None, 2, 3.0, "x"])]
+    rows = [dict(r, **{"mixed": value}) for r, value in zip(HAND, [1.5, "2500 mm", None, 2, 3.0, "x"], strict=True)]
     written = write_summary(rows, tmp_path, ["k", "mixed"])
     assert [p.name for p in written] == ["summary.csv", "summary.parquet"]
     table = parquet.read_table(tmp_path / "summary.parquet").to_pylist()

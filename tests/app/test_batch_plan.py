@@ -86,6 +86,22 @@ site.site_class = "D"
     validate_plan(plan)
 
 
+def test_repeated_table_column_is_refused_not_paired_wrongly(tmp_path):
+    # requirement (issue 6 and the bad-input rule): a CSV header naming one key path twice would pair the
+    # cells of one column with the other's name; it is refused with the name and the columns.
+    (tmp_path / "variants.csv").write_text(f"id,{RADIUS},{FRICTION},{RADIUS}\na,4.0,0.05,3.0\n", encoding="utf-8")
+    path = write_batch(tmp_path, """
+[batch]
+study = "study.toml"
+table = "variants.csv"
+""")
+    with pytest.raises(InputError) as caught:
+        load_batch(path)
+    message = str(caught.value)
+    assert f"column name '{RADIUS}' appears more than once (columns 2, 4)" in message
+    assert "each key path once" in message
+
+
 def test_batch_file_problems_reported_together(tmp_path):
     path = write_batch(tmp_path, f"""
 [batch]

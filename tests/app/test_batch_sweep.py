@@ -44,7 +44,7 @@ def eurocode_rubber_study(folder: Path) -> Path:
 
 def same_rows(many, one):
     assert len(many) == len(one)
-    for a, b in zip(many, one):
+    for a, b in zip(many, one, strict=True):
         assert a.keys() == b.keys()
         for key in a:
             if isinstance(b[key], float):
@@ -63,10 +63,10 @@ def test_array_rows_equal_variant_by_variant_rows(tmp_path, which):
     base = read_study_mapping(path)
     full = [parse_study(apply_overrides(base, o), source=path.name, base_dir=path.parent) for o in grid]
     quick = [variant_study(path, o) for o in grid]
-    for a, b in zip(quick, full):
+    for a, b in zip(quick, full, strict=True):
         assert a.to_dict() == b.to_dict()  # the key-by-key path builds the study the full parse builds
     many = design_rows_many(quick)
-    for rows, study in zip(many, full):
+    for rows, study in zip(many, full, strict=True):
         same_rows(rows, design_rows(study))
 
 
@@ -115,7 +115,7 @@ def test_chunk_runs_together_and_a_failing_variant_fails_alone(tmp_path):
     outcomes = guarded_chunk(sweep_runner, tasks)
     assert [o.variant_id for o in outcomes] == [t.variant_id for t in tasks]
     alone = [sweep_runner(t) if t.variant_id != "soft" else None for t in tasks]
-    for got, ref in zip(outcomes[:4], alone[:4]):
+    for got, ref in zip(outcomes[:4], alone[:4], strict=True):
         assert got.status == "done"
         same_rows(list(got.rows), list(ref.rows))
     soft = guarded_chunk(sweep_runner, [tasks[-1]])[0]

@@ -148,7 +148,8 @@ def test_trade_off_array_points_equal_the_scalar_answer(bearing_type, basis):
     for parameter in explore.TRADE_OFF_PARAMETERS[bearing_type]:
         curve = explore.trade_off(settings, parameter, count=6)
         assert np.isfinite(curve.total_displacement).sum() >= 3
-        for value, d_tm, shear in zip(curve.values, curve.total_displacement, curve.base_shear_coefficient):
+        for value, d_tm, shear in zip(curve.values, curve.total_displacement, curve.base_shear_coefficient,
+                                      strict=True):
             swept = explore._swept(settings, parameter, float(value))
             try:
                 answer = explore.explore(settings, **swept)

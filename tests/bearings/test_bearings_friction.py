@@ -159,7 +159,7 @@ def _trace_elements(model, path):
     forces = []
     for u in path:
         total = k0 * u
-        for i, (k, f) in enumerate(zip(ks, fs)):
+        for i, (k, f) in enumerate(zip(ks, fs, strict=True)):
             trial = k * (u - plastic[i])
             if abs(trial) > f:
                 plastic[i] = u - math.copysign(f, trial) / k

@@ -722,11 +722,11 @@ def test_three_storey_drift_and_storey_shears_by_hand():
     h = [4.0, 8.0, 12.0]
     k_exp = 14 * 0.2 * 0.5
     v_s = 1000.0 * 0.8**0.5
-    share = [wi * hi**k_exp for wi, hi in zip(w, h)]
+    share = [wi * hi**k_exp for wi, hi in zip(w, h, strict=True)]
     forces = [v_s * s / sum(share) for s in share]
     phi = [hi / 12.0 for hi in h]
-    k_star = (2 * math.pi / 0.5) ** 2 * sum(wi / G * p**2 for wi, p in zip(w, phi))
-    u_top = sum(f * p for f, p in zip(forces, phi)) / k_star
+    k_star = (2 * math.pi / 0.5) ** 2 * sum(wi / G * p**2 for wi, p in zip(w, phi, strict=True))
+    u_top = sum(f * p for f, p in zip(forces, phi, strict=True)) / k_star
     drifts = [(phi[0] - 0.0) * u_top * 2.0, (phi[1] - phi[0]) * u_top * 2.0, (phi[2] - phi[1]) * u_top * 2.0]
     shears = [sum(forces), forces[1] + forces[2], forces[2]]
     for i, storey in enumerate(report.storey_forces):
@@ -1263,7 +1263,7 @@ def test_elf_warnings_say_what_failed_and_what_follows():
     assert not tall.elf_permitted
     failed = [c for c in tall.applicability if not c.passed]
     assert len(failed) == len(tall.warnings) - sum(not c.passed for c in tall.checks)
-    for check, warning in zip(failed, tall.warnings):
+    for check, warning in zip(failed, tall.warnings, strict=True):
         unit = "" if check.unit == "-" else f" {check.unit}"
         assert warning == (f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} ({check.source})"
                            " - ELF not permitted: response-history analysis is required")
@@ -1325,7 +1325,7 @@ def test_eurocode_warnings_say_what_failed_and_what_follows():
     assert [c.name.split(" (")[0] for c in failed] == ["largest plan dimension", "superstructure regular and symmetric",
                                                        "distance to an active fault",
                                                        "vertical over effective horizontal stiffness"]
-    for check, warning in zip(failed, report.warnings):
+    for check, warning in zip(failed, report.warnings, strict=True):
         unit = "" if check.unit == "-" else f" {check.unit}"
         assert warning.startswith(f"{check.name}: {check.value:.4g} against limit {check.limit:.4g}{unit} "
                                   f"({check.source}) - ")

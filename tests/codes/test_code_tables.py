@@ -34,7 +34,7 @@ def test_every_check_value_file_names_its_source():
 
 def test_damping_coefficient_b_m():
     table = read("asce7_16_table_17_5_1.csv")  # ASCE/SEI 7-16 Table 17.5-1
-    for beta, b_m in zip(table.column("effective_damping"), table.column("B_M")):
+    for beta, b_m in zip(table.column("effective_damping"), table.column("B_M"), strict=True):
         assert float(damping_coefficient(beta, "asce7")) == pytest.approx(b_m, rel=1e-12)
     # [derived] halfway between the 10 % and 20 % rows: (1.2 + 1.5)/2.
     assert float(damping_coefficient(0.15, "asce7")) == pytest.approx(1.35, rel=1e-12)
@@ -42,7 +42,7 @@ def test_damping_coefficient_b_m():
 
 def test_upper_limit_coefficient_c_u():
     table = read("asce7_16_table_12_8_1.csv")  # ASCE/SEI 7-16 Table 12.8-1
-    for sd1, cu in zip(table.column("S_D1"), table.column("C_u")):
+    for sd1, cu in zip(table.column("S_D1"), table.column("C_u"), strict=True):
         assert period_upper_limit_factor(sd1) == pytest.approx(cu, rel=1e-12)
     # Beyond the end rows the end values hold (">= 0.4" and "<= 0.1" rows).
     assert period_upper_limit_factor(0.8) == pytest.approx(1.4)

@@ -107,7 +107,7 @@ def test_bounds_many_equal_design_bounds_and_unsupported_systems_use_the_scalar_
     sets = [plane(FrictionPendulum(3.0, 0.05)).property_sets(WEIGHT), rubber.property_sets(WEIGHT)]
     assert not supports(sets[1]["lower"])  # rubber with sliders: combined backbone
     many = design_bounds_many(sets, WEIGHT, spectrum)
-    for got, s in zip(many, sets):
+    for got, s in zip(many, sets, strict=True):
         ref = design_bounds(s, WEIGHT, spectrum)
         assert got.displacement_governs == ref.displacement_governs
         assert got.force_governs == ref.force_governs

@@ -75,7 +75,7 @@ def test_double_concave_with_unequal_friction_loop_area():
     u = d * np.sin(2 * math.pi * t)
     f = imposed_force(bearing, u, weight=weight)
     second = (t >= 1.0) & (t <= 2.0)
-    expected = sum(4 * s * (d - s / k) for k, s in zip(ks, fs))
+    expected = sum(4 * s * (d - s / k) for k, s in zip(ks, fs, strict=True))
     assert np.trapezoid(f[second], u[second]) == pytest.approx(expected, rel=1e-3)
 
 

@@ -119,7 +119,7 @@ def test_friction_pendulum_with_velocity_dependent_friction_matches_solve_ivp():
     u = result.isolator_displacement[0]
     assert np.max(np.abs(u)) == pytest.approx(np.max(np.abs(ref[0])), rel=0.01)
     force = result.isolator_force[0]
-    ref_force = np.array([law(a, b, c)[0] for a, b, c in zip(ref[0], ref[1], ref[2])])
+    ref_force = np.array([law(a, b, c)[0] for a, b, c in zip(ref[0], ref[1], ref[2], strict=True)])
     assert np.max(np.abs(force)) == pytest.approx(np.max(np.abs(ref_force)), rel=0.01)
 
 

@@ -70,7 +70,7 @@ def test_complete_damage_of_all_groups_is_the_replacement_cost(name):
     assert occ.structural[-1] + occ.acceleration_sensitive[-1] + occ.drift_sensitive[-1] == pytest.approx(100.0)
     for ratios in (occ.structural, occ.acceleration_sensitive, occ.drift_sensitive, occ.repair_days,
                    occ.recovery_days):
-        assert all(b > a for a, b in zip(ratios, ratios[1:]))
+        assert all(b > a for a, b in zip(ratios, ratios[1:], strict=False))
 
 
 @pytest.mark.parametrize("importance, target", [(1.0, 0.10), (1.25, 0.05), (1.5, 0.025)])

@@ -69,7 +69,7 @@ def test_batch_rows_carry_the_loss_columns(data, tmp_path):
     from isolation.app.batch.summary import read_summary, write_summary
 
     rows = rows_from_results(data, 1.0e4, verdict_basis="response histories")
-    for row, alternative in zip(rows, data["alternatives"]):
+    for row, alternative in zip(rows, data["alternatives"], strict=True):
         loss = alternative["loss"]
         assert row["expected_annual_loss"] == loss["expected_annual_loss"]
         assert row["expected_annual_loss_fixed"] == data["fixed_base"]["loss"]["expected_annual_loss"]
@@ -92,7 +92,7 @@ def test_design_space_map_coloured_by_net_present_value():
 
     rows = [{"status": "done", "alternative": "A", "verdict": "feasible", "x": x, "y": y, "D_M_lower_m": 0.3,
              "base_shear_ratio_upper": 0.5, "net_present_value": npv, "currency": "USD"}
-            for (x, y), npv in zip([(1, 1), (1, 2), (2, 1), (2, 2)], [-2e5, 0.0, 1e5, None])]
+            for (x, y), npv in zip([(1, 1), (1, 2), (2, 1), (2, 2)], [-2e5, 0.0, 1e5, None], strict=True)]
     fig, ax = plt.subplots()
     plot_npv_map(rows, "x", "y", ax=ax)
     colours = [patch.get_facecolor()[:3] for patch in ax.patches]

@@ -235,7 +235,7 @@ def test_force_displacement_in_us_units_is_the_si_figure_in_inches_and_kips():
     assert max(loop_us.get_xdata()) == pytest.approx(0.3 / INCH)
     assert max(loop_us.get_ydata()) == pytest.approx((500.0 + 3_000.0 * 0.3) / KIP)  # Q_d + K_d D
     data_lines = 0
-    for si_line, us_line in zip(si.axes[0].get_lines(), us.axes[0].get_lines()):  # backbones too
+    for si_line, us_line in zip(si.axes[0].get_lines(), us.axes[0].get_lines(), strict=True):  # backbones too
         if len(si_line.get_xdata()) and si_line.get_transform() == si.axes[0].transData:  # not the axis lines
             _assert_line_scaled(si_line, us_line, PER_MM_IN_US, 1.0 / KIP)
             data_lines += 1

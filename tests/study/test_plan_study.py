@@ -93,7 +93,8 @@ def test_bidirectional_study_end_to_end(tmp_path):
         assert alternative.figures["total_displacement"] == pytest.approx(b["total_displacement_governing"])
         # uplift under the code combination 0.9 D - 0.2 S_MS D (ASCE/SEI 7-16 §17.2.4.6, from memory), S_MS = 1.50
         # in the demo study: the drop of each bearing's axial load in the histories over 0.6 of its gravity load
-        drop = max((g - lo) / (0.6 * g) for g, lo in zip(b["gravity_load_kN"], b["bearing_axial_min_kN"]))
+        drop = max((g - lo) / (0.6 * g) for g, lo in zip(b["gravity_load_kN"], b["bearing_axial_min_kN"],
+                                                                         strict=True))
         assert alternative.figures["uplift_ratio"] == pytest.approx(drop)
         assert drop == pytest.approx(b["uplift_ratio"] / 0.6)
         # the storey findings come from the plan model (isolated: worst of bounds and eccentricities)
@@ -107,7 +108,7 @@ def test_bidirectional_study_end_to_end(tmp_path):
         strength = alternative.plan_storey_strength
         assert strength.storeys == len(storeys["drift_ratio"])
         for ratio, mu in ((strength.ratio_x, storeys["ductility_x"]), (strength.ratio_y, storeys["ductility_y"])):
-            assert all(0.0 < r <= m * (1 + 1e-9) for r, m in zip(ratio, mu))
+            assert all(0.0 < r <= m * (1 + 1e-9) for r, m in zip(ratio, mu, strict=True))
         # storeys carry the code-designed strengths of the planar comparison in x and in y: the fixed base,
         # designed with R and yielding (issue: fixed-base comparison), yields in both directions
         fixed = b["fixed_base"]
@@ -117,7 +118,7 @@ def test_bidirectional_study_end_to_end(tmp_path):
         assert fixed["residual_drift_max"] > 0.0
         # axial loads straddle the gravity share of every bearing
         assert all(lo <= g <= hi for lo, g, hi in zip(b["bearing_axial_min_kN"], b["gravity_load_kN"],
-                                                       b["bearing_axial_max_kN"]))
+                                                       b["bearing_axial_max_kN"], strict=True))
     assert results.suite["pairs"]["pair_spectrum"] == "RotD100"
     # the report's table and figures are made from these results
     from isolation.output import plots, tables

@@ -175,7 +175,8 @@ def test_tabulated_spectrum_gives_the_code_answer(tmp_path):
                   np.where(periods <= ts, sms, np.where(periods <= tl, sm1 / np.maximum(periods, 1e-9),
                                                         sm1 * tl / np.maximum(periods, 1e-9) ** 2)))
     (tmp_path / "site.csv").write_text("period_s,sa_g\n"
-                                       + "\n".join(f"{float(t)!r},{float(a)!r}" for t, a in zip(periods, sa)))
+                                       + "\n".join(f"{float(t)!r},{float(a)!r}"
+                                                   for t, a in zip(periods, sa, strict=True)))
     mapping = read_study_mapping(DEMO)
     for key in ("sms", "sm1", "long_period"):
         del mapping["site"][key]

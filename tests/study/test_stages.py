@@ -93,11 +93,11 @@ def test_design_study_is_typed_and_matches_the_closed_form(design):
 def test_run_and_sweep_share_the_design(study, design, demo):
     from isolation.app.batch.sweep import design_rows
 
-    for typed, result in zip(design.alternatives, demo.alternatives):
+    for typed, result in zip(design.alternatives, demo.alternatives, strict=True):
         assert result.quantities == typed.quantities.to_dict()
         assert result.design_quantities == DesignQuantities.from_dict(typed.quantities.to_dict())
     rows = design_rows(study)
-    for row, typed in zip(rows, design.alternatives):
+    for row, typed in zip(rows, design.alternatives, strict=True):
         assert row["D_TM_m"] == typed.quantities.total_displacement
         assert row["T_M_lower_s"] == typed.bounds["lower"].period
 

@@ -80,7 +80,7 @@ def check_variants(study_file: str, items: list, settings: Mapping | None = None
     pieces: dict = {}
     studies = study_module.parse_variants(base, (overrides for _, overrides in items), source=path.name,
                                           base_dir=path.parent)
-    for (variant_id, _), study in zip(items, studies):
+    for (variant_id, _), study in zip(items, studies, strict=True):
         try:
             if isinstance(study, Exception):
                 raise study

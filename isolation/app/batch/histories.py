@@ -117,7 +117,7 @@ _CACHE_LIMIT = 256
 def history_rows(alternatives: list, shear: float) -> list[dict]:
     """Summary rows (with :data:`isolation.app.batch.summary.HISTORY_COLUMNS`) of judged alternatives."""
     rows = rows_from_results({"alternatives": alternatives}, shear, verdict_basis=RESPONSE_HISTORIES)
-    for row, alternative in zip(rows, alternatives):
+    for row, alternative in zip(rows, alternatives, strict=True):
         summary = alternative["history"]
         fixed = summary["floor_acceleration_fixed"]
         row.update({
@@ -154,7 +154,7 @@ def history_many(tasks: list) -> list:
     share = (time.perf_counter() - started) / max(len(tasks), 1)
     return [guarded_call(history_runner, task) if isinstance(rows, Exception)
             else VariantOutcome(task.variant_id, "done", rows=tuple(rows), elapsed=share)
-            for task, rows in zip(tasks, found)]
+            for task, rows in zip(tasks, found, strict=True)]
 
 
 history_runner.many = history_many  # type: ignore[attr-defined]  # chunks run together (runners.guarded_chunk)
@@ -249,7 +249,7 @@ def _run_todo(todo: dict, acc: np.ndarray, dt: float) -> dict:
         bounds = _bounds_each([todo[k][2] for k in keys], context["study"].building.total_weight, context,
                               design_bounds_many)
         designed = []
-        for key, found in zip(keys, bounds):
+        for key, found in zip(keys, bounds, strict=True):
             alternative, system, sets, _ = todo[key]
             try:
                 if isinstance(found, Exception):
@@ -261,7 +261,7 @@ def _run_todo(todo: dict, acc: np.ndarray, dt: float) -> dict:
                 judged[key] = error
         for start in range(0, len(designed), ENSEMBLE_LIMIT):
             part = designed[start:start + ENSEMBLE_LIMIT]
-            for (key, _, design, _), stats in zip(part, _histories(context, part, acc, dt)):
+            for (key, _, design, _), stats in zip(part, _histories(context, part, acc, dt), strict=True):
                 if isinstance(stats, Exception):
                     judged[key] = stats
                     continue

@@ -184,7 +184,7 @@ def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=
     fig = Figure(figsize=(10.0, 7.5), layout="constrained")
     axes = fig.subplots(2, 2, sharex=True, sharey=True)
     gx, gy = np.meshgrid(np.asarray(xs, dtype=float), np.asarray(ys, dtype=float))
-    for ax, (column, title) in zip(axes.ravel(), HISTORY_FIELDS.items()):
+    for ax, (column, title) in zip(axes.ravel(), HISTORY_FIELDS.items(), strict=True):
         _, _, values = grid_field(mine, x_key, y_key, column, alternative)
         cmap = "viridis_r" if column.startswith("history_displacement") else "viridis"
         if np.isfinite(values).sum() >= 4 and np.nanmax(values) > np.nanmin(values):

@@ -60,7 +60,7 @@ def plot_npv_map(rows: Iterable[dict], x_key: str, y_key: str, alternative: str 
     values = [_number(r.get("net_present_value")) for r in rows]
     scale = max([abs(v) for v in values if v is not None] or [1.0]) or 1.0
     cmap = plt.get_cmap("RdYlGn")
-    for row, value in zip(rows, values):
+    for row, value in zip(rows, values, strict=True):
         i, j = xs.index(row[x_key]), ys.index(row[y_key])
         colour = _NO_VALUE if value is None else cmap(0.5 + 0.5 * value / scale)
         ax.add_patch(Rectangle((i - 0.5, j - 0.5), 1, 1, color=colour, alpha=0.55, lw=0))

@@ -167,7 +167,7 @@ def _grid_ids(keys: list[str], combination: tuple) -> str:
         labels = [".".join(k.split(".")[-depth:]) for k in keys]
         if len(set(labels)) == len(labels):
             break
-    parts = [f"{label}={_value_text(v)}" for label, v in zip(labels, combination)]
+    parts = [f"{label}={_value_text(v)}" for label, v in zip(labels, combination, strict=True)]
     return safe_name("_".join(parts))
 
 
@@ -305,8 +305,8 @@ def _grid_variants(grid: dict, listed: Any, table_rows, batch_file: Path, max_va
     ids = [_grid_ids(keys, combination) for combination in combinations]
     if len(set(ids)) < len(ids):  # values that read alike as folder names: number the variants
         ids = [f"grid-{number:04d}" for number in range(1, len(ids) + 1)]
-    return [Variant(variant_id, dict(zip(keys, combination)), "grid")
-            for variant_id, combination in zip(ids, combinations)]
+    return [Variant(variant_id, dict(zip(keys, combination, strict=True)), "grid")
+            for variant_id, combination in zip(ids, combinations, strict=True)]
 
 
 def _listed_variants(listed: Any, problems: list[str]) -> list:

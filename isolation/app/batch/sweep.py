@@ -166,7 +166,7 @@ def _design_many(todo: dict) -> dict:
         context = todo[keys[0]][3]
         study = context["study"]
         bounds = _bounds_each([todo[k][2] for k in keys], study.building.total_weight, context, design_bounds_many)
-        for key, found in zip(keys, bounds):
+        for key, found in zip(keys, bounds, strict=True):
             alternative, system, sets, _ = todo[key]
             try:
                 if isinstance(found, Exception):
@@ -209,7 +209,7 @@ def sweep_many(tasks: list) -> list:
             index.append(i)
         except Exception:  # noqa: BLE001 - alone below, for its own message
             pass
-    for i, rows in zip(index, design_rows_many(studies)):
+    for i, rows in zip(index, design_rows_many(studies), strict=True):
         if not isinstance(rows, Exception):
             outcomes[i] = VariantOutcome(tasks[i].variant_id, "done", rows=tuple(rows))
     share = (time.perf_counter() - started) / max(len(tasks), 1)

@@ -54,7 +54,7 @@ def _variant_hash(study, parts: dict, settings) -> str:
         shared = (mapping["_shared"], _hashable(mapping["_shared"]))
         cache[id(mapping["_shared"])] = shared
     alternatives = []
-    for key, value in zip(mapping["_keys"], mapping["alternatives"]):
+    for key, value in zip(mapping["_keys"], mapping["alternatives"], strict=True):
         if key not in cache:
             cache[key] = _hashable(value)
         alternatives.append(cache[key])
@@ -75,7 +75,7 @@ def _study_dict(study, parts: dict) -> dict:
     shared = tuple(getattr(study, name) for name in _SHARED_FIELDS)
     key = tuple(map(id, shared))
     entry: tuple | None = parts.get(key)
-    if entry is None or any(a is not b for a, b in zip(entry[0], shared)):
+    if entry is None or any(a is not b for a, b in zip(entry[0], shared, strict=True)):
         whole = study.to_dict()
         entry = (shared, {k: v for k, v in whole.items() if k != "alternatives"}, {})
         parts[key] = entry

@@ -47,6 +47,13 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
             names = [n.strip() for n in reader.fieldnames]
             for bad in [n for n in names if not n]:
                 problems.append(f"table {path.name}: empty column name {bad!r}; allowed: dotted key paths and 'id'")
+            repeated = sorted({n for n in names if n and names.count(n) > 1})
+            for name in repeated:
+                columns = ", ".join(str(i) for i, n in enumerate(names, start=1) if n == name)
+                problems.append(f"table {path.name}: column name {name!r} appears more than once (columns "
+                                f"{columns}); allowed: each key path once")
+            if repeated:
+                return rows
             for number, row in enumerate(reader, start=2):
                 if row.get(None):
                     problems.append(f"table {path.name} row {number} has {len(names) + len(row[None])} fields, "
@@ -55,7 +62,7 @@ def _read_table(path: Path, problems: list[str]) -> list[tuple[str | None, dict,
                     continue
                 overrides = {}
                 variant_id = None
-                for name, cell in zip(names, row.values()):
+                for name, cell in zip(names, row.values(), strict=True):
                     if cell is None or not str(cell).strip() or not name:
                         continue
                     if name == "id":

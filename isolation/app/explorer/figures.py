@@ -15,7 +15,7 @@ from isolation.app.explorer.tables import _force, _length
 from isolation.output.plots import COLOURS, masing_loop
 
 if TYPE_CHECKING:
-    from isolation.app.explorer.answers import ExplorerAnswer
+    from isolation.app.explorer.calculation import ExplorerAnswer
 
 __all__ = ["plot_series", "explorer_figure"]
 

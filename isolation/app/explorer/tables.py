@@ -65,11 +65,11 @@ def summary_html(answer) -> str:
     head = "".join(f"<th>{html.escape(c)}</th>" for c in table.columns)
     keys = ("case", "D", "T", "beta", "VW", "shift", "Vb")
     body = ""
-    for (case, r), cells in zip(answer.results.items(), table.cells):
+    for (case, r), cells in zip(answer.results.items(), table.cells, strict=True):
         values = (None, r.displacement, r.period, r.damping, r.base_shear / answer.settings.weight,
                   r.period / answer.settings.fixed_base_period, r.base_shear)
         colour = COLOURS.get(case, "#000")
-        row = "".join(_cell(c, f"{case}-{k}", v) for c, k, v in zip(cells, keys, values))
+        row = "".join(_cell(c, f"{case}-{k}", v) for c, k, v in zip(cells, keys, values, strict=True))
         body += f'<tr style="border-left: 4px solid {colour}">{row}</tr>'
     note = (f"<p>Period shift (nominal): x{answer.period_shift:.1f}; upper-bound base shear is "
             f"{100 * answer.shear_reduction:.0f} % of the fixed-base elastic demand. "

@@ -15,7 +15,7 @@ from isolation import validate
 from isolation.app.explorer.controls import _CONTROL, TRADE_OFF_PARAMETERS
 
 if TYPE_CHECKING:
-    from isolation.app.explorer.answers import ExplorerSettings
+    from isolation.app.explorer.calculation import ExplorerSettings
 
 __all__ = ["TradeOff", "trade_off"]
 
@@ -113,7 +113,7 @@ def trade_off(settings: ExplorerSettings, parameter: str | None = None, count: i
                 bounds.append(design_bounds_many([sets], weight, spectrum, rule)[0])
             except (ValueError, RunError):
                 bounds.append(None)
-    for (i, study, system, sets), found in zip(points, bounds):
+    for (i, study, system, sets), found in zip(points, bounds, strict=True):
         if found is None:
             continue
         try:

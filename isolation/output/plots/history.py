@@ -81,7 +81,7 @@ def base_shear_comparison(values: Mapping[str, float], *, reference: str | None 
     bars = ax.bar(labels, heights, color=[_colour(k, i) for i, k in enumerate(labels)])
     if reference is not None and reference in values and values[reference] > 0:
         base = float(force(values[reference]))
-        for bar, value in zip(bars, heights):
+        for bar, value in zip(bars, heights, strict=True):
             ax.text(bar.get_x() + bar.get_width() / 2, value, f"{100 * value / base:.0f} %",
                     ha="center", va="bottom", fontsize=8)
     ax.set_ylim(0.0, 1.12 * max(float(heights.max()), 1e-12))

@@ -50,7 +50,7 @@ def loss_curves(results: Any):
     design, top = cases[0][1]["design_level"], cases[0][1]["mce_level"]
     code = _codes.get_or_default(_part(results, "study").get("basis"))
     names = code.level_marks
-    for level, label in zip((design, top), names):
+    for level, label in zip((design, top), names, strict=True):
         ax.axvline(level, color="0.6", linewidth=0.8, linestyle=":")
         ax.annotate(label, (level, 1.0), xycoords=("data", "axes fraction"), xytext=(3, -12),
                     textcoords="offset points", fontsize=8, color="0.35")

@@ -80,7 +80,7 @@ def plan_demand(summary: Mapping[str, Any], plan: tuple, *, units: str = "SI"):
     sizes = 30 + 170 * spread / max(float(spread.max()), 1e-12)
     ax.scatter(length_unit(positions[:, 0]), length_unit(positions[:, 1]), c=show(peaks), s=sizes,
                         cmap="viridis", norm=norm, edgecolors="k", linewidths=0.5)
-    for (x, y), n_min, n_max in zip(positions, low, high):
+    for (x, y), n_min, n_max in zip(positions, low, high, strict=True):
         ax.annotate(f"{force(n_min):.0f}/{force(n_max):.0f}", (length_unit(x), length_unit(y)),
                     textcoords="offset points", xytext=(0, 7), ha="center", fontsize=5)
     bar = fig.colorbar(cm.ScalarMappable(norm=norm, cmap="viridis"), ax=ax, shrink=0.85)

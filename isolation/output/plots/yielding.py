@@ -48,14 +48,15 @@ def yielding_profiles(results: Mapping[str, Any], strengths: Mapping[str, Sequen
                   _per_storey(getattr(result, "residual_drift", None)),
                   None if case not in strengths else
                   np.mean(result.peaks()["storey_shear"] / np.asarray(strengths[case], dtype=float), axis=0))
-        for ax, values, scale in zip(axes, panels, (1.0, 100.0, 1.0)):
+        for ax, values, scale in zip(axes, panels, (1.0, 100.0, 1.0), strict=True):
             if values is None:
                 continue
             ax.plot(np.repeat(scale * values, 2), np.column_stack([bottoms, tops]).ravel(), color=colour,
                     label=label)
     axes[0].axvline(1.0, color="k", lw=0.8, ls=":")
     axes[2].axvline(1.0, color="k", lw=0.8, ls=":")
-    for ax, text in zip(axes, ("Ductility demand [-]", "Residual drift ratio [%]", "Peak shear / yield shear [-]")):
+    titles = ("Ductility demand [-]", "Residual drift ratio [%]", "Peak shear / yield shear [-]")
+    for ax, text in zip(axes, titles, strict=True):
         ax.set_xlabel(text)
         ax.set_ylabel(f"Height [{height.label}]")
         ax.set_xlim(left=0)

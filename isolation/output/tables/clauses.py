@@ -14,6 +14,13 @@ from isolation.output.tables.table import Table
 __all__ = ["clause_table"]
 
 
+def _status(clause: Clause, number: dict[str, int]) -> str:
+    """Status cell: "re-read [2]" (the second text read), "re-read [2, 4]" or "from memory"."""
+    if clause.status != "re-read":
+        return "from memory"
+    return f"re-read [{', '.join(str(number[s]) for s in clause.source)}]"
+
+
 def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-clauses"):
     """The clause table as an :class:`isolation.tables.Table` for the report's appendix.
 
@@ -27,22 +34,27 @@ def clause_table(clauses: Iterable[Clause] | None = None, *, label: str = "tab-c
     Returns
     -------
     isolation.output.tables.Table
-        Columns: code, clause, subject, status, used in; the notes list the texts re-read.
+        Columns: code, clause, subject, status, used in. The status reads "re-read [n]"
+        (n numbers the text read, listed in the notes) or "from memory", so the two stand
+        apart down the column; the caption and the notes give how many are each.
     """
     rows = list(CLAUSES if clauses is None else clauses)
-    sources = sorted({c.note for c in rows if c.status == "re-read" and c.note})
+    sources = list(dict.fromkeys(s for c in rows if c.status == "re-read" for s in c.source))  # in table order
+    number = {source: n for n, source in enumerate(sources, 1)}
     memory = sum(c.status == "from memory" for c in rows)
-    notes = (f"{len(rows)} clauses; {len(rows) - memory} re-read from a published text for this table, {memory} "
-             "from memory (not re-read: check each against the governing code, its edition and national annex). "
-             "Texts read: " + " | ".join(sources) + ". Used in: package modules (folder/module) and workbooks. "
-             + _LONG
-             if sources else f"{len(rows)} clauses, all from memory (not re-read: check each against the "
-             "governing code, its edition and national annex). " + _LONG)
+    counts = f"{len(rows) - memory} re-read, {memory} from memory"
+    notes = (f"{len(rows)} clauses: {len(rows) - memory} re-read from a published text for this table (status "
+             f"\"re-read [n]\", n the text read, listed below), {memory} from memory (not re-read: check each "
+             "against the governing code, its edition and national annex). ")
+    if sources:
+        notes += "Texts read: " + " | ".join(f"[{number[s]}] {s}" for s in sources) + ". "
+    notes += "Used in: package modules (folder/module) and workbooks. " + _LONG
     return Table(
         columns=("Code", "Clause", "Subject", "Status", "Used in"),
-        rows=tuple((_short_name(c.document, c.edition), c.clause, c.title, c.status,
+        rows=tuple((_short_name(c.document, c.edition), c.clause, c.title, _status(c, number),
                     ", ".join(_module_name(p) for p in c.used_in)) for c in rows),
-        caption="Code clauses the tool uses, whether each was re-read for this table, and where it uses them",
+        caption=f"Code clauses the tool uses ({counts}), whether each was re-read for this table, and where it "
+                "uses them",
         align="llplp",
         notes=notes,
         label=label,

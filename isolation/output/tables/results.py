@@ -195,7 +195,7 @@ def pairs_table(results: Any) -> Table | None:
     low, high = check["band"]
     rows = tuple((row["pair"], seeds[0], seeds[1], row["lowest_ratio"], row["highest_ratio"],
                   "yes" if row["within_band"] else "NO", row["correlation"], "yes" if row["baseline_ok"] else "NO")
-                 for row, seeds in zip(check["pairs"], pairs["seeds"]))
+                 for row, seeds in zip(check["pairs"], pairs["seeds"], strict=True))
     notes = (f"{check['spectrum']} spectra of the pairs; suite mean over {check['check_range_s'][0]:.2f}-"
              f"{check['check_range_s'][1]:.2f} s: lowest {check['lowest_mean_ratio']:.3f} of the target at "
              f"{check['period_of_lowest_mean_s']:.2f} s, required at least {check['required_mean_ratio']:.2f} "
