@@ -12,7 +12,8 @@ compiles them (cached on disk): the steps in
 :mod:`isolation.dynamics.plan_kernel_bearings`.  Where the array version
 iterates on the base motion by fixed point, the compiled loop takes Newton
 steps with the bearings' consistent tangent (a fixed-point step where the
-residual grows), to the same tolerance, 1e-9 of the smallest yield
+residual grows), from a predictor with the bearing forces linearised about
+the last step, to the same tolerance, 1e-9 of the smallest yield
 displacement.  Each column converges on its own, so histories agree with the
 array version to the iteration tolerance, not bit for bit.  Without numba the
 array version runs.
@@ -33,6 +34,7 @@ from isolation.dynamics.plan_kernel_steps import (
     base_newton,
     commit_storeys,
     linear_step,
+    predict_base,
     settle_storeys,
 )
 
@@ -63,6 +65,7 @@ def _reset(col, g, m, mr, u, v, a, b, s, out):
     v[:] = 0.0
     b.state[:] = 0.0
     b.p[:] = 0.0
+    b.jac[:] = 0.0
     s.q_c[:] = 0.0
     s.d_c[:] = 0.0
     s.p_c[:] = 0.0
@@ -75,7 +78,7 @@ def _reset(col, g, m, mr, u, v, a, b, s, out):
         out.axial_max[col, b_] = -np.inf
 
 
-def _solve(n, col, u_lin, k_inv, kd_t, drift_map, force, ub, b, s, tolerance, max_iterations, isolated, rmax,
+def _solve(n, col, u, u_lin, k_inv, kd_t, drift_map, force, ub, b, s, tolerance, max_iterations, isolated, rmax,
            out):
     """Bearing forces and storey departures of step n + 1: (converged, f_x, f_y, moment)."""
     if s.yielding:
@@ -89,8 +92,9 @@ def _solve(n, col, u_lin, k_inv, kd_t, drift_map, force, ub, b, s, tolerance, ma
         ok = settle_storeys(0.0, 0.0, 0.0, s.d_lin, s.dkb, s.dkd_t, s.kp, s.fp, s.q_c, s.d_c, s.p_it, s.q_t,
                             s.p_t, s.drift, s.tolerance, max_iterations) if s.yielding else True
         return ok, 0.0, 0.0, 0.0
-    for i in range(3):  # predictor: the previous step's forces and departures
+    for i in range(3):  # the previous step's forces and departures
         ub[i] = _target(u_lin, k_inv, kd_t, force[0], force[1], force[2], s.p_it, s.yielding, i)
+    predict_base(ub, u, k_inv, b)
     return base_newton(col, ub, u_lin, k_inv, kd_t, b, s, tolerance, rmax, max_iterations, out.evaluations)
 
 
@@ -106,7 +110,7 @@ def _column(col, dt, m, c_t, k_inv, kd_t, mr, g, drift_map, stiffness, b, s, loa
         if isolated:
             axial_loads(n, col, g, a, loads.floor_mass, loads.heights, loads.gravity, loads.vert, loads.has_vert,
                         b.pos, loads.sums, b.axial)
-        ok, f0, f1, f2 = _solve(n, col, u_lin, k_inv, kd_t, drift_map, force, ub, b, s, tolerance,
+        ok, f0, f1, f2 = _solve(n, col, u, u_lin, k_inv, kd_t, drift_map, force, ub, b, s, tolerance,
                                 max_iterations, isolated, rmax, out)
         if not ok:
             return n + 1

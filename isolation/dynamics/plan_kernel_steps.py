@@ -14,8 +14,8 @@ import math
 
 from isolation.dynamics.plan_kernel_bearings import available, bearing_trial, compile_kernel
 
-__all__ = ["linear_step", "axial_loads", "settle_storeys", "solve3", "base_newton", "commit_storeys",
-           "advance"]
+__all__ = ["linear_step", "axial_loads", "settle_storeys", "solve3", "predict_base", "base_newton",
+           "commit_storeys", "advance"]
 
 
 def linear_step(n, col, dt, m, c_t, k_inv, mr, g, u, v, a, work, u_lin):
@@ -105,6 +105,20 @@ def _target(u_lin, k_inv, kd_t, f0, f1, f2, p_it, yielding, i):
         for sp in range(p_it.shape[0]):
             s -= p_it[sp] * kd_t[sp, i]
     return s
+
+
+def predict_base(ub, u, k_inv, b):
+    """Predictor of the base motion: the step equations with the bearing forces linearised about the last
+    step, f = f_n + J_n (ub - u_n), J_n the tangent of the last evaluation; ``ub`` holds
+    u_lin - G f_n (- K3 p) on entry, G the base block of K_hat^-1; unchanged where the system is singular."""
+    for i in range(3):
+        b.r[i] = ub[i] - u[i]
+        for j in range(3):
+            b.a[i, j] = (1.0 if i == j else 0.0) + (k_inv[0, i] * b.jac[0, j] + k_inv[1, i] * b.jac[1, j]
+                                                    + k_inv[2, i] * b.jac[2, j])
+    if solve3(b.a, b.r, b.step):
+        for i in range(3):
+            ub[i] = u[i] + b.step[i]
 
 
 def base_newton(col, ub, u_lin, k_inv, kd_t, b, s, tolerance, rmax, max_iterations, evaluations):
@@ -205,6 +219,7 @@ if available:
     settle_storeys = compile_kernel(settle_storeys, inline=False)
     solve3 = compile_kernel(solve3)
     _target = compile_kernel(_target)
+    predict_base = compile_kernel(predict_base)
     base_newton = compile_kernel(base_newton, inline=False)
     commit_storeys = compile_kernel(commit_storeys, inline=False)
     advance = compile_kernel(advance, inline=False)
