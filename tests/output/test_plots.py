@@ -326,6 +326,23 @@ def test_unknown_unit_system_is_refused(units):
         plots.hysteresis_loops({"a": [0.0, 0.1]}, {"a": [0.0, 1.0]}, units=units)
 
 
+def test_figure_png_of_a_size_agg_truncates_matches_savefig():
+    # 4.6 in x 200 dpi is 919.99... in floating point: Agg's buffer is 919 pixels wide (the plan figures'
+    # width). Reference: matplotlib's own Figure.savefig at the same resolution, decoded with Pillow.
+    import io
+
+    from PIL import Image
+
+    fig = Figure(figsize=(4.6, 4.2))
+    fig.add_subplot().plot([0, 1], [0, 1])
+    buffer = io.BytesIO()
+    fig.savefig(buffer, format="png", dpi=200)
+    ours = Image.open(io.BytesIO(plots.figure_png(fig, 200)))
+    theirs = Image.open(io.BytesIO(buffer.getvalue()))
+    assert ours.size == theirs.size
+    np.testing.assert_array_equal(np.asarray(ours), np.asarray(theirs.convert("RGB")))
+
+
 def test_figure_png_has_the_pixels_of_matplotlib_savefig():
     # Reference: matplotlib's own Figure.savefig (Agg) at the same resolution, decoded with Pillow;
     # PNG signature per ISO/IEC 15948 §5.2. A transparent figure keeps its alpha channel.

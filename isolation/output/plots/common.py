@@ -139,8 +139,9 @@ def figure_png(figure: Figure, dpi: int = 200) -> bytes:
     figure.dpi = dpi
     try:
         canvas.draw()
-        width, height = canvas.get_width_height(physical=True)
-        image = Image.frombuffer("RGBA", (width, height), canvas.buffer_rgba(), "raw", "RGBA", 0, 1)
+        # the buffer's own shape: Agg truncates a size such as 4.6 in x 200 dpi = 919.99... to 919 pixels,
+        # where get_width_height rounds to 920
+        image = Image.fromarray(np.asarray(canvas.buffer_rgba()), "RGBA")
         opaque = image.getchannel("A").getextrema()[0] == 255
         image = image.convert("RGB") if opaque else image.copy()
     finally:
@@ -161,7 +162,7 @@ class _SharedRendererCanvas(FigureCanvasAgg):
     _renderers: dict = {}
 
     def get_renderer(self):
-        width, height = self.figure.bbox.size
+        width, height = self.get_width_height(physical=True)  # whole pixels, as FigureCanvasAgg's own
         key = (width, height, self.figure.dpi)
         renderer = self._renderers.get(key)
         if renderer is None:
