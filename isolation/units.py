@@ -100,10 +100,22 @@ def _import_pint():
 @lru_cache(maxsize=1)
 def _registry():
     pint = _import_pint()
-    try:  # pint's own cache of its parsed unit definitions (a user cache folder): 4x quicker to build
-        return pint.UnitRegistry(cache_folder=":auto:")
+    try:  # pint's own cache of its parsed unit definitions: 4x quicker to build
+        return pint.UnitRegistry(cache_folder=_pint_cache(pint))
     except Exception:  # noqa: BLE001 - no usable cache folder: parse the definitions
         return pint.UnitRegistry()
+
+
+def _pint_cache(pint) -> str:
+    """Cache folder of pint's parsed definitions, one per pint installation (pint's shared folder,
+    ``":auto:"``, fails once another environment's pint wrote it: its entries name that one's files)."""
+    import hashlib
+    import os
+    from pathlib import Path
+
+    home = os.environ.get("XDG_CACHE_HOME") or str(Path.home() / ".cache")
+    where = f"{pint.__file__}|{getattr(pint, '__version__', '')}".encode()
+    return str(Path(home) / "isolation" / f"pint-{hashlib.sha1(where).hexdigest()[:12]}")
 
 
 def _allowed(kind: str, system: str) -> str:

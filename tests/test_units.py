@@ -147,3 +147,18 @@ def test_mass_message_example_uses_the_us_mass_unit():
     with pytest.raises(InputError) as caught:
         parse_quantity("3 m", "mass", field="building.mass")
     assert "kip*s**2/in" in str(caught.value) and "kip*s**2/ft" not in str(caught.value)
+
+
+def test_pint_definitions_cache_is_one_folder_per_pint_installation(monkeypatch, tmp_path):
+    # Two virtual environments must not share pint's parsed-definitions cache: an entry written
+    # by one names files of its own installation (common practice: a cache per installation).
+    from types import SimpleNamespace
+
+    from isolation import units
+
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path))
+    first = units._pint_cache(SimpleNamespace(__file__="/env-a/pint/__init__.py", __version__="0.25"))
+    second = units._pint_cache(SimpleNamespace(__file__="/env-b/pint/__init__.py", __version__="0.25"))
+    assert first != second
+    assert first.startswith(str(tmp_path / "isolation")) and second.startswith(str(tmp_path / "isolation"))
+    assert units._pint_cache(SimpleNamespace(__file__="/env-a/pint/__init__.py", __version__="0.25")) == first

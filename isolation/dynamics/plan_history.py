@@ -45,14 +45,11 @@ import numpy as np
 
 from isolation import GRAVITY, validate
 from isolation.dynamics import plan_kernel
-from isolation.dynamics.plan_bearings import BiaxialLaws
-from isolation.dynamics.plan_storeys import bilinear_update, storey_springs
+from isolation.dynamics.plan_integration import integrate_arrays, integrate_compiled
+from isolation.dynamics.plan_storeys import storey_springs
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding
 
 __all__ = ["run_plan", "run_plan_cases", "PlanHistoryResult"]
-
-_MAX_ITERATIONS = 60
-
 
 def _pairs(acceleration) -> np.ndarray:
     acc = validate.finite_array("acceleration", acceleration, "g")
@@ -102,6 +99,12 @@ class PlanHistoryResult:
         Peak |drift| over the yield drift V_y/k in x and y; NaN where a direction is elastic. [-]
     hysteretic_energy : ndarray (records,)
         Energy dissipated by yielding storeys (their work less the energy they store at the end). [kN m]
+    storey_shear_peak : ndarray (records, storeys, 2)
+        Peak |storey shear| in x and y: the force of the storey's spring at its centre of rigidity
+        (elastic or hysteretic, without damping and without the P-delta term, as the planar engine's
+        ``storey_shear``). [kN]
+    yield_strengths : ndarray (storeys, 2)
+        Storey yield shears in x and y; inf where a direction is elastic. [kN]
     """
 
     dt: float
@@ -120,6 +123,16 @@ class PlanHistoryResult:
     residual_drift: np.ndarray | None = None
     ductility: np.ndarray | None = None
     hysteretic_energy: np.ndarray | None = None
+    storey_shear_peak: np.ndarray | None = None
+    yield_strengths: np.ndarray | None = None
+
+    @property
+    def shear_strength_ratio(self) -> np.ndarray:
+        """Peak storey shear over the storey yield shear (records, storeys, 2); NaN where elastic. [-]"""
+        assert self.storey_shear_peak is not None and self.yield_strengths is not None, "no storey shears"
+        with np.errstate(invalid="ignore", divide="ignore"):
+            return np.where(np.isfinite(self.yield_strengths), self.storey_shear_peak / self.yield_strengths,
+                            np.nan)
 
     @property
     def total_displacement(self) -> np.ndarray:
@@ -168,23 +181,9 @@ class PlanHistoryResult:
         return out
 
 
-def _influence(levels: int) -> np.ndarray:
-    r = np.zeros((3 * levels, 2))
-    r[0::3, 0] = 1.0
-    r[1::3, 1] = 1.0
-    return r
-
-
 def _corners(plan) -> np.ndarray:
     lx, ly = plan
     return np.array([[lx / 2, ly / 2], [-lx / 2, ly / 2], [-lx / 2, -ly / 2], [lx / 2, -ly / 2]])
-
-
-def _at_points(motion: np.ndarray, points: np.ndarray) -> np.ndarray:
-    """Motion (..., 3) at plan points -> (..., points, 2)."""
-    x = motion[..., None, 0] - points[:, 1] * motion[..., None, 2]
-    y = motion[..., None, 1] + points[:, 0] * motion[..., None, 2]
-    return np.stack([x, y], axis=-1)
 
 
 def run_plan(building, acceleration, dt, *, vertical=None) -> PlanHistoryResult:
@@ -268,230 +267,24 @@ def _integrate(buildings, structure, m, k, c, ground, dt, vertical, compiled=Non
     if compiled is None:
         compiled = plan_kernel.available and os.environ.get("ISOLATION_ENGINE", "") != "python"
     if bool(compiled) and plan_kernel.available:
-        return _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical)
-    return _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical)
+        return integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical)
+    return integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical)
 
 
-def _integrate_compiled(buildings, structure, m, k, c, ground, dt, vertical):
-    records, _, steps = ground.shape
-    isolated = buildings is not None
-    cases = len(buildings) if isolated else 1
-    cols = cases * records
-    nd = m.shape[0]
-    r = _influence(nd // 3)
-    g = np.ascontiguousarray(np.tile(ground, (cases, 1, 1)))
-    if np.count_nonzero(m - np.diag(np.diag(m))):
-        raise ValueError("the compiled plan loop needs a diagonal mass matrix (lumped masses and inertias)")
-    k_inv = np.linalg.inv(k + (2.0 / dt) * c + (4.0 / dt**2) * m)
-    springs = storey_springs(structure, 1 if isolated else 0)
-    ns = springs.drift_map.shape[1]
-    if isolated:
-        pos = np.ascontiguousarray(buildings[0].positions, dtype=float)
-        laws = BiaxialLaws([(b.bearings, b.gravity_loads) for b in buildings], records)
-        slider, k0, q_fast, q_drop, rate, inv_y, strength, inv_ey = (
-            laws.slider, laws.k0, laws.q_fast, laws.q_drop, laws.rate, laws.inv_y, laws.strength,
-            laws.inv_element_yield)
-        gravity = np.repeat(np.array([b.gravity_loads for b in buildings]), records, axis=0)
-        heights = np.concatenate([[0.0], structure.floor_elevations])
-        floor_mass = np.concatenate([[buildings[0].base_mass], structure.masses])
-        tolerance = 1e-9 * laws.smallest_yield
-    else:
-        pos = np.zeros((0, 2))
-        slider = np.zeros((cols, 0), dtype=bool)
-        k0 = q_fast = q_drop = rate = inv_y = np.zeros((cols, 0))
-        strength = inv_ey = np.zeros((cols, 0, 1))
-        gravity = np.zeros((cols, 0))
-        heights = floor_mass = np.zeros(nd // 3)
-        tolerance = 0.0
-    nb = pos.shape[0]
-    vert = np.zeros((cols, steps)) if vertical is None else np.ascontiguousarray(np.tile(vertical, (cases, 1)))
-    u = np.zeros((steps, cols, nd))
-    acc = np.zeros((steps, cols, nd))
-    force = np.zeros((steps, cols, 3))
-    axial_min = np.zeros((cols, nb))
-    axial_max = np.zeros((cols, nb))
-    uplift = np.zeros((cols, nb), dtype=np.int64)
-    energy = np.zeros((cols, 6))
-    storey_q = np.zeros((cols, ns))
-    drift_map = np.ascontiguousarray(springs.drift_map)
-    kd = np.ascontiguousarray(k_inv @ drift_map)
-    failed = plan_kernel.plan_loop(  # type: ignore[misc]  # not None: _integrate calls this only when available
-        dt, m, c, k_inv, m @ r, g, pos, heights, floor_mass, gravity, vert, vertical is not None, slider,
-        k0, q_fast, q_drop, rate, inv_y, strength, inv_ey, tolerance, _MAX_ITERATIONS, isolated, springs.yielding,
-        drift_map, kd, np.ascontiguousarray(drift_map.T @ k_inv[:, :3]), np.ascontiguousarray(drift_map.T @ kd),
-        springs.plastic_stiffness, springs.plastic_strength,
-        springs.tolerance, u, acc, force, axial_min, axial_max, uplift, energy, storey_q)
-    if failed:
-        what = "storey" if springs.yielding else "isolator"
-        raise RuntimeError(f"plan {what} iteration did not converge at step {failed} (t = {failed * dt:.4g} s)")
-    final = u[-1]
-    strain = 0.5 * ((final @ k) * final).sum(axis=1)
-    balance = np.abs(energy[:, 0] - (energy[:, 4] + energy[:, 1] + strain + energy[:, 2] + energy[:, 5]))
-    out = {"u": u, "a": acc, "ground": g, "energy_error": balance / np.maximum(energy[:, 3], 1e-300),
-           "base_force": force, "storey_work": energy[:, 5], "storey_q": storey_q if springs.yielding else None}
-    if isolated:
-        out.update({"axial_min": axial_min, "axial_max": axial_max, "uplift": uplift})
-    return out
-
-
-def _forces_of(f, pos):
-    """Resultant (x, y, moment) of bearing forces f (cols, bearings, 2) at positions pos. [kN, kN m]"""
-    return np.stack([f[..., 0].sum(axis=1), f[..., 1].sum(axis=1),
-                     (pos[:, 0] * f[..., 1] - pos[:, 1] * f[..., 0]).sum(axis=1)], axis=1)
-
-
-def _integrate_arrays(buildings, structure, m, k, c, ground, dt, vertical):
-    records, _, steps = ground.shape
-    cases = len(buildings) if buildings else 1
-    cols = cases * records
-    levels = m.shape[0] // 3
-    nd = m.shape[0]
-    r = _influence(levels)
-    g = np.tile(ground, (cases, 1, 1))  # (cols, 2, steps)
-    k_hat = k + (2.0 / dt) * c + (4.0 / dt**2) * m
-    k_inv = np.linalg.inv(k_hat)
-    u = np.zeros((steps, cols, nd))
-    v = np.zeros((cols, nd))
-    a = np.zeros((cols, nd))
-    a[:] = -(r @ g[:, :, 0].T).T  # at rest: M a0 = -M r a_g(0)
-    mr = m @ r
-    acc_hist = np.empty((steps, cols, nd))
-    acc_hist[0] = a
-    energy = {"input": np.zeros(cols), "kinetic": np.zeros(cols), "damping": np.zeros(cols), "strain": np.zeros(cols),
-              "bearing": np.zeros(cols), "storey": np.zeros(cols)}
-    peak_input = np.zeros(cols)
-    base_force_hist = np.zeros((steps, cols, 3))
-    isolated = buildings is not None
-    springs = storey_springs(structure, 1 if isolated else 0)
-    yielding = springs.yielding
-    force_b = np.zeros((cols, 3))
-    if yielding:
-        drift_map = springs.drift_map
-        kd = k_inv @ drift_map  # (nd, springs): displacement per unit departure force
-        kp, fp = springs.plastic_stiffness, springs.plastic_strength
-        q_c = np.zeros((cols, drift_map.shape[1]))
-        d_c = np.zeros_like(q_c)
-        p_c = np.zeros_like(q_c)
-        tol_storey = springs.tolerance
-    tolerance = 0.0
-    if isolated:
-        pos = buildings[0].positions
-        nb = pos.shape[0]
-        laws = BiaxialLaws([(b.bearings, b.gravity_loads) for b in buildings], records)
-        gravity = np.repeat(np.array([b.gravity_loads for b in buildings]), records, axis=0)
-        z = np.zeros((cols, nb, 2))
-        p = np.zeros((cols, nb, laws.elements, 2))
-        d_prev = np.zeros((cols, nb, 2))
-        vb_prev = np.zeros((cols, nb, 2))
-        axial_min = np.full((cols, nb), np.inf)
-        axial_max = np.full((cols, nb), -np.inf)
-        uplift = np.zeros((cols, nb), dtype=int)
-        xx = float((pos[:, 0] ** 2).sum())
-        yy = float((pos[:, 1] ** 2).sum())
-        heights = np.concatenate([[0.0], structure.floor_elevations])
-        floor_mass = np.concatenate([[buildings[0].base_mass], structure.masses])
-        tolerance = 1e-9 * laws.smallest_yield
-        g_base = k_inv[:3, :3]
-        k_inv_base = k_inv[:3, :]
-        vert = None if vertical is None else np.tile(vertical, (cases, 1))
-        axial = gravity.copy()
-        twist = max(1.0, float(np.abs(pos).max()))
-
-        def bearing_forces(ub, z, p):
-            d = _at_points(ub, pos)
-            step = d - d_prev
-            vb = c2 * step - vb_prev
-            speed = np.sqrt((vb * vb).sum(axis=-1))
-            f, z_new, p_new = laws.forces(d, step, speed, axial, z, p)
-            return _forces_of(f, pos), z_new, p_new, d, vb
-    c2, c4 = 2.0 / dt, 4.0 / dt**2
-    for n in range(steps - 1):
-        un = u[n]
-        load = -(g[:, :, n + 1] @ mr.T)
-        rhs = load + (c4 * un + (4.0 / dt) * v + a) @ m + (c2 * un + v) @ c
-        u_lin = rhs @ k_inv
-        if isolated:
-            # axial loads from the previous step's overturning moment
-            absolute = a + g[:, :, n] @ r.T
-            fx = -(absolute[:, 0::3] * floor_mass)
-            fy = -(absolute[:, 1::3] * floor_mass)
-            moment_y = (fx * heights).sum(axis=1)
-            moment_x = (fy * heights).sum(axis=1)
-            base_share = gravity if vert is None else gravity * (1.0 + vert[:, n + 1][:, None])
-            axial = base_share.copy()
-            if xx > 0:
-                axial += moment_y[:, None] * pos[:, 0] / xx
-            if yy > 0:
-                axial += moment_x[:, None] * pos[:, 1] / yy
-        force_old = force_b
-        if yielding:
-            # fixed point on the base motion and the storeys' departures together
-            forces = force_b
-            departure = p_c
-            trial = u_lin - departure @ kd.T - (forces @ k_inv_base if isolated else 0.0)
-            p_prev = departure
-            for _ in range(_MAX_ITERATIONS):
-                if isolated:
-                    forces = bearing_forces(trial[:, :3], z, p)[0]
-                departure = bilinear_update(q_c, d_c, trial @ drift_map, kp, fp)[1]
-                new = u_lin - departure @ kd.T - (forces @ k_inv_base if isolated else 0.0)
-                change = np.abs(new[:, :3] - trial[:, :3])
-                moved = np.abs(departure - p_prev).max()
-                p_prev = departure
-                trial = new
-                if (not isolated or (change[:, :2].max() <= tolerance and change[:, 2].max() * twist <= tolerance)) \
-                        and moved <= tol_storey:
-                    break
-            else:
-                raise RuntimeError(f"plan storey iteration did not converge at step {n + 1} (t = {(n + 1) * dt:.4g} s)")
-            if isolated:
-                force_b, z, p, d_prev, vb_prev = bearing_forces(trial[:, :3], z, p)
-            drift = trial @ drift_map
-            q_c, departure = bilinear_update(q_c, d_c, drift, kp, fp)
-            u_next = u_lin - departure @ kd.T - (force_b @ k_inv_base if isolated else 0.0)
-            drift_next = u_next @ drift_map
-            energy["storey"] += 0.5 * ((p_c + departure) * (drift_next - d_c)).sum(axis=1)
-            p_c, d_c = departure, drift_next
-        elif isolated:
-            ub = u_lin[:, :3] - force_b @ g_base
-            for _ in range(_MAX_ITERATIONS):
-                force_new = bearing_forces(ub, z, p)[0]
-                ub_new = u_lin[:, :3] - force_new @ g_base
-                change = np.abs(ub_new - ub)
-                ub = ub_new
-                if change[:, :2].max() <= tolerance and change[:, 2].max() * twist <= tolerance:
-                    break
-            else:
-                raise RuntimeError(f"plan isolator iteration did not converge at step {n + 1} "
-                                   f"(t = {(n + 1) * dt:.4g} s)")
-            force_b, z, p, d_prev, vb_prev = bearing_forces(ub, z, p)
-            u_next = u_lin - force_b @ k_inv_base
-        else:
-            u_next = u_lin
-        if isolated:
-            axial_min = np.minimum(axial_min, axial)
-            axial_max = np.maximum(axial_max, axial)
-            uplift += (laws.slider & (axial <= 0.0))
-            base_force_hist[n + 1] = force_b
-            du_base = u_next[:, :3] - un[:, :3]
-            energy["bearing"] += 0.5 * ((force_old + force_b) * du_base).sum(axis=1)
-        a_next = c4 * (u_next - un) - (4.0 / dt) * v - a
-        v_next = v + 0.5 * dt * (a + a_next)
-        # energy (trapezoidal): input -int v' M r a_g, damping int v' C v
-        energy["input"] -= 0.25 * dt * (((v + v_next) @ mr) * (g[:, :, n] + g[:, :, n + 1])).sum(axis=1)
-        energy["damping"] += 0.25 * (((v + v_next) @ c) * (v + v_next)).sum(axis=1) * dt
-        peak_input = np.maximum(peak_input, np.abs(energy["input"]))
-        u[n + 1], v, a = u_next, v_next, a_next
-        acc_hist[n + 1] = a_next
-    final = u[-1]
-    energy["kinetic"] = 0.5 * ((v @ m) * v).sum(axis=1)
-    energy["strain"] = 0.5 * ((final @ k) * final).sum(axis=1)
-    dissipated = energy["kinetic"] + energy["damping"] + energy["strain"] + energy["bearing"] + energy["storey"]
-    error = np.abs(energy["input"] - dissipated) / np.maximum(peak_input, 1e-300)
-    out = {"u": u, "a": acc_hist, "ground": g, "energy_error": error, "base_force": base_force_hist,
-           "storey_work": energy["storey"], "storey_q": q_c if yielding else None}
-    if isolated:
-        out.update({"axial_min": axial_min, "axial_max": axial_max, "uplift": uplift})
+def _peak_at_points(motion: np.ndarray, points: np.ndarray) -> np.ndarray:
+    """Peak over the first axis of the resultant of motion (steps, ..., 3) at plan points -> (..., points)."""
+    x, y, theta = (np.ascontiguousarray(motion[..., i]) for i in range(3))
+    out = np.empty(x.shape[1:] + (len(points),))
+    rx, ry = np.empty_like(x), np.empty_like(x)
+    for i, (px, py) in enumerate(points):
+        np.multiply(theta, -py, out=rx)
+        rx += x
+        np.multiply(theta, px, out=ry)
+        ry += y
+        rx *= rx
+        ry *= ry
+        rx += ry
+        out[..., i] = np.sqrt(rx.max(axis=0))
     return out
 
 
@@ -506,12 +299,11 @@ def _result(state, case, records, isolated, structure, building, dt) -> PlanHist
     floors = u[:, :, offset:].reshape(u.shape[0], records, storeys, 3)
     below = np.concatenate([u[:, :, None, :3], floors[:, :, :-1]], axis=2) if isolated else np.concatenate(
         [np.zeros_like(floors[:, :, :1]), floors[:, :, :-1]], axis=2)
-    drift = _at_points(floors - below, corners)  # (steps, records, storeys, 4, 2)
-    drift_ratio = np.sqrt((drift**2).sum(axis=-1)).max(axis=(0, 3)) / np.asarray(structure.heights)
+    drift_ratio = _peak_at_points(floors - below, corners).max(axis=-1) / np.asarray(structure.heights)
     absolute = a.reshape(a.shape[0], records, -1, 3).copy()
     absolute[..., 0] += np.moveaxis(g[:, 0], -1, 0)[..., None]
     absolute[..., 1] += np.moveaxis(g[:, 1], -1, 0)[..., None]
-    corner_acc = np.sqrt((_at_points(absolute, corners) ** 2).sum(axis=-1)).max(axis=(0, 3)) / GRAVITY
+    corner_acc = _peak_at_points(absolute, corners).max(axis=-1) / GRAVITY
     if not isolated:
         ground_acc = np.sqrt((g**2).sum(axis=1)).max(axis=-1) / GRAVITY
         corner_acc = np.concatenate([ground_acc[:, None], corner_acc], axis=1)
@@ -520,8 +312,7 @@ def _result(state, case, records, isolated, structure, building, dt) -> PlanHist
     if isolated:
         base = np.moveaxis(u[:, :, :3], 0, -1)  # (records, 3, steps)
         pos = building.positions
-        orbit = _at_points(np.moveaxis(base, 1, -1), pos)  # (records, steps, bearings, 2)
-        peaks = np.sqrt((orbit**2).sum(axis=-1)).max(axis=1)
+        peaks = _peak_at_points(u[:, :, :3], pos)  # (records, bearings)
         shear = np.moveaxis(state["base_force"][:, cols, :2], 0, -1)
         axial = np.stack([state["axial_min"][cols], state["axial_max"][cols]], axis=-1)
         return PlanHistoryResult(
@@ -556,5 +347,10 @@ def _storey_results(state, cols, u, structure, isolated) -> dict:
         stored = springs.stored_energy(final.reshape(records, -1), q).sum(axis=1)
         elastic = 0.5 * (springs.stiffness * final.reshape(records, -1) ** 2).sum(axis=1)
         hysteretic = elastic + state["storey_work"][cols] - stored
+    if state.get("storey_peak") is None:  # elastic springs: k |d|
+        shear = (springs.stiffness.reshape(structure.storeys, 2) * peak)
+    else:
+        shear = state["storey_peak"][cols].reshape(records, structure.storeys, 2)
     return {"storey_drift_peak": peak, "residual_drift": residual, "ductility": ductility,
-            "hysteretic_energy": hysteretic}
+            "hysteretic_energy": hysteretic, "storey_shear_peak": shear,
+            "yield_strengths": np.array(structure.yield_strengths)}

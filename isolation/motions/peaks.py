@@ -12,16 +12,13 @@ runs through lfilter (:func:`peak_abs_filtered`).
 
 from __future__ import annotations
 
-import numpy as np
+from importlib.util import find_spec
 
-try:  # numba is a dependency; the lfilter loop stays as the fallback and the reference
-    from numba import njit
-except ImportError:  # pragma: no cover - exercised where numba is missing
-    njit = None  # type: ignore[assignment]  # the optional import's stand-in
+import numpy as np
 
 __all__ = ["peak_abs", "peak_abs_filtered", "available"]
 
-available = njit is not None
+available = find_spec("numba") is not None
 """True when the compiled loop runs."""
 
 
@@ -44,7 +41,18 @@ def _peak_abs_python(numerator, denominator, state, records, first, out):  # pra
             out[r, p] = peak
 
 
-_compiled = njit(cache=True, nogil=True)(_peak_abs_python) if available else None
+_compiled = None
+"""The compiled loop, made on first use: importing numba costs about 0.3 s, which processes that only
+validate a study (the command line's parent process) should not pay."""
+
+
+def _compiled_loop():
+    global _compiled
+    if _compiled is None and available:
+        from numba import njit
+
+        _compiled = njit(cache=True, nogil=True)(_peak_abs_python)
+    return _compiled
 
 
 def peak_abs_filtered(numerator, denominator, state, records) -> np.ndarray:
@@ -79,10 +87,11 @@ def peak_abs(numerator, denominator, state, records) -> np.ndarray:
 
     Parameters and result as :func:`peak_abs_filtered`; compiled when numba is there.
     """
-    if _compiled is None:
+    loop = _compiled_loop()
+    if loop is None:
         return peak_abs_filtered(numerator, denominator, state, records)
     records = np.ascontiguousarray(records, dtype=float)
     out = np.empty((records.shape[0], numerator.shape[0]))
-    _compiled(np.ascontiguousarray(numerator, dtype=float), np.ascontiguousarray(denominator, dtype=float),
+    loop(np.ascontiguousarray(numerator, dtype=float), np.ascontiguousarray(denominator, dtype=float),
               np.ascontiguousarray(state, dtype=float), records, np.ascontiguousarray(records[:, 0]), out)
     return out

@@ -41,9 +41,11 @@ from isolation import GRAVITY
 from isolation.codes import registry as _codes
 from isolation.dynamics.plan_history import run_plan_cases
 from isolation.dynamics.plan_structure import PlanIsolatedBuilding, PlanShearBuilding, bearing_grid
+from isolation.study.plan_strength import reduced, storey_indicators
 
 __all__ = ["default_grid", "plan_superstructure", "plan_bearings", "bidirectional_summary", "HISTORY_LOWER_LIMIT",
-           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional", "fixed_base_summary"]
+           "ACCIDENTAL_ECCENTRICITY", "with_bidirectional", "fixed_base_summary", "history_uplift_ratio",
+           "PLAN_STOREY_MODEL", "uplift_combination"]
 
 #: Lower limit on the history total displacement as a fraction of the single-mode D_TM, per code
 #: basis (:attr:`isolation.codes.basis.SuiteRules.history_lower_limit`).
@@ -100,35 +102,6 @@ def plan_superstructure(planar, building) -> PlanShearBuilding:
                              hardening=getattr(planar, "hardening", 0.0), p_delta=getattr(planar, "p_delta", False))
 
 
-def _reduced(result):
-    """The storey arrays of one plan result, without its histories."""
-    from types import SimpleNamespace
-
-    return SimpleNamespace(ductility=result.ductility, residual_drift=result.residual_drift,
-                           peak_drift_ratio=result.peak_drift_ratio, hysteretic_energy=result.hysteretic_energy)
-
-
-def _storeys(results) -> dict:
-    """Storey indicators of plan results: suite means per storey, the worst over the results given."""
-    ductility = np.array([r.ductility.mean(axis=0) for r in results])  # (runs, storeys, 2); NaN where elastic
-    residual = np.array([r.residual_drift.mean(axis=0) for r in results])
-    drift = np.array([r.peak_drift_ratio.mean(axis=0) for r in results])
-    yielding = bool(np.isfinite(ductility).any())
-    worst_ductility = np.max(ductility, axis=0) if yielding else None
-    return {
-        "yielding": yielding,
-        "ductility_x": None if worst_ductility is None else worst_ductility[:, 0].tolist(),
-        "ductility_y": None if worst_ductility is None else worst_ductility[:, 1].tolist(),
-        "ductility_max": None if worst_ductility is None else float(worst_ductility.max()),
-        "residual_drift_x": np.max(residual, axis=0)[:, 0].tolist(),
-        "residual_drift_y": np.max(residual, axis=0)[:, 1].tolist(),
-        "residual_drift_max": float(residual.max()),
-        "drift_ratio": np.max(drift, axis=0).tolist(),
-        "drift_ratio_max": float(drift.max()),
-        "hysteretic_energy_kNm": float(max(r.hysteretic_energy.mean() for r in results)),
-    }
-
-
 def fixed_base_summary(study, planar, pairs) -> dict:
     """The code-designed fixed-base building on the plan model under the pairs, the four eccentricities.
 
@@ -151,9 +124,9 @@ def fixed_base_summary(study, planar, pairs) -> dict:
     from isolation.dynamics.plan_history import run_plan
 
     superstructure = plan_superstructure(planar, study.building)
-    results = [_reduced(run_plan(superstructure.shifted(offset), pairs.acceleration, pairs.dt))
+    results = [reduced(run_plan(superstructure.shifted(offset), pairs.acceleration, pairs.dt))
                for offset in _offsets(study.building)]
-    out = _storeys(results)
+    out = storey_indicators(results)
     out["storey_law"] = _law(planar)
     return out
 
@@ -233,73 +206,149 @@ def bidirectional_summary(study, alternative, system, structure, base_mass: floa
     -------
     dict
         Plain numbers: history and code D_TM, the limit applied, the governing value, torsional
-        amplification, axial load extremes and uplift, per-bearing demand, one orbit.
+        amplification, axial load extremes and uplift, per-bearing demand, one orbit, the storeys'
+        indicators (``storeys``, :func:`isolation.study.plan_strength.storey_indicators`, with the storey
+        shear against storey strength).
     """
+    layout = _layout(study, alternative, system, structure, base_mass)
+    cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
+    runs = _Runs()
+    for offset in _offsets(study.building):
+        buildings = [PlanIsolatedBuilding(layout.superstructure, base_mass, cases[case][0], layout.positions,
+                                          gravity_loads=layout.shares(cases[case][1]), mass_offset=offset)
+                     for case in ("lower", "upper")]
+        for result in run_plan_cases(buildings, pairs.acceleration, pairs.dt):
+            runs.add(result)
+    return _summary(study, system, layout, runs, pairs, design_total, cases["lower"][1], structure, fixed_base)
+
+
+class _Layout:
+    """The plan superstructure, bearing grid and positions and the weight on the isolation plane."""
+
+    def __init__(self, superstructure, grid, positions, weight) -> None:
+        self.superstructure, self.grid, self.positions, self.weight = superstructure, grid, positions, weight
+
+    def shares(self, loads) -> tuple:
+        """Gravity loads of the bearings in proportion to their groups' axial loads, summing to the weight. [kN]"""
+        return tuple(np.asarray(loads) * self.weight / float(np.sum(loads)))
+
+
+def _layout(study, alternative, system, structure, base_mass) -> _Layout:
     building = study.building
     superstructure = plan_superstructure(structure, building)
     count = sum(g.count for g in system.groups)
     grid = alternative.grid or default_grid(count, building.plan_length, building.plan_width)
     positions = bearing_grid((building.plan_length, building.plan_width), grid)
-    weight = (base_mass + superstructure.total_mass) * GRAVITY
-    cases = {case: plan_bearings(system, case, design_displacement) for case in ("lower", "upper")}
-    peaks, axial_min, axial_max, centre, uplift, amplification, runs = [], [], [], [], 0, [], []
-    worst: tuple[float, dict | None] = (-1.0, None)
-    for offset in _offsets(building):
-        buildings = []
-        for case in ("lower", "upper"):
-            laws, loads = cases[case]
-            share = np.asarray(loads) * weight / float(np.sum(loads))
-            buildings.append(PlanIsolatedBuilding(superstructure, base_mass, laws, positions,
-                                                  gravity_loads=tuple(share), mass_offset=offset))
-        for result in run_plan_cases(buildings, pairs.acceleration, pairs.dt):
-            runs.append(_reduced(result))
-            peaks.append(result.bearing_displacement_peak.mean(axis=0))
-            axial_min.append(result.bearing_axial_force[..., 0].min(axis=0))
-            axial_max.append(result.bearing_axial_force[..., 1].max(axis=0))
-            centre.append(float(np.sqrt((result.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean()))
-            amplification.append(float(result.torsional_amplification.mean()))
-            uplift = max(uplift, int((result.uplift_steps > 0).any(axis=0).sum()))
-            corner = int(np.argmax(result.bearing_displacement_peak.max(axis=0)))
-            record = int(np.argmax(result.bearing_displacement_peak[:, corner]))
-            if result.bearing_displacement_peak[record, corner] > worst[0]:
-                step = max(1, result.isolator_displacement.shape[-1] // 2000)
-                worst = (float(result.bearing_displacement_peak[record, corner]), {
-                    "bearing": corner, "record": record,
-                    "centre": result.isolator_displacement[record, :, ::step].tolist(),
-                    "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
-    peaks = np.max(peaks, axis=0)
+    return _Layout(superstructure, grid, positions, (base_mass + superstructure.total_mass) * GRAVITY)
+
+
+class _Runs:
+    """What the summary keeps of every plan run (property set x eccentricity)."""
+
+    def __init__(self) -> None:
+        self.storeys: list = []
+        self.peaks: list = []
+        self.axial_min: list = []
+        self.axial_max: list = []
+        self.centre: list = []
+        self.amplification: list = []
+        self.uplift = 0
+        self.worst: tuple[float, dict | None] = (-1.0, None)
+
+    def add(self, result) -> None:
+        self.storeys.append(reduced(result))
+        self.peaks.append(result.bearing_displacement_peak.mean(axis=0))
+        self.axial_min.append(result.bearing_axial_force[..., 0].min(axis=0))
+        self.axial_max.append(result.bearing_axial_force[..., 1].max(axis=0))
+        self.centre.append(float(np.sqrt((result.isolator_displacement**2).sum(axis=1)).max(axis=-1).mean()))
+        self.amplification.append(float(result.torsional_amplification.mean()))
+        self.uplift = max(self.uplift, int((result.uplift_steps > 0).any(axis=0).sum()))
+        corner = int(np.argmax(result.bearing_displacement_peak.max(axis=0)))
+        record = int(np.argmax(result.bearing_displacement_peak[:, corner]))
+        if result.bearing_displacement_peak[record, corner] > self.worst[0]:
+            step = max(1, result.isolator_displacement.shape[-1] // 2000)
+            self.worst = (float(result.bearing_displacement_peak[record, corner]), {
+                "bearing": corner, "record": record,
+                "centre": result.isolator_displacement[record, :, ::step].tolist(),
+                "corner": result.bearing_orbit(corner)[record, :, ::step].tolist()})
+
+
+def _summary(study, system, layout, runs, pairs, design_total, loads, structure, fixed_base) -> dict:
+    peaks = np.max(runs.peaks, axis=0)
     history_total = float(peaks.max())
     limit = _codes.get(study.basis).suite.history_lower_limit
-    gravity = np.asarray(cases["lower"][1]) * weight / float(np.sum(cases["lower"][1]))
-    lowest = np.min(axial_min, axis=0)
-    capacity = getattr(system, "displacement_capacity", None)
+    gravity = np.asarray(layout.shares(loads))
+    lowest = np.min(runs.axial_min, axis=0)
     return {
-        "grid": list(grid),
-        "positions_m": positions.tolist(),
+        "grid": list(layout.grid),
+        "positions_m": layout.positions.tolist(),
         "pair_check": pairs.check().to_dict(),
         "total_displacement_history": history_total,
         "total_displacement_code": float(design_total),
         "lower_limit_factor": limit,
         "total_displacement_governing": max(history_total, limit * float(design_total)),
         "limit_governs": limit * float(design_total) > history_total,
-        "centre_displacement_history": max(centre),
-        "torsional_amplification": max(amplification),
+        "centre_displacement_history": max(runs.centre),
+        "torsional_amplification": max(runs.amplification),
         "bearing_peak_displacement_m": peaks.tolist(),
         "bearing_axial_min_kN": lowest.tolist(),
-        "bearing_axial_max_kN": np.max(axial_max, axis=0).tolist(),
+        "bearing_axial_max_kN": np.max(runs.axial_max, axis=0).tolist(),
         "gravity_load_kN": gravity.tolist(),
         "uplift_ratio": float(np.max((gravity - lowest) / gravity)),
-        "uplifted_bearings": uplift,
-        "displacement_capacity": capacity,
-        "orbit": worst[1],
-        "eccentricities_m": [list(o) for o in _offsets(building)],
-        "storeys": dict(_storeys(runs), storey_law=_law(structure)),
+        "uplifted_bearings": runs.uplift,
+        "displacement_capacity": getattr(system, "displacement_capacity", None),
+        "orbit": runs.worst[1],
+        "eccentricities_m": [list(o) for o in _offsets(study.building)],
+        "storeys": dict(storey_indicators(runs.storeys), storey_law=_law(structure)),
         "fixed_base": fixed_base,
     }
 
 
-def with_bidirectional(figures, summary: dict):
-    """Verdict figures with the bidirectional results: governing D_TM, history D_TM and the uplift ratio.
+def history_uplift_ratio(summary: dict, gravity_factor: float = 1.0, vertical_fraction: float = 0.0) -> float:
+    """Largest drop of a bearing's axial load in the histories over its net gravity load.
+
+    The histories carry gravity at 1.0 and no vertical component, so the drop below the gravity share
+    ``N_g - N_min`` is the overturning part; the net gravity load of the code's combination is
+    ``(gravity_factor - vertical_fraction) N_g`` (as :func:`isolation.design.overturning.bearing_uplift`);
+    a ratio >= 1 means net tension. [-]
+
+    Parameters
+    ----------
+    summary : dict
+        :func:`bidirectional_summary` (``gravity_load_kN``, ``bearing_axial_min_kN``). [kN]
+    gravity_factor : float
+        Factor on gravity of the uplift combination (0.9 ASCE 7, 1.0 Eurocode). [-]
+    vertical_fraction : float
+        Vertical earthquake as a fraction of gravity. [-]
+    """
+    gravity = np.asarray(summary["gravity_load_kN"], dtype=float)
+    lowest = np.asarray(summary["bearing_axial_min_kN"], dtype=float)
+    net = (float(gravity_factor) - float(vertical_fraction)) * gravity
+    if np.any(net <= 0.0):
+        return math.inf
+    return float(np.max((gravity - lowest) / net))
+
+
+def uplift_combination(study, spectrum, report) -> tuple:
+    """(gravity factor, vertical fraction) of the code basis' uplift combination for a study [-]
+    (:func:`isolation.study.assembly.overturning_inputs`)."""
+    from isolation.study.assembly import overturning_inputs
+
+    return tuple(overturning_inputs(study, spectrum, report)[2:4])
+
+
+#: What the verdict's storey findings come from when the plan model ran.
+PLAN_STOREY_MODEL = "plan model under the component pairs, accidental eccentricity both signs"
+
+
+def with_bidirectional(figures, summary: dict, combination: tuple = (1.0, 0.0)):
+    """Verdict figures with the bidirectional results in place of the single-component ones.
+
+    The total displacement is the governing D_TM (history D_TM, not below the code's lower limit), the
+    history displacement the history D_TM, the uplift ratio :func:`history_uplift_ratio`, and the
+    superstructure's storey drift ratio (resultant at the plan corners), storey ductility and residual
+    drift those of the plan model (isolated: worst of the property sets and eccentricities; fixed base:
+    ``summary["fixed_base"]`` when given), each a suite mean.
 
     Parameters
     ----------
@@ -307,10 +356,20 @@ def with_bidirectional(figures, summary: dict):
         Figures of the single-mode procedure and the planar histories. [-]
     summary : dict
         :func:`bidirectional_summary`. [-]
+    combination : tuple of float
+        (gravity factor, vertical fraction) of the code's uplift combination
+        (:func:`isolation.design.overturning.asce7_vertical_fraction` or its Eurocode twin). [-]
     """
     from dataclasses import replace
 
-    return replace(figures, total_displacement=summary["total_displacement_governing"],
-                   history_displacement=summary["total_displacement_history"],
-                   uplift_ratio=summary["uplift_ratio"])
-
+    changes = {"total_displacement": summary["total_displacement_governing"],
+               "history_displacement": summary["total_displacement_history"],
+               "uplift_ratio": history_uplift_ratio(summary, *combination)}
+    storeys = summary.get("storeys")
+    if storeys:
+        changes.update(drift_ratio=storeys["drift_ratio_max"], ductility_isolated=storeys["ductility_max"],
+                       residual_drift_isolated=storeys["residual_drift_max"], storey_model=PLAN_STOREY_MODEL)
+    fixed = summary.get("fixed_base")
+    if fixed:
+        changes.update(ductility_fixed=fixed["ductility_max"], residual_drift_fixed=fixed["residual_drift_max"])
+    return replace(figures, **changes)

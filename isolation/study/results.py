@@ -88,6 +88,16 @@ class AlternativeResults:
         """``history["summary"]`` as :class:`isolation.study.stages.HistorySummary` (m, g, kN, -)."""
         return HistorySummary.from_dict((self.history or {}).get("summary") or {}, strict=False)
 
+    @property
+    def plan_storey_strength(self):
+        """Storey shear of the plan model against storey strength
+        (:class:`isolation.study.plan_strength.StoreyStrength`, kN); None without a bidirectional run."""
+        from isolation.study.plan_strength import StoreyStrength
+
+        storeys = ((self.history or {}).get("bidirectional") or {}).get("storeys") or {}
+        found = storeys.get("storey_strength")
+        return None if found is None else StoreyStrength.from_dict(found)
+
     def to_dict(self) -> dict:
         return plain({k: getattr(self, k) for k in self.__dataclass_fields__})
 

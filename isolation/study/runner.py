@@ -57,7 +57,7 @@ from isolation.study.assembly import (  # noqa: F401 - importable here before
     superstructure,
     verdict_figures,
 )
-from isolation.study.plan import bidirectional_summary, fixed_base_summary, with_bidirectional
+from isolation.study.plan import bidirectional_summary, fixed_base_summary, uplift_combination, with_bidirectional
 from isolation.study.results import SCOPE, AlternativeResults, StudyResults, load_results
 from isolation.study.stages import AlternativeDesign, HistorySummary, StudyDesign, alternative_figures, design_study
 from isolation.study.suite_settings import QUICK, suite_options  # noqa: F401 - re-exported
@@ -282,7 +282,8 @@ def _judge_alternative(study: Study, study_design: StudyDesign, design: Alternat
     figures = alternative_figures(study, study_design.spectrum, design, summary)
     bidirectional = _bidirectional(study, design, shared, above)
     if bidirectional is not None:
-        figures = with_bidirectional(figures, bidirectional)
+        figures = with_bidirectional(figures, bidirectional,
+                                     uplift_combination(study, study_design.spectrum, design.report))
     judged = _verdict.assess(figures)
     bilinear = all(isolators[c] is design.sets[c] for c in isolators)
     results = AlternativeResults(

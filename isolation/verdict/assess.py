@@ -197,6 +197,9 @@ class Figures:
         Factor on the wind shear in the wind rule (1.5 for sliders in a study run). [-]
     wind_strength_note : str
         What ``characteristic_strength`` stands for in the wind rule.
+    storey_model : str
+        What the storey drift, ductility and residual drift come from when not the planar histories
+        (e.g. the plan model under component pairs); quoted in those findings.
     """
 
     alternative: str
@@ -234,6 +237,7 @@ class Figures:
     fault_distance: float | None = None
     wind_margin: float = 1.0
     wind_strength_note: str = "lower bound"
+    storey_model: str = ""
 
     def to_dict(self) -> dict:
         data = asdict(self)
@@ -271,7 +275,7 @@ def assess(figures: Figures) -> Verdict:
         design_shear(f.design_shear_ratio, basis=basis) if f.design_shear_ratio is not None else None,
         (floor_acceleration_reduction(f.floor_acceleration_ratio)
          if f.floor_acceleration_ratio is not None else None),
-        (storey_drift(f.drift_ratio, f.drift_limit, f.drift_source, basis=basis)
+        (storey_drift(f.drift_ratio, f.drift_limit, f.drift_source, basis=basis, model=f.storey_model)
          if f.drift_ratio is not None else None),
         uplift(f.uplift_ratio, basis=basis) if f.uplift_ratio is not None else None,
         slenderness(f.slenderness) if f.slenderness is not None else None,
@@ -284,7 +288,7 @@ def assess(figures: Figures) -> Verdict:
         bearing_checks(tuple(f.failed_checks)),
         effective_damping(f.effective_damping, basis=basis),
         superstructure_yielding(f.ductility_isolated, f.residual_drift_isolated, f.ductility_fixed,
-                                f.residual_drift_fixed, basis=basis),
+                                f.residual_drift_fixed, basis=basis, model=f.storey_model),
     ]
     reasons = tuple(r for r in found if r is not None)
     return Verdict(alternative=f.alternative, outcome=combine(reasons), reasons=reasons)

@@ -270,7 +270,7 @@ def floor_acceleration_reduction(ratio: float) -> Reason:
 
 
 def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "", *,
-                 basis: str = DEFAULT_BASIS) -> Reason:
+                 basis: str = DEFAULT_BASIS, model: str = "") -> Reason:
     """Largest storey drift ratio of the isolated building against the limit.
 
     Parameters
@@ -285,11 +285,14 @@ def storey_drift(drift_ratio: float, limit: float | None = None, source: str = "
         Where ``limit`` comes from; default the clause of the default limit.
     basis : str
         Code basis, ``"asce7"`` or ``"eurocode"``: the default limit and source.
+    model : str
+        What the drift comes from, quoted in the message when given (e.g. the plan model). [-]
     """
     default_limit, default_source = _codes.get(basis, "basis").report_drift_limit()
     limit = default_limit if limit is None else limit
     source = source or default_source
-    text = f"largest storey drift ratio {drift_ratio:.2%} against the limit {limit:.2%}"
+    text = f"largest storey drift ratio {drift_ratio:.2%}" + (f" ({model})" if model else "") + \
+        f" against the limit {limit:.2%}"
     if drift_ratio > limit:
         return Reason("drift", "condition", text + ": stiffen the superstructure", drift_ratio,
                       limit, "-", source)

@@ -18,7 +18,8 @@ YIELDING_SOURCES = _codes.PerBasis(lambda basis: basis.yielding_source)
 
 def superstructure_yielding(ductility_isolated: float | None, residual_drift_isolated: float | None,
                             ductility_fixed: float | None = None,
-                            residual_drift_fixed: float | None = None, *, basis: str = DEFAULT_BASIS) -> Reason | None:
+                            residual_drift_fixed: float | None = None, *, basis: str = DEFAULT_BASIS,
+                            model: str = "") -> Reason | None:
     """Storey ductility and residual drift of the isolated superstructure, beside the fixed base's.
 
     Ductility <= 2 and residual drift < 0.5 %: ok; else a condition (more
@@ -36,12 +37,14 @@ def superstructure_yielding(ductility_isolated: float | None, residual_drift_iso
         The same for the code-designed fixed-base building. [-]
     basis : str
         ``"asce7"`` or ``"eurocode"``: the clause the source cites. [-]
+    model : str
+        What the numbers come from, quoted in the message when given (e.g. the plan model). [-]
     """
     source = _codes.get(basis, "basis").yielding_source
     if ductility_isolated is None or residual_drift_isolated is None:
         return None
     text = (f"the isolated superstructure reaches storey ductility {ductility_isolated:.2f} and residual drift "
-            f"{100 * residual_drift_isolated:.2f} %")
+            f"{100 * residual_drift_isolated:.2f} %" + (f" ({model})" if model else ""))
     if ductility_fixed is not None and residual_drift_fixed is not None:
         text += (f", against {ductility_fixed:.2f} and {100 * residual_drift_fixed:.2f} % for the code-designed "
                  "fixed-base building")

@@ -135,6 +135,41 @@ def test_command_runs_a_history_sweep_on_chosen_motions(tmp_path, capsys):
     assert not (tmp_path / "x").exists() and not (tmp_path / "y").exists()
 
 
+def test_command_prepares_the_motions_on_the_workers_while_it_validates(tmp_path, monkeypatch, capsys):
+    # Large batches are validated on the workers; a history sweep's suite and fixed base are prepared
+    # there too, at the same time (isolation.app.batch.command._motions_on). Same arithmetic as the
+    # serial path, so the same summary to the last digit; a batch that fails validation leaves no batch
+    # folder behind (the project's bad-input rule).
+    from isolation.app.batch import check
+
+    path = make_batch(tmp_path, radii=(2.5,), frictions=(0.05, 0.08))
+    options = ["--direct", "--histories", "--quick", "--no-progress", "--workers", "1"]
+    assert main([str(path), *options, "--out", str(tmp_path / "serial")]) == 0
+    monkeypatch.setattr(check, "CHUNK_FROM", 1)  # the pool path from one variant on
+    assert main([str(path), *options, "--out", str(tmp_path / "pooled")]) == 0
+    serial = {r["variant"]: r for r in read_summary(tmp_path / "serial")}
+    pooled = {r["variant"]: r for r in read_summary(tmp_path / "pooled")}
+    assert serial.keys() == pooled.keys() and len(serial) == 2
+    for key, row in serial.items():
+        for column in ("history_displacement_lower_m", "history_displacement_upper_m", "floor_acceleration_fixed_g"):
+            assert pooled[key][column] == row[column]
+    bad_folder = tmp_path / "bad"
+    bad_folder.mkdir()
+    bad = make_batch(bad_folder, radii=(-1.0,), frictions=(0.05,))
+    capsys.readouterr()
+    assert main([str(bad), *options, "--out", str(tmp_path / "never")]) == 2
+    assert "radius" in capsys.readouterr().err
+    assert not (tmp_path / "never").exists()
+
+
+def test_a_warmed_worker_has_the_compiled_engine():
+    # Derived: warm_worker loads the engine a history task uses; with numba installed it is the compiled one.
+    pytest.importorskip("numba")
+    from isolation.app.batch.histories import warm_worker
+
+    assert warm_worker() is True
+
+
 def test_chunks_are_seconds_long_and_the_same_for_one_and_two_workers():
     from isolation.app.batch.histories import history_chunk
 

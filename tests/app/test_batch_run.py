@@ -240,3 +240,19 @@ def test_command_direct_sweep_on_a_dask_scheduler(tmp_path, capsys):
         err = capsys.readouterr().err
         # friction -0.03 (8 variants) and radius 25 m (8 variants, one shared): 15 invalid
         assert "15 of 64 variants are invalid" in err and len(err.strip().splitlines()) == 1
+
+
+def test_chunks_are_balanced_in_file_order():
+    # Common practice (static balanced partition): ceil(n/size) parts, none longer than size, lengths
+    # differing by at most one, concatenating back to the input.
+    from isolation.app.batch.execute import _chunks
+
+    for count, size in ((256, 22), (10, 3), (7, 7), (1, 5), (0, 4), (23, 1)):
+        items = list(range(count))
+        parts = _chunks(items, size)
+        assert [x for part in parts for x in part] == items
+        assert len(parts) == -(-count // size)
+        lengths = [len(part) for part in parts]
+        assert all(0 < n <= size for n in lengths)
+        assert not lengths or max(lengths) - min(lengths) <= 1
+    assert [len(p) for p in _chunks(list(range(256)), 22)].count(22) == 4  # 4 x 22 + 8 x 21

@@ -25,6 +25,8 @@ Sources
 """
 
 import math
+import os
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -286,6 +288,24 @@ def test_compiled_and_interpreted_kernels_give_the_same_histories():
         for key in compiled[case].energy:
             np.testing.assert_allclose(compiled[case].energy[key], interpreted[case].energy[key],
                                        rtol=1e-12, atol=1e-12 * np.abs(interpreted[case].energy["input"]).max())
+
+
+def test_compiled_loop_calls_the_compiled_laws_and_stamps_them():
+    # numba's on-disk cache checks only the source file of each cached function (numba documentation,
+    # "Cache invalidation", from memory); the compiled loop has the laws of kernel_laws.py compiled into it,
+    # so a stamp of that file beside the cache tells whether a cached loop was built with the current laws.
+    pytest.importorskip("numba")
+    import hashlib
+
+    from isolation.dynamics import kernel_laws, newmark
+
+    module = newmark.kernel_module(True)
+    assert module.storey_force is module.kernel_laws.storey_force and hasattr(module.storey_force, "py_func")
+    assert module.solve_base is module.kernel_laws.solve_base and hasattr(module.solve_base, "py_func")
+    marker = Path(module.run_columns._cache._cache_path) / "kernel_laws.sha256"
+    if marker.parent.is_dir() and os.access(marker.parent, os.W_OK):
+        expected = hashlib.sha256(Path(kernel_laws.__file__).read_bytes()).hexdigest()
+        assert marker.read_text(encoding="ascii").strip() == expected
 
 
 # --- bad input ------------------------------------------------------------------------------------

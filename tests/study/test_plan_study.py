@@ -42,6 +42,7 @@ def test_tables_are_absent_without_a_bidirectional_run():
         suite = {}
 
     assert tables.bidirectional_table(Alternative()) is None
+    assert tables.plan_storey_table(Alternative()) is None
     assert tables.pairs_table(Results()) is None
 
 
@@ -90,7 +91,24 @@ def test_bidirectional_study_end_to_end(tmp_path):
             max(b["total_displacement_history"], 0.8 * b["total_displacement_code"]))
         assert b["total_displacement_history"] >= b["centre_displacement_history"]  # corners move more
         assert alternative.figures["total_displacement"] == pytest.approx(b["total_displacement_governing"])
-        assert alternative.figures["uplift_ratio"] == pytest.approx(b["uplift_ratio"])
+        # uplift under the code combination 0.9 D - 0.2 S_MS D (ASCE/SEI 7-16 §17.2.4.6, from memory), S_MS = 1.50
+        # in the demo study: the drop of each bearing's axial load in the histories over 0.6 of its gravity load
+        drop = max((g - lo) / (0.6 * g) for g, lo in zip(b["gravity_load_kN"], b["bearing_axial_min_kN"],
+                                                                         strict=True))
+        assert alternative.figures["uplift_ratio"] == pytest.approx(drop)
+        assert drop == pytest.approx(b["uplift_ratio"] / 0.6)
+        # the storey findings come from the plan model (isolated: worst of bounds and eccentricities)
+        storeys = b["storeys"]
+        assert alternative.figures["ductility_isolated"] == pytest.approx(storeys["ductility_max"])
+        assert alternative.figures["drift_ratio"] == pytest.approx(storeys["drift_ratio_max"])
+        assert alternative.figures["ductility_fixed"] == pytest.approx(fixed_ductility(b))
+        # storey shear against strength: a bilinear storey's peak shear over its yield shear is mu where it stays
+        # elastic and alpha mu + 1 - alpha where it yields, never more than mu (derived from the law), so
+        # suite means cannot exceed the storey ductility
+        strength = alternative.plan_storey_strength
+        assert strength.storeys == len(storeys["drift_ratio"])
+        for ratio, mu in ((strength.ratio_x, storeys["ductility_x"]), (strength.ratio_y, storeys["ductility_y"])):
+            assert all(0.0 < r <= m * (1 + 1e-9) for r, m in zip(ratio, mu, strict=True))
         # storeys carry the code-designed strengths of the planar comparison in x and in y: the fixed base,
         # designed with R and yielding (issue: fixed-base comparison), yields in both directions
         fixed = b["fixed_base"]
@@ -110,6 +128,10 @@ def test_bidirectional_study_end_to_end(tmp_path):
     assert table.rows[3][0].startswith("D_TM used by the verdict") and table.rows[3][1] == pytest.approx(governing)
     assert tables.pairs_table(results).rows[0][0] == 1
     labels = [row[0] for row in table.rows]
+    shear_table = tables.plan_storey_table(results.alternatives[0])
+    first = results.alternatives[0].plan_storey_strength
+    assert len(shear_table.rows) == first.storeys and shear_table.rows[0][1] == pytest.approx(first.shear_x[0])
+    assert shear_table.rows[0][3] == pytest.approx(first.ratio_x[0])
     assert any(label.startswith("Storey ductility demand, fixed base") for label in labels)
     b = results.alternatives[0].history["bidirectional"]
     assert plots.bearing_orbits(b).axes and plots.plan_demand(b, (42.0, 28.0)).axes
@@ -119,6 +141,10 @@ def test_bidirectional_study_end_to_end(tmp_path):
     assert (again.alternatives[0].history["bidirectional"]["grid"]
             == results.alternatives[0].history["bidirectional"]["grid"])
     json.loads(path.read_text())
+
+
+def fixed_ductility(b):
+    return b["fixed_base"]["ductility_max"]
 
 
 def test_batch_overrides_vary_the_layout(tmp_path):

@@ -141,8 +141,48 @@ def _run(args: argparse.Namespace) -> int:
             return 0
         return _execute(args, plan, hashes, settings, executor, executor)
     with open_executor(executor, args.workers) as pool:  # large batches: validate on the workers too
-        hashes = validate(plan, settings, executor=pool)
-        return _execute(args, plan, hashes, settings, executor, pool)
+        out_dir = _out_dir(args, plan)
+        existed = out_dir.exists()
+        motions = _motions_on(pool, args, plan, out_dir)  # a history sweep's suite, while the checks run
+        try:
+            hashes = validate(plan, settings, executor=pool)
+        except InputError:
+            _discard(motions, out_dir, existed)
+            raise
+        return _execute(args, plan, hashes, settings, executor, pool, motions)
+
+
+def _out_dir(args: argparse.Namespace, plan) -> Path:
+    return Path(args.out) if args.out else DEFAULT_ROOT / plan.name
+
+
+def _motions_on(pool, args: argparse.Namespace, plan, out_dir: Path):
+    """A history sweep's :func:`isolation.app.batch.histories.prepare_motions` as a task on ``pool`` (its
+    imports, the suite and the fixed-base run then overlap the validation instead of following it); None
+    for other batches."""
+    if not args.histories:
+        return None
+    from isolation.app.batch.histories import prepare_motions, warm_worker
+
+    prepared = pool.submit(prepare_motions, plan, out_dir, motions=args.motions, quick=bool(args.quick))
+    for _ in range(max((args.workers or _cores()) - 1, 0)):  # the other workers load the engine meanwhile
+        pool.submit(warm_worker)
+    return prepared
+
+
+def _discard(motions, out_dir: Path, existed: bool) -> None:
+    """After a validation error: wait for the motions task and remove the batch folder it created."""
+    if motions is None:
+        return
+    import shutil
+
+    motions.cancel()
+    try:
+        motions.result()
+    except BaseException:  # noqa: BLE001 - the validation error is the one reported
+        pass
+    if not existed and out_dir.is_dir():
+        shutil.rmtree(out_dir, ignore_errors=True)
 
 
 def _cores() -> int:
@@ -159,15 +199,18 @@ def _direct_chunk(count: int) -> int:
     return max(1, min(DIRECT_CHUNK, -(-count // 16)))
 
 
-def _execute(args, plan, hashes, settings, executor_name, executor) -> int:
+def _execute(args, plan, hashes, settings, executor_name, executor, prepared=None) -> int:
     from isolation.app.batch.execute import run_batch
 
-    out_dir = Path(args.out) if args.out else DEFAULT_ROOT / plan.name
+    out_dir = _out_dir(args, plan)
     chunk = _direct_chunk(len(plan.variants)) if args.direct else 1
     if args.histories:
         from isolation.app.batch.histories import history_chunk, history_runner, prepare_motions, with_motions
 
-        motions = prepare_motions(plan, out_dir, motions=args.motions, quick=bool(args.quick))
+        if prepared is not None:  # started on the workers (see _motions_on)
+            motions = prepared.result()
+        else:
+            motions = prepare_motions(plan, out_dir, motions=args.motions, quick=bool(args.quick))
         hashes = with_motions(hashes, motions)
         settings = {**settings, "mode": "histories", "quick": bool(args.quick), "motions": motions["motions"],
                     "motions_hash": motions["motions_hash"]}

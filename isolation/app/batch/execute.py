@@ -40,12 +40,7 @@ from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chu
 from isolation.app.batch.summary import preload_summary_writer, write_summary
 from isolation.files import write_text_atomic
 
-__all__ = [
-    "BatchReport",
-    "run_batch",
-    "open_executor",
-    "STATE_FILE",
-]
+__all__ = ["BatchReport", "run_batch", "open_executor", "STATE_FILE"]
 
 STATE_FILE = "batch.json"
 CHUNK_LIMIT = 50  # largest automatic chunk [variants]
@@ -87,16 +82,8 @@ class BatchReport:
         return 1 if (self.failed or self.not_run) else 0
 
     def to_dict(self) -> dict:
-        return {
-            "out_dir": str(self.out_dir),
-            "done": list(self.done),
-            "failed": list(self.failed),
-            "not_run": list(self.not_run),
-            "ran": list(self.ran),
-            "reused": list(self.reused),
-            "interrupted": self.interrupted,
-            "elapsed": self.elapsed,
-        }
+        lists = {name: list(getattr(self, name)) for name in ("done", "failed", "not_run", "ran", "reused")}
+        return {"out_dir": str(self.out_dir), **lists, "interrupted": self.interrupted, "elapsed": self.elapsed}
 
 
 def _load_state(out_dir: Path) -> dict:
@@ -346,7 +333,7 @@ class _BatchRun:
             self.pool, self.slots = stack.enter_context(executor_for(self.executor if tasks else None,
                                                                      self.workers))
             size = chunk if chunk is not None else max(1, min(CHUNK_LIMIT, -(-len(tasks) // (4 * self.slots))))
-            self.queue = [tasks[i:i + size] for i in range(0, len(tasks), size)][::-1]
+            self.queue = _chunks(tasks, size)[::-1]
             # the executor is up: now the batch folder is written
             self.out_dir.mkdir(parents=True, exist_ok=True)
             for entry in self.entries.values():
@@ -379,6 +366,14 @@ class _BatchRun:
                         self.on_outcome(outcome)
             if any(outcome.status == "interrupted" for outcome in found):
                 raise KeyboardInterrupt
+
+
+def _chunks(tasks: list, size: int) -> list[list]:
+    """``tasks`` in file order as ceil(n/size) chunks of at most ``size``, their lengths differing by at most
+    one, so that no worker is left with a short last chunk while the others wait."""
+    parts = -(-len(tasks) // max(int(size), 1))
+    bounds = [len(tasks) * i // parts for i in range(parts + 1)] if parts else [0]
+    return [tasks[start:end] for start, end in zip(bounds[:-1], bounds[1:], strict=True)]
 
 
 def _stop(pool: Executor, pending: dict[Future, list], accept: Callable[[VariantOutcome], None]) -> None:

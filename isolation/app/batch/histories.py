@@ -62,7 +62,7 @@ from isolation.app.batch.sweep import _bounds_each, fixed_base_elastic_shear
 from isolation.app.batch.variants import _alternative_key, _context_key, variant_study
 
 __all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
-           "history_chunk", "history_rows"]
+           "history_chunk", "history_rows", "warm_worker"]
 
 RESPONSE_HISTORIES = "response histories"
 CASES = ("lower", "upper")
@@ -158,6 +158,18 @@ def history_many(tasks: list) -> list:
 
 
 history_runner.many = history_many  # type: ignore[attr-defined]  # chunks run together (runners.guarded_chunk)
+
+
+def warm_worker() -> bool:
+    """Load in this worker what a history task needs (modules, the compiled engine); True when compiled.
+
+    Submitted to the workers while one of them prepares the motions, so the others do not load it
+    when their first task arrives.
+    """
+    from isolation.dynamics.newmark import kernel_module
+    from isolation.study import stages  # noqa: F401
+
+    return hasattr(kernel_module().run_columns, "py_func")
 
 
 def _run(tasks: list) -> list:

@@ -23,7 +23,7 @@ motion suite), :mod:`~isolation.output.plots.history` (response histories),
 :mod:`~isolation.output.plots.plan` (bidirectional analysis: orbits, plan demand).
 """
 
-from isolation.output.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned
+from isolation.output.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned, figure_png
 from isolation.output.plots.design import (
                                     equivalent_linear_bounds,
                                     force_displacement,
@@ -60,6 +60,7 @@ __all__ = [
     "AxisUnit",
     "axis_unit",
     "captioned",
+    "figure_png",
     "loss_curves",
     "site_spectrum",
     "force_displacement",

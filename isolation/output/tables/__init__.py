@@ -18,11 +18,13 @@ generic builders), :mod:`~isolation.output.tables.results` (tables of a study's 
 :mod:`~isolation.output.tables.loss` (the owner's page "What isolation buys"),
 :mod:`~isolation.output.tables.summary` (the owner's summary table and sentences),
 :mod:`~isolation.output.tables.symbols` (symbols as subscripts),
-:mod:`~isolation.output.tables.yielding` (comparison with the code-designed yielding fixed base).
+:mod:`~isolation.output.tables.yielding` (comparison with the code-designed yielding fixed base),
+:mod:`~isolation.output.tables.plan` (plan model: storey shear against storey strength).
 """
 
 from isolation.output.tables.clauses import clause_table
 from isolation.output.tables.loss import loss_table, loss_text
+from isolation.output.tables.plan import plan_storey_table
 from isolation.output.tables.results import (
                                       alternatives_table,
                                       bidirectional_table,
@@ -57,6 +59,7 @@ from isolation.output.tables.yielding import (
 __all__ = [
     "clause_table",
     "bidirectional_table",
+    "plan_storey_table",
     "pairs_table",
     "Table",
     "TYPST_MIME",
