@@ -35,6 +35,9 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 SCRATCH = ROOT / ".mutation"
 
+_ENGINE_TESTS = ("tests/dynamics/test_newmark_closed_forms.py", "tests/dynamics/test_newmark_kernel.py")
+"""Fast closed-form tests of the response-history engine (small models, short records)."""
+
 MODULES: dict[str, tuple[str, ...]] = {
     "codes/asce7": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
     "codes/eurocode": ("tests/design/test_design.py", "tests/codes/test_code_procedures.py"),
@@ -60,8 +63,10 @@ MODULES: dict[str, tuple[str, ...]] = {
     "bearings/damping_rubber": ("tests/bearings/test_bearings_rubber.py",),
     "bearings/checks": ("tests/bearings/test_bearings_rubber.py", "tests/bearings/test_bearings_system.py",
                         "tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_triple_pendulum.py"),
-    "dynamics/newmark": ("tests/dynamics/test_newmark_closed_forms.py", "tests/dynamics/test_newmark_kernel.py"),
-    "dynamics/kernel": ("tests/dynamics/test_newmark_closed_forms.py", "tests/dynamics/test_newmark_kernel.py"),
+    "dynamics/newmark": _ENGINE_TESTS,
+    "dynamics/newmark_columns": _ENGINE_TESTS,
+    "dynamics/kernel": _ENGINE_TESTS,
+    "dynamics/kernel_laws": _ENGINE_TESTS,
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py",
                            "tests/dynamics/test_isolator_laws.py", "tests/bearings/test_bearing_registry.py"),
 }
@@ -74,10 +79,12 @@ _SKIP = "not demo and not without_a_cycle and not no_nan_for_valid_input"
 """Tests left out of mutant runs: whole-study runs and subprocess imports (seconds each, and
 they check wiring rather than one module's arithmetic)."""
 
-_ENVIRONMENT: dict[str, dict[str, str]] = {"dynamics/kernel": {"ISOLATION_ENGINE": "python"}}
+_ENVIRONMENT: dict[str, dict[str, str]] = {name: {"ISOLATION_ENGINE": "python"}
+                                           for name in ("dynamics/kernel", "dynamics/kernel_laws")}
 """Extra environment per module: the kernel runs interpreted (numba cannot compile mutmut's mutated copy)."""
 
-_MODULE_SKIP: dict[str, str] = {"dynamics/kernel": "kernel_module_chooses or compiled_and_interpreted"}
+_MODULE_SKIP: dict[str, str] = {name: "kernel_module_chooses or compiled_and_interpreted"
+                                for name in ("dynamics/kernel", "dynamics/kernel_laws")}
 """Extra tests left out per module: those that compile the kernel on purpose."""
 
 _COPY = ("isolation", "tests", "examples", "workbooks", "templates", "records")

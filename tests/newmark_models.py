@@ -98,3 +98,14 @@ def ground_record(steps, dt, seed=3):
     g = sum(rng.uniform(0.5, 2.0) * np.sin(rng.uniform(2.0, 20.0) * t + rng.uniform(0, 6)) for _ in range(4))
     g[0] = 0.0
     return g
+
+
+def limit_iterations(monkeypatch, count):
+    """Set the engines' Newton iteration limit (``MAX_ITERATIONS``) for one test, in :mod:`newmark` and in
+    the module that defines the numpy engine ``integrate`` (the same module or a sibling it re-exports)."""
+    import sys
+
+    monkeypatch.setattr(newmark, "MAX_ITERATIONS", count)
+    home = sys.modules[newmark.integrate.__module__]
+    if hasattr(home, "MAX_ITERATIONS"):
+        monkeypatch.setattr(home, "MAX_ITERATIONS", count)

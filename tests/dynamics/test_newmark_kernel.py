@@ -25,7 +25,7 @@ import re
 
 import numpy as np
 import pytest
-from newmark_models import ENGINES, chain, ground_record, respond
+from newmark_models import ENGINES, chain, ground_record, limit_iterations, respond
 
 from isolation.dynamics import newmark
 from isolation.errors import RunError
@@ -65,7 +65,7 @@ def test_elastoplastic_storey_under_a_sudden_force_reaches_the_energy_balance_pe
 
 
 def test_storey_non_convergence_names_the_storeys_and_the_column(monkeypatch):
-    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    limit_iterations(monkeypatch, 1)
     m, k = chain([1.0, 1.0], [100.0, 100.0])
     storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": 1, "k": np.array([100.0, 100.0]),
                "k_geo": np.zeros(2), "fy": np.array([1.0, 1.0]), "alpha": 0.0}
@@ -78,7 +78,7 @@ def test_storey_non_convergence_names_the_storeys_and_the_column(monkeypatch):
 
 @pytest.mark.parametrize("engine", ENGINES)
 def test_isolator_non_convergence_names_time_case_and_record(engine, monkeypatch):
-    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    limit_iterations(monkeypatch, 1)
     # two elements under white noise: some steps cross two segments, which needs two Newton steps
     law = ("ep", 1e4, (9e4, 2e4), (90.0, 200.0))
     ground = np.vstack([np.zeros(400), 30 * np.random.default_rng(1).standard_normal(400)])
@@ -323,13 +323,13 @@ def test_isolator_newton_converges_within_the_iterations_its_method_needs(engine
     ground = np.vstack([g, -0.6 * g])
     model = (np.array([2.0, 1.0]), chain([2.0, 1.0], [800.0], base=True)[1], np.diag([0.0, 0.5]))
     reference = respond(engine, *model, ground, dt, law=law, damper=4.0)
-    monkeypatch.setattr(newmark, "MAX_ITERATIONS", iterations)
+    limit_iterations(monkeypatch, iterations)
     fast = respond(engine, *model, ground, dt, law=law, damper=4.0)
     assert np.abs(reference[0][:, :, 0]).max() > 0.05
     for a, b in zip(reference, fast, strict=True):
         np.testing.assert_allclose(b, a, rtol=0, atol=1e-9 * np.abs(a).max())
     if iterations > 1:
-        monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+        limit_iterations(monkeypatch, 1)
         with pytest.raises(RunError):
             respond(engine, *model, ground, dt, law=law, damper=4.0)
 
@@ -344,7 +344,7 @@ def test_isolator_newton_converges_within_the_iterations_its_method_needs(engine
 def test_failure_in_the_first_step_reports_its_end_time_and_the_column(engine, law, monkeypatch):
     # A jump of the ground acceleration at the first step makes the isolator yield at once: one
     # iteration cannot settle it, so the first step (ending at t = dt) fails, in the second column.
-    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    limit_iterations(monkeypatch, 1)
     ground = np.vstack([np.zeros(20), np.r_[0.0, np.full(19, 20.0)]])
     with pytest.raises(RunError) as info:
         respond(engine, np.array([1.0]), np.zeros((1, 1)), np.zeros((1, 1)), ground, 0.01, law=law)
@@ -358,7 +358,7 @@ def test_failure_in_the_first_step_reports_its_end_time_and_the_column(engine, l
 
 
 def test_yielding_storey_failure_in_the_first_step_reports_its_end_time(monkeypatch):
-    monkeypatch.setattr(newmark, "MAX_ITERATIONS", 1)
+    limit_iterations(monkeypatch, 1)
     m, k = chain([1.0, 1.0], [100.0, 100.0])
     storeys = {"lower": np.array([-1, 0]), "upper": np.array([0, 1]), "kind": 2, "k": np.array([100.0, 100.0]),
                "k_geo": np.zeros(2), "fy": np.array([1.0, 1.0]), "alpha": 0.0}
