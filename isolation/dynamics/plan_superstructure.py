@@ -209,16 +209,8 @@ class PlanShearBuilding:
             return k
         lx, ly = self.plan
         radius2 = (lx**2 + ly**2) / 12.0
-        for i, (load, height) in enumerate(zip(self.gravity_loads, self.heights, strict=True)):
-            ks = -load / height * np.diag([1.0, 1.0, radius2])
-            top = slice(3 * i, 3 * i + 3)
-            k[top, top] += ks
-            if i > 0:
-                below = slice(3 * i - 3, 3 * i)
-                k[below, below] += ks
-                k[below, top] -= ks
-                k[top, below] -= ks
-        return k
+        return _chain_blocks([-load / height * np.diag([1.0, 1.0, radius2])
+                              for load, height in zip(self.gravity_loads, self.heights, strict=True)])
 
     def with_strengths(self, yield_shears_x, yield_shears_y=None, *, hardening=None, p_delta=None):
         """The same building with storey strengths (and optionally hardening and P-delta) replaced.
@@ -266,18 +258,7 @@ class PlanShearBuilding:
 
     def stiffness_matrix(self) -> np.ndarray:
         """Fixed-base stiffness matrix (3 DOF per floor). [kN/m, kN, kN m]"""
-        n = self.storeys
-        k = np.zeros((3 * n, 3 * n))
-        for i in range(n):
-            ks = self.storey_stiffness(i)
-            top = slice(3 * i, 3 * i + 3)
-            k[top, top] += ks
-            if i > 0:
-                below = slice(3 * i - 3, 3 * i)
-                k[below, below] += ks
-                k[below, top] -= ks
-                k[top, below] -= ks
-        return k
+        return _chain_blocks([self.storey_stiffness(i) for i in range(self.storeys)])
 
     def modes(self) -> tuple[np.ndarray, np.ndarray]:
         """Fixed-base circular frequencies [rad/s] (ascending) and mass-normalised mode shapes (columns)."""
@@ -325,3 +306,17 @@ class PlanShearBuilding:
         }
 
 
+def _chain_blocks(blocks: list) -> np.ndarray:
+    """Stiffness of a chain of storeys from their 3 x 3 blocks on the relative motion of the two levels
+    (storey i joins level i - 1, the ground for i = 0, to level i). [units of the blocks]"""
+    n = len(blocks)
+    k = np.zeros((3 * n, 3 * n))
+    for i, ks in enumerate(blocks):
+        top = slice(3 * i, 3 * i + 3)
+        k[top, top] += ks
+        if i > 0:
+            below = slice(3 * i - 3, 3 * i)
+            k[below, below] += ks
+            k[below, top] -= ks
+            k[top, below] -= ks
+    return k
