@@ -30,7 +30,7 @@ from tools import PDF_READERS, require_pdf_tools, require_tools
 ROOT = Path(__file__).resolve().parent.parent
 WORKBOOKS = ROOT / "workbooks"
 DEMO = ROOT / "examples" / "demo_study.toml"
-PARAMETER_NAMES = {"study_path", "output_dir", "results_path", "quick", "paper"}
+PARAMETER_NAMES = {"study_path", "output_dir", "results_path", "quick", "paper", "precomputed"}
 
 
 def _execute(name: str, out: Path, **parameters) -> nbformat.NotebookNode:

@@ -64,6 +64,7 @@ from isolation.app.record_kernel import (  # noqa: F401 - re-exported
     _execute_quietly,
     _fast_schema_import,
     _stderr_to,
+    compute_ahead,
 )
 from isolation.app.record_steps import (  # noqa: F401 - re-exported
     SCOPE,
@@ -270,7 +271,13 @@ def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path
 
     ``kernel``: the workbook's kernel when it was started early (:class:`_EarlyKernel`)."""
     study_path, study = _prepare_inputs(study_file, overrides, folder)
-    _execute(notebook, folder, study_path, quick, timeout, kernel)
+    # the feasibility workbook's results computed here while its kernel starts (isolation.study.head_start)
+    ahead = compute_ahead(folder, study_path, quick) if notebook.resolve() == WORKBOOK.resolve() else ""
+    try:
+        _execute(notebook, folder, study_path, quick, timeout, kernel, ahead)
+    finally:
+        if ahead:
+            (folder / ahead).unlink(missing_ok=True)
     results = folder / "results.json"
     if not results.is_file():
         raise RunError("the workbook finished without writing results.json")

@@ -156,13 +156,13 @@ class _EarlyKernel:
 
 
 def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
-             kernel: _EarlyKernel | None = None) -> None:
+             kernel: _EarlyKernel | None = None, ahead: str = "") -> None:
     log = folder / KERNEL_LOG
     try:
         with _stderr_to(log):
             if kernel is not None:
                 kernel.enter(folder)
-            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel)
+            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel, ahead)
     finally:
         if kernel is not None:
             kernel.close(log)
@@ -213,14 +213,16 @@ def _papermill_engine() -> str:
 
 
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
-                     kernel: _EarlyKernel | None = None) -> None:
+                     kernel: _EarlyKernel | None = None, ahead: str = "") -> None:
     _fast_schema_import()
     import papermill
 
+    parameters = {"study_path": study_path, "output_dir": ".", "results_path": "results.json", "quick": bool(quick)}
+    if ahead:  # results computed while the kernel started (isolation.study.head_start)
+        parameters["precomputed"] = ahead
     papermill.execute_notebook(
         str(notebook), str(folder / "feasibility.ipynb"), engine_name=_papermill_engine(),
-        parameters={"study_path": study_path, "output_dir": ".", "results_path": "results.json",
-                    "quick": bool(quick)},
+        parameters=parameters,
         cwd=str(folder), kernel_name="python3", progress_bar=False, log_output=False,
         execution_timeout=timeout,
         # A kernel papermill starts itself: the same arguments as the early one (a trait of nbclient's
@@ -228,3 +230,22 @@ def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool,
         extra_arguments=list(KERNEL_ARGUMENTS),
         km=None if kernel is None else kernel.km,
     )
+
+
+def compute_ahead(folder: Path, study_path: str, quick: bool) -> str:
+    """Run the study in this process while the workbook's kernel starts (:mod:`isolation.study.head_start`).
+
+    Returns the pickle's name in ``folder``, or "" when the study could not run here: the
+    workbook then runs it itself and shows the failure in the record.
+    """
+    from isolation.study import load_study
+    from isolation.study.head_start import AHEAD_FILE, save_ahead
+    from isolation.study.runner import run_study
+
+    try:
+        results = run_study(load_study(folder / study_path), quick=quick)
+        save_ahead(results, folder / AHEAD_FILE, folder / study_path, quick)
+    except Exception:  # noqa: BLE001 - the workbook runs it again and records what went wrong
+        (folder / AHEAD_FILE).unlink(missing_ok=True)
+        return ""
+    return AHEAD_FILE

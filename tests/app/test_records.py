@@ -247,6 +247,18 @@ def test_demo_record_with_pdf_shows_the_results(tmp_path):
         assert format_number(alternative["quantities"]["total_displacement"]) in text
     for code in ("import ", "load_study(", "run_study(", "display("):
         assert code not in text
+    # The results were computed while the kernel started (isolation.study.head_start), the pickle is
+    # gone, and they equal a fresh run in this process.
+    notebook = json.loads((outcome.path / "feasibility.ipynb").read_text())
+    assert notebook["metadata"]["papermill"]["parameters"]["precomputed"] == ".results-ahead.pickle"
+    assert not (outcome.path / ".results-ahead.pickle").exists()
+    from isolation.study import load_study
+    from isolation.study.runner import run_study
+
+    fresh = run_study(load_study(DEMO), quick=True)
+    for ours, theirs in zip(fresh.alternatives, results["alternatives"], strict=True):
+        assert {k: v for k, v in ours.quantities.items() if v is not None} == pytest.approx(
+            {k: v for k, v in theirs["quantities"].items() if v is not None}, rel=1e-12)
 
 
 @pytest.mark.slow
