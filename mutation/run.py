@@ -63,7 +63,7 @@ MODULES: dict[str, tuple[str, ...]] = {
     "bearings/damping_rubber": ("tests/bearings/test_bearings_rubber.py",),
     "bearings/checks": ("tests/bearings/test_bearings_rubber.py", "tests/bearings/test_bearings_system.py",
                         "tests/bearings/test_bearings_friction.py", "tests/bearings/test_bearings_triple_pendulum.py"),
-    "dynamics/newmark": _ENGINE_TESTS,
+    "dynamics/newmark": _ENGINE_TESTS + ("tests/dynamics/test_kernel_compile.py",),
     "dynamics/newmark_columns": _ENGINE_TESTS,
     "dynamics/kernel": _ENGINE_TESTS,
     "dynamics/kernel_laws": _ENGINE_TESTS,
