@@ -39,7 +39,8 @@ STOREY_ELASTIC, STOREY_BILINEAR, STOREY_CLOUGH = 0, 1, 2
 ISO_NONE, ISO_ELASTIC_PLASTIC, ISO_SMOOTH, ISO_SHARP = 0, 1, 2, 3
 SMOOTH_ACCEPT = 1e-3
 """Smooth law: a Newton correction below this fraction of D_y is applied to first order and ends the
-iteration, leaving an error of order 1e-6 D_y (about 1e-9 m for D_y = 0.5 mm). [-]"""
+iteration, leaving an error of order 1e-6 D_y (about 1e-9 m for D_y = 0.5 mm); a correction that
+crosses the step's reversal point (du = 0) is evaluated in full instead. [-]"""
 STOREY_STATE = 5
 """Storey state slots: bilinear [q]; Clough [s, d_max+, d_max-, zero+, zero-]."""
 
@@ -245,8 +246,9 @@ def solve_base(kind, p, ke, fe, qs, qt, un, vn, wb, hb, hcd, c2, du, max_iter, t
             else:
                 new = hi - abs(r)
         step = new - du
-        if kind == 2 and abs(step) <= accept:
-            # converged: apply the last correction to force and z to first order (error ~ step^2/D_y)
+        if kind == 2 and abs(step) <= accept and (new < 0.0) == (du < 0.0):
+            # converged: apply the last correction to force and z to first order (error ~ step^2/D_y);
+            # not across du = 0, where the motion reverses and the one-sided slope is the other side's
             qt[0] += qt[1] * step
             return new, force + slope * step, it + 1, r
         du = new

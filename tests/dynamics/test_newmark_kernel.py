@@ -212,9 +212,10 @@ def test_kernel_outputs_and_energy_terms_follow_their_definitions(storey_kind, i
                 beta = 0.5 * (1.0 - p[col, 5])
                 bearing = BoucWen(Bilinear(60.0 + 18.0 / 0.0064, 60.0, 18.0), beta=beta)
             # smooth law: the kernel ends its Newton iteration with a first-order correction once the
-            # step is below SMOOTH_ACCEPT D_y; at a reversal inside that step the one-sided slope is
-            # the other side's, leaving an error in z up to SMOOTH_ACCEPT (seen: 7e-4 Q at one reversal)
-            tolerance = 1e-9 * np.abs(force[col]).max() if iso_kind == 1 else 1.5e-3 * 18.0
+            # step is below SMOOTH_ACCEPT D_y (error ~ SMOOTH_ACCEPT^2 in z, Taylor remainder), but
+            # evaluates in full a correction across a reversal, where the one-sided slope would be
+            # the other side's (before: 7e-4 Q at one reversal)
+            tolerance = 1e-9 * np.abs(force[col]).max() if iso_kind == 1 else 1e-5 * 18.0
             np.testing.assert_allclose(force[col], imposed_force(bearing, ub[col]), rtol=0, atol=tolerance)
 
 
