@@ -66,7 +66,7 @@ MODULES: dict[str, tuple[str, ...]] = {
     "dynamics/newmark": _ENGINE_TESTS + ("tests/dynamics/test_kernel_compile.py",),
     "dynamics/newmark_columns": _ENGINE_TESTS,
     "dynamics/kernel": _ENGINE_TESTS,
-    "dynamics/kernel_laws": _ENGINE_TESTS,
+    "dynamics/kernel_laws": _ENGINE_TESTS + ("tests/dynamics/test_solve_base.py",),
     "dynamics/isolators": ("tests/dynamics/test_history_isolators.py", "tests/dynamics/test_history_reference.py",
                            "tests/dynamics/test_isolator_laws.py", "tests/bearings/test_bearing_registry.py"),
 }
