@@ -58,7 +58,7 @@ from isolation.app.batch.history_motions import (  # noqa: F401 - FIXED_FILE, SO
 )
 from isolation.app.batch.rows import rows_from_results
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_call
-from isolation.app.batch.sweep import _bounds_each, fixed_base_elastic_shear
+from isolation.app.batch.sweep import _bounds_each, fixed_base_elastic_shear, gather_rows
 from isolation.app.batch.variants import _alternative_key, _context_key, variant_study
 
 __all__ = ["MOTIONS_FOLDER", "prepare_motions", "with_motions", "history_runner", "history_many",
@@ -182,16 +182,8 @@ def _run(tasks: list) -> list:
             if len(_DONE) >= _CACHE_LIMIT:
                 _DONE.pop(next(iter(_DONE)))
             _DONE[key] = value
-    out: list[Exception | list[dict]] = []
-    for entry in prepared:
-        if isinstance(entry, Exception):
-            out.append(entry)
-            continue
-        context, keys = entry
-        found = [judged[k] if k in judged else _DONE[k] for k in keys]
-        failed = next((f for f in found if isinstance(f, Exception)), None)
-        out.append(failed if failed is not None else history_rows(found, context["shear"]))
-    return out
+    return gather_rows(prepared, lambda k: judged[k] if k in judged else _DONE[k],
+                       lambda found, context: history_rows(found, context["shear"]))
 
 
 def _context(study, ckey, acc: np.ndarray, dt: float, fixed_file: Mapping) -> dict:

@@ -106,16 +106,27 @@ def design_rows_many(studies: list) -> list:
     """
     prepared, todo = _prepare_many(studies)
     judged = _design_many(todo)
+    return gather_rows(prepared, judged.__getitem__, lambda found, context: rows_from_results(
+        {"alternatives": found}, context["shear"], verdict_basis=EQUIVALENT_LINEAR))
+
+
+def gather_rows(prepared: list, result_of, rows_of) -> list:
+    """Per prepared study, its rows from the shared results of its alternatives.
+
+    ``prepared`` holds per study its exception or ``(context, keys)``; ``result_of(key)`` is the
+    result of one alternative, or the exception it raised; ``rows_of(results, context)`` makes the
+    rows. Returns per study the exception of its preparation, else the first of its alternatives',
+    else its rows.
+    """
     out: list[Exception | list[dict]] = []
     for entry in prepared:
         if isinstance(entry, Exception):
             out.append(entry)
             continue
         context, keys = entry
-        found = [judged[k] for k in keys]
+        found = [result_of(k) for k in keys]
         failed = next((f for f in found if isinstance(f, Exception)), None)
-        out.append(failed if failed is not None else
-                   rows_from_results({"alternatives": found}, context["shear"], verdict_basis=EQUIVALENT_LINEAR))
+        out.append(failed if failed is not None else rows_of(found, context))
     return out
 
 
