@@ -35,6 +35,7 @@ import sys
 import tempfile
 import time
 from pathlib import Path
+from unittest import mock
 
 ROOT = Path(__file__).resolve().parent.parent
 if str(ROOT) not in sys.path:
@@ -76,46 +77,22 @@ def main() -> None:
 
     import isolation.output.report as report_module
 
-    rendering: dict[str, float] = {}
-    render = report_module.render
-
-    def timed_render(*args, **kwargs):
-        begun = time.perf_counter()
-        try:
-            return render(*args, **kwargs)
-        finally:
-            rendering["seconds"] = time.perf_counter() - begun
-
-    # The record's kernel starts before the study is checked; the time the run then still waits
-    # for it (start-up and warm-up longer than the checks) is part of the kernel start below.
+    # Timed steps of the run: the study run in the command's process while the kernel starts
+    # ("ahead"), the wait for the kernel after that ("kernel wait": start-up and warm-up longer than
+    # the checks and the core), and the report rendering ("seconds").
     from isolation.app import calc_records
 
-    enter = calc_records._EarlyKernel.enter
-
-    def timed_enter(self, *args, **kwargs):
-        begun = time.perf_counter()
-        try:
-            return enter(self, *args, **kwargs)
-        finally:
-            rendering["kernel wait"] = time.perf_counter() - begun
-
-    ahead = calc_records.compute_ahead
-
-    def timed_ahead(*args, **kwargs):
-        begun = time.perf_counter()
-        try:
-            return ahead(*args, **kwargs)
-        finally:
-            rendering["ahead"] = time.perf_counter() - begun
-
+    rendering: dict[str, float] = {}
     folder = Path(tempfile.mkdtemp(prefix="bench_study_"))
-    report_module.render = timed_render
-    calc_records._EarlyKernel.enter = timed_enter
-    calc_records.compute_ahead = timed_ahead
     try:
-        started, cpu = time.perf_counter(), _cpu_seconds()
-        outcome = run_record(STUDY, folder, pdf=True)
-        total, cpu = time.perf_counter() - started, _cpu_seconds() - cpu
+        with mock.patch.object(report_module, "render", _timed(report_module.render, "seconds", rendering)), \
+                mock.patch.object(calc_records._EarlyKernel, "enter",
+                                  _timed(calc_records._EarlyKernel.enter, "kernel wait", rendering)), \
+                mock.patch.object(calc_records, "compute_ahead",
+                                  _timed(calc_records.compute_ahead, "ahead", rendering)):
+            started, cpu = time.perf_counter(), _cpu_seconds()
+            outcome = run_record(STUDY, folder, pdf=True)
+            total, cpu = time.perf_counter() - started, _cpu_seconds() - cpu
         if outcome.status != "done":
             print(f"end-to-end run FAILED: {outcome.error}")
             return
@@ -128,9 +105,6 @@ def main() -> None:
                    rendering.get("seconds", 0.0), rendering.get("kernel wait", 0.0))
         print("  verdicts: " + "; ".join(outcome.verdicts))
     finally:
-        report_module.render = render
-        calc_records._EarlyKernel.enter = enter
-        calc_records.compute_ahead = ahead
         shutil.rmtree(folder, ignore_errors=True)
 
     _readme_command()
@@ -140,6 +114,18 @@ def main() -> None:
     peak = max(own, child)
     print(f"peak memory: this process {own / 2**20:.0f} MiB, largest child {child / 2**20:.0f} MiB "
           f"(target <= 1024 MiB: {'met' if peak <= TARGET_BYTES else 'NOT met'})")
+
+
+def _timed(function, key: str, times: dict):
+    """``function`` that also stores its duration in ``times[key]``. [s]"""
+    def timed(*args, **kwargs):
+        begun = time.perf_counter()
+        try:
+            return function(*args, **kwargs)
+        finally:
+            times[key] = time.perf_counter() - begun
+
+    return timed
 
 
 def _breakdown(notebook: Path, total: float, ahead: float, rendering: float, waiting: float = 0.0) -> None:
