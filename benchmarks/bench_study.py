@@ -10,11 +10,13 @@ Steps timed, in one process (the machine's state at the time is part of the figu
 2. End to end: :func:`isolation.app.calc_records.run_record` with the PDF report, as
    ``python -m isolation demo`` does it (kernel start, workbook with its
    figures and tables, results JSON, report with the default engine, manifest),
-   with its breakdown: the numeric core (run in the command's process while the
-   kernel starts), what of the kernel start that does not cover and papermill's
-   own work, the workbook's first cell (it reads those results), the other
-   workbook cells (figures, tables), report rendering, and the rest (checks,
-   record files).
+   with its breakdown in the order things happen: the checks and the record's
+   set-up before the command forks its helper (which computes the study and then
+   draws figures from the last one up, :mod:`isolation.app.record_ahead`), the wait
+   for the kernel, papermill's start, the workbook's first cell (it waits for the
+   helper's results: the numeric core), the other cells (figures, drawn by the
+   kernel and the helper, and tables), report rendering, and the rest (kernel
+   stop, record files).
 3. The README command itself, ``python -m isolation demo``, in a fresh
    process (adds Python start and the command line's imports).
 
@@ -76,21 +78,19 @@ def main() -> None:
     print(f"reference run_study (in process): {core:.2f} s  [{steps}]")
 
     import isolation.output.report as report_module
-
-    # Timed steps of the run: the study run in the command's process while the kernel starts
-    # ("ahead"), the wait for the kernel after that ("kernel wait": start-up and warm-up longer than
-    # the checks and the core), and the report rendering ("seconds").
     from isolation.app import calc_records
 
-    rendering: dict[str, float] = {}
+    # Timed steps of the run: the start of the helper process, the wait for the kernel, the report.
+    steps: dict[str, float] = {}
     folder = Path(tempfile.mkdtemp(prefix="bench_study_"))
     try:
-        with mock.patch.object(report_module, "render", _timed(report_module.render, "seconds", rendering)), \
+        with mock.patch.object(report_module, "render", _timed(report_module.render, "render", steps)), \
                 mock.patch.object(calc_records._EarlyKernel, "enter",
-                                  _timed(calc_records._EarlyKernel.enter, "kernel wait", rendering)), \
-                mock.patch.object(calc_records, "compute_ahead",
-                                  _timed(calc_records.compute_ahead, "ahead", rendering)):
+                                  _timed(calc_records._EarlyKernel.enter, "kernel wait", steps)), \
+                mock.patch.object(calc_records, "start_ahead",
+                                  _timed(calc_records.start_ahead, "fork", steps)):
             started, cpu = time.perf_counter(), _cpu_seconds()
+            steps["start"] = time.time()
             outcome = run_record(STUDY, folder, pdf=True)
             total, cpu = time.perf_counter() - started, _cpu_seconds() - cpu
         if outcome.status != "done":
@@ -100,9 +100,8 @@ def main() -> None:
         print(f"end to end with report ({outcome.report.name}): {total:.2f} s "
               f"(target <= {TARGET_SECONDS:.0f} s: {'met' if total <= TARGET_SECONDS else 'NOT met'}); "
               f"ratio to the reference run: {total / core:.2f}; CPU of all its processes {cpu:.2f} s")
-        print("  numeric core by stage: " + ", ".join(f"{k} {v:.2f} s" for k, v in inner.items()))
-        _breakdown(outcome.path / "feasibility.ipynb", total, rendering.get("ahead", 0.0),
-                   rendering.get("seconds", 0.0), rendering.get("kernel wait", 0.0))
+        print("  numeric core by stage (helper process): " + ", ".join(f"{k} {v:.2f} s" for k, v in inner.items()))
+        _breakdown(outcome.path / "feasibility.ipynb", total, steps)
         print("  verdicts: " + "; ".join(outcome.verdicts))
     finally:
         shutil.rmtree(folder, ignore_errors=True)
@@ -117,41 +116,44 @@ def main() -> None:
 
 
 def _timed(function, key: str, times: dict):
-    """``function`` that also stores its duration in ``times[key]``. [s]"""
+    """``function`` that also stores when it began and ended in ``times[key]``. [s since the epoch]"""
     def timed(*args, **kwargs):
-        begun = time.perf_counter()
+        begun = time.time()
         try:
             return function(*args, **kwargs)
         finally:
-            times[key] = time.perf_counter() - begun
+            times[key] = (begun, time.time())
 
     return timed
 
 
-def _breakdown(notebook: Path, total: float, ahead: float, rendering: float, waiting: float = 0.0) -> None:
-    """Where the end-to-end time goes, from papermill's timings in the executed workbook.
+def _breakdown(notebook: Path, total: float, steps: dict) -> None:
+    """Where the end-to-end time goes, phase by phase (they add up to the total), from the timed steps
+    and papermill's start and end times of the executed workbook's cells. [s]"""
+    import datetime
 
-    ``ahead`` is the study run in the command's process while the kernel starts
-    (``calc_records.compute_ahead``); ``waiting`` the time the run then still waited for its
-    kernel. [s]
-    """
     import nbformat
 
+    def moment(text: str) -> float:
+        return datetime.datetime.fromisoformat(text.replace("Z", "+00:00")).timestamp()
+
     nb = nbformat.read(notebook, as_version=4)
-    papermill_total = float(nb.metadata.papermill.duration)
-    cells = [(c.source, float(c.metadata.get("papermill", {}).get("duration") or 0.0))
-             for c in nb.cells if c.cell_type == "code"]
-    cell_time = sum(d for _, d in cells)
-    study_cell = next((d for source, d in cells if "results_of(" in source or "run_study(" in source), 0.0)
-    parts = {
-        "numeric core (command's process, while the kernel starts)": ahead,
-        "kernel start beyond that, and papermill": waiting + papermill_total - cell_time,
-        "first cell (results read, title)": study_cell,
-        "figures and tables (other cells)": cell_time - study_cell,
-        "report rendering": rendering,
-        "rest (checks, record files)": total - papermill_total - rendering - waiting - ahead,
-    }
-    print("  breakdown: " + ", ".join(f"{k} {v:.2f} s" for k, v in parts.items()))
+    cells = [c for c in nb.cells if c.cell_type == "code" and c.metadata.get("papermill", {}).get("start_time")]
+    first = next(c for c in cells if "results_of(" in c.source)
+    start = steps["start"]
+    marks = [("checks and set-up (before the fork)", steps["fork"][1]),
+             ("wait for the kernel", steps["kernel wait"][1]),
+             ("papermill start", moment(first.metadata.papermill.start_time)),
+             ("first cell (waits for the helper's study run)", moment(first.metadata.papermill.end_time)),
+             ("figures and tables (other cells)", moment(cells[-1].metadata.papermill.end_time)),
+             ("kernel stop and results", steps["render"][0]),
+             ("report rendering", steps["render"][1]),
+             ("rest (record files)", start + total)]
+    parts, before = [], start
+    for name, until in marks:
+        parts.append(f"{name} {until - before:.2f} s")
+        before = until
+    print("  breakdown: " + ", ".join(parts))
 
 
 def _readme_command() -> None:

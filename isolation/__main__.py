@@ -1,8 +1,6 @@
 """``python -m isolation``: the command line (see :mod:`isolation.app.cli`)."""
 
-import sys
-
-from isolation.app.cli import main
+from isolation.app.cli import run
 
 if __name__ == "__main__":
-    sys.exit(main())
+    run()

@@ -32,6 +32,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
 
+from isolation.app.record_ahead import Ahead, start_ahead
 from isolation.app.record_folder import (  # noqa: F401 - re-exported
     LIBRARIES,
     RECORD_SPACE_MB,
@@ -62,9 +63,8 @@ from isolation.app.record_kernel import (  # noqa: F401 - re-exported
     _EarlyKernel,
     _execute,
     _execute_quietly,
-    _fast_schema_import,
+    _lean_imports,
     _stderr_to,
-    compute_ahead,
 )
 from isolation.app.record_steps import (  # noqa: F401 - re-exported
     SCOPE,
@@ -271,13 +271,20 @@ def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path
 
     ``kernel``: the workbook's kernel when it was started early (:class:`_EarlyKernel`)."""
     study_path, study = _prepare_inputs(study_file, overrides, folder)
-    # the feasibility workbook's results computed here while its kernel starts (isolation.study.head_start)
-    ahead = compute_ahead(folder, study_path, quick) if notebook.resolve() == WORKBOOK.resolve() else ""
+    # the feasibility workbook's results computed, and its figures drawn from the last one up, in a process of
+    # their own while the kernel starts and runs (isolation.app.record_ahead)
+    ahead = start_ahead(folder, study_path, quick) if notebook.resolve() == WORKBOOK.resolve() else Ahead(folder)
+    # Meanwhile this process loads what it needs next (papermill; the report's typesetter): it would
+    # otherwise only wait for the kernel.
+    _lean_imports()
+    if pdf:
+        from isolation.output.report import preload
+
+        preload(engine)
     try:
-        _execute(notebook, folder, study_path, quick, timeout, kernel, ahead)
+        _execute(notebook, folder, study_path, quick, timeout, kernel, ahead.file)
     finally:
-        if ahead:
-            (folder / ahead).unlink(missing_ok=True)
+        ahead.close()
     results = folder / "results.json"
     if not results.is_file():
         raise RunError("the workbook finished without writing results.json")
@@ -295,7 +302,7 @@ def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path
 
 
 def _headlines(results_path: Path) -> tuple:
-    from isolation.study.runner import load_results
+    from isolation.study.results import load_results
 
     try:
         return tuple(v.headline for v in load_results(results_path).verdicts)

@@ -25,7 +25,7 @@ from typing import NoReturn
 
 from isolation.errors import InputError, RunError
 
-__all__ = ["main"]
+__all__ = ["main", "run"]
 
 DONE, FAILED, BAD_INPUT = 0, 1, 2
 
@@ -295,6 +295,36 @@ def main(argv: list[str] | None = None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
     with _sigterm_as_interrupt():
         return _main(argv)
+
+
+def run() -> NoReturn:
+    """The ``isolation`` and ``python -m isolation`` commands: :func:`main`, then :func:`leave`."""
+    leave(main())
+
+
+def leave(code: int) -> NoReturn:
+    """End the process with exit code ``code`` without the interpreter's final teardown.
+
+    After a study run, freeing every loaded module one by one (numba's compiler, scipy,
+    matplotlib) takes 0.3-0.4 s, with nothing left to do: the command has closed its files.
+    What a normal exit does that matters still happens, in the same order: other non-daemon
+    threads are waited for, the exit handlers run (temporary folders, dask clusters), and the
+    standard streams are flushed.
+    """
+    import atexit
+    import os
+    import threading
+
+    for thread in threading.enumerate():
+        if thread is not threading.current_thread() and not thread.daemon:
+            thread.join()
+    atexit._run_exitfuncs()
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.flush()
+        except (OSError, ValueError):
+            pass
+    os._exit(code)
 
 
 @contextlib.contextmanager

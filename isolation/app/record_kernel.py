@@ -14,7 +14,9 @@ import functools
 import os
 import sys
 import tempfile
+import time
 from pathlib import Path
+from typing import Any
 
 from isolation.errors import RunError
 
@@ -61,30 +63,44 @@ KERNEL_ARGUMENTS = (
 )
 
 WARM_UP = ("import IPython.display, isolation.output.plots, isolation.output.report, isolation.output.tables, "
-           "isolation.study, isolation.study.runner", "isolation.study.runner.prepare()", "del IPython, isolation")
+           "isolation.study, isolation.study.head_start", "isolation.study.head_start.prepare_reading()",
+           "del IPython, isolation")
 """Lines the feasibility workbook's kernel runs as it starts (IPython ``exec_lines``): the modules its
-first cell imports and :func:`isolation.study.runner.prepare`, loaded while this process still checks the
-study; the names are deleted again, so the workbook's namespace is as if nothing ran."""
+first cell imports and those reading the results computed ahead needs
+(:func:`isolation.study.head_start.prepare_reading`), loaded while this process still runs the study;
+the names are deleted again, so the workbook's namespace is as if nothing ran. What only computing the
+study needs (numba's compiled loops) is left out: this process computes it."""
 
 
-def _fast_schema_import() -> None:
-    """Import jsonschema (nbformat's validator) without its optional IRI syntax checker.
+_SKIPPED_IMPORTS = {
+    # jsonschema (nbformat's validator) loads this IRI syntax checker when it is installed (jupyter-events
+    # asks for it); it builds some forty grammars at import, about 1.5 s. Notebooks never use that check.
+    "rfc3987_syntax": ("jsonschema",),
+    # papermill reads notebooks from HDFS through pyarrow when it is installed (a dask extra brings it):
+    # 0.1 s at import. Records read and write local files only.
+    "pyarrow": ("papermill",),
+}
 
-    jsonschema loads ``rfc3987_syntax`` when it is installed (jupyter-events asks for it), which
-    builds some forty grammars at import: about 1.5 s of every run. Notebooks never use that format
-    check, so it is skipped for this one import; a later ``import rfc3987_syntax`` works as usual.
+
+def _lean_imports() -> None:
+    """Import jsonschema and papermill without the optional modules a record never uses (:data:`_SKIPPED_IMPORTS`).
+
+    Each skipped module is treated as missing for this one import (which both libraries expect of
+    an optional module); a later ``import`` of it works as usual. Nothing is skipped for a module
+    another part of the program has already imported.
     """
-    if "jsonschema" in sys.modules or "rfc3987_syntax" in sys.modules:
-        return
-    # An import of it then raises ImportError, which jsonschema expects.
-    sys.modules["rfc3987_syntax"] = None  # type: ignore[assignment]
-    try:
-        import jsonschema  # noqa: F401
-    except ImportError:
-        pass
-    finally:
-        if "rfc3987_syntax" in sys.modules and sys.modules["rfc3987_syntax"] is None:
-            del sys.modules["rfc3987_syntax"]
+    for skipped, importers in _SKIPPED_IMPORTS.items():
+        if skipped in sys.modules or all(name in sys.modules for name in importers):
+            continue
+        sys.modules[skipped] = None  # type: ignore[assignment]  # an import of it raises ImportError
+        try:
+            for name in importers:
+                __import__(name)
+        except ImportError:
+            pass
+        finally:
+            if skipped in sys.modules and sys.modules[skipped] is None:
+                del sys.modules[skipped]
 
 
 class _EarlyKernel:
@@ -102,7 +118,8 @@ class _EarlyKernel:
 
         self._sync = run_sync
         self.log = tempfile.TemporaryFile()
-        self.km = AsyncKernelManager(kernel_name="python3")
+        # papermill's client of this kernel: ready without the stock 0.2 s wait (kernel_client.QuickReadyClient)
+        self.km = AsyncKernelManager(kernel_name="python3", client_class="isolation.app.kernel_client.QuickReadyClient")
         arguments = list(KERNEL_ARGUMENTS)
         if warm_up:
             arguments += [f"--IPKernelApp.exec_lines={line}" for line in WARM_UP]
@@ -121,14 +138,30 @@ class _EarlyKernel:
         except Exception:  # noqa: BLE001 - the run itself reports a kernel that cannot start
             return None
 
-    def enter(self, folder: Path) -> None:
-        """Make ``folder`` the kernel's working folder (papermill's ``cwd`` for a kernel it starts)."""
+    def enter(self, folder: Path, timeout: float = 60.0) -> None:
+        """Make ``folder`` the kernel's working folder (papermill's ``cwd`` for a kernel it starts).
+
+        Only the shell channel is used: the request waits there until the kernel has started
+        and its reply comes back there, so no IOPub subscription has to be made first.
+        """
+        from queue import Empty
+
         client = self.km.blocking_client()
-        client.start_channels()
+        client.start_channels(iopub=False, stdin=False, hb=False, control=False)
         try:
-            client.wait_for_ready(timeout=60)
-            reply = client.execute_interactive(f"__import__('os').chdir({str(folder)!r})", silent=True,
-                                               store_history=False, timeout=60)
+            request = client.execute(f"__import__('os').chdir({str(folder)!r})", silent=True, store_history=False)
+            deadline = time.monotonic() + timeout
+            reply = None
+            while reply is None:
+                if time.monotonic() > deadline or not self._sync(self.km.is_alive)():
+                    raise RunError("the workbook's kernel did not start: it did not answer within "
+                                   f"{timeout:.0f} s or stopped")
+                try:
+                    message = client.get_shell_msg(timeout=0.5)
+                except Empty:
+                    continue
+                if message["parent_header"].get("msg_id") == request:
+                    reply = message
         finally:
             client.stop_channels()
         if reply["content"].get("status") != "ok":
@@ -140,6 +173,12 @@ class _EarlyKernel:
             return
         try:
             if self.km.has_kernel:
+                # Killed and waited for here: jupyter_client's own wait looks every 0.1 s; it then
+                # finds the process gone and only cleans up.
+                process: Any = getattr(self.km.provisioner, "process", None)
+                with contextlib.suppress(Exception):  # gone already, or not a local process
+                    process.kill()
+                    process.wait(timeout=5)
                 self._sync(self.km.shutdown_kernel)(now=True)
         except Exception:  # noqa: BLE001 - a kernel already gone
             pass
@@ -214,7 +253,7 @@ def _papermill_engine() -> str:
 
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
                      kernel: _EarlyKernel | None = None, ahead: str = "") -> None:
-    _fast_schema_import()
+    _lean_imports()
     import papermill
 
     parameters = {"study_path": study_path, "output_dir": ".", "results_path": "results.json", "quick": bool(quick)}
@@ -230,22 +269,3 @@ def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool,
         extra_arguments=list(KERNEL_ARGUMENTS),
         km=None if kernel is None else kernel.km,
     )
-
-
-def compute_ahead(folder: Path, study_path: str, quick: bool) -> str:
-    """Run the study in this process while the workbook's kernel starts (:mod:`isolation.study.head_start`).
-
-    Returns the pickle's name in ``folder``, or "" when the study could not run here: the
-    workbook then runs it itself and shows the failure in the record.
-    """
-    from isolation.study import load_study
-    from isolation.study.head_start import AHEAD_FILE, save_ahead
-    from isolation.study.runner import run_study
-
-    try:
-        results = run_study(load_study(folder / study_path), quick=quick)
-        save_ahead(results, folder / AHEAD_FILE, folder / study_path, quick)
-    except Exception:  # noqa: BLE001 - the workbook runs it again and records what went wrong
-        (folder / AHEAD_FILE).unlink(missing_ok=True)
-        return ""
-    return AHEAD_FILE

@@ -46,6 +46,7 @@ from isolation.validate import one_of
 
 __all__ = [
     "render",
+    "preload",
     "latex_source",
     "title_block",
     "missing_tools",
@@ -90,6 +91,14 @@ class PdfUnavailableWarning(UserWarning):
 
 class TexMissingWarning(PdfUnavailableWarning):
     """XeLaTeX or pandoc is missing (and Typst, when it was asked for, could not run): HTML instead."""
+
+
+def preload(engine: str | None = None) -> None:
+    """Import ahead what :func:`render` needs with ``engine`` (default Typst): the record command
+    runs it while it waits for the workbook's kernel, so the report starts at once when the workbook ends."""
+    _nbformat()
+    if (engine or "typst") == "typst" and engine_problem("typst") is None:
+        import isolation.output.typeset.document  # noqa: F401
 
 
 def engine_problem(engine: str) -> str | None:

@@ -18,19 +18,33 @@ moment before are read, from the record's own hidden partial folder.
 from __future__ import annotations
 
 import hashlib
+import importlib
+import os
 import pickle
+import time
 from pathlib import Path
+
+import numpy as np
 
 from isolation import __version__
 from isolation.files import write_bytes_atomic
 
-__all__ = ["AHEAD_FILE", "save_ahead", "results_of"]
+__all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "ahead_key", "save_ahead", "results_of",
+           "prepare_reading", "process_alive"]
 
 AHEAD_FILE = ".results-ahead.pickle"
 """Name of the pickle in the record folder."""
 
+PENDING_FILE = ".results-ahead.pending"
+"""Beside the pickle while another process still computes it: empty, then that process's id."""
 
-def _key(study_path: str | Path, quick: bool) -> tuple:
+UNNAMED_WAIT = 30.0
+"""Longest wait for results whose process has not named itself in :data:`PENDING_FILE`. [s]"""
+
+
+def ahead_key(study_path: str | Path, quick: bool) -> tuple:
+    """What results computed ahead are valid for: package version, SHA-256 of the study file's bytes
+    and ``quick``. [-]"""
     digest = hashlib.sha256(Path(study_path).read_bytes()).hexdigest()
     return ("isolation study results", __version__, digest, bool(quick))
 
@@ -49,7 +63,7 @@ def save_ahead(results, path: str | Path, study_path: str | Path, quick: bool) -
     quick : bool
         The ``quick`` option they were computed with. [-]
     """
-    payload = {"key": _key(study_path, quick), "results": results}
+    payload = {"key": ahead_key(study_path, quick), "results": results}
     return write_bytes_atomic(path, pickle.dumps(payload, protocol=pickle.HIGHEST_PROTOCOL))
 
 
@@ -65,13 +79,69 @@ def results_of(study, *, study_path: str | Path, quick: bool = False, precompute
     quick : bool
         Small motion suite (as :func:`isolation.study.runner.run_study`). [-]
     precomputed : str or Path
-        Pickle written by :func:`save_ahead`; empty, missing, or made for another study file,
-        option or package version: the results are computed here. [-]
+        Pickle written by :func:`save_ahead`, waited for while another process still computes it
+        (:data:`PENDING_FILE` beside it, that process running); empty, missing, or made for another
+        study file, option or package version: the results are computed here. [-]
     """
+    if precomputed:
+        _await_ahead(Path(precomputed))
     if precomputed and Path(precomputed).is_file():
         payload = pickle.loads(Path(precomputed).read_bytes())
-        if isinstance(payload, dict) and payload.get("key") == _key(study_path, quick):
+        if isinstance(payload, dict) and payload.get("key") == ahead_key(study_path, quick):
             return payload["results"]
     from isolation.study.runner import run_study
 
     return run_study(study, quick=quick)
+
+
+READING_MODULES = ("isolation.study.results", "isolation.verdict", "isolation.performance.comparison",
+                   "isolation.motions.suite", "isolation.motions.pair_suite", "isolation.dynamics.response",
+                   "isolation.dynamics.shear_building", "isolation.dynamics.oscillator", "isolation.design",
+                   "isolation.site", "isolation.codes.asce7", "isolation.codes.eurocode")
+"""Modules whose classes results computed ahead hold (what unpickling them imports)."""
+
+
+def prepare_reading() -> None:
+    """Import what reading results computed ahead needs (:data:`READING_MODULES`) and load the compiled
+    loop the report's figures use (the roof response spectra: numba's cached loop of
+    :func:`isolation.motions.peaks.peak_abs`), but not what computing the results needs.
+
+    The workbook's kernel runs it as it starts, beside the command's run of the study
+    (:data:`isolation.app.record_kernel.WARM_UP`); results never depend on it.
+    """
+    for name in READING_MODULES:
+        importlib.import_module(name)
+    from isolation.dynamics.oscillator import response_spectrum
+
+    response_spectrum(np.zeros((1, 8)), 0.01, [0.5])
+
+
+def _await_ahead(path: Path) -> None:
+    """Return once ``path`` exists, or once no process computes it any more (:data:`PENDING_FILE`)."""
+    pending = path.with_name(PENDING_FILE)
+    deadline = time.monotonic() + UNNAMED_WAIT
+    while not path.exists():
+        try:
+            named = pending.read_text().strip()
+        except OSError:
+            return
+        if named.isdigit() and not process_alive(int(named)):
+            return
+        if not named and time.monotonic() > deadline:
+            return
+        time.sleep(0.005)
+
+
+def process_alive(pid: int) -> bool:
+    """True while process ``pid`` runs; one that has ended but was not yet reaped (a zombie) has ended. [-]"""
+    try:
+        state = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()[0]
+    except (OSError, IndexError):
+        try:
+            os.kill(pid, 0)
+        except ProcessLookupError:
+            return False
+        except PermissionError:
+            return True
+        return not Path("/proc").is_dir()  # /proc without this process: it has ended
+    return state not in ("Z", "X")

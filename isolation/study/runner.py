@@ -64,7 +64,7 @@ from isolation.study.suite_settings import QUICK, suite_options  # noqa: F401 - 
 
 __all__ = ["StudyResults", "AlternativeResults", "run_study", "load_results", "site_spectrum",
            "isolation_system", "superstructure", "export_suite", "check_study", "fixed_base_period", "SCOPE",
-           "design_study", "suite_options", "prepare"]
+           "design_study", "suite_options"]
 
 _history_isolator = history_isolator  # the earlier private name, kept importable
 
@@ -85,35 +85,6 @@ def _pair_suite(study: Study, spectrum, periods: tuple, quick: bool, progress: b
 
     options, _ = suite_options(study, spectrum, periods, quick, progress)
     return matched_pairs(spectrum, **options)
-
-
-def prepare() -> None:
-    """Load ahead what :func:`run_study` and the report's figures need on their first call.
-
-    The modules :func:`run_study` imports as it goes, the unit registry, and the compiled loops
-    from numba's on-disk cache (a tiny motion through a yielding two-storey building on bilinear
-    and friction-pendulum isolators, and one response spectrum). Workbook kernels run it while
-    they start, beside the checks of the study in the calling process
-    (:data:`isolation.app.record_kernel.WARM_UP`); results never depend on it.
-    """
-    import importlib
-
-    for name in ("isolation.motions", "isolation.dynamics.history", "isolation.performance.comparison",
-                 "isolation.loss", "isolation.verdict"):
-        importlib.import_module(name)
-    from isolation.bearings import Bilinear, FrictionPendulum
-    from isolation.dynamics.history import run_cases
-    from isolation.dynamics.structure import ShearBuilding
-    from isolation.motions import response_spectrum
-    from isolation.units import convert
-
-    convert(1.0, "m", "mm")
-    motion = 0.3 * np.sin(np.linspace(0.0, 12.0, 40))
-    response_spectrum(np.stack([motion, motion]), 0.02, [0.5, 1.0])
-    building = ShearBuilding((100.0, 100.0), (2.0e5, 2.0e5), (3.0, 3.0), yield_shears=(300.0, 200.0))
-    isolators = {"lower": Bilinear(2000.0, 100.0, 50.0),
-                 "upper": FrictionPendulum(radius=2.0, friction=0.06, friction_slow=0.03)}
-    run_cases(building, 100.0, isolators, np.stack([motion, motion]), 0.02)
 
 
 @dataclass(frozen=True)

@@ -93,6 +93,29 @@ def test_module_entry_point_help():
     assert "licensed structural engineer" in done.stdout
 
 
+def test_module_entry_point_bad_input_is_one_line_and_exit_2(tmp_path):
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[project\n")
+    done = subprocess.run([sys.executable, "-m", "isolation", "check", str(bad)], capture_output=True, text=True,
+                          cwd=ROOT, timeout=60)
+    assert done.returncode == 2
+    assert len(done.stderr.strip().splitlines()) == 1 and "Traceback" not in done.stderr
+
+
+def test_leaving_waits_for_threads_runs_exit_handlers_and_flushes():
+    # What a normal interpreter exit does and the fast exit must still do (Python docs: atexit,
+    # threading: "the entire Python program exits when only daemon threads are left").
+    script = ("import atexit, threading, time, sys\n"
+              "from isolation.app.cli import leave\n"
+              "atexit.register(lambda: print('handler ran'))\n"
+              "threading.Thread(target=lambda: (time.sleep(0.3), print('thread done'))).start()\n"
+              "print('unflushed', end='')\n"
+              "leave(3)\n")
+    done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, cwd=ROOT, timeout=60)
+    assert done.returncode == 3
+    assert done.stdout == "unflushedthread done\nhandler ran\n"
+
+
 def test_batch_forwards_its_arguments(monkeypatch):
     import isolation.app.batch
 

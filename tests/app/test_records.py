@@ -285,14 +285,16 @@ def test_render_refuses_failed_or_foreign_folders(tmp_path):
 
 def test_the_kernel_started_early_runs_in_the_record_folder_with_a_clean_namespace(tmp_path, monkeypatch):
     # The record's kernel starts before the study is checked and loads the first cell's modules
-    # (isolation.records.WARM_UP): the workbook must still run in the record folder (papermill's
-    # cwd) and see none of the warm-up's names, only its loaded modules.
+    # (isolation.app.record_kernel.WARM_UP: those reading results computed ahead need,
+    # isolation.study.head_start.READING_MODULES): the workbook must still run in the record folder
+    # (papermill's cwd) and see none of the warm-up's names, only its loaded modules.
     from isolation.app import calc_records as records
 
     notebook = json.loads(WORKBOOK.read_text())
     probe = ("import json, os, sys\n"
-             "json.dump({'names': sorted(k for k in globals() if not k.startswith('_')),\n"
-             "           'loaded': 'isolation.dynamics.history' in sys.modules, 'cwd': os.getcwd()},\n"
+             "from isolation.study.head_start import READING_MODULES\n"
+             "json.dump({'names': sorted(k for k in globals() if not k.startswith('_') and k != 'READING_MODULES'),\n"
+             "           'loaded': all(m in sys.modules for m in READING_MODULES), 'cwd': os.getcwd()},\n"
              "          open('probe.json', 'w'))")
     notebook["cells"].insert(2, {"cell_type": "code", "execution_count": None, "id": "probe", "metadata": {},
                                  "outputs": [], "source": probe})

@@ -5,6 +5,10 @@ These are wiring checks of a cache (requirement: the record command's head start
 change what a workbook shows); the numbers themselves are checked by the study tests.
 """
 
+import os
+import subprocess
+import threading
+import time
 from pathlib import Path
 
 import pytest
@@ -54,15 +58,65 @@ def test_other_study_bytes_option_or_a_missing_file_compute_again(tmp_path, comp
     assert len(computed_here) == 4
 
 
-def test_compute_ahead_that_fails_leaves_nothing_and_lets_the_workbook_run(tmp_path, monkeypatch):
+def test_results_still_being_computed_are_waited_for(tmp_path, computed_here):
+    study_file = tmp_path / "study.toml"
+    study_file.write_bytes(DEMO.read_bytes())
+    ahead = tmp_path / head_start.AHEAD_FILE
+    (tmp_path / head_start.PENDING_FILE).write_text(str(os.getpid()))  # this process computes them
+    late = threading.Timer(0.3, head_start.save_ahead, args=({"stands for": "results"}, ahead, study_file, False))
+    late.start()
+    started = time.monotonic()
+    found = head_start.results_of("s", study_path=study_file, precomputed=ahead)
+    assert found == {"stands for": "results"} and computed_here == []
+    assert time.monotonic() - started >= 0.25
+
+
+def test_results_whose_process_ended_or_gave_up_are_computed_here(tmp_path, computed_here):
+    study_file = tmp_path / "study.toml"
+    study_file.write_bytes(DEMO.read_bytes())
+    ahead = tmp_path / head_start.AHEAD_FILE
+    ended = subprocess.Popen(["true"])
+    ended.wait()
+    (tmp_path / head_start.PENDING_FILE).write_text(str(ended.pid))
+    started = time.monotonic()
+    assert head_start.results_of("s", study_path=study_file, precomputed=ahead) == "computed here"
+    (tmp_path / head_start.PENDING_FILE).unlink()  # it failed: the marker went, no pickle came
+    assert head_start.results_of("s", study_path=study_file, precomputed=ahead) == "computed here"
+    assert time.monotonic() - started < 5.0
+
+
+@pytest.mark.skipif(not hasattr(os, "fork"), reason="needs os.fork")
+def test_a_process_that_ended_counts_as_ended_before_it_is_reaped():
+    assert head_start.process_alive(os.getpid())
+    pid = os.fork()
+    if pid == 0:
+        os._exit(0)
+    deadline = time.monotonic() + 10.0
+    while head_start.process_alive(pid) and time.monotonic() < deadline:  # a zombie until waited for
+        time.sleep(0.01)
+    assert not head_start.process_alive(pid)
+    os.waitpid(pid, 0)
+    assert not head_start.process_alive(pid)
+
+
+@pytest.mark.skipif(not hasattr(os, "fork"), reason="the head start forks")
+def test_a_head_start_that_fails_leaves_nothing_and_lets_the_workbook_run(tmp_path, monkeypatch):
     import isolation.study.runner as runner
-    from isolation.app import record_kernel
+    from isolation.app import record_ahead
 
     (tmp_path / "study.toml").write_bytes(DEMO.read_bytes())
 
     def failing(study, *, quick=False):
         raise RuntimeError("no memory left")
 
-    monkeypatch.setattr(runner, "run_study", failing)
-    assert record_kernel.compute_ahead(tmp_path, "study.toml", quick=True) == ""
-    assert not (tmp_path / head_start.AHEAD_FILE).exists()
+    monkeypatch.setattr(runner, "run_study", failing)  # the forked child inherits it
+    # fork even if the test process runs a helper thread of an earlier test (the command line runs none)
+    monkeypatch.setattr(record_ahead, "forking", lambda: hasattr(os, "fork"))
+    ahead = record_ahead.start_ahead(tmp_path, "study.toml", quick=True)
+    assert ahead.file == head_start.AHEAD_FILE and ahead.pid
+    # the workbook waits for the child, sees it fail, and computes the results itself
+    monkeypatch.setattr(runner, "run_study", lambda study, *, quick=False: "computed here")
+    assert head_start.results_of("s", study_path=tmp_path / "study.toml", quick=True,
+                                 precomputed=tmp_path / ahead.file) == "computed here"
+    ahead.close()
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["study.toml"]

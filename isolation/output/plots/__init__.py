@@ -20,9 +20,12 @@ Modules: :mod:`~isolation.output.plots.common` (canvas, colours, captions),
 :mod:`~isolation.output.plots.design` (site, bearings, equivalent-linear answer,
 motion suite), :mod:`~isolation.output.plots.history` (response histories),
 :mod:`~isolation.output.plots.yielding` (ductility, residual drift, shear over strength),
-:mod:`~isolation.output.plots.plan` (bidirectional analysis: orbits, plan demand).
+:mod:`~isolation.output.plots.plan` (bidirectional analysis: orbits, plan demand),
+:mod:`~isolation.output.plots.report_figures` (the feasibility report's figures by key, in order;
+:mod:`isolation.output.figure_sharing` has them drawn by two processes at once).
 """
 
+from isolation.output.figure_sharing import figures_of
 from isolation.output.plots.common import COLOURS, SERIES_COLOURS, WIDTH, AxisUnit, axis_unit, captioned, figure_png
 from isolation.output.plots.design import (
                                     equivalent_linear_bounds,
@@ -48,9 +51,14 @@ from isolation.output.plots.history import (
 )
 from isolation.output.plots.loss import loss_curves
 from isolation.output.plots.plan import bearing_orbits, pairs_figure, plan_demand
+from isolation.output.plots.report_figures import FigureList, FigureOrder, feasibility_figures
 from isolation.output.plots.yielding import yielding_profiles
 
 __all__ = [
+    "FigureList",
+    "FigureOrder",
+    "feasibility_figures",
+    "figures_of",
     "bearing_orbits",
     "plan_demand",
     "pairs_figure",
