@@ -29,6 +29,7 @@ import tempfile
 import threading
 import time
 from dataclasses import dataclass, field
+from functools import partial
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -274,15 +275,15 @@ def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path
     # the feasibility workbook's results computed, and its figures drawn from the last one up, in a process of
     # their own while the kernel starts and runs (isolation.app.record_ahead)
     ahead = start_ahead(folder, study_path, quick) if notebook.resolve() == WORKBOOK.resolve() else Ahead(folder)
-    # Meanwhile this process loads what it needs next (papermill; the report's typesetter): it would
-    # otherwise only wait for the kernel.
-    _lean_imports()
+    # Once the kernel is ready, and while the workbook's first cell would only wait for the results, this
+    # process loads what it needs after the workbook: the report's typesetter.
+    meanwhile = None
     if pdf:
         from isolation.output.report import preload
 
-        preload(engine)
+        meanwhile = partial(preload, engine)
     try:
-        _execute(notebook, folder, study_path, quick, timeout, kernel, ahead.file)
+        _execute(notebook, folder, study_path, quick, timeout, kernel, ahead.file, meanwhile)
     finally:
         ahead.close()
     results = folder / "results.json"

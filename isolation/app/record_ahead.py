@@ -10,7 +10,7 @@ pickle (:func:`isolation.study.head_start.results_of`), and its figures come fro
 process drew them first. What the child does not finish, the workbook does itself: a child
 that fails or is stopped leaves no pickle and no claim unanswered.
 
-Only where a process forks cheaply and safely (:func:`forking`: Linux, no other thread running, as
+Only where a process forks cheaply and safely (:func:`forking`: Linux, no other thread at work, as
 in the command line and the batch's local worker processes): elsewhere there is no head start,
 and the workbook computes and draws everything.
 """
@@ -34,9 +34,15 @@ STOP_WAIT = 5.0
 
 
 def forking() -> bool:
-    """True where the head start runs: on Linux, in a process that runs no other thread (a fork copies
-    only the calling thread: a lock another thread held would stay held in the child)."""
-    return sys.platform.startswith("linux") and hasattr(os, "fork") and threading.active_count() == 1
+    """True where the head start runs: on Linux, in a process whose other threads, if any, are daemon
+    helpers (a progress bar's monitor, a kernel client's heartbeat, the reaper of an earlier head
+    start). A fork copies only the calling thread, so a lock another thread held at that moment
+    would stay held in the child: a process doing work in other threads (a dask worker) gets no
+    head start."""
+    if not (sys.platform.startswith("linux") and hasattr(os, "fork")):
+        return False
+    current = threading.current_thread()
+    return all(thread is current or thread.daemon for thread in threading.enumerate())
 
 
 class Ahead:

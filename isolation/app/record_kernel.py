@@ -14,7 +14,9 @@ import functools
 import os
 import sys
 import tempfile
+import threading
 import time
+from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
@@ -195,13 +197,16 @@ class _EarlyKernel:
 
 
 def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
-             kernel: _EarlyKernel | None = None, ahead: str = "") -> None:
+             kernel: _EarlyKernel | None = None, ahead: str = "", meanwhile: Callable[[], Any] | None = None) -> None:
+    """Run the workbook in ``folder`` on ``kernel`` (or one papermill starts); ``meanwhile`` runs once the
+    kernel is ready, after papermill has started the workbook's first cells (results computed ahead:
+    the first cell waits for them)."""
     log = folder / KERNEL_LOG
     try:
         with _stderr_to(log):
             if kernel is not None:
                 kernel.enter(folder)
-            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel, ahead)
+            _execute_quietly(notebook, folder, study_path, quick, timeout, kernel, ahead, meanwhile)
     finally:
         if kernel is not None:
             kernel.close(log)
@@ -210,6 +215,12 @@ def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout
                 log.unlink()
         except OSError:
             pass
+
+
+def _quietly(work: Callable[[], Any]) -> None:
+    """Run ``work``, which only prepares what comes next: a failure shows when that comes."""
+    with contextlib.suppress(Exception):
+        work()
 
 
 SAVE_INTERVAL = 5.0
@@ -252,9 +263,13 @@ def _papermill_engine() -> str:
 
 
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
-                     kernel: _EarlyKernel | None = None, ahead: str = "") -> None:
+                     kernel: _EarlyKernel | None = None, ahead: str = "",
+                     meanwhile: Callable[[], Any] | None = None) -> None:
     _lean_imports()
     import papermill
+
+    if meanwhile is not None:  # beside papermill, which mostly waits for the kernel
+        threading.Thread(target=_quietly, args=(meanwhile,), name="isolation-meanwhile", daemon=True).start()
 
     parameters = {"study_path": study_path, "output_dir": ".", "results_path": "results.json", "quick": bool(quick)}
     if ahead:  # results computed while the kernel started (isolation.study.head_start)

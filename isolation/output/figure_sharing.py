@@ -150,9 +150,11 @@ def open_shared(folder: str | Path, study_path: str | Path, quick: bool, drawer:
 def draw_ahead(shared: SharedFigures, figures: FigureList) -> int:
     """Draw a report's figures from the last one up into ``shared`` (the drawing process's side).
 
-    Each figure is claimed first; one the kernel claimed is left to it. The folder's drawing
-    marker is removed whatever happens, so the kernel never waits for a figure that will not
-    come. Returns the number of figures drawn here.
+    Figures whose drawing computes (``FigureOrder.computes``: response spectra, whose compiled
+    loop this process has loaded and the kernel has not) come first, then the others, each group
+    from the last one up. Each figure is claimed first; one the kernel claimed is left to it. The
+    folder's drawing marker is removed whatever happens, so the kernel never waits for a figure
+    that will not come. Returns the number of figures drawn here.
 
     Parameters
     ----------
@@ -163,7 +165,8 @@ def draw_ahead(shared: SharedFigures, figures: FigureList) -> int:
     """
     drawn = 0
     try:
-        for order in reversed(figures.orders):
+        last_first = figures.orders[::-1]
+        for order in [o for o in last_first if o.computes] + [o for o in last_first if not o.computes]:
             if shared.claim(order.key):
                 shared.put(order.key, order.png())
                 drawn += 1

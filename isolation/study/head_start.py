@@ -24,8 +24,6 @@ import pickle
 import time
 from pathlib import Path
 
-import numpy as np
-
 from isolation import __version__
 from isolation.files import write_bytes_atomic
 
@@ -102,18 +100,13 @@ READING_MODULES = ("isolation.study.results", "isolation.verdict", "isolation.pe
 
 
 def prepare_reading() -> None:
-    """Import what reading results computed ahead needs (:data:`READING_MODULES`) and load the compiled
-    loop the report's figures use (the roof response spectra: numba's cached loop of
-    :func:`isolation.motions.peaks.peak_abs`), but not what computing the results needs.
-
-    The workbook's kernel runs it as it starts, beside the command's run of the study
-    (:data:`isolation.app.record_kernel.WARM_UP`); results never depend on it.
-    """
+    """Import what reading results computed ahead needs (:data:`READING_MODULES`), not what computing
+    them needs (numba's compiled loops): the workbook's kernel runs it as it starts, beside the
+    command's run of the study (:data:`isolation.app.record_kernel.WARM_UP`); results never depend on it.
+    The figures that compute response spectra are drawn first by the process that ran the study
+    (:func:`isolation.output.figure_sharing.draw_ahead`), which has those loops loaded."""
     for name in READING_MODULES:
         importlib.import_module(name)
-    from isolation.dynamics.oscillator import response_spectrum
-
-    response_spectrum(np.zeros((1, 8)), 0.01, [0.5])
 
 
 def _await_ahead(path: Path) -> None:

@@ -68,4 +68,7 @@ def test_figures_of_a_record_are_those_drawn_afresh(tmp_path):
     for (caption, png), order in zip(made["shown"], figures.orders, strict=True):
         assert base64.b64decode(png) == order.png(), caption
     assert 0 <= made["drawn_ahead"] <= len(figures)
+    # the figures whose drawing computes spectra (the helper draws them first) are the floor spectra
+    computing = [order.key for order in figures.orders if order.computes]
+    assert computing and all(key[-1] == "floor spectra" for key in computing)
     print(f"figures drawn by the helper: {made['drawn_ahead']} of {len(figures)}")

@@ -34,8 +34,8 @@ def _tiny(label: str, log: list | None = None):
     return make
 
 
-def _order(label: str, log: list | None = None) -> FigureOrder:
-    return FigureOrder((label,), f"caption {label}", _tiny(label, log), dpi=40)
+def _order(label: str, log: list | None = None, computes: bool = False) -> FigureOrder:
+    return FigureOrder((label,), f"caption {label}", _tiny(label, log), dpi=40, computes=computes)
 
 
 def _never() -> Figure:
@@ -92,11 +92,12 @@ def test_a_figure_claimed_after_the_drawer_finished_is_drawn_here(tmp_path, stud
 
 def test_draw_ahead_draws_from_the_last_figure_up_and_leaves_the_kernels_figures(tmp_path, study):
     drawn: list = []
-    figures = FigureList([_order(name, drawn) for name in ("first", "second", "third", "fourth")])
+    figures = FigureList([_order(name, drawn, computes=name == "third")
+                          for name in ("first", "second", "third", "fourth", "fifth")])
     shared = open_shared(tmp_path / "shared", study, False)
     assert shared.claim(("first",))  # the kernel began at the top
-    assert draw_ahead(shared, figures) == 3
-    assert drawn == ["fourth", "third", "second"]
+    assert draw_ahead(shared, figures) == 4
+    assert drawn == ["third", "fifth", "fourth", "second"]  # the computing figure first
     assert not shared.drawing()  # its marker is gone: nobody waits for it any more
     for order in figures.orders[1:]:
         assert shared.take(order.key) == order.png()

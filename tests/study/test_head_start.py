@@ -7,6 +7,7 @@ change what a workbook shows); the numbers themselves are checked by the study t
 
 import os
 import subprocess
+import sys
 import threading
 import time
 from pathlib import Path
@@ -110,7 +111,7 @@ def test_a_head_start_that_fails_leaves_nothing_and_lets_the_workbook_run(tmp_pa
         raise RuntimeError("no memory left")
 
     monkeypatch.setattr(runner, "run_study", failing)  # the forked child inherits it
-    # fork even if the test process runs a helper thread of an earlier test (the command line runs none)
+    # fork even if an earlier test left a thread at work in this process (the command line runs none)
     monkeypatch.setattr(record_ahead, "forking", lambda: hasattr(os, "fork"))
     ahead = record_ahead.start_ahead(tmp_path, "study.toml", quick=True)
     assert ahead.file == head_start.AHEAD_FILE and ahead.pid
@@ -120,3 +121,22 @@ def test_a_head_start_that_fails_leaves_nothing_and_lets_the_workbook_run(tmp_pa
                                  precomputed=tmp_path / ahead.file) == "computed here"
     ahead.close()
     assert sorted(p.name for p in tmp_path.iterdir()) == ["study.toml"]
+
+
+@pytest.mark.skipif(not sys.platform.startswith("linux"), reason="the head start runs on Linux only")
+def test_no_head_start_beside_a_thread_at_work():
+    from isolation.app import record_ahead
+
+    stop = threading.Event()
+    worker = threading.Thread(target=stop.wait)  # not a daemon: work a fork would cut in half
+    helper = threading.Thread(target=stop.wait, daemon=True)
+    before = record_ahead.forking()  # True unless an earlier test left a thread at work here
+    helper.start()
+    try:
+        assert record_ahead.forking() == before  # a daemon helper changes nothing
+        worker.start()
+        assert not record_ahead.forking()
+    finally:
+        stop.set()
+        worker.join() if worker.is_alive() else None
+        helper.join()

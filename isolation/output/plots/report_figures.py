@@ -54,12 +54,16 @@ class FigureOrder:
         Draws the figure: no arguments, returns a matplotlib Figure. [-]
     dpi : int
         Resolution of its PNG. [dots per inch]
+    computes : bool
+        Drawing it computes response spectra (numba's compiled loop): a process that has the loop
+        loaded draws such figures first (:func:`isolation.output.figure_sharing.draw_ahead`). [-]
     """
 
     key: Key
     caption: str
     make: Callable[[], Figure]
     dpi: int = 200
+    computes: bool = False
 
     def png(self) -> bytes:
         """The figure drawn, as PNG bytes (:func:`isolation.output.plots.figure_png`)."""
@@ -132,7 +136,8 @@ def feasibility_figures(results: Any, study: Any) -> FigureList:
     orders: list[FigureOrder] = []
 
     def add(key: Key, caption: str, plot: Callable[..., Figure], *args: Any, **kwargs: Any) -> None:
-        orders.append(FigureOrder(key, caption, partial(plot, *args, **kwargs)))
+        orders.append(FigureOrder(key, caption, partial(plot, *args, **kwargs),
+                                  computes=plot is history_floor_spectra))
 
     if results.loss:
         add(("loss",), "Expected repair cost against shaking intensity: mean and 10 % to 90 % band, "
