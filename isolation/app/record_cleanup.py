@@ -9,7 +9,6 @@ leftovers, :func:`clean_records` removes them. Re-exported from
 
 from __future__ import annotations
 
-import os
 import platform
 import shutil
 import tempfile
@@ -18,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from isolation.app.record_folder import _now, _write_json, read_manifest
+from isolation.study.head_start import process_alive
 
 __all__ = ["ABANDONED", "mark_stale_partials", "stale_items", "clean_records"]
 
@@ -26,15 +26,7 @@ ABANDONED = ("abandoned: the run stopped before its record was complete (killed,
 
 
 def _pid_alive(pid: Any) -> bool:
-    if not isinstance(pid, int) or pid <= 0:
-        return False
-    try:
-        os.kill(pid, 0)
-    except ProcessLookupError:
-        return False
-    except PermissionError:
-        return True
-    return True
+    return isinstance(pid, int) and pid > 0 and process_alive(pid)
 
 
 def _is_stale(partial: Path) -> bool:
