@@ -31,7 +31,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from isolation.files import write_bytes_atomic
-from isolation.study.head_start import ahead_key, process_alive
+from isolation.study.head_start import ahead_key, process_alive, was_read
 
 if TYPE_CHECKING:
     from isolation.output.plots.report_figures import FigureList, FigureOrder
@@ -190,12 +190,13 @@ def figures_of(results: Any, study: Any, *, study_path: str | Path, quick: bool 
     precomputed : str or Path
         The results pickle of the record command (see
         :func:`isolation.study.head_start.results_of`); its folder holds :data:`FOLDER`.
-        Empty, or a folder drawn for other results: every figure is drawn here. [-]
+        Empty, a pickle ``results`` did not come from, or a folder drawn for other results:
+        every figure is drawn here. [-]
     """
     from isolation.output.plots.report_figures import feasibility_figures
 
     figures = feasibility_figures(results, study)
-    if not precomputed:
+    if not was_read(precomputed):  # results computed here: figures drawn elsewhere might not fit them
         return figures
     shared = SharedFigures(Path(precomputed).parent / FOLDER)
     if shared.key() != list(ahead_key(study_path, quick)):

@@ -28,7 +28,7 @@ from isolation import __version__
 from isolation.files import write_bytes_atomic
 
 __all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "ahead_key", "save_ahead", "results_of",
-           "prepare_reading", "process_alive"]
+           "was_read", "prepare_reading", "process_alive"]
 
 AHEAD_FILE = ".results-ahead.pickle"
 """Name of the pickle in the record folder."""
@@ -86,6 +86,7 @@ def results_of(study, *, study_path: str | Path, quick: bool = False, precompute
     if precomputed and Path(precomputed).is_file():
         payload = pickle.loads(Path(precomputed).read_bytes())
         if isinstance(payload, dict) and payload.get("key") == ahead_key(study_path, quick):
+            _READ.add(Path(precomputed).resolve())
             return payload["results"]
     from isolation.study.runner import run_study
 
@@ -107,6 +108,15 @@ def prepare_reading() -> None:
     (:func:`isolation.output.figure_sharing.draw_ahead`), which has those loops loaded."""
     for name in READING_MODULES:
         importlib.import_module(name)
+
+
+_READ: set = set()  # pickles results_of has returned results from, in this process
+
+
+def was_read(precomputed: str | Path) -> bool:
+    """True when :func:`results_of` returned the results of the pickle ``precomputed`` in this process
+    (so whatever else was made from those results, such as figures drawn ahead, fits them). [-]"""
+    return bool(precomputed) and Path(precomputed).resolve() in _READ
 
 
 def _await_ahead(path: Path) -> None:

@@ -19,7 +19,7 @@ from matplotlib.figure import Figure
 from isolation.output import figure_sharing
 from isolation.output.figure_sharing import SharedFigures, draw_ahead, figures_of, open_shared
 from isolation.output.plots.report_figures import FigureList, FigureOrder
-from isolation.study.head_start import ahead_key
+from isolation.study import head_start
 
 
 def _tiny(label: str, log: list | None = None):
@@ -121,24 +121,28 @@ def test_figure_keys_are_unique_and_named_in_errors():
         FigureList([_order("a")])["missing"]
 
 
-def test_figures_of_shares_the_folder_only_for_the_same_results(tmp_path, study, monkeypatch):
-    pickle = tmp_path / ".results-ahead.pickle"
+def test_figures_of_shares_the_folder_only_for_the_results_read_ahead(tmp_path, study, monkeypatch):
+    pickle = tmp_path / head_start.AHEAD_FILE
     folder = tmp_path / figure_sharing.FOLDER
     monkeypatch.setattr("isolation.output.plots.report_figures.feasibility_figures",
                         lambda results, study: FigureList([FigureOrder(("only",), "c", _never)]))
     drawer = open_shared(folder, study, False)
     assert drawer.claim(("only",))
     drawer.put(("only",), b"drawn ahead")
+    head_start.save_ahead({"stands for": "results"}, pickle, study, False)
 
+    # results computed here although the pickle is there (say it could not be read): figures drawn here
+    with pytest.raises(AssertionError, match="drawn here"):
+        figures_of(None, None, study_path=study, quick=False, precomputed=pickle)["only"]._repr_png_()
+    # the workbook read its results from the pickle: the folder's figures fit them
+    assert head_start.results_of("s", study_path=study, precomputed=pickle) == {"stands for": "results"}
     shared = figures_of(None, None, study_path=study, quick=False, precomputed=pickle)
     assert shared["only"]._repr_png_()[0] == b"drawn ahead"
-    # another option, or no results computed ahead: every figure is drawn here
-    for other in (figures_of(None, None, study_path=study, quick=True, precomputed=pickle),
-                  figures_of(None, None, study_path=study, quick=False)):
-        with pytest.raises(AssertionError, match="drawn here"):
-            other["only"]._repr_png_()
-    # the study file changed after the figures were drawn
-    assert json.loads((folder / "key.json").read_text()) == list(ahead_key(study, False))
-    study.write_text("a = 2\n")
+    # no results computed ahead: every figure is drawn here
+    with pytest.raises(AssertionError, match="drawn here"):
+        figures_of(None, None, study_path=study, quick=False)["only"]._repr_png_()
+    # a folder drawn for another study file (its key differs): drawn here
+    assert json.loads((folder / "key.json").read_text()) == list(head_start.ahead_key(study, False))
+    (folder / "key.json").write_text(json.dumps(list(head_start.ahead_key(study, True))))
     with pytest.raises(AssertionError, match="drawn here"):
         figures_of(None, None, study_path=study, quick=False, precomputed=pickle)["only"]._repr_png_()
