@@ -17,7 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from isolation.app.record_folder import _now, _write_json, read_manifest
-from isolation.study.head_start import process_alive
+from isolation.processes import process_alive
 
 __all__ = ["ABANDONED", "mark_stale_partials", "stale_items", "clean_records"]
 

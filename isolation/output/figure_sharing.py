@@ -31,7 +31,8 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from isolation.files import write_bytes_atomic
-from isolation.study.head_start import ahead_key, process_alive, was_read
+from isolation.processes import process_alive
+from isolation.study.head_start import ahead_key, was_read
 
 if TYPE_CHECKING:
     from isolation.output.plots.report_figures import FigureList, FigureOrder

@@ -1,15 +1,17 @@
 """Study results computed ahead of the workbook's kernel (the record command's head start).
 
 The record command (:func:`isolation.app.calc_records.run_record`) starts the
-workbook's kernel first; its start-up takes a couple of seconds on another
-core. Meanwhile the command runs the same :func:`isolation.study.runner.run_study`
-on the same study file and pickles the results into the record folder
-(:func:`save_ahead`). The workbook's first cell then reads them
-(:func:`results_of`) instead of computing them again, but only when the pickle
-was made for this very study file (SHA-256 of its bytes), the same ``quick``
-option and this version of the package; otherwise, or when the file is missing
-(a workbook run again later, or run by hand), it computes them itself. The
-pickle is removed once the workbook has run: it is never part of a record.
+workbook's kernel first; its start-up takes a second or two on another core.
+Meanwhile a process the command forks (:mod:`isolation.app.record_ahead`) runs the
+same :func:`isolation.study.runner.run_study` on the same study file and pickles
+the results into the record folder (:func:`save_ahead`); a marker beside the pickle
+(:data:`PENDING_FILE`) names that process while it computes. The workbook's first
+cell then waits for them while that process runs and reads them (:func:`results_of`)
+instead of computing them again, but only when the pickle was made for this very
+study file (SHA-256 of its bytes), the same ``quick`` option and this version of the
+package; otherwise, or when the file is missing (a workbook run again later, or run
+by hand), it computes them itself. The pickle is removed once the workbook has run:
+it is never part of a record.
 
 A pickle runs code when it is read: only files this process family wrote a
 moment before are read, from the record's own hidden partial folder.
@@ -19,16 +21,16 @@ from __future__ import annotations
 
 import hashlib
 import importlib
-import os
 import pickle
 import time
 from pathlib import Path
 
 from isolation import __version__
 from isolation.files import write_bytes_atomic
+from isolation.processes import process_alive
 
 __all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "ahead_key", "save_ahead", "results_of",
-           "was_read", "prepare_reading", "process_alive"]
+           "was_read", "prepare_reading"]
 
 AHEAD_FILE = ".results-ahead.pickle"
 """Name of the pickle in the record folder."""
@@ -133,18 +135,3 @@ def _await_ahead(path: Path) -> None:
         if not named and time.monotonic() > deadline:
             return
         time.sleep(0.005)
-
-
-def process_alive(pid: int) -> bool:
-    """True while process ``pid`` runs; one that has ended but was not yet reaped (a zombie) has ended. [-]"""
-    try:
-        state = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()[0]
-    except (OSError, IndexError):
-        try:
-            os.kill(pid, 0)
-        except ProcessLookupError:
-            return False
-        except PermissionError:
-            return True
-        return not Path("/proc").is_dir()  # /proc without this process: it has ended
-    return state not in ("Z", "X")

@@ -14,6 +14,7 @@ from pathlib import Path
 
 import pytest
 
+from isolation.processes import process_alive
 from isolation.study import head_start
 
 DEMO = Path(__file__).resolve().parents[2] / "examples" / "demo_study.toml"
@@ -88,16 +89,16 @@ def test_results_whose_process_ended_or_gave_up_are_computed_here(tmp_path, comp
 
 @pytest.mark.skipif(not hasattr(os, "fork"), reason="needs os.fork")
 def test_a_process_that_ended_counts_as_ended_before_it_is_reaped():
-    assert head_start.process_alive(os.getpid())
+    assert process_alive(os.getpid())
     pid = os.fork()
     if pid == 0:
         os._exit(0)
     deadline = time.monotonic() + 10.0
-    while head_start.process_alive(pid) and time.monotonic() < deadline:  # a zombie until waited for
+    while process_alive(pid) and time.monotonic() < deadline:  # a zombie until waited for
         time.sleep(0.01)
-    assert not head_start.process_alive(pid)
+    assert not process_alive(pid)
     os.waitpid(pid, 0)
-    assert not head_start.process_alive(pid)
+    assert not process_alive(pid)
 
 
 @pytest.mark.skipif(not hasattr(os, "fork"), reason="the head start forks")
