@@ -318,35 +318,33 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         ``fixed`` (:func:`case_loss`), ``alternatives`` (name -> case loss plus
         ``economics``), ``levels``, ``hazard``, ``settings``, ``cautions``.
     """
-    from isolation.dynamics.history import run_cases
-
     inputs = inputs or getattr(study, "loss", None) or LossInputs()
     options = inputs.options
     hazard, hazard_info = study_hazard(study, spectrum, inputs.hazard)
     levels = tuple(options.levels)
     acc = np.asarray(suite.acceleration, dtype=float)
-    stacked = np.concatenate([level * acc for level in levels], axis=0)
     if fixed_building is None:
         if fixed_base_period is None:
             raise ValueError("fixed_base_period = None is not allowed without fixed_building: give T_fb [s] > 0")
         fixed_building = fixed_base_building(study, spectrum, superstructure, fixed_base_period)
-    results = run_cases(fixed_building, base_mass, {}, stacked, suite.dt, include_fixed=True)
     supers = [isolated_building(study, item[4] if len(item) > 4 else None, superstructure) for item in alternatives]
-    if all(b == supers[0] for b in supers):  # one vectorised run for all alternatives
-        if supers:
-            isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}
-            results.update(run_cases(supers[0], base_mass, isolators, stacked, suite.dt, include_fixed=False))
-    else:
-        for i, (item, building) in enumerate(zip(alternatives, supers, strict=True)):
-            results.update(run_cases(building, base_mass, {f"alternative {i}": item[2]}, stacked, suite.dt,
-                                     include_fixed=False))
+    fixed_window = 2.0 * float(fixed_building.modal().periods[0])
+    windows = {"fixed": fixed_window}
+    for i, (_, _, _, quantities, *_) in enumerate(alternatives):
+        periods = [quantities.get(k) for k in ("period_lower", "period_upper") if quantities.get(k)]
+        windows[f"alternative {i}"] = 2.0 * float(np.mean(periods)) if periods else fixed_window
+    demands: dict = {}
+    for level in levels:
+        # One level at a time, its histories dropped once their peaks are read: the records run
+        # independently, so the numbers are those of one run over all levels, in a fifth of the memory.
+        for name, result in _level_histories(fixed_building, supers, alternatives, base_mass, level * acc,
+                                             suite.dt).items():
+            demands.setdefault(name, []).extend(demands_by_level(result, 1, windows[name]))
     seed = options.seed if options.seed is not None else study.analysis.seed
     streams = np.random.SeedSequence(seed).spawn(1 + len(alternatives))
     common = dict(samples=options.samples, modelling_dispersion=options.modelling_dispersion, basis=study.basis)
     fixed_model = loss_model(study, inputs)
-    fixed_window = 2.0 * float(fixed_building.modal().periods[0])
-    fixed = case_loss(fixed_model, demands_by_level(results["fixed"], len(levels), fixed_window), levels, hazard,
-                      seed=streams[0], **common)
+    fixed = case_loss(fixed_model, demands["fixed"], levels, hazard, seed=streams[0], **common)
     out_alternatives = {}
     for i, (alternative, system, _, quantities, *_) in enumerate(alternatives):
         # The histories give the isolator displacement at the centre of mass; the corner bearings
@@ -356,10 +354,7 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
         if quantities.get("total_displacement") and quantities.get("displacement"):
             torsion = max(float(quantities["total_displacement"]) / float(quantities["displacement"]), 1.0)
         model = loss_model(study, inputs, displacement_limit=min(limits) / torsion if limits else None)
-        periods = [quantities.get(k) for k in ("period_lower", "period_upper") if quantities.get(k)]
-        window = 2.0 * (float(np.mean(periods)) if periods else float(fixed_building.modal().periods[0]))
-        case = case_loss(model, demands_by_level(results[f"alternative {i}"], len(levels), window), levels, hazard,
-                         seed=streams[1 + i], **common)
+        case = case_loss(model, demands[f"alternative {i}"], levels, hazard, seed=streams[1 + i], **common)
         premium = _premium(study, alternative, system, quantities, inputs, model)
         case["economics"] = economics(fixed, case, premium, inputs.cost)
         out_alternatives[alternative.name] = case
@@ -369,6 +364,23 @@ def run_loss(study, spectrum, suite, base_mass: float, alternatives: list, input
                          options.modelling_dispersion, "records": int(acc.shape[0]), "percentiles": list(PERCENTILES),
                          "isolator_properties": "nominal", "fixed_base": _describe(fixed_building),
                          "occupancy": options.occupancy}}
+
+
+def _level_histories(fixed_building, supers: list, alternatives: list, base_mass: float, acc: np.ndarray,
+                     dt: float) -> dict:
+    """Histories of the fixed base ("fixed") and of every alternative ("alternative i") under ``acc`` [g]."""
+    from isolation.dynamics.history import run_cases
+
+    results = run_cases(fixed_building, base_mass, {}, acc, dt, include_fixed=True)
+    if all(b == supers[0] for b in supers):  # one vectorised run for all alternatives
+        if supers:
+            isolators = {f"alternative {i}": item[2] for i, item in enumerate(alternatives)}
+            results.update(run_cases(supers[0], base_mass, isolators, acc, dt, include_fixed=False))
+    else:
+        for i, (item, building) in enumerate(zip(alternatives, supers, strict=True)):
+            results.update(run_cases(building, base_mass, {f"alternative {i}": item[2]}, acc, dt,
+                                     include_fixed=False))
+    return results
 
 
 def _describe(building) -> str:
