@@ -63,7 +63,8 @@ from typing import Any
 
 import numpy as np
 
-from isolation import GRAVITY, validate
+from isolation import validate
+from isolation.dynamics.floor_stack import FloorStack
 
 __all__ = ["PlanShearBuilding"]
 
@@ -83,7 +84,7 @@ def _storey_transform(offset) -> np.ndarray:
 
 
 @dataclass(frozen=True)
-class PlanShearBuilding:
+class PlanShearBuilding(FloorStack):
     """Plan shear building: rigid floor diaphragms (x, y, theta) joined by storeys.
 
     Parameters
@@ -163,21 +164,6 @@ class PlanShearBuilding:
         object.__setattr__(self, "p_delta", bool(self.p_delta))
 
     @property
-    def storeys(self) -> int:
-        """Number of storeys. [-]"""
-        return len(self.masses)
-
-    @property
-    def total_mass(self) -> float:
-        """Sum of floor masses. [t]"""
-        return float(sum(self.masses))
-
-    @property
-    def floor_elevations(self) -> np.ndarray:
-        """Elevation of each floor above the isolation plane. [m]"""
-        return np.cumsum(self.heights)
-
-    @property
     def yielding(self) -> bool:
         """True when a storey strength is given in x or in y. [-]"""
         return self.yield_shears_x is not None or self.yield_shears_y is not None
@@ -195,11 +181,6 @@ class PlanShearBuilding:
     def yield_drifts(self) -> np.ndarray:
         """Storey yield drift V_y/k (storeys, 2) at the centre of rigidity; inf where elastic. [m]"""
         return self.yield_strengths / np.column_stack([self.stiffnesses_x, self.stiffnesses_y])
-
-    @property
-    def gravity_loads(self) -> np.ndarray:
-        """Weight carried by each storey, P_i = g (m_i + ... + m_N). [kN]"""
-        return GRAVITY * np.cumsum(np.asarray(self.masses)[::-1])[::-1]
 
     def geometric_stiffness_matrix(self) -> np.ndarray:
         """Fixed-base P-delta stiffness (3 DOF per floor; zeros without ``p_delta``; module notes). [kN/m, kN m]"""

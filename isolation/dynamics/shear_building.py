@@ -21,7 +21,8 @@ from typing import Any
 
 import numpy as np
 
-from isolation import GRAVITY, validate
+from isolation import validate
+from isolation.dynamics.floor_stack import FloorStack
 from isolation.dynamics.modes import ModalProperties, _chain_stiffness, _modes
 
 __all__ = ["ShearBuilding", "HYSTERESES"]
@@ -31,7 +32,7 @@ HYSTERESES = ("bilinear", "clough")
 
 
 @dataclass(frozen=True)
-class ShearBuilding:
+class ShearBuilding(FloorStack):
     """Planar shear building with lumped floor masses.
 
     Parameters
@@ -183,21 +184,6 @@ class ShearBuilding:
 
     # --- properties ----------------------------------------------------------
     @property
-    def storeys(self) -> int:
-        """Number of storeys. [-]"""
-        return len(self.masses)
-
-    @property
-    def total_mass(self) -> float:
-        """Sum of floor masses. [t]"""
-        return float(sum(self.masses))
-
-    @property
-    def floor_elevations(self) -> np.ndarray:
-        """Elevation of each floor above the base. [m]"""
-        return np.cumsum(self.heights)
-
-    @property
     def yielding(self) -> bool:
         """True when the storeys carry a hysteretic law (``yield_shears`` given)."""
         return self.yield_shears is not None
@@ -208,11 +194,6 @@ class ShearBuilding:
         if not self.yielding:
             return np.full(self.storeys, np.inf)
         return np.asarray(self.yield_shears) / np.asarray(self.stiffnesses)
-
-    @property
-    def gravity_loads(self) -> np.ndarray:
-        """Weight carried by each storey, P_i = g (m_i + ... + m_N). [kN]"""
-        return GRAVITY * np.cumsum(np.asarray(self.masses)[::-1])[::-1]
 
     @property
     def geometric_stiffnesses(self) -> np.ndarray:
