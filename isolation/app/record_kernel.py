@@ -12,6 +12,7 @@ from __future__ import annotations
 import contextlib
 import functools
 import os
+import subprocess
 import sys
 import tempfile
 import threading
@@ -177,10 +178,11 @@ class _EarlyKernel:
             if self.km.has_kernel:
                 # Killed and waited for here: jupyter_client's own wait looks every 0.1 s; it then
                 # finds the process gone and only cleans up.
-                process: Any = getattr(self.km.provisioner, "process", None)
-                with contextlib.suppress(Exception):  # gone already, or not a local process
-                    process.kill()
-                    process.wait(timeout=5)
+                process = getattr(self.km.provisioner, "process", None)
+                if process is not None:  # a local process (subprocess.Popen)
+                    with contextlib.suppress(OSError, subprocess.TimeoutExpired):
+                        process.kill()
+                        process.wait(timeout=5)
                 self._sync(self.km.shutdown_kernel)(now=True)
         except Exception:  # noqa: BLE001 - a kernel already gone
             pass
@@ -198,9 +200,9 @@ class _EarlyKernel:
 
 def _execute(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
              kernel: _EarlyKernel | None = None, ahead: str = "", meanwhile: Callable[[], Any] | None = None) -> None:
-    """Run the workbook in ``folder`` on ``kernel`` (or one papermill starts); ``meanwhile`` runs once the
-    kernel is ready, after papermill has started the workbook's first cells (results computed ahead:
-    the first cell waits for them)."""
+    """Run the workbook in ``folder`` on ``kernel`` (or one papermill starts); ``meanwhile`` runs in a thread
+    beside papermill once the kernel is ready (with results computed ahead, the first cell then only
+    waits for them)."""
     log = folder / KERNEL_LOG
     try:
         with _stderr_to(log):
