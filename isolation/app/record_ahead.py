@@ -59,7 +59,7 @@ class Ahead:
         finished. The child is reaped in a thread, so its exit (returning some hundred megabytes
         to the system) does not hold up the report."""
         from isolation.output.figure_sharing import FOLDER, SharedFigures
-        from isolation.study.head_start import PENDING_FILE
+        from isolation.study.head_start import PENDING_FILE, remove_ahead
 
         pid, self.pid = self.pid, None
         if pid is not None:
@@ -71,21 +71,25 @@ class Ahead:
         shutil.rmtree(self.folder / FOLDER, ignore_errors=True)
         (self.folder / PENDING_FILE).unlink(missing_ok=True)
         if self.file:
-            (self.folder / self.file).unlink(missing_ok=True)
+            remove_ahead(self.folder / self.file)
 
 
 def _reap(pid: int) -> None:
-    """Wait for the child; kill it when it has not ended within :data:`STOP_WAIT`."""
+    """Wait for the child; kill it when it has not ended within :data:`STOP_WAIT`. Then remove what a
+    child stopped in the middle of writing its results left in memory."""
+    from isolation.study.head_start import remove_orphans
+
     deadline = time.monotonic() + STOP_WAIT
     try:
         while not os.waitpid(pid, os.WNOHANG)[0]:
             if time.monotonic() > deadline:
                 os.kill(pid, signal.SIGKILL)
                 os.waitpid(pid, 0)
-                return
+                break
             time.sleep(0.05)
     except (ChildProcessError, ProcessLookupError):  # reaped or gone already
         pass
+    remove_orphans()
 
 
 def start_ahead(folder: Path, study_path: str, quick: bool) -> Ahead:

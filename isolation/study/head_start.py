@@ -4,7 +4,8 @@ The record command (:func:`isolation.app.calc_records.run_record`) starts the
 workbook's kernel first; its start-up takes a second or two on another core.
 Meanwhile a process the command forks (:mod:`isolation.app.record_ahead`) runs the
 same :func:`isolation.study.runner.run_study` on the same study file and pickles
-the results into the record folder (:func:`save_ahead`); a marker beside the pickle
+the results for the record folder (:func:`save_ahead`: in shared memory with a link
+in the folder where the machine has it, else in the folder); a marker beside the pickle
 (:data:`PENDING_FILE`) names that process while it computes. The workbook's first
 cell then waits for them while that process runs and reads them (:func:`results_of`)
 instead of computing them again, but only when the pickle was made for this very
@@ -14,14 +15,17 @@ by hand), it computes them itself. The pickle is removed once the workbook has r
 it is never part of a record.
 
 A pickle runs code when it is read: only files this process family wrote a
-moment before are read, from the record's own hidden partial folder.
+moment before are read, through the record's own hidden partial folder.
 """
 
 from __future__ import annotations
 
 import hashlib
 import importlib
+import mmap
+import os
 import pickle
+import tempfile
 import time
 from pathlib import Path
 
@@ -29,14 +33,21 @@ from isolation import __version__
 from isolation.files import write_bytes_atomic
 from isolation.processes import process_alive
 
-__all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "ahead_key", "save_ahead", "results_of",
-           "was_read", "prepare_reading"]
+__all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "MEMORY_FOLDER", "ahead_key", "save_ahead",
+           "remove_ahead", "remove_orphans", "results_of", "was_read", "prepare_reading"]
 
 AHEAD_FILE = ".results-ahead.pickle"
 """Name of the pickle in the record folder."""
 
 PENDING_FILE = ".results-ahead.pending"
 """Beside the pickle while another process still computes it: empty, then that process's id."""
+
+MEMORY_FOLDER = Path("/dev/shm")
+"""Folder kept in memory (Linux's tmpfs) for the pickle: tens of megabytes of response histories that
+would otherwise go to the disk, where a write can wait a good part of a second behind the disk's
+other work. Missing, not writable or full: the pickle goes to the record folder itself."""
+
+_MEMORY_PREFIX = "isolation-ahead-"
 
 UNNAMED_WAIT = 30.0
 """Longest wait for results whose process has not named itself in :data:`PENDING_FILE`. [s]"""
@@ -64,7 +75,55 @@ def save_ahead(results, path: str | Path, study_path: str | Path, quick: bool) -
         The ``quick`` option they were computed with. [-]
     """
     payload = {"key": ahead_key(study_path, quick), "results": results}
-    return write_bytes_atomic(path, pickle.dumps(payload, protocol=pickle.HIGHEST_PROTOCOL))
+    data = pickle.dumps(payload, protocol=pickle.HIGHEST_PROTOCOL)
+    path = Path(path)
+    if not _in_memory(data, path):
+        write_bytes_atomic(path, data)
+    return path
+
+
+def _in_memory(data: bytes, path: Path) -> bool:
+    """Write ``data`` to a new file of :data:`MEMORY_FOLDER` (private to this user, named after this
+    process) and link ``path`` to it once it is whole; False, with nothing left, where that fails."""
+    try:
+        handle, name = tempfile.mkstemp(prefix=f"{_MEMORY_PREFIX}{os.getpid()}-", suffix=".pickle",
+                                        dir=MEMORY_FOLDER)
+    except OSError:
+        return False
+    try:
+        with os.fdopen(handle, "wb") as stream:
+            stream.write(data)
+        os.symlink(name, path)
+    except OSError:  # e.g. full: a tmpfs holds what memory allows
+        Path(name).unlink(missing_ok=True)
+        return False
+    return True
+
+
+def remove_ahead(path: str | Path) -> None:
+    """Remove the pickle ``path`` written by :func:`save_ahead` and the file in memory it links to;
+    then :func:`remove_orphans`."""
+    path = Path(path)
+    if path.is_symlink():
+        target = Path(os.readlink(path))
+        if target.parent == MEMORY_FOLDER and target.name.startswith(_MEMORY_PREFIX):
+            target.unlink(missing_ok=True)
+    path.unlink(missing_ok=True)
+    remove_orphans()
+
+
+def remove_orphans() -> None:
+    """Remove this user's pickles in :data:`MEMORY_FOLDER` whose process has ended (one killed while
+    it wrote, or whose command was killed before it could remove them)."""
+    with_pid = len(_MEMORY_PREFIX)
+    try:
+        found = [p for p in MEMORY_FOLDER.glob(f"{_MEMORY_PREFIX}*.pickle") if p.stat().st_uid == os.getuid()]
+    except OSError:
+        return
+    for orphan in found:
+        pid = orphan.name[with_pid:].split("-", 1)[0]
+        if pid.isdigit() and not process_alive(int(pid)):
+            orphan.unlink(missing_ok=True)
 
 
 def results_of(study, *, study_path: str | Path, quick: bool = False, precomputed: str | Path = ""):
@@ -86,13 +145,23 @@ def results_of(study, *, study_path: str | Path, quick: bool = False, precompute
     if precomputed:
         _await_ahead(Path(precomputed))
     if precomputed and Path(precomputed).is_file():
-        payload = pickle.loads(Path(precomputed).read_bytes())
+        payload = _read_pickle(Path(precomputed))
         if isinstance(payload, dict) and payload.get("key") == ahead_key(study_path, quick):
             _READ.add(Path(precomputed).resolve())
             return payload["results"]
     from isolation.study.runner import run_study
 
     return run_study(study, quick=quick)
+
+
+def _read_pickle(path: Path):
+    """The object pickled in ``path``, unpickled straight from the file's pages (no copy of the whole file
+    in between: tens of megabytes of response histories)."""
+    with open(path, "rb") as stream:
+        if os.fstat(stream.fileno()).st_size == 0:
+            return None
+        with mmap.mmap(stream.fileno(), 0, access=mmap.ACCESS_READ) as pages:
+            return pickle.loads(pages)
 
 
 READING_MODULES = ("isolation.study.results", "isolation.verdict", "isolation.performance.comparison",

@@ -122,6 +122,7 @@ def test_figure_keys_are_unique_and_named_in_errors():
 
 
 def test_figures_of_shares_the_folder_only_for_the_results_read_ahead(tmp_path, study, monkeypatch):
+    monkeypatch.setattr(head_start, "MEMORY_FOLDER", tmp_path / "memory")  # no such folder: pickled in tmp_path
     pickle = tmp_path / head_start.AHEAD_FILE
     folder = tmp_path / figure_sharing.FOLDER
     monkeypatch.setattr("isolation.output.plots.report_figures.feasibility_figures",

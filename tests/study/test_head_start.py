@@ -20,6 +20,14 @@ from isolation.study import head_start
 DEMO = Path(__file__).resolve().parents[2] / "examples" / "demo_study.toml"
 
 
+@pytest.fixture(autouse=True)
+def memory(tmp_path_factory, monkeypatch):
+    """The folder kept in memory, here an ordinary folder of the test's own (the files it holds are seen)."""
+    folder = tmp_path_factory.mktemp("memory")
+    monkeypatch.setattr(head_start, "MEMORY_FOLDER", folder)
+    return folder
+
+
 @pytest.fixture
 def computed_here(monkeypatch):
     """run_study replaced by a marker, so a test sees whether results_of computed."""
@@ -42,6 +50,52 @@ def test_pickle_of_the_same_study_and_option_is_read(tmp_path, computed_here):
     found = head_start.results_of("study", study_path=study_file, quick=True,
                                   precomputed=tmp_path / head_start.AHEAD_FILE)
     assert found == {"stands for": "results"} and computed_here == []
+
+
+def test_the_pickle_goes_to_memory_linked_from_the_record_and_leaves_nothing(tmp_path, memory, computed_here):
+    study_file = tmp_path / "study.toml"
+    study_file.write_bytes(DEMO.read_bytes())
+    ahead = tmp_path / head_start.AHEAD_FILE
+    head_start.save_ahead({"stands for": "results"}, ahead, study_file, quick=False)
+    [held] = memory.iterdir()
+    assert ahead.is_symlink() and ahead.resolve() == held.resolve()
+    assert held.name.startswith(f"isolation-ahead-{os.getpid()}-") and held.stat().st_mode & 0o077 == 0
+    assert head_start.results_of("s", study_path=study_file, precomputed=ahead) == {"stands for": "results"}
+    assert head_start.was_read(ahead) and computed_here == []
+    head_start.remove_ahead(ahead)
+    assert list(memory.iterdir()) == [] and not os.path.lexists(ahead)
+
+
+@pytest.mark.parametrize("trouble", ["no memory folder", "the link fails"])
+def test_without_room_in_memory_the_pickle_goes_to_the_record_folder(tmp_path, memory, monkeypatch, trouble,
+                                                                       computed_here):
+    study_file = tmp_path / "study.toml"
+    study_file.write_bytes(DEMO.read_bytes())
+    ahead = tmp_path / head_start.AHEAD_FILE
+    if trouble == "no memory folder":
+        monkeypatch.setattr(head_start, "MEMORY_FOLDER", tmp_path / "absent")
+    else:
+        def no_link(*args):
+            raise OSError(28, "No space left on device")
+
+        monkeypatch.setattr(head_start.os, "symlink", no_link)
+    head_start.save_ahead({"stands for": "results"}, ahead, study_file, quick=False)
+    assert ahead.is_file() and not ahead.is_symlink() and list(memory.iterdir()) == []
+    assert head_start.results_of("s", study_path=study_file, precomputed=ahead) == {"stands for": "results"}
+    head_start.remove_ahead(ahead)
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["study.toml"]
+
+
+def test_pickles_in_memory_of_ended_processes_are_removed(memory):
+    ended = subprocess.Popen(["true"])
+    ended.wait()
+    orphan = memory / f"isolation-ahead-{ended.pid}-abc.pickle"
+    alive = memory / f"isolation-ahead-{os.getpid()}-def.pickle"
+    other = memory / "someone-else.pickle"
+    for path in (orphan, alive, other):
+        path.write_bytes(b"x")
+    head_start.remove_orphans()
+    assert sorted(p.name for p in memory.iterdir()) == sorted([alive.name, other.name])
 
 
 def test_other_study_bytes_option_or_a_missing_file_compute_again(tmp_path, computed_here):
