@@ -23,7 +23,7 @@ from typing import Any
 
 from isolation.errors import RunError
 
-__all__ = ["KERNEL_LOG", "KERNEL_ARGUMENTS", "WARM_UP", "SAVE_INTERVAL"]
+__all__ = ["KERNEL_LOG", "KERNEL_ARGUMENTS", "WARM_UP", "SAVE_INTERVAL", "run_workbook"]
 
 
 KERNEL_LOG = ".kernel.log"
@@ -286,3 +286,34 @@ def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool,
         extra_arguments=list(KERNEL_ARGUMENTS),
         km=None if kernel is None else kernel.km,
     )
+
+
+def run_workbook(notebook: Path, target: Path, parameters: dict[str, Any], *, cwd: Path, log: Path,
+                 timeout: float | None = None) -> None:
+    """Execute ``notebook`` with papermill into ``target`` on a kernel papermill starts, in ``cwd``.
+
+    Any workbook other than a record's (which :func:`_execute` runs on its early kernel). The kernel's
+    standard error goes to ``log`` (the terminal keeps one-line messages); papermill's
+    ``PapermillExecutionError`` names the failing cell.
+
+    Parameters
+    ----------
+    notebook, target : Path
+        Workbook to run, executed notebook to write. [-]
+    parameters : dict
+        papermill parameters. [-]
+    cwd : Path
+        The kernel's working folder. [-]
+    log : Path
+        File that receives the kernel's standard error (appended). [-]
+    timeout : float, optional
+        Limit per cell. [s]
+    """
+    _lean_imports()
+    import papermill
+
+    with _stderr_to(log):
+        papermill.execute_notebook(
+            str(notebook), str(target), engine_name=_papermill_engine(), parameters=parameters, cwd=str(cwd),
+            kernel_name="python3", progress_bar=False, log_output=False, execution_timeout=timeout,
+            extra_arguments=list(KERNEL_ARGUMENTS))

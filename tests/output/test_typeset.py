@@ -82,6 +82,15 @@ def test_markdown_text_is_escaped_not_interpreted():
     assert "<tag>" not in markdown_to_typst("a <tag> b")[0]
 
 
+def test_table_cells_may_break_after_an_underscore_and_only_there():
+    # Unicode UAX #14 (Line Breaking), class ZW: U+200B ZERO WIDTH SPACE is a break opportunity of
+    # zero width; a long identifier in a narrow column wraps instead of running into the next one.
+    text, _ = markdown_to_typst("| variant | note |\n|---|---|\n| radius-2.5_friction-0.04 | a_b |\n\nx_y outside")
+    assert "2.5\\_\u200bfriction" in text and "[a\\_\u200bb]" in text
+    assert "x\\_y outside" in text  # running text keeps its underscore as it is
+    assert replace_uncovered("a\u200bb") == ("a\u200bb", [])  # no font needs a glyph for it
+
+
 @pytest.mark.parametrize("tex, typst", [
     (r"D_{\mathrm{TM}}", 'D_("TM")'),
     (r"\beta_{\mathrm{M}} \le 0.3", 'beta_("M") <= 0.3'),

@@ -27,12 +27,14 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
             "Run every variant of a batch file (a base study plus overrides) into its own\n"
             "calculation record and write summary.csv in the batch folder.\n\n"
             "Batch file (TOML): [batch] study = \"study.toml\" (relative to the batch file),\n"
-            "optional name, pdf, table = \"variants.csv\"; [grid] dotted key paths with value\n"
+            "optional name, pdf, report, table = \"variants.csv\"; [grid] dotted key paths with value\n"
             "lists (every combination); [[variant]] tables of dotted key paths (optional id);\n"
             "[common] overrides for every variant. Example key: alternative.0.bearings.0.radius\n\n"
             "Every variant is validated before any runs. Re-running skips completed variants\n"
             "(same input hash); Ctrl-C keeps completed records. Render a record's report later\n"
             "with: python -m isolation render RECORD_DIR\n\n"
+            "--report (or report = true) ends with the batch's own report in the batch folder:\n"
+            "the design-space workbook run on summary.csv (design_space.ipynb) and report.pdf.\n\n"
             "Exit codes: 0 all done, 1 some failed, 2 bad input, 130 interrupted.\n"
             "Feasibility studies only: verify results against the local code with a licensed\n"
             "structural engineer."
@@ -46,6 +48,7 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     where.add_argument("--scheduler", metavar="ADDRESS", help="run on the dask cluster at this scheduler address")
     where.add_argument("--local-cluster", action="store_true", help="run on a dask LocalCluster on this machine")
     parser.add_argument("--pdf", action="store_true", help="render each record's PDF report (off by default)")
+    _report_options(parser)
     parser.add_argument("--retry-failed", action="store_true", help="run again variants that failed before")
     parser.add_argument(
         "--quick", action="store_true", help="small motion suites per variant (trials and tests only, not for reports)"
@@ -73,6 +76,17 @@ def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     parser.add_argument("--check", action="store_true", help="validate the batch and every variant, run nothing")
     parser.add_argument("--no-progress", action="store_true", help="no progress bar")
     return parser
+
+
+def _report_options(parser: argparse.ArgumentParser) -> None:
+    """``--report`` and the report's paper and engine."""
+    parser.add_argument("--report", action="store_true",
+                        help="end with the batch report: design_space.ipynb run on summary.csv and its report.pdf "
+                        "in the batch folder (also: report = true in [batch])")
+    parser.add_argument("--paper", choices=("a4", "letter"), default="a4",
+                        help="paper of the batch report (default a4)")
+    parser.add_argument("--engine", choices=("typst", "latex"),
+                        help="PDF engine of the batch report (default typst, or latex when typst cannot run)")
 
 
 def _say(message: str) -> None:
@@ -250,7 +264,23 @@ def _execute(args, plan, hashes, settings, executor_name, executor, prepared=Non
     print(f"summary: {report.out_dir / 'summary.csv'}")
     if report.failed and not report.interrupted:
         _say(f"failed variants: {', '.join(report.failed)} (errors in summary.csv; --retry-failed runs them again)")
+    if (args.report or plan.report) and not report.interrupted:
+        _batch_report(args, plan, report.out_dir)
     return report.exit_code
+
+
+def _batch_report(args, plan, out_dir: Path) -> None:
+    """The batch's own report (:mod:`isolation.app.batch.batch_report`); its path printed."""
+    from isolation.app.batch.batch_report import report_fields, write_batch_report
+
+    fields, units = report_fields(plan.name, plan.study_file)
+    path = write_batch_report(out_dir, fields=fields, units=units, paper=args.paper, engine=args.engine)
+    print(f"report: {path}")
+    if path.suffix != ".pdf":
+        from isolation.output.report import engine_problem
+
+        reasons = [engine_problem(name) for name in ([args.engine] if args.engine else ["typst", "latex"])]
+        _say(f"note: no PDF engine could run ({'; '.join(r for r in reasons if r)}); the report is HTML")
 
 
 if __name__ == "__main__":  # pragma: no cover

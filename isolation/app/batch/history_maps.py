@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from typing import Iterable
 
-from isolation.app.batch.map_rows import _number, _sort_key, completed_rows, verdict_rank
+from isolation.app.batch.map_rows import _number, _sort_key, completed_rows, variant_text, verdict_rank
 
 __all__ = ["HISTORY_FIELDS", "history_rows", "grid_field", "feasible", "history_front", "best_history_alternatives",
            "plot_history_maps", "best_history_table"]
@@ -110,7 +110,8 @@ def best_history_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
     first), whether they lie on :func:`history_front`, the floor-acceleration
     reduction of the less favourable bound (largest first) and the peak
     displacement with torsion (smallest first). An alternative the varied
-    keys leave unchanged appears once, ``same_in`` counting its variants.
+    keys leave unchanged appears once, ``same_in`` counting its variants and
+    ``variants`` naming them.
 
     Parameters
     ----------
@@ -131,8 +132,9 @@ def best_history_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
                                                    "floor_acceleration_reduction_upper")))
         if key in kept:
             kept[key]["same_in"] += 1
+            kept[key]["variants"].append(row.get("variant"))
         else:
-            kept[key] = dict(row, same_in=1)
+            kept[key] = dict(row, same_in=1, variants=[row.get("variant")])
     rows = list(kept.values())
     front = {id(r) for r in history_front(rows)}
     ordered = sorted(rows, key=lambda r: (verdict_rank(r.get("verdict")), id(r) not in front, -_worst_reduction(r),
@@ -140,7 +142,8 @@ def best_history_alternatives(rows: Iterable[dict], top: int = 5) -> list[dict]:
     return ordered[: max(int(top), 0)]
 
 
-def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=None, *, levels: int = 8):
+def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=None, *, levels: int = 8,
+                      units: str | None = None):
     """Design-space maps of a history sweep over two varied keys, both bounds.
 
     Four panels: peak isolator displacement (lower and upper bound, suite
@@ -161,6 +164,9 @@ def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=
         Alternative to map (default: the first one found).
     levels : int
         Contour levels per panel. [-]
+    units : {"SI", "US"}, optional
+        The study's unit system: the axes then name the keys as an engineer reads them, with their
+        units (:func:`isolation.app.batch.key_labels.key_label`); default: the key paths themselves.
 
     Returns
     -------
@@ -202,17 +208,23 @@ def plot_history_maps(rows: Iterable[dict], x_key: str, y_key: str, alternative=
         for row in best:
             ax.plot(row[x_key], row[y_key], marker="*", color="white", mec="black", ms=12, ls="none")
         ax.set_title(title, fontsize="medium")
-    for ax in axes[-1]:
-        ax.set_xlabel(x_key)
-    for ax in axes[:, 0]:
-        ax.set_ylabel(y_key)
+    if units is None:
+        x_label, y_label = x_key, y_key
+    else:
+        from isolation.app.batch.key_labels import key_label
+
+        x_label, y_label = key_label(x_key, units), key_label(y_key, units)
+    fig.supxlabel(x_label, fontsize="medium")  # one label per axis for the four panels, which share them
+    fig.supylabel(y_label, fontsize="medium")
     fig.suptitle(f"{alternative}: response-history design space (hatched: not feasible; stars: best variants)")
     return fig
 
 
 def best_history_table(rows: Iterable[dict], top: int = 5) -> str:
     """:func:`best_history_alternatives` as a Markdown table (for the design-space workbook)."""
+    rows = list(rows)
     best = best_history_alternatives(rows, top=top)
+    total = len({r.get("variant") for r in history_rows(rows)})
     if not best:
         return "No variant qualifies on the response-history numbers: every completed variant is not feasible."
     lines = ["| rank | variant | alternative | verdict | peak displacement lower / upper [m] "
@@ -223,7 +235,7 @@ def best_history_table(rows: Iterable[dict], top: int = 5) -> str:
         torsion = _number(row.get("history_displacement_torsion_m"))
         upper = _number(row.get("history_displacement_upper_m"))
         lines.append(
-            f"| {rank} | {row['variant']} | {row['alternative']} | {row['verdict']} | "
+            f"| {rank} | {variant_text(row, total)} | {row['alternative']} | {row['verdict']} | "
             f"{row['history_displacement_lower_m']:.3f} / {'-' if upper is None else f'{upper:.3f}'} | "
             f"{'-' if torsion is None else f'{torsion:.3f}'} | {'-' if capacity is None else f'{capacity:.2f}'} | "
             f"{row['floor_acceleration_reduction_lower']:.2f} / {row['floor_acceleration_reduction_upper']:.2f} | "

@@ -1,7 +1,8 @@
 """The rows of a sweep summary as the maps read them: completed rows, verdict order, numbers.
 
 Shared by :mod:`isolation.app.batch.maps` (which re-exports :data:`VERDICT_ORDER`,
-:func:`completed_rows` and :func:`verdict_rank`) and :mod:`isolation.app.batch.history_maps`.
+:func:`completed_rows`, :func:`verdict_rank` and :func:`variant_text`) and
+:mod:`isolation.app.batch.history_maps`.
 """
 
 from __future__ import annotations
@@ -9,7 +10,7 @@ from __future__ import annotations
 import math
 from typing import Iterable
 
-__all__ = ["VERDICT_ORDER", "completed_rows", "verdict_rank"]
+__all__ = ["VERDICT_ORDER", "completed_rows", "verdict_rank", "variant_text"]
 
 VERDICT_ORDER = ("feasible", "feasible with conditions", "not recommended")
 
@@ -35,6 +36,17 @@ def completed_rows(rows: Iterable[dict]) -> list[dict]:
 def verdict_rank(verdict) -> int:
     """0 feasible, 1 with conditions, 2 not recommended, 3 anything else."""
     return VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else len(VERDICT_ORDER)
+
+
+def variant_text(row: dict, total: int) -> str:
+    """Which variants a ranked row stands for: its ``variants`` (a row that stands for every variant with
+    the same numbers), "all N variants (not varied)" when they are all ``total`` of them."""
+    names = row.get("variants") or [row.get("variant")]
+    if len(names) <= 1:
+        return str(names[0])
+    if len(names) >= total:
+        return f"all {total} variants (not varied)"
+    return ", ".join(str(n) for n in names)
 
 
 def _sort_key(value):

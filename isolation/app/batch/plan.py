@@ -51,7 +51,7 @@ __all__ = [
     "DIRECT_LIMIT",
 ]
 
-BATCH_KEYS = ("name", "study", "table", "pdf", "description")
+BATCH_KEYS = ("name", "study", "table", "pdf", "report", "description")
 TOP_KEYS = ("batch", "grid", "variant", "common")
 ID_LIMIT = 80
 
@@ -98,6 +98,9 @@ class BatchPlan:
         Overrides applied to every variant before its own.
     pdf : bool
         Whether each record gets a PDF report by default.
+    report : bool
+        Whether the batch ends with its own report, the design-space workbook and its PDF in the
+        batch folder (:mod:`isolation.app.batch.batch_report`).
     """
 
     name: str
@@ -106,6 +109,7 @@ class BatchPlan:
     variants: tuple
     common: dict = field(default_factory=dict)
     pdf: bool = False
+    report: bool = False
 
     def overrides_for(self, variant: Variant) -> dict:
         """All overrides of ``variant``: the common ones, then its own."""
@@ -126,6 +130,7 @@ class BatchPlan:
             "study_file": str(self.study_file),
             "common": dict(self.common),
             "pdf": self.pdf,
+            "report": self.report,
             "variants": [v.to_dict() for v in self.variants],
         }
 
@@ -211,7 +216,7 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
     batch_file = Path(path).resolve()
     data = _read_toml(batch_file, "batch file")
     problems: list[str] = []
-    head, name, pdf, study_file = _batch_head(data, batch_file, problems)
+    head, name, (pdf, report), study_file = _batch_head(data, batch_file, problems)
     common = _dotted_table(data, "common", "a table of dotted key paths", problems)
     grid = _dotted_table(data, "grid", "a table of dotted key paths and value lists", problems)
     for key, values in grid.items():
@@ -238,11 +243,12 @@ def load_batch(path: str | Path, *, max_variants: int | None = DIRECT_LIMIT) -> 
         variants=tuple(checked),
         common=dict(common),
         pdf=pdf,
+        report=report,
     )
 
 
 def _batch_head(data: Mapping, batch_file: Path, problems: list[str]) -> tuple:
-    """The ``[batch]`` table (and unknown top-level tables): (table, name, pdf, study file)."""
+    """The ``[batch]`` table (and unknown top-level tables): (table, name, (pdf, report), study file)."""
     for key in data:
         if key not in TOP_KEYS:
             problems.append(f"{key} = {data[key]!r} is an unknown table; allowed: {', '.join(TOP_KEYS)}")
@@ -257,11 +263,14 @@ def _batch_head(data: Mapping, batch_file: Path, problems: list[str]) -> tuple:
     if not isinstance(name, str) or not name.strip():
         problems.append(f"batch.name = {name!r} is not allowed: must be a non-empty string")
         name = batch_file.stem
-    pdf = head.get("pdf", False)
-    if not isinstance(pdf, bool):
-        problems.append(f"batch.pdf = {pdf!r} is not allowed: must be true or false")
-        pdf = False
-    return head, name, pdf, _study_file(head.get("study"), batch_file, problems)
+    switches = []
+    for key in ("pdf", "report"):
+        value = head.get(key, False)
+        if not isinstance(value, bool):
+            problems.append(f"batch.{key} = {value!r} is not allowed: must be true or false")
+            value = False
+        switches.append(value)
+    return head, name, tuple(switches), _study_file(head.get("study"), batch_file, problems)
 
 
 def _study_file(study: Any, batch_file: Path, problems: list[str]) -> Path:

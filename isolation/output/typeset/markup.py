@@ -295,7 +295,10 @@ class _Writer:
         return "\n".join(lines)
 
     def cell(self, cell: dict) -> str:
-        return self.inlines(cell.get("children", []))
+        # A line may break after an underscore (U+200B, a break opportunity of zero width: Unicode UAX #14,
+        # class ZW), so identifiers such as "radius=2.5_friction=0.04" wrap in a narrow column instead of
+        # running into the next one.
+        return self.inlines(cell.get("children", [])).replace("\\_", "\\_\u200b")
 
     # inlines ----------------------------------------------------------------
     def inlines(self, tokens: Sequence[dict]) -> str:
