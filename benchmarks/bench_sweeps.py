@@ -14,8 +14,8 @@ Run: ``python -m benchmarks sweeps`` or ``python benchmarks/bench_sweeps.py [--g
    the process tree. Aim for 100 x 100: <= 10 s, <= 1 GB.
 3. History sweep (``--direct --histories``, the demo study's 7-record suite,
    lower and upper bound, 30 s records at 0.005 s): ``--histories`` variants
-   on 2 local workers (aim for 1000: <= 5 min), and ``--ratio`` variants on
-   1 and on 2 workers (aim: 2 workers >= 1.8x one). The CPU time of all the
+   on 2 local workers (aim for 1000: <= 5 min) and on 1 (aim: 2 workers >=
+   1.8x one), optionally a smaller ``--ratio`` sweep likewise. The CPU time of all the
    command's processes is printed too: on a loaded machine it tells what two
    free cores would give.
 
@@ -154,39 +154,38 @@ def _history_run(path: Path, out: Path, workers: int) -> tuple[float, str]:
 def bench_histories(count: int, ratio_count: int) -> None:
     from isolation.app.batch.histories import MOTIONS_FOLDER
 
+    counts = [c for c in dict.fromkeys((count, ratio_count)) if c > 0]
+    runs = {}
     with tempfile.TemporaryDirectory() as scratch:
         folder = Path(scratch)
-        side = max(2, int(round(ratio_count ** 0.5)))
-        small = _batch(folder, *_grid(side), "histories-ratio")
-        # the suite and the fixed base once, outside the timings (the same for all three runs)
+        # the suite and the fixed base once, outside the timings (the same for every run)
         _history_run(_batch(folder, [3.0], [0.05], "histories-warm"), folder / "warm", 2)
-        for name in ("one", "two", "full"):
-            shutil.copytree(folder / "warm" / MOTIONS_FOLDER, folder / name / MOTIONS_FOLDER)
-        one, line_one = _history_run(small, folder / "one", 1)
-        two, line_two = _history_run(small, folder / "two", 2)
-        full_count = 0
-        if count > 0:
-            radii, frictions = _grid(max(2, int(round(count ** 0.5))))
-            full_count = len(radii) * len(frictions)
-            full, line_full = _history_run(_batch(folder, radii, frictions, "histories-full"), folder / "full", 2)
-    small_count = side * side
+        for wanted in counts:
+            side = max(2, int(round(wanted ** 0.5)))
+            path = _batch(folder, *_grid(side), f"histories-{side * side}")
+            for workers in (2, 1):
+                out = folder / f"{side * side}-{workers}"
+                shutil.copytree(folder / "warm" / MOTIONS_FOLDER, out / MOTIONS_FOLDER)
+                runs[side * side, workers] = _history_run(path, out, workers)
     print("history sweep (demo study, 7 records x 30 s at 0.005 s, lower + upper bound; the lead-rubber "
           "alternative is the same in every variant, run once per worker):")
-    print(f"  {small_count} variants, 1 worker : {one:7.1f} s  {small_count / one:6.2f} variants/s (reference)  "
-          f"{line_one}")
-    print(f"  {small_count} variants, 2 workers: {two:7.1f} s  {small_count / two:6.2f} variants/s  "
-          f"ratio {one / two:.2f} (aim >= 1.8)  {line_two}")
-    if full_count:
-        print(f"  {full_count} variants, 2 workers: {full:7.1f} s (aim <= 300 s for 1000)  {line_full}")
+    for variants in dict.fromkeys(n for n, _ in runs):
+        (two, line_two), (one, line_one) = runs[variants, 2], runs[variants, 1]
+        aim = " (aim <= 300 s for 1000)" if variants >= 1000 else ""
+        print(f"  {variants} variants, 1 worker : {one:7.1f} s  {variants / one:6.2f} variants/s (reference)  "
+              f"{line_one}")
+        print(f"  {variants} variants, 2 workers: {two:7.1f} s{aim}  {variants / two:6.2f} variants/s  "
+              f"ratio {one / two:.2f} (aim >= 1.8)  {line_two}")
 
 
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--grid", type=int, default=100, help="grid side for the kernel and --direct (default 100)")
     parser.add_argument("--histories", type=int, default=1000,
-                        help="history-sweep variants on 2 workers, about (default 1000; 0: skip)")
-    parser.add_argument("--ratio", type=int, default=256,
-                        help="variants for the 1 vs 2 worker ratio (default 256: start-up a small share)")
+                        help="history-sweep variants on 1 and on 2 workers, about (default 1000; 0: skip)")
+    parser.add_argument("--ratio", type=int, default=0,
+                        help="another, smaller history sweep on 1 and 2 workers, about (e.g. 256, where start-up "
+                        "weighs more; default 0: none)")
     parser.add_argument("--skip-histories", action="store_true", help="kernel and direct sweep only")
     parser.add_argument("--histories-only", action="store_true", help="history sweeps only")
     args = parser.parse_args([] if argv is None else argv)
