@@ -68,7 +68,8 @@ def save_ahead(results, path: str | Path, study_path: str | Path, quick: bool) -
     results : StudyResults
         The results computed ahead. [-]
     path : str or Path
-        Pickle to write (atomically). [-]
+        Pickle to make: a link to a whole file in :data:`MEMORY_FOLDER`, or (no room there) a file
+        written atomically. Remove it with :func:`remove_ahead`. [-]
     study_path : str or Path
         The study file the results were computed from (its bytes key the pickle). [-]
     quick : bool
