@@ -141,7 +141,7 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
                overrides: Mapping[str, Any] | None = None, run_id: str | None = None,
                paper: str = "a4", quick: bool = False, notebook: str | Path | None = None,
                timeout: float | None = None, engine: str | None = None,
-               replace_failed: bool = False) -> RecordOutcome:
+               replace_failed: bool = False, head_start: bool = True) -> RecordOutcome:
     """Run a study through the feasibility workbook into a calculation record.
 
     Parameters
@@ -175,6 +175,10 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
     replace_failed : bool
         Remove an earlier failed record of ``run_id`` before running (a
         batch re-running a failed variant); a complete one is never replaced.
+    head_start : bool
+        Let a forked process compute the study and draw figures while the kernel starts
+        (:mod:`isolation.app.record_ahead`; Linux only): it takes a second core. A batch whose
+        workers leave no core spare turns it off.
 
     Returns
     -------
@@ -197,14 +201,14 @@ def run_record(study_file: str | Path, out_dir: str | Path, *, pdf: bool = True,
     try:
         return _run_record(study_file, out_dir, pdf=pdf, overrides=overrides, run_id=run_id, paper=paper,
                            quick=quick, notebook=notebook, timeout=timeout, engine=engine,
-                           replace_failed=replace_failed, kernel=kernel)
+                           replace_failed=replace_failed, kernel=kernel, head_start=head_start)
     finally:
         if kernel is not None:
             kernel.close()  # a no-op once the run has closed it
 
 
 def _run_record(study_file, out_dir, *, pdf, overrides, run_id, paper, quick, notebook, timeout, engine,
-                replace_failed, kernel) -> RecordOutcome:
+                replace_failed, kernel, head_start=True) -> RecordOutcome:
     path, workbook, changes, study = _checked_inputs(study_file, overrides, paper, engine, notebook)
     parent = Path(out_dir) / sanitise_name(study.project.name)
     run_id, final = _claim_run_id(parent, run_id, replace_failed)
@@ -219,7 +223,7 @@ def _run_record(study_file, out_dir, *, pdf, overrides, run_id, paper, quick, no
     report, verdicts, failure = None, (), None
     try:
         report, verdicts = _fill_record(folder, path, changes, workbook, quick, timeout, pdf, paper, engine,
-                                        kernel)
+                                        kernel, head_start)
         manifest.update(status="done")
     except BaseException as error:  # noqa: BLE001 - every failure must leave a failed record
         failure = error
@@ -267,14 +271,16 @@ def _checked_inputs(study_file: str | Path, overrides: Mapping[str, Any] | None,
 
 
 def _fill_record(folder: Path, study_file: Path, overrides: dict, notebook: Path, quick: bool,
-                 timeout: float | None, pdf: bool, paper: str, engine: str | None, kernel=None) -> tuple:
+                 timeout: float | None, pdf: bool, paper: str, engine: str | None, kernel=None,
+                 head_start: bool = True) -> tuple:
     """Inputs, executed workbook, results and (``pdf``) the report into ``folder``: (report name, verdicts).
 
     ``kernel``: the workbook's kernel when it was started early (:class:`_EarlyKernel`)."""
     study_path, study = _prepare_inputs(study_file, overrides, folder)
     # the feasibility workbook's results computed, and its figures drawn from the last one up, in a process of
     # their own while the kernel starts and runs (isolation.app.record_ahead)
-    ahead = start_ahead(folder, study_path, quick) if notebook.resolve() == WORKBOOK.resolve() else Ahead(folder)
+    ahead = (start_ahead(folder, study_path, quick) if head_start and notebook.resolve() == WORKBOOK.resolve()
+             else Ahead(folder))
     # Once the kernel is ready, and while the workbook's first cell would only wait for the results, this
     # process loads what it needs after the workbook: the report's typesetter.
     meanwhile = None

@@ -80,6 +80,22 @@ def test_kernel_start_race_is_retried_once(tmp_path, monkeypatch):
     assert outcome.status == "failed" and other.calls == 1
 
 
+def test_the_runner_passes_the_head_start_choice_to_the_record(tmp_path, monkeypatch):
+    monkeypatch.setattr("isolation.app.batch.rows.rows_from_record", _fake_rows)
+    asked = []
+
+    class Records(FlakyRecords):
+        def run_record(self, study_file, out_dir, **options):
+            asked.append(options["head_start"])
+            return super().run_record(study_file, out_dir, **options)
+
+    monkeypatch.setitem(sys.modules, "isolation.app.calc_records", Records(tmp_path / "study" / "v1", []))
+    for head_start in (True, False):
+        task = VariantTask("v1", str(FIXTURES / "study.toml"), {}, str(tmp_path), head_start=head_start)
+        assert record_runner(task).status == "done"
+    assert asked == [True, False]
+
+
 # ---------------------------------------------------------------- Ctrl-C, for real
 STOPPABLE = textwrap.dedent(
     """

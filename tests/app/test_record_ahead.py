@@ -72,3 +72,18 @@ def test_figures_of_a_record_are_those_drawn_afresh(tmp_path):
     computing = [order.key for order in figures.orders if order.computes]
     assert computing and all(key[-1] == "floor spectra" for key in computing)
     print(f"figures drawn by the helper: {made['drawn_ahead']} of {len(figures)}")
+
+
+@pytest.mark.slow
+def test_a_record_without_head_start_forks_nothing(tmp_path, monkeypatch):
+    from isolation.app import calc_records
+
+    def no_fork(*args, **kwargs):
+        raise AssertionError("a head start was asked for")
+
+    monkeypatch.setattr(calc_records, "start_ahead", no_fork)
+    outcome = calc_records.run_record(DEMO, tmp_path, pdf=False, quick=True, run_id="alone", head_start=False)
+    assert outcome.status == "done", outcome.error
+    # the same call with the head start reaches it (and the record then fails with that error)
+    asked = calc_records.run_record(DEMO, tmp_path, pdf=False, quick=True, run_id="asked")
+    assert asked.status == "failed" and "a head start was asked for" in asked.error

@@ -24,6 +24,7 @@ stops them), and leaves every completed record and the state intact.
 from __future__ import annotations
 
 import json
+import os
 import shutil
 import time
 import uuid
@@ -40,7 +41,7 @@ from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chu
 from isolation.app.batch.summary import preload_summary_writer, write_summary
 from isolation.files import write_text_atomic
 
-__all__ = ["BatchReport", "run_batch", "open_executor", "STATE_FILE"]
+__all__ = ["BatchReport", "run_batch", "open_executor", "spare_core_each", "STATE_FILE"]
 
 STATE_FILE = "batch.json"
 CHUNK_LIMIT = 50  # largest automatic chunk [variants]
@@ -154,6 +155,7 @@ def run_batch(
     progress: bool = True,
     settings: dict | None = None,
     on_outcome: Callable[[VariantOutcome], None] | None = None,
+    head_start: bool | None = None,
 ) -> BatchReport:
     """Run every variant of a validated batch that is not already done.
 
@@ -189,6 +191,9 @@ def run_batch(
         Run settings stored in the state file.
     on_outcome : callable, optional
         Called in this process with each outcome as it arrives.
+    head_start : bool, optional
+        Whether each record may fork its head start (:class:`VariantTask`); default: where the
+        workers leave each one a spare core (:func:`spare_core_each`).
 
     Returns
     -------
@@ -198,7 +203,8 @@ def run_batch(
     out_dir = Path(out_dir).resolve()
     settings = dict(settings or {})
     use_pdf = plan.pdf if pdf is None else bool(pdf)
-    entries, tasks, reused = _plan_tasks(plan, out_dir, hashes, use_pdf, quick, retry_failed)
+    head_start = spare_core_each(executor, workers) if head_start is None else bool(head_start)
+    entries, tasks, reused = _plan_tasks(plan, out_dir, hashes, use_pdf, quick, retry_failed, head_start)
     run = _BatchRun(plan, out_dir, settings, entries, tasks, reused, runner=runner, executor=executor,
                     workers=workers, on_outcome=on_outcome)
     run.execute(chunk, progress)
@@ -210,8 +216,21 @@ def run_batch(
                        run.interrupted, time.perf_counter() - started)
 
 
+def spare_core_each(executor: str | Executor, workers: int | None) -> bool:
+    """True when a batch on ``executor`` with ``workers`` leaves each worker a spare core of this machine:
+    a local pool (or one opened here) of at most half the cores. A record's head start then runs on that
+    core and halves the record's time; without a spare one it only competes with the other workers.
+    Clusters: False (their workers run in threads, where no head start forks anyway). [-]"""
+    from concurrent.futures import ProcessPoolExecutor
+
+    if not (executor == "local" or isinstance(executor, ProcessPoolExecutor)):
+        return False
+    cores = os.cpu_count() or 1  # as the pool's default number of workers (executors.open_executor)
+    return 2 * (workers or cores) <= cores
+
+
 def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf: bool, quick: bool,
-                retry_failed: bool) -> tuple[dict[str, dict], list[VariantTask], list[str]]:
+                retry_failed: bool, head_start: bool = True) -> tuple[dict[str, dict], list[VariantTask], list[str]]:
     """(state entries, tasks to run, variant ids taken from an earlier invocation): a variant done with the
     same input and an intact record, or failed with the same input (unless ``retry_failed``), is kept."""
     previous = _load_state(out_dir)
@@ -234,7 +253,7 @@ def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf:
         entries[key] = {"input_hash": hashes[key], "overrides": variant.overrides, "status": "pending",
                         "superseded": entry.get("record")}
         tasks.append(VariantTask(key, str(plan.study_file), plan.overrides_for(variant), str(out_dir), use_pdf,
-                                 hashes[key], quick, invocation))
+                                 hashes[key], quick, invocation, head_start))
     return entries, tasks, reused
 
 
@@ -341,10 +360,13 @@ class _BatchRun:
             _write_state(self.out_dir, self.plan, self.entries, self.settings)
             self.bar = tqdm(total=len(tasks), unit="variant", desc=self.plan.name, disable=not progress or not tasks,
                             dynamic_ncols=True)
-            if self.queue:
-                preload_summary_writer()  # while this process only waits for the workers
             try:
                 self.top_up()
+                if self.pending:
+                    # While this process only waits for the workers; started only now that the pool has forked
+                    # every worker (a fork-context pool starts them all at its first submit): a worker forked
+                    # while this thread imports would inherit a module lock that nothing releases there.
+                    preload_summary_writer()
                 while self.pending:
                     self._collect_finished()
                     self.top_up()

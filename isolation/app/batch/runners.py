@@ -59,6 +59,9 @@ class VariantTask:
         Small motion suite (tests and trials only, never for a report).
     invocation : str
         Identifies one batch invocation (see :func:`guarded_call`).
+    head_start : bool
+        Let the record fork its head start (``run_record(head_start=...)``), which takes a second
+        core: on only where the batch leaves each worker one spare.
     """
 
     variant_id: str
@@ -69,6 +72,7 @@ class VariantTask:
     input_hash: str = ""
     quick: bool = False
     invocation: str = ""
+    head_start: bool = True
 
 
 @dataclass(frozen=True)
@@ -150,7 +154,7 @@ def record_runner(task: VariantTask) -> VariantOutcome:
         try:
             outcome = records.run_record(
                 task.study_file, out_dir, pdf=task.pdf, overrides=dict(task.overrides), run_id=task.variant_id,
-                quick=task.quick, replace_failed=True,
+                quick=task.quick, replace_failed=True, head_start=task.head_start,
             )
         except Exception as error:  # run_record reports failures itself; this is the fallback
             message = one_line(error)

@@ -163,7 +163,9 @@ def preload_summary_writer() -> None:
     """Import pyarrow's parquet writer in a background thread (when pyarrow is installed).
 
     :func:`write_summary` needs it once every variant has run; importing it takes about a second,
-    which the batch runner spends while it waits for its workers instead of after them.
+    which the batch runner spends while it waits for its workers instead of after them. Call it only
+    once no process will fork any more (the pool has started its workers): a child forked while
+    this thread imports would inherit the import's module lock, held for ever there.
     """
     import importlib.util
     import threading
