@@ -8,7 +8,7 @@ Run: ``python benchmarks/bench_batch.py [--variants N] [--sweep N] [--full]``
    workers (the speed-up of the executor: expect >= 1.7 on a machine with 2
    free cores), and on 1 worker with its head start, which then runs on the
    second core (the batch's default wherever each worker has a spare core:
-   ``execute.spare_core_each``).
+   ``executors.spare_core_each``).
 2. Direct sweep (equivalent-linear design per variant, no notebook): variants
    per second on 1 and 2 workers, each as a ratio to a reference run in this
    process (the same design over already-parsed studies, serial).
@@ -75,7 +75,7 @@ def _timed_command(argv: list[str]) -> float:
 def bench_records(variants: int, quick: bool) -> None:
     import os
 
-    from isolation.app.batch.execute import spare_core_each
+    from isolation.app.batch.executors import spare_core_each
     from isolation.app.batch.runners import record_runner
 
     radii = [round(2.0 + 0.25 * i, 2) for i in range(variants)]

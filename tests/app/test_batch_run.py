@@ -147,7 +147,7 @@ def test_a_record_forks_its_head_start_only_where_each_worker_has_a_spare_core(m
     # 2 cores, 2 workers with it 23.8 records/min, without it 25.7).
     from concurrent.futures import ProcessPoolExecutor
 
-    from isolation.app.batch.execute import spare_core_each
+    from isolation.app.batch.executors import spare_core_each
 
     monkeypatch.setattr(os, "cpu_count", lambda: 8)
     assert spare_core_each("local", 4) and spare_core_each("local", 1)

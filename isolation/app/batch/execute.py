@@ -23,11 +23,7 @@ stops them), and leaves every completed record and the state intact.
 
 from __future__ import annotations
 
-import json
-import os
-import shutil
 import time
-import uuid
 from concurrent.futures import FIRST_COMPLETED, CancelledError, Executor, Future, wait
 from concurrent.futures.process import BrokenProcessPool
 from contextlib import ExitStack
@@ -35,15 +31,14 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Callable
 
-from isolation.app.batch.executors import executor_for, open_executor, terminate
+from isolation.app.batch.executors import executor_for, open_executor, spare_core_each, terminate
 from isolation.app.batch.plan import BatchPlan
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
+from isolation.app.batch.state import STATE_FILE, _plan_tasks, _remove_superseded, _write_state
 from isolation.app.batch.summary import preload_summary_writer, write_summary
-from isolation.files import write_text_atomic
 
-__all__ = ["BatchReport", "run_batch", "open_executor", "spare_core_each", "STATE_FILE"]
+__all__ = ["BatchReport", "run_batch", "open_executor", "STATE_FILE"]
 
-STATE_FILE = "batch.json"
 CHUNK_LIMIT = 50  # largest automatic chunk [variants]
 STATE_INTERVAL = 0.5  # shortest time between two state writes while running [s]
 
@@ -85,45 +80,6 @@ class BatchReport:
     def to_dict(self) -> dict:
         lists = {name: list(getattr(self, name)) for name in ("done", "failed", "not_run", "ran", "reused")}
         return {"out_dir": str(self.out_dir), **lists, "interrupted": self.interrupted, "elapsed": self.elapsed}
-
-
-def _load_state(out_dir: Path) -> dict:
-    path = out_dir / STATE_FILE
-    if not path.is_file():
-        return {}
-    try:
-        state = json.loads(path.read_text(encoding="utf-8"))
-    except (OSError, json.JSONDecodeError):
-        return {}
-    return state.get("variants", {}) if isinstance(state, dict) else {}
-
-
-def _write_state(out_dir: Path, plan: BatchPlan, entries: dict, settings: dict) -> None:
-    payload = {"batch": plan.to_dict(), "settings": settings, "variants": entries}
-    write_text_atomic(out_dir / STATE_FILE, json.dumps(payload, indent=1, sort_keys=False) + "\n")
-
-
-def _record_intact(out_dir: Path, entry: dict) -> bool:
-    record = entry.get("record")
-    if not record:
-        return True  # runners without records (direct evaluation) keep their rows in the state
-    from isolation.app.calc_records import verify_record
-
-    return verify_record(out_dir / record) is None  # every file present with the sha256 of its manifest
-
-
-def _remove_superseded(out_dir: Path, entry: dict) -> None:
-    """Delete the record of an earlier run of a variant that is about to run again.
-
-    Its input changed, it failed, or it was interrupted; the new run replaces
-    it. Only folders inside the batch folder are touched.
-    """
-    record = entry.get("record")
-    if not record:
-        return
-    folder = (out_dir / record).resolve()
-    if folder.is_dir() and out_dir in folder.parents:
-        shutil.rmtree(folder)
 
 
 def _summary_rows(plan: BatchPlan, entries: dict) -> list[dict]:
@@ -214,47 +170,6 @@ def run_batch(
     not_run = tuple(k for k, e in entries.items() if e.get("status") not in ("done", "failed"))
     return BatchReport(out_dir, by_status["done"], by_status["failed"], not_run, tuple(run.ran), tuple(reused),
                        run.interrupted, time.perf_counter() - started)
-
-
-def spare_core_each(executor: str | Executor, workers: int | None) -> bool:
-    """True when a batch on ``executor`` with ``workers`` leaves each worker a spare core of this machine:
-    a local pool (or one opened here) of at most half the cores. A record's head start then runs on that
-    core and halves the record's time; without a spare one it only competes with the other workers.
-    Clusters: False (their workers run in threads, where no head start forks anyway). [-]"""
-    from concurrent.futures import ProcessPoolExecutor
-
-    if not (executor == "local" or isinstance(executor, ProcessPoolExecutor)):
-        return False
-    cores = os.cpu_count() or 1  # as the pool's default number of workers (executors.open_executor)
-    return 2 * (workers or cores) <= cores
-
-
-def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf: bool, quick: bool,
-                retry_failed: bool, head_start: bool = True) -> tuple[dict[str, dict], list[VariantTask], list[str]]:
-    """(state entries, tasks to run, variant ids taken from an earlier invocation): a variant done with the
-    same input and an intact record, or failed with the same input (unless ``retry_failed``), is kept."""
-    previous = _load_state(out_dir)
-    invocation = uuid.uuid4().hex
-    entries: dict[str, dict] = {}
-    tasks: list[VariantTask] = []
-    reused: list[str] = []
-    for variant in plan.variants:
-        key = variant.variant_id
-        entry = previous.get(key, {})
-        same_input = entry.get("input_hash") == hashes[key]
-        if same_input and entry.get("status") == "done" and _record_intact(out_dir, entry):
-            entries[key] = entry
-            reused.append(key)
-            continue
-        if same_input and entry.get("status") == "failed" and not retry_failed:
-            entries[key] = entry
-            reused.append(key)
-            continue
-        entries[key] = {"input_hash": hashes[key], "overrides": variant.overrides, "status": "pending",
-                        "superseded": entry.get("record")}
-        tasks.append(VariantTask(key, str(plan.study_file), plan.overrides_for(variant), str(out_dir), use_pdf,
-                                 hashes[key], quick, invocation, head_start))
-    return entries, tasks, reused
 
 
 class _BatchRun:

@@ -20,7 +20,7 @@ from typing import Iterator
 
 from isolation.errors import InputError
 
-__all__ = ["open_executor", "executor_for", "slots_for", "terminate", "share_cores"]
+__all__ = ["open_executor", "executor_for", "slots_for", "terminate", "share_cores", "spare_core_each"]
 
 CONNECT_TIMEOUT = 20.0  # waiting for a dask scheduler to answer [s]
 
@@ -113,3 +113,14 @@ def executor_for(executor: str | Executor | None, workers: int | None) -> Iterat
         return
     with open_executor(executor, workers) as pool:
         yield pool, slots_for(pool, workers)
+
+
+def spare_core_each(executor: str | Executor, workers: int | None) -> bool:
+    """True when a batch on ``executor`` with ``workers`` leaves each worker a spare core of this machine:
+    a local pool (or one opened here) of at most half the cores. A record's head start then runs on that
+    core and halves the record's time; without a spare one it only competes with the other workers.
+    Clusters: False (their workers run in threads, where no head start forks anyway). [-]"""
+    if not (executor == "local" or isinstance(executor, ProcessPoolExecutor)):
+        return False
+    cores = os.cpu_count() or 1  # as the pool's default number of workers (open_executor)
+    return 2 * (workers or cores) <= cores
