@@ -34,7 +34,7 @@ from typing import Any, Callable
 from isolation.app.batch.executors import executor_for, open_executor, spare_core_each, terminate
 from isolation.app.batch.plan import BatchPlan
 from isolation.app.batch.runners import VariantOutcome, VariantTask, guarded_chunk, one_line, record_runner
-from isolation.app.batch.state import STATE_FILE, _plan_tasks, _remove_superseded, _write_state
+from isolation.app.batch.state import STATE_FILE, plan_tasks, remove_superseded, write_state
 from isolation.app.batch.summary import preload_summary_writer, write_summary
 
 __all__ = ["BatchReport", "run_batch", "open_executor", "STATE_FILE"]
@@ -160,11 +160,11 @@ def run_batch(
     settings = dict(settings or {})
     use_pdf = plan.pdf if pdf is None else bool(pdf)
     head_start = spare_core_each(executor, workers) if head_start is None else bool(head_start)
-    entries, tasks, reused = _plan_tasks(plan, out_dir, hashes, use_pdf, quick, retry_failed, head_start)
+    entries, tasks, reused = plan_tasks(plan, out_dir, hashes, use_pdf, quick, retry_failed, head_start)
     run = _BatchRun(plan, out_dir, settings, entries, tasks, reused, runner=runner, executor=executor,
                     workers=workers, on_outcome=on_outcome)
     run.execute(chunk, progress)
-    _write_state(out_dir, plan, entries, settings)
+    write_state(out_dir, plan, entries, settings)
     write_summary(_summary_rows(plan, entries), out_dir, plan.override_keys())
     by_status = {s: tuple(k for k, e in entries.items() if e.get("status") == s) for s in ("done", "failed")}
     not_run = tuple(k for k, e in entries.items() if e.get("status") not in ("done", "failed"))
@@ -205,7 +205,7 @@ class _BatchRun:
             (self.ran if outcome.attempts else self.reused).append(outcome.variant_id)
         if time.perf_counter() - self.last_write[0] > self.last_write[1]:  # large sweeps: not after every variant
             mark = time.perf_counter()
-            _write_state(self.out_dir, self.plan, self.entries, self.settings)
+            write_state(self.out_dir, self.plan, self.entries, self.settings)
             self.last_write[:] = [time.perf_counter(), max(STATE_INTERVAL, 20 * (time.perf_counter() - mark))]
         self.bar.set_postfix(done=self.counts["done"], failed=self.counts["failed"],
                              remaining=len(self.tasks) - self.bar.n - 1, refresh=False)
@@ -271,8 +271,8 @@ class _BatchRun:
             # the executor is up: now the batch folder is written
             self.out_dir.mkdir(parents=True, exist_ok=True)
             for entry in self.entries.values():
-                _remove_superseded(self.out_dir, {"record": entry.pop("superseded", None)})
-            _write_state(self.out_dir, self.plan, self.entries, self.settings)
+                remove_superseded(self.out_dir, {"record": entry.pop("superseded", None)})
+            write_state(self.out_dir, self.plan, self.entries, self.settings)
             self.bar = tqdm(total=len(tasks), unit="variant", desc=self.plan.name, disable=not progress or not tasks,
                             dynamic_ncols=True)
             try:

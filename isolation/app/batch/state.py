@@ -17,13 +17,14 @@ from isolation.app.batch.plan import BatchPlan
 from isolation.app.batch.runners import VariantTask
 from isolation.files import write_text_atomic
 
-__all__ = ["STATE_FILE"]
+__all__ = ["STATE_FILE", "load_state", "write_state", "record_intact", "remove_superseded", "plan_tasks"]
 
 STATE_FILE = "batch.json"
 """The state file in a batch folder."""
 
 
-def _load_state(out_dir: Path) -> dict:
+def load_state(out_dir: Path) -> dict:
+    """Variant id -> state entry of the batch folder ``out_dir`` (empty when missing or unreadable). [-]"""
     path = out_dir / STATE_FILE
     if not path.is_file():
         return {}
@@ -34,12 +35,14 @@ def _load_state(out_dir: Path) -> dict:
     return state.get("variants", {}) if isinstance(state, dict) else {}
 
 
-def _write_state(out_dir: Path, plan: BatchPlan, entries: dict, settings: dict) -> None:
+def write_state(out_dir: Path, plan: BatchPlan, entries: dict, settings: dict) -> None:
+    """Write ``batch.json`` whole: the plan, the run settings and every variant's entry. [-]"""
     payload = {"batch": plan.to_dict(), "settings": settings, "variants": entries}
     write_text_atomic(out_dir / STATE_FILE, json.dumps(payload, indent=1, sort_keys=False) + "\n")
 
 
-def _record_intact(out_dir: Path, entry: dict) -> bool:
+def record_intact(out_dir: Path, entry: dict) -> bool:
+    """True when the entry's record (if it has one) holds every file of its manifest, unchanged. [-]"""
     record = entry.get("record")
     if not record:
         return True  # runners without records (direct evaluation) keep their rows in the state
@@ -48,7 +51,7 @@ def _record_intact(out_dir: Path, entry: dict) -> bool:
     return verify_record(out_dir / record) is None  # every file present with the sha256 of its manifest
 
 
-def _remove_superseded(out_dir: Path, entry: dict) -> None:
+def remove_superseded(out_dir: Path, entry: dict) -> None:
     """Delete the record of an earlier run of a variant that is about to run again.
 
     Its input changed, it failed, or it was interrupted; the new run replaces
@@ -62,11 +65,11 @@ def _remove_superseded(out_dir: Path, entry: dict) -> None:
         shutil.rmtree(folder)
 
 
-def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf: bool, quick: bool,
+def plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf: bool, quick: bool,
                 retry_failed: bool, head_start: bool = True) -> tuple[dict[str, dict], list[VariantTask], list[str]]:
     """(state entries, tasks to run, variant ids taken from an earlier invocation): a variant done with the
     same input and an intact record, or failed with the same input (unless ``retry_failed``), is kept."""
-    previous = _load_state(out_dir)
+    previous = load_state(out_dir)
     invocation = uuid.uuid4().hex
     entries: dict[str, dict] = {}
     tasks: list[VariantTask] = []
@@ -75,7 +78,7 @@ def _plan_tasks(plan: BatchPlan, out_dir: Path, hashes: dict[str, str], use_pdf:
         key = variant.variant_id
         entry = previous.get(key, {})
         same_input = entry.get("input_hash") == hashes[key]
-        if same_input and entry.get("status") == "done" and _record_intact(out_dir, entry):
+        if same_input and entry.get("status") == "done" and record_intact(out_dir, entry):
             entries[key] = entry
             reused.append(key)
             continue
