@@ -59,7 +59,7 @@ class Ahead:
         finished. The child is reaped in a thread, so its exit (returning some hundred megabytes
         to the system) does not hold up the report."""
         from isolation.output.figure_sharing import FOLDER, SharedFigures
-        from isolation.study.head_start import PENDING_FILE, remove_ahead
+        from isolation.study.head_start import PENDING_FILE, remove_ahead, remove_orphans
 
         pid, self.pid = self.pid, None
         if pid is not None:
@@ -67,18 +67,20 @@ class Ahead:
             if not finished:
                 with contextlib.suppress(ProcessLookupError):
                     os.kill(pid, signal.SIGTERM)
-            threading.Thread(target=_reap, args=(pid,), name="isolation-ahead-reaper", daemon=True).start()
+            # the thread imports nothing: a fork of this process meanwhile (the next record of a batch
+            # worker) would inherit a module lock an import held
+            threading.Thread(target=_reap, args=(pid, remove_orphans), name="isolation-ahead-reaper",
+                             daemon=True).start()
         shutil.rmtree(self.folder / FOLDER, ignore_errors=True)
         (self.folder / PENDING_FILE).unlink(missing_ok=True)
         if self.file:
             remove_ahead(self.folder / self.file)
 
 
-def _reap(pid: int) -> None:
+def _reap(pid: int, remove_orphans) -> None:
     """Wait for the child; kill it when it has not ended within :data:`STOP_WAIT`. Then remove what a
-    child stopped in the middle of writing its results left in memory."""
-    from isolation.study.head_start import remove_orphans
-
+    child stopped in the middle of writing its results left in memory (``remove_orphans``,
+    :func:`isolation.study.head_start.remove_orphans`)."""
     deadline = time.monotonic() + STOP_WAIT
     try:
         while not os.waitpid(pid, os.WNOHANG)[0]:
