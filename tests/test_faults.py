@@ -138,12 +138,19 @@ def _fake_partial(parent: Path, pid: int, host: str | None = None) -> Path:
     return folder
 
 
-def test_stale_partials_are_marked_failed_and_cleaned(tmp_path):
+def test_stale_partials_are_marked_failed_and_cleaned(tmp_path, monkeypatch):
+    from isolation.study import head_start
+
     parent = tmp_path / "records" / "study"
     dead = subprocess.Popen([sys.executable, "-c", "pass"])
     dead.wait()
     stale = _fake_partial(parent, dead.pid)              # its process is gone
     live = _fake_partial(parent, os.getpid())            # this process: still running
+    memory = tmp_path / "memory"                         # the head start's results of a killed command
+    memory.mkdir()
+    monkeypatch.setattr(head_start, "MEMORY_FOLDER", memory)
+    orphan = memory / f"isolation-ahead-{dead.pid}-x1y2z3.pickle"
+    orphan.write_bytes(b"results")
     assert mark_stale_partials(parent) == [stale]
     assert read_manifest(stale)["status"] == "failed" and read_manifest(stale)["error"] == ABANDONED
     assert read_manifest(live)["status"] == "running"
@@ -153,12 +160,12 @@ def test_stale_partials_are_marked_failed_and_cleaned(tmp_path):
     old = time.time() - 7200
     os.utime(leftover, (old, old))
     found = stale_items(tmp_path / "records")
-    assert stale in found and leftover in found and live not in found
+    assert stale in found and leftover in found and orphan in found and live not in found
     # the command: lists, then removes; records themselves are never touched
     assert cli(["records", "--out", str(tmp_path / "records")]) == 0
     assert stale.exists()
     assert cli(["records", "--out", str(tmp_path / "records"), "--clean"]) == 0
-    assert not stale.exists() and not leftover.exists() and live.exists()
+    assert not stale.exists() and not leftover.exists() and not orphan.exists() and live.exists()
     assert (parent / "record").is_dir()
     assert clean_records(tmp_path / "records") == []
 

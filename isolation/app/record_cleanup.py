@@ -87,7 +87,9 @@ def stale_items(out_dir: str | Path) -> list[Path]:
     hidden temporary files of interrupted atomic writes (``.*.part``,
     ``.*.tmp``), scratch folders of interrupted report renders
     (``.render.*`` inside records) and, in the system's temporary folder,
-    report build folders (``isolation-report-*``) older than an hour.
+    report build folders (``isolation-report-*``) older than an hour; in
+    the folder kept in memory, results pickles of the record command's head
+    start whose process was killed (:func:`isolation.study.head_start.orphans`).
 
     Parameters
     ----------
@@ -114,6 +116,9 @@ def stale_items(out_dir: str | Path) -> list[Path]:
     for build in sorted(Path(tempfile.gettempdir()).glob("isolation-report-*")):
         if build.is_dir() and _older_than(build, 3600):
             found.append(build)
+    from isolation.study.head_start import orphans
+
+    found.extend(orphans())
     return [p for p in found if not any(q in p.parents for q in found)]
 
 

@@ -34,7 +34,7 @@ from isolation.files import write_bytes_atomic
 from isolation.processes import process_alive
 
 __all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "MEMORY_FOLDER", "ahead_key", "save_ahead",
-           "remove_ahead", "remove_orphans", "results_of", "was_read", "prepare_reading"]
+           "remove_ahead", "orphans", "remove_orphans", "results_of", "was_read", "prepare_reading"]
 
 AHEAD_FILE = ".results-ahead.pickle"
 """Name of the pickle in the record folder."""
@@ -113,18 +113,26 @@ def remove_ahead(path: str | Path) -> None:
     remove_orphans()
 
 
-def remove_orphans() -> None:
-    """Remove this user's pickles in :data:`MEMORY_FOLDER` whose process has ended (one killed while
-    it wrote, or whose command was killed before it could remove them)."""
+def orphans() -> list[Path]:
+    """This user's pickles in :data:`MEMORY_FOLDER` whose process has ended without removing them (one
+    killed while it wrote, or whose command was killed before it could remove them). [-]"""
     with_pid = len(_MEMORY_PREFIX)
+    found: list[Path] = []
     try:
-        found = [p for p in MEMORY_FOLDER.glob(f"{_MEMORY_PREFIX}*.pickle") if p.stat().st_uid == os.getuid()]
+        mine = [p for p in MEMORY_FOLDER.glob(f"{_MEMORY_PREFIX}*.pickle") if p.stat().st_uid == os.getuid()]
     except OSError:
-        return
-    for orphan in found:
-        pid = orphan.name[with_pid:].split("-", 1)[0]
+        return found
+    for pickled in sorted(mine):
+        pid = pickled.name[with_pid:].split("-", 1)[0]
         if pid.isdigit() and not process_alive(int(pid)):
-            orphan.unlink(missing_ok=True)
+            found.append(pickled)
+    return found
+
+
+def remove_orphans() -> None:
+    """Remove the :func:`orphans`."""
+    for orphan in orphans():
+        orphan.unlink(missing_ok=True)
 
 
 def results_of(study, *, study_path: str | Path, quick: bool = False, precomputed: str | Path = ""):
