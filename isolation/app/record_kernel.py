@@ -267,24 +267,29 @@ def _papermill_engine() -> str:
 def _execute_quietly(notebook: Path, folder: Path, study_path: str, quick: bool, timeout: float | None,
                      kernel: _EarlyKernel | None = None, ahead: str = "",
                      meanwhile: Callable[[], Any] | None = None) -> None:
-    _lean_imports()
-    import papermill
-
+    _lean_imports()  # before the thread below: its imports must not see the modules skipped meanwhile
     if meanwhile is not None:  # beside papermill, which mostly waits for the kernel
         threading.Thread(target=_quietly, args=(meanwhile,), name="isolation-meanwhile", daemon=True).start()
 
     parameters = {"study_path": study_path, "output_dir": ".", "results_path": "results.json", "quick": bool(quick)}
     if ahead:  # results computed while the kernel started (isolation.study.head_start)
         parameters["precomputed"] = ahead
+    _papermill(notebook, folder / "feasibility.ipynb", parameters, folder, timeout,
+               km=None if kernel is None else kernel.km)
+
+
+def _papermill(notebook: Path, target: Path, parameters: dict[str, Any], cwd: Path, timeout: float | None,
+               km=None) -> None:
+    """papermill on ``notebook`` into ``target``, on the kernel of ``km`` or one it starts itself."""
+    _lean_imports()
+    import papermill
+
     papermill.execute_notebook(
-        str(notebook), str(folder / "feasibility.ipynb"), engine_name=_papermill_engine(),
-        parameters=parameters,
-        cwd=str(folder), kernel_name="python3", progress_bar=False, log_output=False,
-        execution_timeout=timeout,
+        str(notebook), str(target), engine_name=_papermill_engine(), parameters=parameters, cwd=str(cwd),
+        kernel_name="python3", progress_bar=False, log_output=False, execution_timeout=timeout,
         # A kernel papermill starts itself: the same arguments as the early one (a trait of nbclient's
         # NotebookClient, passed on by papermill).
-        extra_arguments=list(KERNEL_ARGUMENTS),
-        km=None if kernel is None else kernel.km,
+        extra_arguments=list(KERNEL_ARGUMENTS), km=km,
     )
 
 
@@ -309,11 +314,5 @@ def run_workbook(notebook: Path, target: Path, parameters: dict[str, Any], *, cw
     timeout : float, optional
         Limit per cell. [s]
     """
-    _lean_imports()
-    import papermill
-
     with _stderr_to(log):
-        papermill.execute_notebook(
-            str(notebook), str(target), engine_name=_papermill_engine(), parameters=parameters, cwd=str(cwd),
-            kernel_name="python3", progress_bar=False, log_output=False, execution_timeout=timeout,
-            extra_arguments=list(KERNEL_ARGUMENTS))
+        _papermill(notebook, target, parameters, cwd, timeout)
