@@ -191,12 +191,19 @@ class _Captioned:
         return figure_png(self.figure, self.dpi)
 
     def _repr_png_(self):
-        # The LaTeX template prints caption_latex: escaped, symbols (D_M, T_fb) as subscripts;
-        # the Typst report typesets the plain caption itself.
-        meta = {"caption": self.caption, "caption_latex": latex_text(self.caption)}
-        if self.label:
-            meta["label"] = self.label
-        return self.png(), meta
+        return self.png(), caption_metadata(self.caption, self.label)
+
+
+def caption_metadata(caption: str, label: str = "") -> dict:
+    """A figure's output metadata in a workbook: its caption for the reports (and its label, if any).
+
+    The LaTeX template prints ``caption_latex``: escaped, symbols (D_M, T_fb) as subscripts; the
+    Typst report typesets the plain caption itself.
+    """
+    meta = {"caption": str(caption), "caption_latex": latex_text(str(caption))}
+    if label:
+        meta["label"] = str(label)
+    return meta
 
 
 def captioned(figure: Figure, caption: str, *, dpi: int = 200, label: str = "") -> _Captioned:

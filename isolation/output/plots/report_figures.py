@@ -19,7 +19,7 @@ from typing import Any
 
 from matplotlib.figure import Figure
 
-from isolation.output.plots.common import figure_png
+from isolation.output.plots.common import caption_metadata, figure_png
 from isolation.output.plots.design import equivalent_linear_bounds, force_displacement, site_spectrum, suite_figure
 from isolation.output.plots.history import (
     history_base_shear,
@@ -33,7 +33,6 @@ from isolation.output.plots.loss import loss_curves
 from isolation.output.plots.plan import bearing_orbits, pairs_figure, plan_demand
 from isolation.output.plots.yielding import yielding_profiles
 from isolation.output.tables.summary import code_symbols
-from isolation.output.tables.symbols import latex_text
 
 __all__ = ["FigureOrder", "FigureList", "feasibility_figures"]
 
@@ -71,7 +70,7 @@ class FigureOrder:
 
     def metadata(self) -> dict:
         """The PNG's metadata in a workbook: the caption, plain and for LaTeX (as ``captioned``)."""
-        return {"caption": self.caption, "caption_latex": latex_text(self.caption)}
+        return caption_metadata(self.caption)
 
 
 class ShownFigure:
