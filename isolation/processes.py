@@ -1,4 +1,4 @@
-"""Processes of this machine: whether one still runs.
+"""Processes of this machine: whether one still runs, and the state of one a marker file names.
 
 Used where one process waits on another that announced itself by writing its process id into a
 file (a record's owner, the record command's head start).
@@ -9,7 +9,7 @@ from __future__ import annotations
 import os
 from pathlib import Path
 
-__all__ = ["process_alive"]
+__all__ = ["process_alive", "marked_process"]
 
 
 def process_alive(pid: int) -> bool:
@@ -31,3 +31,21 @@ def process_alive(pid: int) -> bool:
             return True
         return not Path("/proc").is_dir()  # /proc without this process: it has ended
     return state not in ("Z", "X")
+
+
+def marked_process(marker: str | Path) -> str:
+    """The state of the process a marker file names by its id.
+
+    Returns
+    -------
+    str
+        "absent" (no marker), "unnamed" (a marker that names no process yet), "running" or "ended"
+        (:func:`process_alive` of the process it names).
+    """
+    try:
+        named = Path(marker).read_text().strip()
+    except OSError:
+        return "absent"
+    if not named.isdigit():
+        return "unnamed"
+    return "running" if process_alive(int(named)) else "ended"

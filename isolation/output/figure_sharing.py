@@ -31,7 +31,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from isolation.files import write_bytes_atomic
-from isolation.processes import process_alive
+from isolation.processes import marked_process
 from isolation.study.head_start import ahead_key, was_read
 
 if TYPE_CHECKING:
@@ -86,11 +86,7 @@ class SharedFigures:
 
     def drawing(self) -> bool:
         """True while the other process's drawer runs (its marker names it once that process has started)."""
-        try:
-            named = (self.folder / _DRAWING).read_text().strip()
-        except OSError:
-            return False
-        return not named.isdigit() or process_alive(int(named))
+        return marked_process(self.folder / _DRAWING) in ("unnamed", "running")
 
     def drawing_done(self) -> None:
         """Remove the drawing marker: the kernel then draws every figure not yet stored."""

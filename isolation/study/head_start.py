@@ -31,7 +31,7 @@ from pathlib import Path
 
 from isolation import __version__
 from isolation.files import write_bytes_atomic
-from isolation.processes import process_alive
+from isolation.processes import marked_process, process_alive
 
 __all__ = ["AHEAD_FILE", "PENDING_FILE", "READING_MODULES", "MEMORY_FOLDER", "ahead_key", "save_ahead",
            "remove_ahead", "orphans", "remove_orphans", "results_of", "was_read", "prepare_reading"]
@@ -204,12 +204,7 @@ def _await_ahead(path: Path) -> None:
     pending = path.with_name(PENDING_FILE)
     deadline = time.monotonic() + UNNAMED_WAIT
     while not path.exists():
-        try:
-            named = pending.read_text().strip()
-        except OSError:
-            return
-        if named.isdigit() and not process_alive(int(named)):
-            return
-        if not named and time.monotonic() > deadline:
+        state = marked_process(pending)
+        if state in ("absent", "ended") or (state == "unnamed" and time.monotonic() > deadline):
             return
         time.sleep(0.005)

@@ -141,6 +141,21 @@ def test_results_whose_process_ended_or_gave_up_are_computed_here(tmp_path, comp
     assert time.monotonic() - started < 5.0
 
 
+def test_a_marker_file_names_its_process_or_not_yet(tmp_path):
+    from isolation.processes import marked_process
+
+    marker = tmp_path / "marker"
+    assert marked_process(marker) == "absent"
+    marker.write_text("")
+    assert marked_process(marker) == "unnamed"
+    marker.write_text(f"{os.getpid()}\n")
+    assert marked_process(marker) == "running"
+    ended = subprocess.Popen(["true"])
+    ended.wait()
+    marker.write_text(str(ended.pid))
+    assert marked_process(marker) == "ended"
+
+
 @pytest.mark.skipif(not hasattr(os, "fork"), reason="needs os.fork")
 def test_a_process_that_ended_counts_as_ended_before_it_is_reaped():
     assert process_alive(os.getpid())
