@@ -84,16 +84,14 @@ def test_a_failing_workbook_keeps_the_earlier_report_and_leaves_nothing_half_wri
     (tmp_path / batch_report.NOTEBOOK).write_text("earlier")
 
     def failing(notebook, target, parameters, *, cwd, log, timeout=None):
+        from papermill.exceptions import PapermillExecutionError
+
         assert Path(target).parent == tmp_path and Path(target).name.startswith(".")
         Path(target).write_text("half")  # papermill writes as it goes
-
-        class CellError(Exception):
-            ename, evalue = "KeyError", "'D_M_lower_m'"
-
-        raise CellError()
+        raise PapermillExecutionError(5, 7, "best = ...", "KeyError", "'D_M_lower_m'", [])
 
     monkeypatch.setattr(record_kernel, "run_workbook", failing)
-    with pytest.raises(RunError, match=r"design-space workbook failed: KeyError: 'D_M_lower_m'"):
+    with pytest.raises(RunError, match=r"design-space workbook failed: workbook cell 7 raised KeyError: 'D_M_lower_m'"):
         batch_report.write_batch_report(tmp_path, fields=FIELDS)
     assert (tmp_path / "report.pdf").read_bytes() == b"%PDF earlier"
     assert (tmp_path / batch_report.NOTEBOOK).read_text() == "earlier"

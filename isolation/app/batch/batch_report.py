@@ -104,27 +104,24 @@ def write_batch_report(out_dir: str | Path, *, fields: Mapping[str, Any], units:
     if not summary.is_file():
         raise InputError(f"out_dir = {str(folder)!r} is not allowed: must be a batch folder holding summary.csv "
                          "(run the batch first)")
-    for name, value, allowed in (("units", units, SYSTEMS), ("paper", paper, PAPERS)):
-        _checked(one_of, name, value, allowed)
-    if engine is not None:
-        _checked(one_of, "engine", engine, ENGINES)
+    try:
+        one_of("units", units, SYSTEMS)
+        one_of("paper", paper, PAPERS)
+        if engine is not None:
+            one_of("engine", engine, ENGINES)
+    except ValueError as error:
+        raise InputError(str(error)) from None
     if isinstance(top, bool) or not isinstance(top, int) or top < 1:
         raise InputError(f"top = {top!r} is not allowed: must be a whole number >= 1")
     notebook = _run_workbook(folder, units, top, timeout)
     return _render(notebook, folder, fields, paper, engine)
 
 
-def _checked(check, name: str, value: Any, allowed) -> None:
-    try:
-        check(name, value, allowed)
-    except ValueError as error:
-        raise InputError(str(error)) from None
-
-
 def _run_workbook(folder: Path, units: str, top: int, timeout: float | None) -> Path:
     """The executed design-space workbook, in place only once complete."""
     import os
 
+    from isolation.app.record_folder import _one_line
     from isolation.app.record_kernel import run_workbook
 
     partial = folder / f".{Path(NOTEBOOK).stem}.{secrets.token_hex(4)}.part.ipynb"  # papermill wants .ipynb
@@ -154,9 +151,3 @@ def _render(notebook: Path, folder: Path, fields: Mapping[str, Any], paper: str,
             return render(notebook, folder, paper=paper, title_fields=dict(fields), engine=engine)
         except ValueError as error:
             raise InputError(str(error)) from None
-
-
-def _one_line(error: BaseException) -> str:
-    name = getattr(error, "ename", "") or type(error).__name__
-    value = getattr(error, "evalue", "") or str(error)
-    return " ".join(f"{name}: {value}".split())[:400]
