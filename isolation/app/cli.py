@@ -23,6 +23,7 @@ import sys
 from pathlib import Path
 from typing import NoReturn
 
+from isolation.app.arguments import OneLineParser
 from isolation.errors import InputError, RunError
 
 __all__ = ["main", "run"]
@@ -33,12 +34,7 @@ SCOPE_NOTE = ("Feasibility study only, not construction design: verify against t
               "code with a licensed structural engineer.")
 
 
-class _Parser(argparse.ArgumentParser):
-    """argparse that reports usage errors as one line and exit code 2."""
-
-    def error(self, message: str) -> NoReturn:  # noqa: D401 - argparse hook
-        raise InputError(f"{self.prog}: {message} (see --help)")
-
+_Parser = OneLineParser  # the earlier private name
 
 def _parser() -> argparse.ArgumentParser:
     parser = _Parser(

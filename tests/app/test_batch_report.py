@@ -109,6 +109,10 @@ def test_report_fields_come_from_the_base_study(tmp_path):
 def test_report_needs_a_run_and_bad_paper_exits_2(tmp_path, capsys):
     path = make_batch(tmp_path)
     assert main([str(path), "--report", "--paper", "a3"]) == 2
-    assert "invalid choice: 'a3'" in capsys.readouterr().err
+    err = capsys.readouterr().err
+    assert "invalid choice: 'a3'" in err and len(err.strip().splitlines()) == 1  # one line, no usage block
+    assert main([str(path), "--workers", "x"]) == 2
+    assert capsys.readouterr().err.strip() == ("error: isolation batch: argument --workers: invalid int value: 'x' "
+                                               "(see --help)")
     assert main([str(path), "--check", "--report"]) == 0  # validation only: no report
     assert not (tmp_path / "report.pdf").exists()

@@ -11,6 +11,7 @@ import argparse
 import sys
 from pathlib import Path
 
+from isolation.app.arguments import OneLineParser
 from isolation.errors import InputError, RunError
 
 __all__ = ["main", "build_parser"]
@@ -20,7 +21,7 @@ DEFAULT_ROOT = Path("records") / "batches"
 
 def build_parser(prog: str = "isolation batch") -> argparse.ArgumentParser:
     """The argument parser of the batch command."""
-    parser = argparse.ArgumentParser(
+    parser = OneLineParser(
         prog=prog,
         formatter_class=argparse.RawDescriptionHelpFormatter,
         description=(
@@ -98,8 +99,11 @@ def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
     try:
         args = parser.parse_args(argv)
-    except SystemExit as stop:  # --help (0) or a usage error (2)
+    except SystemExit as stop:  # --help
         return int(stop.code or 0)
+    except InputError as error:  # a usage error: one line
+        _say(f"error: {' '.join(str(error).split())}")
+        return 2
     if args.out and Path(args.out).exists() and not Path(args.out).is_dir():
         _say(f"error: --out = {args.out!r} is not allowed: must be a folder, not a file")
         return 2
